@@ -1,0 +1,75 @@
+//! Canonical encoding v1: the exact bytes an entry's leaf hash is taken over.
+//! docs/ledger-format.md specifies it field by field, so anyone can recompute a chain.
+
+use super::entry::Entry;
+use super::period::epoch_days;
+
+/// The version byte that opens every encoding.
+pub const VERSION: u8 = 1;
+
+/// Builds the canonical bytes.
+#[derive(Default)]
+struct Writer(Vec<u8>);
+
+impl Writer {
+    fn u8(&mut self, v: u8) {
+        self.0.push(v);
+    }
+    fn u32(&mut self, v: u32) {
+        self.0.extend_from_slice(&v.to_le_bytes());
+    }
+    fn u64(&mut self, v: u64) {
+        self.0.extend_from_slice(&v.to_le_bytes());
+    }
+    fn i32(&mut self, v: i32) {
+        self.0.extend_from_slice(&v.to_le_bytes());
+    }
+    fn i64(&mut self, v: i64) {
+        self.0.extend_from_slice(&v.to_le_bytes());
+    }
+    /// u32 little-endian byte length, then the UTF-8 bytes.
+    fn str(&mut self, s: &str) {
+        self.u32(u32::try_from(s.len()).expect("fields are far below 4 GiB"));
+        self.0.extend_from_slice(s.as_bytes());
+    }
+    /// 0x00 when absent; 0x01 then the value when present.
+    fn opt<T>(&mut self, v: Option<T>, write: impl FnOnce(&mut Self, T)) {
+        match v {
+            None => self.u8(0),
+            Some(x) => {
+                self.u8(1);
+                write(self, x);
+            }
+        }
+    }
+}
+
+/// The canonical bytes of an entry (everything but its hashes).
+pub fn encode(e: &Entry) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str(&e.project);
+    w.u64(e.seq);
+    w.u8(e.kind.ordinal());
+    w.str(&e.site);
+    w.i32(epoch_days(e.period.from));
+    w.i32(epoch_days(e.period.to));
+    w.u32(u32::try_from(e.reading.0.len()).expect("few reading fields"));
+    for (name, value) in &e.reading.0 {
+        w.str(name);
+        w.str(value);
+    }
+    w.i64(e.mass.grams());
+    w.u8(e.sign.ordinal());
+    w.i64(e.recorded_at.timestamp_micros());
+    w.str(&e.key);
+    w.opt(e.meter.as_deref(), Writer::str);
+    w.opt(e.note.as_deref(), Writer::str);
+    w.opt(e.corrects, Writer::u64);
+    w.opt(e.reason.as_deref(), Writer::str);
+    w.opt(e.evidence.as_ref(), |w, ev| {
+        w.str(&ev.file_name);
+        w.0.extend_from_slice(&ev.sha256.0);
+    });
+    w.0
+}

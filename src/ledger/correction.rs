@@ -1,0 +1,56 @@
+//! Corrections: a new entry names the entry it replaces; reports read the latest of each line.
+
+use super::entry::{Entry, SealedEntry};
+
+/// Why a correction cannot be recorded.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum CorrectionError {
+    NoSuchSeq(u64),
+    AlreadyCorrected { seq: u64, by: u64 },
+}
+
+impl std::fmt::Display for CorrectionError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Self::NoSuchSeq(s) => write!(f, "there is no entry with seq {s} in this project"),
+            Self::AlreadyCorrected { seq, by } => {
+                write!(f, "seq {seq} was already corrected by seq {by}; correct seq {by} instead")
+            }
+        }
+    }
+}
+
+/// The entry a correction of `seq` would replace, checked: it exists and is the latest of its line.
+pub fn target<'a>(entries: &'a [SealedEntry], seq: u64) -> Result<&'a Entry, CorrectionError> {
+    let t = entries
+        .get(usize::try_from(seq).unwrap_or(usize::MAX))
+        .map(|s| &s.entry)
+        .ok_or(CorrectionError::NoSuchSeq(seq))?;
+    match entries.iter().find(|s| s.entry.corrects == Some(seq)) {
+        Some(by) => Err(CorrectionError::AlreadyCorrected { seq, by: by.entry.seq }),
+        None => Ok(t),
+    }
+}
+
+/// The seq of the entry that replaces each entry, if any.
+pub fn superseded_by(entries: &[SealedEntry]) -> Vec<Option<u64>> {
+    let mut by = vec![None; entries.len()];
+    for s in entries {
+        if let Some(t) = s.entry.corrects.and_then(|t| usize::try_from(t).ok()) {
+            if let Some(slot) = by.get_mut(t) {
+                *slot = Some(s.entry.seq);
+            }
+        }
+    }
+    by
+}
+
+/// The entries reports count: every entry that no later entry replaces.
+pub fn effective(entries: &[SealedEntry]) -> impl Iterator<Item = &Entry> {
+    let by = superseded_by(entries);
+    entries
+        .iter()
+        .zip(by)
+        .filter(|(_, b)| b.is_none())
+        .map(|(s, _)| &s.entry)
+}

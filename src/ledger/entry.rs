@@ -1,0 +1,127 @@
+//! Ledger entries: what was recorded, when, from which reading, and with which hashes.
+
+use super::hash::Hash;
+use super::period::Period;
+use super::project::{named_enum, SiteKind};
+use crate::quantity::Mass;
+use chrono::{DateTime, Utc};
+
+named_enum! {
+    /// What an entry records. The order of this list is the canonical ordinal: append new kinds
+    /// at the end, never reorder (docs/ledger-format.md).
+    EntryKind {
+        Injection => "injection",
+    }
+}
+
+impl EntryKind {
+    /// Ordinal in the canonical encoding.
+    pub fn ordinal(self) -> u8 {
+        Self::ALL.iter().position(|k| *k == self).expect("listed") as u8
+    }
+
+    /// Whether the entry adds to storage, deducts from it, or carries no mass.
+    pub fn sign(self) -> Sign {
+        match self {
+            Self::Injection => Sign::Adds,
+        }
+    }
+
+    /// The site kinds an entry of this kind may be recorded at.
+    pub fn site_kinds(self) -> &'static [SiteKind] {
+        match self {
+            Self::Injection => &[SiteKind::InjectionWell],
+        }
+    }
+}
+
+named_enum! {
+    /// Whether an entry's grams add to what is stored, deduct from it, or are an observation.
+    Sign {
+        Adds => "adds",
+        Deducts => "deducts",
+        Neutral => "neutral",
+    }
+}
+
+impl Sign {
+    pub fn ordinal(self) -> u8 {
+        Self::ALL.iter().position(|k| *k == self).expect("listed") as u8
+    }
+}
+
+/// The reading an entry came from, as given: named fields in the order recorded
+/// (e.g. `mass = 1250.5 t`, `co2_fraction = 0.985`, `co2_basis = mass`).
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
+pub struct Reading(pub Vec<(String, String)>);
+
+impl Reading {
+    pub fn get(&self, name: &str) -> Option<&str> {
+        self.0.iter().find(|(n, _)| n == name).map(|(_, v)| v.as_str())
+    }
+
+    pub fn push(&mut self, name: &str, value: impl Into<String>) {
+        self.0.push((name.to_string(), value.into()));
+    }
+}
+
+impl std::fmt::Display for Reading {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let parts: Vec<String> = self.0.iter().map(|(n, v)| format!("{n}={v}")).collect();
+        f.write_str(&parts.join("; "))
+    }
+}
+
+/// A file that backs an entry: its name and SHA-256.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Evidence {
+    pub file_name: String,
+    pub sha256: Hash,
+}
+
+/// One ledger entry, before or after it is hashed.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Entry {
+    pub project: String,
+    pub seq: u64,
+    pub kind: EntryKind,
+    pub site: String,
+    pub period: Period,
+    pub reading: Reading,
+    pub mass: Mass,
+    pub sign: Sign,
+    /// UTC, whole microseconds (what both SQLite text and PostgreSQL timestamps keep exactly).
+    pub recorded_at: DateTime<Utc>,
+    pub key: String,
+    pub meter: Option<String>,
+    pub note: Option<String>,
+    pub corrects: Option<u64>,
+    pub reason: Option<String>,
+    pub evidence: Option<Evidence>,
+}
+
+impl Entry {
+    /// Grams with their sign: positive adds to storage, negative deducts.
+    pub fn signed_mass(&self) -> Mass {
+        match self.sign {
+            Sign::Adds => self.mass,
+            Sign::Deducts => -self.mass,
+            Sign::Neutral => Mass::ZERO,
+        }
+    }
+
+    /// Whether two entries record the same thing, ignoring position and time of recording;
+    /// a re-submission of the same key with the same content is a harmless retry.
+    pub fn same_content(&self, other: &Entry) -> bool {
+        let strip = |e: &Entry| Entry { seq: 0, recorded_at: DateTime::UNIX_EPOCH, ..e.clone() };
+        strip(self) == strip(other)
+    }
+}
+
+/// An entry with the hashes the ledger stored for it.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SealedEntry {
+    pub entry: Entry,
+    pub leaf: Hash,
+    pub chain: Hash,
+}

@@ -1,0 +1,9 @@
+//! Quantities as the ledger keeps them: exact decimals, grams of CO2, fractions.
+
+pub mod decimal;
+pub mod fraction;
+pub mod mass;
+
+pub use decimal::Decimal;
+pub use fraction::Fraction;
+pub use mass::{Mass, MassReading, MassUnit};
