@@ -5,3 +5,8 @@
 
 pub mod ledger;
 pub mod quantity;
+pub mod error;
+pub mod store;
+pub mod report;
+pub mod accounting;
+pub mod cli;

@@ -3,6 +3,7 @@
 
 use super::entry::Entry;
 use super::period::epoch_days;
+use super::project::{Project, Site};
 
 /// The version byte that opens every encoding.
 pub const VERSION: u8 = 1;
@@ -71,5 +72,32 @@ pub fn encode(e: &Entry) -> Vec<u8> {
         w.str(&ev.file_name);
         w.0.extend_from_slice(&ev.sha256.0);
     });
+    w.0
+}
+
+/// The canonical bytes of a project's registration, whose hash the projects table keeps.
+pub fn encode_project(p: &Project) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("project");
+    w.str(&p.code);
+    w.str(&p.name);
+    w.str(p.method.name());
+    w.str(&p.operator);
+    w.opt(p.permit_ref.as_deref(), Writer::str);
+    w.opt(p.permit_capacity.map(|m| m.grams()), Writer::i64);
+    w.i64(p.registered_at.timestamp_micros());
+    w.0
+}
+
+/// The canonical bytes of a site's registration.
+pub fn encode_site(s: &Site) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("site");
+    w.str(&s.project);
+    w.str(&s.code);
+    w.str(s.kind.name());
+    w.i64(s.registered_at.timestamp_micros());
     w.0
 }

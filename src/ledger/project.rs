@@ -1,6 +1,7 @@
 //! Projects and their sites: what a chain of entries belongs to.
 
 use crate::quantity::Mass;
+use chrono::{DateTime, Utc};
 
 /// Declares a closed list of names with a stable spelling each, parsed and shown the same way.
 macro_rules! named_enum {
@@ -67,6 +68,7 @@ pub struct Project {
     pub operator: String,
     pub permit_ref: Option<String>,
     pub permit_capacity: Option<Mass>,
+    pub registered_at: DateTime<Utc>,
 }
 
 /// A well, field or plant of a project.
@@ -75,6 +77,7 @@ pub struct Site {
     pub project: String,
     pub code: String,
     pub kind: SiteKind,
+    pub registered_at: DateTime<Utc>,
 }
 
 /// Project and site codes: short, stable identifiers people type and scripts rely on.

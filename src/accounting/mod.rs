@@ -1,0 +1,3 @@
+//! Accounting methods over ledger entries. Pure: values in, values out.
+
+pub mod balance;

@@ -1,0 +1,112 @@
+//! The command line: parse with clap, call the core and the store, hand a report back.
+//! The clock is read once per command, by the caller, and passed in.
+
+mod demo;
+mod inputs;
+mod record;
+mod reports;
+mod setup;
+mod verify;
+
+use crate::error::Result;
+use crate::report::{Format, Report};
+use crate::store::Store;
+use chrono::{DateTime, Utc};
+use clap::{Args, Parser, Subcommand};
+use std::path::{Path, PathBuf};
+
+/// The ledger used when neither --db nor SINKBOOK_DB names one.
+pub const DEFAULT_DB: &str = "sinkbook.db";
+
+#[derive(Debug, Parser)]
+#[command(
+    name = "sinkbook",
+    version,
+    about = "An append-only, tamper-evident ledger of CO2 stored underground and in rock",
+    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered"
+)]
+pub struct Cli {
+    /// The ledger file [default: sinkbook.db in the working directory]
+    #[arg(long, global = true, env = "SINKBOOK_DB", value_name = "PATH")]
+    pub db: Option<PathBuf>,
+    /// Tables for people, or JSON / CSV with unit-carrying field names for programs
+    #[arg(long, global = true, value_enum, default_value_t = Format::Table)]
+    pub format: Format,
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Create a ledger file (or confirm that one exists)
+    Init,
+    /// Register and list storage projects
+    #[command(subcommand)]
+    Project(setup::ProjectCommand),
+    /// Register and list wells, fields and plants of a project
+    #[command(subcommand)]
+    Site(setup::SiteCommand),
+    /// Record a measured quantity as a new ledger entry
+    #[command(subcommand)]
+    Record(record::RecordCommand),
+    /// Record a correction: a new entry that replaces an earlier one
+    Correct(record::CorrectArgs),
+    /// List every entry of a project with its reading and hash
+    Entries(reports::EntriesArgs),
+    /// Injected and stored tonnes by period, cumulative, and permit use
+    Balance(reports::BalanceArgs),
+    /// Recompute every hash and check the ledger's structure
+    Verify(verify::VerifyArgs),
+    /// Build a fresh ledger from the sample projects and print its tables
+    Demo,
+}
+
+/// Quantity options shared by `record` and `correct`.
+#[derive(Debug, Clone, Args, Default)]
+pub struct QuantityArgs {
+    /// Mass as metered, with its unit (units: g, kg, t, kt, Mt, lb, short_ton, long_ton)
+    #[arg(long, value_name = "MASS", help_heading = "Quantity")]
+    pub mass: Option<String>,
+    /// CO2 fraction by mass, in (0, 1] or as a percentage (`98.5%`) [default: 1]
+    #[arg(long, value_name = "F", help_heading = "Quantity")]
+    pub co2_fraction: Option<String>,
+}
+
+/// Everything a command needs besides its arguments.
+pub struct Context {
+    pub db: PathBuf,
+    pub now: DateTime<Utc>,
+}
+
+impl Context {
+    pub fn open(&self) -> Result<Store> {
+        Store::open(&self.db)
+    }
+}
+
+/// Runs one parsed command.
+pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
+    let db = cli.db.clone();
+    let ctx = Context { db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)), now };
+    match cli.command {
+        Command::Init => setup::init(&ctx),
+        Command::Project(c) => setup::project(&ctx, c),
+        Command::Site(c) => setup::site(&ctx, c),
+        Command::Record(c) => record::record(&ctx, c),
+        Command::Correct(a) => record::correct(&ctx, a),
+        Command::Entries(a) => reports::entries(&ctx, a),
+        Command::Balance(a) => reports::balance(&ctx, a),
+        Command::Verify(a) => verify::verify(&ctx, a),
+        Command::Demo => demo::demo(db.as_deref(), now),
+    }
+}
+
+/// Runs one line of arguments (as after `sinkbook`) against a given ledger; the demo's scripts
+/// go through the same parser and commands as a person typing them.
+pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Report> {
+    let argv = std::iter::once("sinkbook".to_string()).chain(words.iter().cloned());
+    let mut cli = Cli::try_parse_from(argv)
+        .map_err(|e| crate::error::Error::Refused(e.to_string().lines().next().unwrap_or("").to_string()))?;
+    cli.db = Some(db.to_path_buf());
+    run(cli, now)
+}

@@ -1,0 +1,182 @@
+//! `init`, `project` and `site`: registering what entries belong to.
+
+use super::{inputs, Context};
+use crate::error::{Error, Result};
+use crate::ledger::{Method, Project, Site, SiteKind};
+use crate::report::{columns, Cell, Report, Table};
+use crate::store::Store;
+use clap::{Args, Subcommand};
+
+pub fn init(ctx: &Context) -> Result<Report> {
+    let (_, created) = Store::init(&ctx.db)?;
+    let what = if created { "created ledger" } else { "ledger already exists:" };
+    Ok(Report::default().line(format!("{what} {}", ctx.db.display())))
+}
+
+#[derive(Debug, Subcommand)]
+pub enum ProjectCommand {
+    /// Register a project
+    Add(ProjectAdd),
+    /// List the projects of the ledger
+    List,
+    /// Show one project with its sites
+    Show { code: String },
+}
+
+#[derive(Debug, Args)]
+pub struct ProjectAdd {
+    /// Short code, e.g. TFS
+    pub code: String,
+    #[arg(long)]
+    pub name: String,
+    /// saline-aquifer, depleted-field, eor, basalt-mineralization, ex-situ-mineralization, enhanced-weathering
+    #[arg(long)]
+    pub method: String,
+    #[arg(long)]
+    pub operator: String,
+    /// The permit's reference
+    #[arg(long, value_name = "REF")]
+    pub permit_ref: Option<String>,
+    /// Permitted cumulative stored mass, e.g. "2.5 Mt"
+    #[arg(long, value_name = "MASS")]
+    pub permit_capacity: Option<String>,
+}
+
+pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
+    match c {
+        ProjectCommand::Add(a) => project_add(ctx, a),
+        ProjectCommand::List => {
+            let projects = ctx.open()?.read(|tx| tx.projects())?;
+            Ok(Report::default().table(projects_table(&projects)))
+        }
+        ProjectCommand::Show { code } => {
+            let (p, sites) = ctx.open()?.read(|tx| {
+                let p = known_project(tx, &code)?;
+                Ok((p, tx.sites(&code)?))
+            })?;
+            Ok(Report::default()
+                .table(projects_table(std::slice::from_ref(&p)))
+                .table(sites_table(&p.code, &sites)))
+        }
+    }
+}
+
+/// The project named on the command line, or a refusal naming it.
+pub fn known_project(tx: &mut crate::store::Tx<'_>, code: &str) -> Result<Project> {
+    tx.project(code)?
+        .ok_or_else(|| Error::field("project", code, "is not registered in this ledger (see `sinkbook project list`)"))
+}
+
+fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
+    inputs::code("project", &a.code)?;
+    inputs::text("--name", &a.name)?;
+    inputs::text("--operator", &a.operator)?;
+    let method = Method::from_name(&a.method)
+        .ok_or_else(|| Error::field("--method", &a.method, format!("is not a method (use {})", Method::choices())))?;
+    if let Some(r) = &a.permit_ref {
+        inputs::text("--permit-ref", r)?;
+    }
+    let permit_capacity = a
+        .permit_capacity
+        .as_deref()
+        .map(|t| inputs::mass("--permit-capacity", t).map(|(_, m)| m))
+        .transpose()?;
+    let p = Project {
+        code: a.code,
+        name: a.name,
+        method,
+        operator: a.operator,
+        permit_ref: a.permit_ref,
+        permit_capacity,
+        registered_at: ctx.now,
+    };
+    ctx.open()?.write(|tx| {
+        if tx.project(&p.code)?.is_some() {
+            return Err(Error::field("project", &p.code, "is already registered"));
+        }
+        tx.add_project(&p)
+    })?;
+    Ok(Report::default().line(format!("registered project {} ({}, {})", p.code, p.name, p.method)))
+}
+
+fn projects_table(projects: &[Project]) -> Table {
+    let mut t = Table::new(
+        "projects",
+        "Projects",
+        columns(&[
+            ("Code", "code"),
+            ("Name", "name"),
+            ("Method", "method"),
+            ("Operator", "operator"),
+            ("Permit", "permit_ref"),
+            ("Permitted capacity (t)", "permit_capacity_t"),
+        ]),
+    );
+    for p in projects {
+        t.push(vec![
+            Cell::text(&p.code),
+            Cell::text(&p.name),
+            Cell::text(p.method.name()),
+            Cell::text(&p.operator),
+            Cell::opt_text(p.permit_ref.as_deref()),
+            p.permit_capacity.map_or(Cell::Empty, Cell::Tonnes),
+        ]);
+    }
+    t
+}
+
+#[derive(Debug, Subcommand)]
+pub enum SiteCommand {
+    /// Register a well, field or plant of a project
+    Add {
+        project: String,
+        code: String,
+        /// injection-well, production-well, monitoring-well, field, plant
+        #[arg(long)]
+        kind: String,
+    },
+    /// List a project's sites
+    List { project: String },
+}
+
+pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
+    match c {
+        SiteCommand::Add { project, code, kind } => {
+            inputs::code("site", &code)?;
+            let kind = SiteKind::from_name(&kind)
+                .ok_or_else(|| Error::field("--kind", &kind, format!("is not a site kind (use {})", SiteKind::choices())))?;
+            let s = Site { project: project.clone(), code: code.clone(), kind, registered_at: ctx.now };
+            ctx.open()?.write(|tx| {
+                known_project(tx, &project)?;
+                if tx.site(&project, &code)?.is_some() {
+                    return Err(Error::field("site", &code, format!("is already registered in project {project}")));
+                }
+                tx.add_site(&s)
+            })?;
+            Ok(Report::default().line(format!("registered site {code} ({kind}) in project {project}")))
+        }
+        SiteCommand::List { project } => {
+            let sites = ctx.open()?.read(|tx| {
+                known_project(tx, &project)?;
+                tx.sites(&project)
+            })?;
+            Ok(Report::default().table(sites_table(&project, &sites)))
+        }
+    }
+}
+
+fn sites_table(project: &str, sites: &[Site]) -> Table {
+    let mut t = Table::new(
+        "sites",
+        format!("Sites, project {project}"),
+        columns(&[("Code", "code"), ("Kind", "kind"), ("Registered (UTC)", "registered_at")]),
+    );
+    for s in sites {
+        t.push(vec![
+            Cell::text(&s.code),
+            Cell::text(s.kind.name()),
+            Cell::text(s.registered_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+        ]);
+    }
+    t
+}

@@ -1,0 +1,73 @@
+//! Appending to a chain: checking a new entry against its project and site, and deciding
+//! what a re-submitted idempotency key means.
+
+use super::canonical::encode;
+use super::chain::seal;
+use super::entry::{Entry, SealedEntry};
+use super::hash::Hash;
+use super::project::Site;
+use chrono::DateTime;
+
+/// What an append came to.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Appended {
+    /// A new entry, sealed onto the chain.
+    New(SealedEntry),
+    /// The same entry was recorded before under this key; nothing is written.
+    Existing(SealedEntry),
+}
+
+/// Why an entry cannot be appended.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum AppendError {
+    /// The site is not one of the kinds this entry kind is recorded at.
+    WrongSiteKind { site: String, kind: String, allowed: String },
+    /// The key is held by an entry with different content.
+    KeyTaken { key: String, seq: u64 },
+}
+
+impl std::fmt::Display for AppendError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Self::WrongSiteKind { site, kind, allowed } => {
+                write!(f, "site {site} is a {kind}; this entry is recorded at a {allowed}")
+            }
+            Self::KeyTaken { key, seq } => write!(
+                f,
+                "key {key:?} already holds seq {seq} with a different reading; nothing written (use `correct` to change it)"
+            ),
+        }
+    }
+}
+
+/// A key derived from what the entry says, so that re-running the same command is harmless.
+pub fn content_key(e: &Entry) -> String {
+    let neutral = Entry { seq: 0, key: String::new(), recorded_at: DateTime::UNIX_EPOCH, ..e.clone() };
+    format!("auto-{}", &Hash::of(&encode(&neutral)).to_hex()[..20])
+}
+
+/// Checks `entry` (its seq is set here) and seals it onto the tip `(next_seq, head)`, unless
+/// `holder` — the entry that already holds its key — records the same thing.
+pub fn append(
+    mut entry: Entry,
+    site: &Site,
+    tip: (u64, Hash),
+    holder: Option<SealedEntry>,
+) -> Result<Appended, AppendError> {
+    let allowed = entry.kind.site_kinds();
+    if !allowed.contains(&site.kind) {
+        return Err(AppendError::WrongSiteKind {
+            site: site.code.clone(),
+            kind: site.kind.name().into(),
+            allowed: allowed.iter().map(|k| k.name()).collect::<Vec<_>>().join(" or "),
+        });
+    }
+    if let Some(h) = holder {
+        if h.entry.same_content(&entry) {
+            return Ok(Appended::Existing(h));
+        }
+        return Err(AppendError::KeyTaken { key: entry.key, seq: h.entry.seq });
+    }
+    entry.seq = tip.0;
+    Ok(Appended::New(seal(entry, tip.1)))
+}

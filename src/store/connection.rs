@@ -1,0 +1,115 @@
+//! Opening a ledger file: refusing files that are not ledgers, setting the pragmas every
+//! connection needs, applying the embedded migrations.
+
+use crate::error::{Error, Result};
+use diesel::connection::SimpleConnection;
+use diesel::prelude::*;
+use diesel::sql_types::{Integer, Text};
+use diesel::sqlite::SqliteConnection;
+use diesel_migrations::{embed_migrations, EmbeddedMigrations, MigrationHarness};
+use std::path::Path;
+
+const MIGRATIONS: EmbeddedMigrations = embed_migrations!("migrations/sqlite");
+
+/// Marks a SQLite file as a sinkbook ledger ("SKB1" in ASCII).
+pub const APPLICATION_ID: i32 = 0x534B_4231;
+
+#[derive(QueryableByName)]
+struct AppId {
+    #[diesel(sql_type = Integer)]
+    application_id: i32,
+}
+
+#[derive(QueryableByName)]
+struct Count {
+    #[diesel(sql_type = Integer)]
+    n: i32,
+}
+
+#[derive(QueryableByName)]
+struct Line {
+    #[diesel(sql_type = Text)]
+    integrity_check: String,
+}
+
+fn store_error(path: &Path, e: impl std::fmt::Display) -> Error {
+    Error::Store(format!("ledger {}: {e}", path.display()))
+}
+
+fn connect(path: &Path) -> Result<SqliteConnection> {
+    let url = path.to_str().ok_or_else(|| Error::field("--db", &path.display().to_string(), "is not valid UTF-8"))?;
+    let mut conn = SqliteConnection::establish(url).map_err(|e| store_error(path, e))?;
+    // Wait for another writer rather than failing at once; set first, before anything reads.
+    conn.batch_execute("PRAGMA busy_timeout = 5000;").map_err(|e| store_error(path, e))?;
+    Ok(conn)
+}
+
+/// The file's application_id; a file that is not SQLite at all is refused here.
+fn application_id(path: &Path, conn: &mut SqliteConnection) -> Result<i32> {
+    diesel::sql_query("PRAGMA application_id")
+        .get_result::<AppId>(conn)
+        .map(|r| r.application_id)
+        .map_err(|e| Error::Refused(format!("{} is not a sinkbook ledger ({e})", path.display())))
+}
+
+fn configure(path: &Path, conn: &mut SqliteConnection) -> Result<()> {
+    conn.batch_execute("PRAGMA journal_mode = WAL; PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON;")
+        .map_err(|e| store_error(path, e))?;
+    conn.run_pending_migrations(MIGRATIONS)
+        .map_err(|e| store_error(path, format!("could not apply migrations: {e}")))?;
+    Ok(())
+}
+
+/// Opens an existing ledger.
+pub fn open(path: &Path) -> Result<SqliteConnection> {
+    if !path.is_file() {
+        return Err(Error::Refused(format!(
+            "ledger {} does not exist (create it with `sinkbook init`, or name another with --db or SINKBOOK_DB)",
+            path.display()
+        )));
+    }
+    let mut conn = connect(path)?;
+    let id = application_id(path, &mut conn)?;
+    if id != APPLICATION_ID {
+        return Err(Error::Refused(format!(
+            "{} is not a sinkbook ledger (SQLite application_id {id:#x}, expected {APPLICATION_ID:#x})",
+            path.display()
+        )));
+    }
+    configure(path, &mut conn)?;
+    Ok(conn)
+}
+
+/// Creates a ledger, or opens one that exists. An empty SQLite file may become a ledger; a file
+/// that holds anything else is refused untouched.
+pub fn create(path: &Path) -> Result<(SqliteConnection, bool)> {
+    if path.is_file() {
+        let mut conn = connect(path)?;
+        let id = application_id(path, &mut conn)?;
+        if id == APPLICATION_ID {
+            configure(path, &mut conn)?;
+            return Ok((conn, false));
+        }
+        let tables = diesel::sql_query("SELECT count(*) AS n FROM sqlite_master")
+            .get_result::<Count>(&mut conn)
+            .map_err(|e| store_error(path, e))?;
+        if id != 0 || tables.n != 0 {
+            return Err(Error::Refused(format!(
+                "{} is not a sinkbook ledger and is not empty; refusing to touch it",
+                path.display()
+            )));
+        }
+        drop(conn);
+    }
+    let mut conn = connect(path)?;
+    conn.batch_execute(&format!("PRAGMA application_id = {APPLICATION_ID};"))
+        .map_err(|e| store_error(path, e))?;
+    configure(path, &mut conn)?;
+    Ok((conn, true))
+}
+
+/// SQLite's integrity_check, line by line ("ok" alone when the file is whole).
+pub fn integrity_check(conn: &mut SqliteConnection) -> Result<Vec<String>> {
+    let lines: Vec<Line> = diesel::sql_query("PRAGMA integrity_check").load(conn)?;
+    Ok(lines.into_iter().map(|l| l.integrity_check).collect())
+}

@@ -1,0 +1,191 @@
+//! Rows as the tables hold them, and their exact conversion to and from ledger values. A row
+//! that does not convert back is a finding for `verify`, never a panic.
+
+use super::schema::{entries, projects, sites};
+use crate::ledger::canonical::{encode_project, encode_site};
+use crate::ledger::hash::leaf_hash;
+use crate::ledger::period::parse_date;
+use crate::ledger::{Entry, EntryKind, Evidence, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site, SiteKind};
+use crate::quantity::Mass;
+use chrono::{DateTime, NaiveDateTime, Utc};
+use diesel::prelude::*;
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = projects, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct ProjectRow {
+    pub code: String,
+    pub name: String,
+    pub method: String,
+    pub operator: String,
+    pub permit_ref: Option<String>,
+    pub permit_capacity_g: Option<i64>,
+    pub created_at: NaiveDateTime,
+    pub row_hash: String,
+}
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = sites, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct SiteRow {
+    pub project: String,
+    pub code: String,
+    pub kind: String,
+    pub created_at: NaiveDateTime,
+    pub row_hash: String,
+}
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = entries, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct EntryRow {
+    pub project: String,
+    pub seq: i64,
+    pub kind: String,
+    pub site: String,
+    pub period_from: String,
+    pub period_to: String,
+    pub reading: String,
+    pub grams: i64,
+    pub sign: String,
+    pub recorded_at: NaiveDateTime,
+    pub idem_key: String,
+    pub meter: Option<String>,
+    pub note: Option<String>,
+    pub corrects: Option<i64>,
+    pub reason: Option<String>,
+    pub evidence_name: Option<String>,
+    pub evidence_sha256: Option<String>,
+    pub leaf_hash: String,
+    pub chain_hash: String,
+}
+
+fn utc(t: NaiveDateTime) -> DateTime<Utc> {
+    t.and_utc()
+}
+
+/// A stored hash, or a finding that names the column.
+fn hash(column: &str, text: &str) -> Result<Hash, String> {
+    Hash::from_hex(text).ok_or_else(|| format!("{column} {text:?} is not a SHA-256 hex digest"))
+}
+
+impl ProjectRow {
+    pub fn from_project(p: &Project) -> Self {
+        Self {
+            code: p.code.clone(),
+            name: p.name.clone(),
+            method: p.method.name().into(),
+            operator: p.operator.clone(),
+            permit_ref: p.permit_ref.clone(),
+            permit_capacity_g: p.permit_capacity.map(Mass::grams),
+            created_at: p.registered_at.naive_utc(),
+            row_hash: leaf_hash(&encode_project(p)).to_hex(),
+        }
+    }
+
+    /// The project, checked against the row's own hash.
+    pub fn to_project(&self) -> Result<Project, String> {
+        let p = Project {
+            code: self.code.clone(),
+            name: self.name.clone(),
+            method: Method::from_name(&self.method)
+                .ok_or_else(|| format!("unknown method {:?}", self.method))?,
+            operator: self.operator.clone(),
+            permit_ref: self.permit_ref.clone(),
+            permit_capacity: self.permit_capacity_g.map(Mass::from_grams),
+            registered_at: utc(self.created_at),
+        };
+        if leaf_hash(&encode_project(&p)).to_hex() != self.row_hash {
+            return Err(format!("project {} registration differs from its row hash", self.code));
+        }
+        Ok(p)
+    }
+}
+
+impl SiteRow {
+    pub fn from_site(s: &Site) -> Self {
+        Self {
+            project: s.project.clone(),
+            code: s.code.clone(),
+            kind: s.kind.name().into(),
+            created_at: s.registered_at.naive_utc(),
+            row_hash: leaf_hash(&encode_site(s)).to_hex(),
+        }
+    }
+
+    pub fn to_site(&self) -> Result<Site, String> {
+        let s = Site {
+            project: self.project.clone(),
+            code: self.code.clone(),
+            kind: SiteKind::from_name(&self.kind).ok_or_else(|| format!("unknown site kind {:?}", self.kind))?,
+            registered_at: utc(self.created_at),
+        };
+        if leaf_hash(&encode_site(&s)).to_hex() != self.row_hash {
+            return Err(format!("site {} of project {} differs from its row hash", self.code, self.project));
+        }
+        Ok(s)
+    }
+}
+
+impl EntryRow {
+    pub fn from_sealed(s: &SealedEntry) -> Self {
+        let e = &s.entry;
+        Self {
+            project: e.project.clone(),
+            seq: e.seq as i64,
+            kind: e.kind.name().into(),
+            site: e.site.clone(),
+            period_from: e.period.from.to_string(),
+            period_to: e.period.to.to_string(),
+            reading: serde_json::to_string(&e.reading.0).expect("strings serialize"),
+            grams: e.mass.grams(),
+            sign: e.sign.name().into(),
+            recorded_at: e.recorded_at.naive_utc(),
+            idem_key: e.key.clone(),
+            meter: e.meter.clone(),
+            note: e.note.clone(),
+            corrects: e.corrects.map(|c| c as i64),
+            reason: e.reason.clone(),
+            evidence_name: e.evidence.as_ref().map(|v| v.file_name.clone()),
+            evidence_sha256: e.evidence.as_ref().map(|v| v.sha256.to_hex()),
+            leaf_hash: s.leaf.to_hex(),
+            chain_hash: s.chain.to_hex(),
+        }
+    }
+
+    /// The entry exactly as stored; a field that cannot be read back is named in the error.
+    pub fn to_sealed(&self) -> Result<SealedEntry, String> {
+        let date = |col: &str, v: &str| parse_date(v).map_err(|e| format!("{col} {v:?} {e}"));
+        let from = date("period_from", &self.period_from)?;
+        let to = date("period_to", &self.period_to)?;
+        let evidence = match (&self.evidence_name, &self.evidence_sha256) {
+            (Some(n), Some(h)) => Some(Evidence { file_name: n.clone(), sha256: hash("evidence_sha256", h)? }),
+            (None, None) => None,
+            _ => return Err("evidence name and hash must be present together".into()),
+        };
+        let entry = Entry {
+            project: self.project.clone(),
+            seq: u64::try_from(self.seq).map_err(|_| format!("seq {} is negative", self.seq))?,
+            kind: EntryKind::from_name(&self.kind).ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
+            site: self.site.clone(),
+            period: Period { from, to },
+            reading: Reading(
+                serde_json::from_str(&self.reading).map_err(|e| format!("reading is not readable: {e}"))?,
+            ),
+            mass: Mass::from_grams(self.grams),
+            sign: Sign::from_name(&self.sign).ok_or_else(|| format!("unknown sign {:?}", self.sign))?,
+            recorded_at: utc(self.recorded_at),
+            key: self.idem_key.clone(),
+            meter: self.meter.clone(),
+            note: self.note.clone(),
+            corrects: self
+                .corrects
+                .map(|c| u64::try_from(c).map_err(|_| format!("corrects {c} is negative")))
+                .transpose()?,
+            reason: self.reason.clone(),
+            evidence,
+        };
+        Ok(SealedEntry {
+            entry,
+            leaf: hash("leaf_hash", &self.leaf_hash)?,
+            chain: hash("chain_hash", &self.chain_hash)?,
+        })
+    }
+}

@@ -1,0 +1,48 @@
+//! Diesel's view of the tables in migrations/sqlite.
+
+diesel::table! {
+    projects (code) {
+        code -> Text,
+        name -> Text,
+        method -> Text,
+        operator -> Text,
+        permit_ref -> Nullable<Text>,
+        permit_capacity_g -> Nullable<BigInt>,
+        created_at -> Timestamp,
+        row_hash -> Text,
+    }
+}
+
+diesel::table! {
+    sites (project, code) {
+        project -> Text,
+        code -> Text,
+        kind -> Text,
+        created_at -> Timestamp,
+        row_hash -> Text,
+    }
+}
+
+diesel::table! {
+    entries (project, seq) {
+        project -> Text,
+        seq -> BigInt,
+        kind -> Text,
+        site -> Text,
+        period_from -> Text,
+        period_to -> Text,
+        reading -> Text,
+        grams -> BigInt,
+        sign -> Text,
+        recorded_at -> Timestamp,
+        idem_key -> Text,
+        meter -> Nullable<Text>,
+        note -> Nullable<Text>,
+        corrects -> Nullable<BigInt>,
+        reason -> Nullable<Text>,
+        evidence_name -> Nullable<Text>,
+        evidence_sha256 -> Nullable<Text>,
+        leaf_hash -> Text,
+        chain_hash -> Text,
+    }
+}
