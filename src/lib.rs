@@ -3,10 +3,10 @@
 //! Layers (docs/architecture.md): `quantity` and `ledger` are pure; `store` is the only module
 //! that speaks SQL, `report` the only one that formats for people, `cli` wires them.
 
-pub mod ledger;
-pub mod quantity;
-pub mod error;
-pub mod store;
-pub mod report;
 pub mod accounting;
 pub mod cli;
+pub mod error;
+pub mod ledger;
+pub mod quantity;
+pub mod report;
+pub mod store;

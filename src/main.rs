@@ -1,5 +1,5 @@
 use clap::Parser;
-use sinkbook::cli::{run, Cli};
+use sinkbook::cli::{Cli, run};
 use sinkbook::report::render;
 use std::process::ExitCode;
 
@@ -12,7 +12,8 @@ fn now() -> Result<chrono::DateTime<chrono::Utc>, String> {
             .to_utc(),
         Err(_) => chrono::Utc::now(),
     };
-    chrono::DateTime::from_timestamp_micros(t.timestamp_micros()).ok_or_else(|| "clock out of range".into())
+    chrono::DateTime::from_timestamp_micros(t.timestamp_micros())
+        .ok_or_else(|| "clock out of range".into())
 }
 
 fn main() -> ExitCode {

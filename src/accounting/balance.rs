@@ -1,7 +1,7 @@
 //! The storage balance by reporting period: what went in, what is counted as stored, and how
 //! much of the permit that uses.
 
-use crate::ledger::period::{apportion, Bucket, Grouping};
+use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
 use std::collections::BTreeMap;

@@ -29,7 +29,11 @@ pub fn text(field: &str, value: &str) -> Result<()> {
         return Err(Error::field(field, value, "must not be empty"));
     }
     if value.chars().any(char::is_control) {
-        return Err(Error::field(field, value, "must not contain control characters"));
+        return Err(Error::field(
+            field,
+            value,
+            "must not contain control characters",
+        ));
     }
     Ok(())
 }

@@ -65,10 +65,20 @@ pub enum Command {
 #[derive(Debug, Clone, Args, Default)]
 pub struct QuantityArgs {
     /// Mass as metered, with its unit (units: g, kg, t, kt, Mt, lb, short_ton, long_ton)
-    #[arg(long, value_name = "MASS", help_heading = "Quantity")]
+    #[arg(
+        long,
+        value_name = "MASS",
+        help_heading = "Quantity",
+        allow_hyphen_values = true
+    )]
     pub mass: Option<String>,
     /// CO2 fraction by mass, in (0, 1] or as a percentage (`98.5%`) [default: 1]
-    #[arg(long, value_name = "F", help_heading = "Quantity")]
+    #[arg(
+        long,
+        value_name = "F",
+        help_heading = "Quantity",
+        allow_hyphen_values = true
+    )]
     pub co2_fraction: Option<String>,
 }
 
@@ -87,7 +97,10 @@ impl Context {
 /// Runs one parsed command.
 pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     let db = cli.db.clone();
-    let ctx = Context { db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)), now };
+    let ctx = Context {
+        db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)),
+        now,
+    };
     match cli.command {
         Command::Init => setup::init(&ctx),
         Command::Project(c) => setup::project(&ctx, c),
@@ -105,8 +118,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
 /// go through the same parser and commands as a person typing them.
 pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Report> {
     let argv = std::iter::once("sinkbook".to_string()).chain(words.iter().cloned());
-    let mut cli = Cli::try_parse_from(argv)
-        .map_err(|e| crate::error::Error::Refused(e.to_string().lines().next().unwrap_or("").to_string()))?;
+    let mut cli = Cli::try_parse_from(argv).map_err(|e| {
+        crate::error::Error::Refused(e.to_string().lines().next().unwrap_or("").to_string())
+    })?;
     cli.db = Some(db.to_path_buf());
     run(cli, now)
 }

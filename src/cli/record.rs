@@ -1,13 +1,13 @@
 //! `record` and `correct`: readings become entries, sealed onto the project's chain.
 
 use super::setup::known_project;
-use super::{inputs, Context, QuantityArgs};
+use super::{Context, QuantityArgs, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::append::{append, content_key, Appended};
+use crate::ledger::append::{Appended, append, content_key};
 use crate::ledger::correction;
 use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::{Fraction, Mass};
-use crate::report::{columns, Cell, Report, Table};
+use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, Subcommand};
 
 #[derive(Debug, Subcommand)]
@@ -97,12 +97,13 @@ fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
 pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
     let RecordCommand::Injection(a) = c;
     let kind = EntryKind::Injection;
-    let mass_text = a
-        .quantity
-        .mass
-        .as_deref()
-        .ok_or_else(|| Error::Refused("--mass is required: the metered mass with its unit, e.g. --mass \"1250.5 t\"".into()))?;
-    let (reading, mass) = mass_reading(mass_text, a.quantity.co2_fraction.as_deref().unwrap_or("1"))?;
+    let mass_text = a.quantity.mass.as_deref().ok_or_else(|| {
+        Error::Refused(
+            "--mass is required: the metered mass with its unit, e.g. --mass \"1250.5 t\"".into(),
+        )
+    })?;
+    let (reading, mass) =
+        mass_reading(mass_text, a.quantity.co2_fraction.as_deref().unwrap_or("1"))?;
     let period = period(&a.from, &a.to)?;
     optional_text("--key", &a.key)?;
     optional_text("--meter", &a.meter)?;
@@ -140,7 +141,11 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
             .cloned()
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))
     })?;
-    let mass_text = a.quantity.mass.clone().or_else(|| target.reading.get("mass").map(str::to_string));
+    let mass_text = a
+        .quantity
+        .mass
+        .clone()
+        .or_else(|| target.reading.get("mass").map(str::to_string));
     let fraction_text = a
         .quantity
         .co2_fraction
@@ -176,17 +181,24 @@ fn commit(ctx: &Context, mut entry: Entry, key: Option<String>) -> Result<Report
     let outcome = ctx.open()?.write(|tx| {
         known_project(tx, &entry.project)?;
         let site = tx.site(&entry.project, &entry.site)?.ok_or_else(|| {
-            Error::field("--site", &entry.site, format!("is not a site of project {}", entry.project))
+            Error::field(
+                "--site",
+                &entry.site,
+                format!("is not a site of project {}", entry.project),
+            )
         })?;
         if let Some(target) = entry.corrects {
             // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
             let all = tx.entries(&entry.project)?;
-            correction::target(&all, target).map_err(|e| Error::field("seq", &target.to_string(), e))?;
+            correction::target(&all, target)
+                .map_err(|e| Error::field("seq", &target.to_string(), e))?;
         }
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
         let outcome = append(entry.clone(), &site, tip, holder).map_err(|e| match e {
-            crate::ledger::append::AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
+            crate::ledger::append::AppendError::KeyTaken { .. } => {
+                Error::field("--key", &entry.key, e)
+            }
             _ => Error::field("--site", &entry.site, e),
         })?;
         if let Appended::New(s) = &outcome {

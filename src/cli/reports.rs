@@ -1,12 +1,12 @@
 //! `entries` and `balance`: what the ledger holds, and what it adds up to.
 
-use super::setup::known_project;
 use super::Context;
+use super::setup::known_project;
 use crate::accounting::balance::balance as compute_balance;
 use crate::error::Result;
 use crate::ledger::correction::{effective, superseded_by};
 use crate::ledger::period::Grouping;
-use crate::report::{columns, Cell, Report, Table};
+use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Args)]
@@ -109,7 +109,11 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     let lines = compute_balance(&project, effective(&all), grouping);
     let mut t = Table::new(
         "balance",
-        format!("Storage balance by {}, project {}", format!("{:?}", a.by).to_lowercase(), project.code),
+        format!(
+            "Storage balance by {}, project {}",
+            format!("{:?}", a.by).to_lowercase(),
+            project.code
+        ),
         columns(&[
             ("Period", "period"),
             ("Injected (t)", "injected_t"),
@@ -133,7 +137,11 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
         Some(c) => t.note(format!(
             "Permitted capacity {} t{}.",
             crate::report::render::tonnes_text(c),
-            project.permit_ref.as_deref().map(|r| format!(" under permit {r}")).unwrap_or_default()
+            project
+                .permit_ref
+                .as_deref()
+                .map(|r| format!(" under permit {r}"))
+                .unwrap_or_default()
         )),
         None => t.note("No permitted capacity registered for this project."),
     }

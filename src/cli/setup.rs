@@ -1,15 +1,19 @@
 //! `init`, `project` and `site`: registering what entries belong to.
 
-use super::{inputs, Context};
+use super::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project, Site, SiteKind};
-use crate::report::{columns, Cell, Report, Table};
+use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
 use clap::{Args, Subcommand};
 
 pub fn init(ctx: &Context) -> Result<Report> {
     let (_, created) = Store::init(&ctx.db)?;
-    let what = if created { "created ledger" } else { "ledger already exists:" };
+    let what = if created {
+        "created ledger"
+    } else {
+        "ledger already exists:"
+    };
     Ok(Report::default().line(format!("{what} {}", ctx.db.display())))
 }
 
@@ -63,16 +67,26 @@ pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
 
 /// The project named on the command line, or a refusal naming it.
 pub fn known_project(tx: &mut crate::store::Tx<'_>, code: &str) -> Result<Project> {
-    tx.project(code)?
-        .ok_or_else(|| Error::field("project", code, "is not registered in this ledger (see `sinkbook project list`)"))
+    tx.project(code)?.ok_or_else(|| {
+        Error::field(
+            "project",
+            code,
+            "is not registered in this ledger (see `sinkbook project list`)",
+        )
+    })
 }
 
 fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
     inputs::code("project", &a.code)?;
     inputs::text("--name", &a.name)?;
     inputs::text("--operator", &a.operator)?;
-    let method = Method::from_name(&a.method)
-        .ok_or_else(|| Error::field("--method", &a.method, format!("is not a method (use {})", Method::choices())))?;
+    let method = Method::from_name(&a.method).ok_or_else(|| {
+        Error::field(
+            "--method",
+            &a.method,
+            format!("is not a method (use {})", Method::choices()),
+        )
+    })?;
     if let Some(r) = &a.permit_ref {
         inputs::text("--permit-ref", r)?;
     }
@@ -96,7 +110,10 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
         }
         tx.add_project(&p)
     })?;
-    Ok(Report::default().line(format!("registered project {} ({}, {})", p.code, p.name, p.method)))
+    Ok(Report::default().line(format!(
+        "registered project {} ({}, {})",
+        p.code, p.name, p.method
+    )))
 }
 
 fn projects_table(projects: &[Project]) -> Table {
@@ -141,19 +158,39 @@ pub enum SiteCommand {
 
 pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
     match c {
-        SiteCommand::Add { project, code, kind } => {
+        SiteCommand::Add {
+            project,
+            code,
+            kind,
+        } => {
             inputs::code("site", &code)?;
-            let kind = SiteKind::from_name(&kind)
-                .ok_or_else(|| Error::field("--kind", &kind, format!("is not a site kind (use {})", SiteKind::choices())))?;
-            let s = Site { project: project.clone(), code: code.clone(), kind, registered_at: ctx.now };
+            let kind = SiteKind::from_name(&kind).ok_or_else(|| {
+                Error::field(
+                    "--kind",
+                    &kind,
+                    format!("is not a site kind (use {})", SiteKind::choices()),
+                )
+            })?;
+            let s = Site {
+                project: project.clone(),
+                code: code.clone(),
+                kind,
+                registered_at: ctx.now,
+            };
             ctx.open()?.write(|tx| {
                 known_project(tx, &project)?;
                 if tx.site(&project, &code)?.is_some() {
-                    return Err(Error::field("site", &code, format!("is already registered in project {project}")));
+                    return Err(Error::field(
+                        "site",
+                        &code,
+                        format!("is already registered in project {project}"),
+                    ));
                 }
                 tx.add_site(&s)
             })?;
-            Ok(Report::default().line(format!("registered site {code} ({kind}) in project {project}")))
+            Ok(Report::default().line(format!(
+                "registered site {code} ({kind}) in project {project}"
+            )))
         }
         SiteCommand::List { project } => {
             let sites = ctx.open()?.read(|tx| {
@@ -169,7 +206,11 @@ fn sites_table(project: &str, sites: &[Site]) -> Table {
     let mut t = Table::new(
         "sites",
         format!("Sites, project {project}"),
-        columns(&[("Code", "code"), ("Kind", "kind"), ("Registered (UTC)", "registered_at")]),
+        columns(&[
+            ("Code", "code"),
+            ("Kind", "kind"),
+            ("Registered (UTC)", "registered_at"),
+        ]),
     );
     for s in sites {
         t.push(vec![

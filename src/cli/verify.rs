@@ -2,9 +2,9 @@
 
 use super::Context;
 use crate::error::{Error, Result};
-use crate::ledger::chain::check;
 use crate::ledger::Hash;
-use crate::report::{columns, Cell, Report, Table};
+use crate::ledger::chain::check;
+use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -21,12 +21,18 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
     let expected = a
         .expect_head
         .as_deref()
-        .map(|h| Hash::from_hex(h).ok_or_else(|| Error::field("--expect-head", h, "is not 64 hex digits")))
+        .map(|h| {
+            Hash::from_hex(h)
+                .ok_or_else(|| Error::field("--expect-head", h, "is not 64 hex digits"))
+        })
         .transpose()?;
     let mut store = ctx.open()?;
     let integrity = store.integrity_check()?;
     if integrity != ["ok"] {
-        return Err(Error::Inconsistent(format!("SQLite integrity_check: {}", integrity.join("; "))));
+        return Err(Error::Inconsistent(format!(
+            "SQLite integrity_check: {}",
+            integrity.join("; ")
+        )));
     }
     let mut t = Table::new(
         "verify",
@@ -58,16 +64,16 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
                     )));
                 }
             }
-            if let Some(h) = expected {
-                if !entries.iter().any(|s| s.chain == h) {
-                    return Err(Error::Inconsistent(format!(
-                        "project {}: the chain no longer holds head {} (it has {} entries, head {})",
-                        p.code,
-                        h.head(),
-                        c.entries,
-                        c.head.head()
-                    )));
-                }
+            if let Some(h) = expected
+                && !entries.iter().any(|s| s.chain == h)
+            {
+                return Err(Error::Inconsistent(format!(
+                    "project {}: the chain no longer holds head {} (it has {} entries, head {})",
+                    p.code,
+                    h.head(),
+                    c.entries,
+                    c.head.head()
+                )));
             }
             t.push(vec![
                 Cell::text(&p.code),

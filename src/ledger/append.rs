@@ -21,7 +21,12 @@ pub enum Appended {
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub enum AppendError {
     /// The site is not one of the kinds this entry kind is recorded at.
-    WrongSiteKind { site: String, kind: String, allowed: String },
+    WrongSiteKind {
+        site: String,
+        kind: String,
+        entry: String,
+        allowed: String,
+    },
     /// The key is held by an entry with different content.
     KeyTaken { key: String, seq: u64 },
 }
@@ -29,9 +34,15 @@ pub enum AppendError {
 impl std::fmt::Display for AppendError {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         match self {
-            Self::WrongSiteKind { site, kind, allowed } => {
-                write!(f, "site {site} is a {kind}; this entry is recorded at a {allowed}")
-            }
+            Self::WrongSiteKind {
+                site,
+                kind,
+                entry,
+                allowed,
+            } => write!(
+                f,
+                "site {site} is a {kind}; {entry} entries are recorded at sites of kind {allowed}"
+            ),
             Self::KeyTaken { key, seq } => write!(
                 f,
                 "key {key:?} already holds seq {seq} with a different reading; nothing written (use `correct` to change it)"
@@ -42,7 +53,12 @@ impl std::fmt::Display for AppendError {
 
 /// A key derived from what the entry says, so that re-running the same command is harmless.
 pub fn content_key(e: &Entry) -> String {
-    let neutral = Entry { seq: 0, key: String::new(), recorded_at: DateTime::UNIX_EPOCH, ..e.clone() };
+    let neutral = Entry {
+        seq: 0,
+        key: String::new(),
+        recorded_at: DateTime::UNIX_EPOCH,
+        ..e.clone()
+    };
     format!("auto-{}", &Hash::of(&encode(&neutral)).to_hex()[..20])
 }
 
@@ -59,14 +75,22 @@ pub fn append(
         return Err(AppendError::WrongSiteKind {
             site: site.code.clone(),
             kind: site.kind.name().into(),
-            allowed: allowed.iter().map(|k| k.name()).collect::<Vec<_>>().join(" or "),
+            entry: entry.kind.name().into(),
+            allowed: allowed
+                .iter()
+                .map(|k| k.name())
+                .collect::<Vec<_>>()
+                .join(" or "),
         });
     }
     if let Some(h) = holder {
         if h.entry.same_content(&entry) {
             return Ok(Appended::Existing(h));
         }
-        return Err(AppendError::KeyTaken { key: entry.key, seq: h.entry.seq });
+        return Err(AppendError::KeyTaken {
+            key: entry.key,
+            seq: h.entry.seq,
+        });
     }
     entry.seq = tip.0;
     Ok(Appended::New(seal(entry, tip.1)))

@@ -2,7 +2,7 @@
 
 use super::canonical::encode;
 use super::entry::{Entry, SealedEntry};
-use super::hash::{chain_hash, leaf_hash, Hash};
+use super::hash::{Hash, chain_hash, leaf_hash};
 use std::fmt;
 
 /// Hashes an entry onto the chain whose head is `prev`.
@@ -22,7 +22,11 @@ pub struct Finding {
 
 impl fmt::Display for Finding {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "project {} seq {}: {}", self.project, self.seq, self.what)
+        write!(
+            f,
+            "project {} seq {}: {}",
+            self.project, self.seq, self.what
+        )
     }
 }
 
@@ -37,7 +41,11 @@ pub struct ChainCheck {
 /// chain hash recomputed from the stored fields, each correction naming an earlier entry of the
 /// same kind that nothing else has corrected.
 pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Finding> {
-    let finding = |seq: u64, what: String| Finding { project: project.to_string(), seq, what };
+    let finding = |seq: u64, what: String| Finding {
+        project: project.to_string(),
+        seq,
+        what,
+    };
     let mut prev = Hash::GENESIS;
     let mut corrected_by: std::collections::HashMap<u64, u64> = Default::default();
     for (i, s) in entries.iter().enumerate() {
@@ -46,7 +54,10 @@ pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Findi
         if e.seq != expected {
             return Err(finding(
                 expected,
-                format!("sequence broken: expected seq {expected}, found seq {}", e.seq),
+                format!(
+                    "sequence broken: expected seq {expected}, found seq {}",
+                    e.seq
+                ),
             ));
         }
         if e.project != project {
@@ -67,22 +78,38 @@ pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Findi
         if chain != s.chain {
             return Err(finding(
                 e.seq,
-                format!("chain hash does not follow from the entry before (stored {}, recomputed {})", s.chain.head(), chain.head()),
+                format!(
+                    "chain hash does not follow from the entry before (stored {}, recomputed {})",
+                    s.chain.head(),
+                    chain.head()
+                ),
             ));
         }
         if let Some(target) = e.corrects {
             if target >= e.seq {
-                return Err(finding(e.seq, format!("corrects seq {target}, which is not earlier")));
+                return Err(finding(
+                    e.seq,
+                    format!("corrects seq {target}, which is not earlier"),
+                ));
             }
             let t = &entries[target as usize].entry;
             if t.kind != e.kind {
-                return Err(finding(e.seq, format!("corrects seq {target} of another kind ({})", t.kind)));
+                return Err(finding(
+                    e.seq,
+                    format!("corrects seq {target} of another kind ({})", t.kind),
+                ));
             }
             if let Some(first) = corrected_by.insert(target, e.seq) {
-                return Err(finding(e.seq, format!("corrects seq {target}, already corrected by seq {first}")));
+                return Err(finding(
+                    e.seq,
+                    format!("corrects seq {target}, already corrected by seq {first}"),
+                ));
             }
         }
         prev = chain;
     }
-    Ok(ChainCheck { entries: entries.len() as u64, head: prev })
+    Ok(ChainCheck {
+        entries: entries.len() as u64,
+        head: prev,
+    })
 }

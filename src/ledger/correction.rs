@@ -14,20 +14,26 @@ impl std::fmt::Display for CorrectionError {
         match self {
             Self::NoSuchSeq(s) => write!(f, "there is no entry with seq {s} in this project"),
             Self::AlreadyCorrected { seq, by } => {
-                write!(f, "seq {seq} was already corrected by seq {by}; correct seq {by} instead")
+                write!(
+                    f,
+                    "seq {seq} was already corrected by seq {by}; correct seq {by} instead"
+                )
             }
         }
     }
 }
 
 /// The entry a correction of `seq` would replace, checked: it exists and is the latest of its line.
-pub fn target<'a>(entries: &'a [SealedEntry], seq: u64) -> Result<&'a Entry, CorrectionError> {
+pub fn target(entries: &[SealedEntry], seq: u64) -> Result<&Entry, CorrectionError> {
     let t = entries
         .get(usize::try_from(seq).unwrap_or(usize::MAX))
         .map(|s| &s.entry)
         .ok_or(CorrectionError::NoSuchSeq(seq))?;
     match entries.iter().find(|s| s.entry.corrects == Some(seq)) {
-        Some(by) => Err(CorrectionError::AlreadyCorrected { seq, by: by.entry.seq }),
+        Some(by) => Err(CorrectionError::AlreadyCorrected {
+            seq,
+            by: by.entry.seq,
+        }),
         None => Ok(t),
     }
 }
@@ -36,10 +42,10 @@ pub fn target<'a>(entries: &'a [SealedEntry], seq: u64) -> Result<&'a Entry, Cor
 pub fn superseded_by(entries: &[SealedEntry]) -> Vec<Option<u64>> {
     let mut by = vec![None; entries.len()];
     for s in entries {
-        if let Some(t) = s.entry.corrects.and_then(|t| usize::try_from(t).ok()) {
-            if let Some(slot) = by.get_mut(t) {
-                *slot = Some(s.entry.seq);
-            }
+        if let Some(t) = s.entry.corrects.and_then(|t| usize::try_from(t).ok())
+            && let Some(slot) = by.get_mut(t)
+        {
+            *slot = Some(s.entry.seq);
         }
     }
     by

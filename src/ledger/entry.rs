@@ -2,7 +2,7 @@
 
 use super::hash::Hash;
 use super::period::Period;
-use super::project::{named_enum, SiteKind};
+use super::project::{SiteKind, named_enum};
 use crate::quantity::Mass;
 use chrono::{DateTime, Utc};
 
@@ -57,7 +57,10 @@ pub struct Reading(pub Vec<(String, String)>);
 
 impl Reading {
     pub fn get(&self, name: &str) -> Option<&str> {
-        self.0.iter().find(|(n, _)| n == name).map(|(_, v)| v.as_str())
+        self.0
+            .iter()
+            .find(|(n, _)| n == name)
+            .map(|(_, v)| v.as_str())
     }
 
     pub fn push(&mut self, name: &str, value: impl Into<String>) {
@@ -113,7 +116,11 @@ impl Entry {
     /// Whether two entries record the same thing, ignoring position and time of recording;
     /// a re-submission of the same key with the same content is a harmless retry.
     pub fn same_content(&self, other: &Entry) -> bool {
-        let strip = |e: &Entry| Entry { seq: 0, recorded_at: DateTime::UNIX_EPOCH, ..e.clone() };
+        let strip = |e: &Entry| Entry {
+            seq: 0,
+            recorded_at: DateTime::UNIX_EPOCH,
+            ..e.clone()
+        };
         strip(self) == strip(other)
     }
 }

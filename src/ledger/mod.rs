@@ -65,7 +65,14 @@ mod tests {
         expect.extend_from_slice(&20454i32.to_le_bytes()); // 2026-01-01
         expect.extend_from_slice(&20484i32.to_le_bytes()); // 2026-01-31
         expect.extend_from_slice(&3u32.to_le_bytes());
-        for t in ["mass", "1250.5 t", "co2_fraction", "0.985", "co2_basis", "mass"] {
+        for t in [
+            "mass",
+            "1250.5 t",
+            "co2_fraction",
+            "0.985",
+            "co2_basis",
+            "mass",
+        ] {
             s(&mut expect, t);
         }
         expect.extend_from_slice(&1_231_742_500i64.to_le_bytes());
@@ -133,7 +140,10 @@ mod tests {
             Err(correction::CorrectionError::AlreadyCorrected { seq: 0, by: 2 })
         );
         assert!(correction::target(&c, 2).is_ok());
-        assert_eq!(correction::target(&c, 9), Err(correction::CorrectionError::NoSuchSeq(9)));
+        assert_eq!(
+            correction::target(&c, 9),
+            Err(correction::CorrectionError::NoSuchSeq(9))
+        );
         assert!(chain::check("TFS", &c).is_ok());
     }
 

@@ -75,7 +75,11 @@ impl Grouping {
             Grouping::Quarter => ((d.month() - 1) / 3 + 1, 1),
             Grouping::Year => (0, 2),
         };
-        Bucket { year: d.year(), part, grouping_rank }
+        Bucket {
+            year: d.year(),
+            part,
+            grouping_rank,
+        }
     }
 }
 
@@ -92,7 +96,8 @@ impl Bucket {
         } else {
             NaiveDate::from_ymd_opt(y, m + 1, 1)
         };
-        next.and_then(|n| n.pred_opt()).expect("valid calendar date")
+        next.and_then(|n| n.pred_opt())
+            .expect("valid calendar date")
     }
 }
 
@@ -155,9 +160,18 @@ mod tests {
 
     #[test]
     fn buckets_and_last_days() {
-        assert_eq!(Grouping::Quarter.bucket(d("2026-05-10")).to_string(), "2026-Q2");
-        assert_eq!(Grouping::Month.bucket(d("2026-02-10")).last_day(), d("2026-02-28"));
-        assert_eq!(Grouping::Quarter.bucket(d("2026-12-31")).last_day(), d("2026-12-31"));
+        assert_eq!(
+            Grouping::Quarter.bucket(d("2026-05-10")).to_string(),
+            "2026-Q2"
+        );
+        assert_eq!(
+            Grouping::Month.bucket(d("2026-02-10")).last_day(),
+            d("2026-02-28")
+        );
+        assert_eq!(
+            Grouping::Quarter.bucket(d("2026-12-31")).last_day(),
+            d("2026-12-31")
+        );
         assert_eq!(Grouping::Year.bucket(d("2028-02-29")).to_string(), "2028");
     }
 

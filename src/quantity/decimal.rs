@@ -25,7 +25,9 @@ impl fmt::Display for DecimalError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         f.write_str(match self {
             Self::Malformed => "not a decimal number",
-            Self::Comma => "commas are refused (write 1234.5, no thousands separator or decimal comma)",
+            Self::Comma => {
+                "commas are refused (write 1234.5, no thousands separator or decimal comma)"
+            }
             Self::TooLong => "too many digits",
         })
     }
@@ -72,7 +74,8 @@ impl Decimal {
         } else {
             significant.parse().map_err(|_| DecimalError::TooLong)?
         };
-        let mut scale = i64::try_from(frac.len()).map_err(|_| DecimalError::TooLong)? - i64::from(exp);
+        let mut scale =
+            i64::try_from(frac.len()).map_err(|_| DecimalError::TooLong)? - i64::from(exp);
         if scale < 0 {
             let up = u32::try_from(-scale).map_err(|_| DecimalError::TooLong)?;
             mantissa = pow10(up)
@@ -92,7 +95,10 @@ impl Decimal {
 
     /// An exact integer.
     pub const fn from_int(n: i64) -> Self {
-        Self { mantissa: n as i128, scale: 0 }
+        Self {
+            mantissa: n as i128,
+            scale: 0,
+        }
     }
 
     /// Strips trailing zeros so equal values compare equal.
@@ -125,7 +131,10 @@ impl Decimal {
             return self;
         }
         let Some(div) = pow10(self.scale - scale) else {
-            return Self { mantissa: 0, scale: 0 };
+            return Self {
+                mantissa: 0,
+                scale: 0,
+            };
         };
         let q = self.mantissa / div;
         let r = self.mantissa % div;
@@ -201,7 +210,9 @@ mod tests {
     fn refuses_commas_and_garbage() {
         assert_eq!(Decimal::parse("1,234.5"), Err(DecimalError::Comma));
         assert_eq!(Decimal::parse("12,5"), Err(DecimalError::Comma));
-        for bad in ["", ".", "1.2.3", "abc", "1e", "--1", "1 2", "0x10", "NaN", "inf"] {
+        for bad in [
+            "", ".", "1.2.3", "abc", "1e", "--1", "1 2", "0x10", "NaN", "inf",
+        ] {
             assert_eq!(Decimal::parse(bad), Err(DecimalError::Malformed), "{bad:?}");
         }
         assert_eq!(Decimal::parse("1e400"), Err(DecimalError::TooLong));

@@ -73,8 +73,15 @@ mod tests {
     #[test]
     fn refuses_out_of_range() {
         for bad in ["0", "0%", "-0.1", "1.0001", "100.01%"] {
-            assert_eq!(Fraction::parse(bad), Err(FractionError::OutOfRange), "{bad}");
+            assert_eq!(
+                Fraction::parse(bad),
+                Err(FractionError::OutOfRange),
+                "{bad}"
+            );
         }
-        assert!(matches!(Fraction::parse("0,98"), Err(FractionError::Number(_))));
+        assert!(matches!(
+            Fraction::parse("0,98"),
+            Err(FractionError::Number(_))
+        ));
     }
 }

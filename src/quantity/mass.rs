@@ -201,7 +201,8 @@ impl MassReading {
             return Err(MassError::NoUnit);
         }
         let number = Decimal::parse(number).map_err(MassError::Number)?;
-        let unit = MassUnit::from_symbol(unit).ok_or_else(|| MassError::UnknownUnit(unit.into()))?;
+        let unit =
+            MassUnit::from_symbol(unit).ok_or_else(|| MassError::UnknownUnit(unit.into()))?;
         if !number.is_positive() {
             return Err(MassError::NotPositive);
         }
@@ -244,8 +245,14 @@ pub fn split_number_unit(text: &str) -> (&str, &str) {
         let c = b[i];
         let exp = (c == b'e' || c == b'E')
             && i > 0
-            && b.get(i + 1).is_some_and(|n| n.is_ascii_digit() || *n == b'-' || *n == b'+');
-        if c.is_ascii_digit() || c == b'.' || c == b',' || exp || ((c == b'-' || c == b'+') && (i == 0 || b[i - 1] == b'e' || b[i - 1] == b'E')) {
+            && b.get(i + 1)
+                .is_some_and(|n| n.is_ascii_digit() || *n == b'-' || *n == b'+');
+        if c.is_ascii_digit()
+            || c == b'.'
+            || c == b','
+            || exp
+            || ((c == b'-' || c == b'+') && (i == 0 || b[i - 1] == b'e' || b[i - 1] == b'E'))
+        {
             i += 1;
         } else {
             break;
@@ -284,11 +291,20 @@ mod tests {
     #[test]
     fn refusals() {
         assert_eq!(MassReading::parse("12"), Err(MassError::NoUnit));
-        assert_eq!(MassReading::parse("12 stone"), Err(MassError::UnknownUnit("stone".into())));
+        assert_eq!(
+            MassReading::parse("12 stone"),
+            Err(MassError::UnknownUnit("stone".into()))
+        );
         assert_eq!(MassReading::parse("0 t"), Err(MassError::NotPositive));
         assert_eq!(MassReading::parse("-3 t"), Err(MassError::NotPositive));
-        assert!(matches!(MassReading::parse("1,000 t"), Err(MassError::Number(_))));
-        assert_eq!(MassReading::parse("1e30 Mt").unwrap().to_mass(), Err(MassError::TooLarge));
+        assert!(matches!(
+            MassReading::parse("1,000 t"),
+            Err(MassError::Number(_))
+        ));
+        assert_eq!(
+            MassReading::parse("1e30 Mt").unwrap().to_mass(),
+            Err(MassError::TooLarge)
+        );
     }
 
     #[test]

@@ -3,5 +3,5 @@
 pub mod render;
 pub mod table;
 
-pub use render::{render, Format, CAUTIONS};
-pub use table::{columns, Cell, Column, Report, Table};
+pub use render::{CAUTIONS, Format, render};
+pub use table::{Cell, Column, Report, Table, columns};

@@ -1,7 +1,7 @@
 //! Rendering reports: comfy-table tables for people, JSON and CSV for programs.
 
 use super::table::{Cell, Report, Table};
-use comfy_table::{presets, CellAlignment, ContentArrangement};
+use comfy_table::{CellAlignment, ContentArrangement, presets};
 use serde_json::{Map, Value};
 
 /// Ends every human report that states figures (DESIGN.md).
@@ -50,7 +50,11 @@ pub fn tonnes_text(m: crate::quantity::Mass) -> String {
     let kg = (m.grams() as f64 / 1000.0).round_ties_even() as i64;
     let sign = if kg < 0 { "-" } else { "" };
     let a = kg.unsigned_abs();
-    format!("{sign}{}.{:03}", thousands(&(a / 1000).to_string()), a % 1000)
+    format!(
+        "{sign}{}.{:03}",
+        thousands(&(a / 1000).to_string()),
+        a % 1000
+    )
 }
 
 fn human_cell(c: &Cell) -> String {
@@ -66,12 +70,17 @@ fn human_cell(c: &Cell) -> String {
 }
 
 fn pairs_text(p: &[(String, String)]) -> String {
-    p.iter().map(|(n, v)| format!("{n}={v}")).collect::<Vec<_>>().join("; ")
+    p.iter()
+        .map(|(n, v)| format!("{n}={v}"))
+        .collect::<Vec<_>>()
+        .join("; ")
 }
 
 fn human_table(t: &Table) -> String {
     let mut ct = comfy_table::Table::new();
-    let shown: Vec<usize> = (0..t.columns.len()).filter(|&i| t.columns[i].people).collect();
+    let shown: Vec<usize> = (0..t.columns.len())
+        .filter(|&i| t.columns[i].people)
+        .collect();
     ct.load_style(presets::UTF8_FULL_CONDENSED)
         .set_content_arrangement(ContentArrangement::Disabled)
         .set_header(shown.iter().map(|&i| t.columns[i].label));
@@ -80,10 +89,8 @@ fn human_table(t: &Table) -> String {
         .map(|&i| t.rows.iter().any(|r| r[i].is_numeric()))
         .collect();
     for (i, n) in numeric.iter().enumerate() {
-        if *n {
-            if let Some(col) = ct.column_mut(i) {
-                col.set_cell_alignment(CellAlignment::Right);
-            }
+        if *n && let Some(col) = ct.column_mut(i) {
+            col.set_cell_alignment(CellAlignment::Right);
         }
     }
     for row in &t.rows {
@@ -141,9 +148,16 @@ fn json_rows(t: &Table) -> Value {
 fn json(r: &Report) -> String {
     let v = match r.tables.as_slice() {
         [one] => json_rows(one),
-        many => Value::Object(many.iter().map(|t| (t.id.to_string(), json_rows(t))).collect()),
+        many => Value::Object(
+            many.iter()
+                .map(|t| (t.id.to_string(), json_rows(t)))
+                .collect(),
+        ),
     };
-    format!("{}\n", serde_json::to_string_pretty(&v).expect("values serialize"))
+    format!(
+        "{}\n",
+        serde_json::to_string_pretty(&v).expect("values serialize")
+    )
 }
 
 fn csv_field(s: &str) -> String {
@@ -172,7 +186,12 @@ fn csv_cell(c: &Cell) -> String {
 /// One table: header and rows; several: each preceded by a `# id` line, a blank line between.
 fn csv(r: &Report) -> String {
     let one = |t: &Table| {
-        let mut out = t.columns.iter().map(|c| c.key).collect::<Vec<_>>().join(",");
+        let mut out = t
+            .columns
+            .iter()
+            .map(|c| c.key)
+            .collect::<Vec<_>>()
+            .join(",");
         out.push('\n');
         for row in &t.rows {
             out.push_str(&row.iter().map(csv_cell).collect::<Vec<_>>().join(","));
@@ -182,7 +201,11 @@ fn csv(r: &Report) -> String {
     };
     match r.tables.as_slice() {
         [t] => one(t),
-        many => many.iter().map(|t| format!("# {}\n{}", t.id, one(t))).collect::<Vec<_>>().join("\n"),
+        many => many
+            .iter()
+            .map(|t| format!("# {}\n{}", t.id, one(t)))
+            .collect::<Vec<_>>()
+            .join("\n"),
     }
 }
 
@@ -196,7 +219,10 @@ mod tests {
         assert_eq!(thousands("1234567"), "1,234,567");
         assert_eq!(thousands("-123"), "-123");
         assert_eq!(thousands("-1234"), "-1,234");
-        assert_eq!(tonnes_text(Mass::from_grams(1_234_567_891_500)), "1,234,567.892");
+        assert_eq!(
+            tonnes_text(Mass::from_grams(1_234_567_891_500)),
+            "1,234,567.892"
+        );
         assert_eq!(tonnes_text(Mass::from_grams(-1_500)), "-0.002");
         assert_eq!(grouped(12345.678, 1), "12,345.7");
         assert_eq!(csv_field("a,\"b\""), "\"a,\"\"b\"\"\"");

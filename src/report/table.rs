@@ -29,7 +29,10 @@ impl Cell {
 
     /// Numbers are right-aligned for people.
     pub fn is_numeric(&self) -> bool {
-        matches!(self, Cell::Int(_) | Cell::Tonnes(_) | Cell::Percent(_) | Cell::Number(..))
+        matches!(
+            self,
+            Cell::Int(_) | Cell::Tonnes(_) | Cell::Percent(_) | Cell::Number(..)
+        )
     }
 }
 
@@ -46,7 +49,11 @@ pub struct Column {
 pub fn columns(pairs: &[(&'static str, &'static str)]) -> Vec<Column> {
     pairs
         .iter()
-        .map(|&(label, key)| Column { label, key, people: !label.is_empty() })
+        .map(|&(label, key)| Column {
+            label,
+            key,
+            people: !label.is_empty(),
+        })
         .collect()
 }
 
@@ -63,11 +70,22 @@ pub struct Table {
 
 impl Table {
     pub fn new(id: &'static str, title: impl Into<String>, columns: Vec<Column>) -> Table {
-        Table { id, title: title.into(), columns, rows: Vec::new(), notes: Vec::new() }
+        Table {
+            id,
+            title: title.into(),
+            columns,
+            rows: Vec::new(),
+            notes: Vec::new(),
+        }
     }
 
     pub fn push(&mut self, row: Vec<Cell>) {
-        debug_assert_eq!(row.len(), self.columns.len(), "row width for table {}", self.id);
+        debug_assert_eq!(
+            row.len(),
+            self.columns.len(),
+            "row width for table {}",
+            self.id
+        );
         self.rows.push(row);
     }
 

@@ -6,7 +6,7 @@ use diesel::connection::SimpleConnection;
 use diesel::prelude::*;
 use diesel::sql_types::{Integer, Text};
 use diesel::sqlite::SqliteConnection;
-use diesel_migrations::{embed_migrations, EmbeddedMigrations, MigrationHarness};
+use diesel_migrations::{EmbeddedMigrations, MigrationHarness, embed_migrations};
 use std::path::Path;
 
 const MIGRATIONS: EmbeddedMigrations = embed_migrations!("migrations/sqlite");
@@ -37,10 +37,13 @@ fn store_error(path: &Path, e: impl std::fmt::Display) -> Error {
 }
 
 fn connect(path: &Path) -> Result<SqliteConnection> {
-    let url = path.to_str().ok_or_else(|| Error::field("--db", &path.display().to_string(), "is not valid UTF-8"))?;
+    let url = path
+        .to_str()
+        .ok_or_else(|| Error::field("--db", &path.display().to_string(), "is not valid UTF-8"))?;
     let mut conn = SqliteConnection::establish(url).map_err(|e| store_error(path, e))?;
     // Wait for another writer rather than failing at once; set first, before anything reads.
-    conn.batch_execute("PRAGMA busy_timeout = 5000;").map_err(|e| store_error(path, e))?;
+    conn.batch_execute("PRAGMA busy_timeout = 5000;")
+        .map_err(|e| store_error(path, e))?;
     Ok(conn)
 }
 
@@ -53,8 +56,10 @@ fn application_id(path: &Path, conn: &mut SqliteConnection) -> Result<i32> {
 }
 
 fn configure(path: &Path, conn: &mut SqliteConnection) -> Result<()> {
-    conn.batch_execute("PRAGMA journal_mode = WAL; PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON;")
-        .map_err(|e| store_error(path, e))?;
+    conn.batch_execute(
+        "PRAGMA journal_mode = WAL; PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON;",
+    )
+    .map_err(|e| store_error(path, e))?;
     conn.run_pending_migrations(MIGRATIONS)
         .map_err(|e| store_error(path, format!("could not apply migrations: {e}")))?;
     Ok(())

@@ -36,13 +36,22 @@ impl Store {
     /// Creates a ledger at `path` (or opens it, if it already is one). Returns whether it was new.
     pub fn init(path: &Path) -> Result<(Store, bool)> {
         let (conn, created) = connection::create(path)?;
-        Ok((Store { conn, path: path.to_path_buf() }, created))
+        Ok((
+            Store {
+                conn,
+                path: path.to_path_buf(),
+            },
+            created,
+        ))
     }
 
     /// Opens an existing ledger; any other file is refused.
     pub fn open(path: &Path) -> Result<Store> {
         let conn = connection::open(path)?;
-        Ok(Store { conn, path: path.to_path_buf() })
+        Ok(Store {
+            conn,
+            path: path.to_path_buf(),
+        })
     }
 
     pub fn path(&self) -> &Path {
@@ -77,7 +86,9 @@ impl Tx<'_> {
             .order(projects::code)
             .select(ProjectRow::as_select())
             .load(self.conn)?;
-        rows.iter().map(|r| r.to_project().map_err(inconsistent)).collect()
+        rows.iter()
+            .map(|r| r.to_project().map_err(inconsistent))
+            .collect()
     }
 
     pub fn project(&mut self, code: &str) -> Result<Option<Project>> {
@@ -86,7 +97,8 @@ impl Tx<'_> {
             .select(ProjectRow::as_select())
             .first(self.conn)
             .optional()?;
-        row.map(|r| r.to_project().map_err(inconsistent)).transpose()
+        row.map(|r| r.to_project().map_err(inconsistent))
+            .transpose()
     }
 
     pub fn add_project(&mut self, p: &Project) -> Result<()> {
@@ -102,7 +114,9 @@ impl Tx<'_> {
             .order(sites::code)
             .select(SiteRow::as_select())
             .load(self.conn)?;
-        rows.iter().map(|r| r.to_site().map_err(inconsistent)).collect()
+        rows.iter()
+            .map(|r| r.to_site().map_err(inconsistent))
+            .collect()
     }
 
     pub fn site(&mut self, project: &str, code: &str) -> Result<Option<Site>> {
@@ -130,8 +144,9 @@ impl Tx<'_> {
             .load(self.conn)?;
         rows.iter()
             .map(|r| {
-                r.to_sealed()
-                    .map_err(|what| inconsistent(format!("project {project} seq {}: {what}", r.seq)))
+                r.to_sealed().map_err(|what| {
+                    inconsistent(format!("project {project} seq {}: {what}", r.seq))
+                })
             })
             .collect()
     }
@@ -158,7 +173,9 @@ impl Tx<'_> {
             None => Ok((0, Hash::GENESIS)),
             Some((seq, chain)) => {
                 let head = Hash::from_hex(&chain).ok_or_else(|| {
-                    inconsistent(format!("project {project} seq {seq}: chain_hash is not a SHA-256 hex digest"))
+                    inconsistent(format!(
+                        "project {project} seq {seq}: chain_hash is not a SHA-256 hex digest"
+                    ))
                 })?;
                 Ok((seq as u64 + 1, head))
             }
@@ -169,7 +186,9 @@ impl Tx<'_> {
     pub fn append(&mut self, sealed: &[SealedEntry]) -> Result<()> {
         let rows: Vec<EntryRow> = sealed.iter().map(EntryRow::from_sealed).collect();
         for chunk in rows.chunks(1000) {
-            diesel::insert_into(entries::table).values(chunk).execute(self.conn)?;
+            diesel::insert_into(entries::table)
+                .values(chunk)
+                .execute(self.conn)?;
         }
         Ok(())
     }

@@ -5,7 +5,10 @@ use super::schema::{entries, projects, sites};
 use crate::ledger::canonical::{encode_project, encode_site};
 use crate::ledger::hash::leaf_hash;
 use crate::ledger::period::parse_date;
-use crate::ledger::{Entry, EntryKind, Evidence, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site, SiteKind};
+use crate::ledger::{
+    Entry, EntryKind, Evidence, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site,
+    SiteKind,
+};
 use crate::quantity::Mass;
 use chrono::{DateTime, NaiveDateTime, Utc};
 use diesel::prelude::*;
@@ -93,7 +96,10 @@ impl ProjectRow {
             registered_at: utc(self.created_at),
         };
         if leaf_hash(&encode_project(&p)).to_hex() != self.row_hash {
-            return Err(format!("project {} registration differs from its row hash", self.code));
+            return Err(format!(
+                "project {} registration differs from its row hash",
+                self.code
+            ));
         }
         Ok(p)
     }
@@ -114,11 +120,15 @@ impl SiteRow {
         let s = Site {
             project: self.project.clone(),
             code: self.code.clone(),
-            kind: SiteKind::from_name(&self.kind).ok_or_else(|| format!("unknown site kind {:?}", self.kind))?,
+            kind: SiteKind::from_name(&self.kind)
+                .ok_or_else(|| format!("unknown site kind {:?}", self.kind))?,
             registered_at: utc(self.created_at),
         };
         if leaf_hash(&encode_site(&s)).to_hex() != self.row_hash {
-            return Err(format!("site {} of project {} differs from its row hash", self.code, self.project));
+            return Err(format!(
+                "site {} of project {} differs from its row hash",
+                self.code, self.project
+            ));
         }
         Ok(s)
     }
@@ -156,21 +166,27 @@ impl EntryRow {
         let from = date("period_from", &self.period_from)?;
         let to = date("period_to", &self.period_to)?;
         let evidence = match (&self.evidence_name, &self.evidence_sha256) {
-            (Some(n), Some(h)) => Some(Evidence { file_name: n.clone(), sha256: hash("evidence_sha256", h)? }),
+            (Some(n), Some(h)) => Some(Evidence {
+                file_name: n.clone(),
+                sha256: hash("evidence_sha256", h)?,
+            }),
             (None, None) => None,
             _ => return Err("evidence name and hash must be present together".into()),
         };
         let entry = Entry {
             project: self.project.clone(),
             seq: u64::try_from(self.seq).map_err(|_| format!("seq {} is negative", self.seq))?,
-            kind: EntryKind::from_name(&self.kind).ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
+            kind: EntryKind::from_name(&self.kind)
+                .ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
             site: self.site.clone(),
             period: Period { from, to },
             reading: Reading(
-                serde_json::from_str(&self.reading).map_err(|e| format!("reading is not readable: {e}"))?,
+                serde_json::from_str(&self.reading)
+                    .map_err(|e| format!("reading is not readable: {e}"))?,
             ),
             mass: Mass::from_grams(self.grams),
-            sign: Sign::from_name(&self.sign).ok_or_else(|| format!("unknown sign {:?}", self.sign))?,
+            sign: Sign::from_name(&self.sign)
+                .ok_or_else(|| format!("unknown sign {:?}", self.sign))?,
             recorded_at: utc(self.recorded_at),
             key: self.idem_key.clone(),
             meter: self.meter.clone(),
