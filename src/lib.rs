@@ -4,7 +4,9 @@
 //! that speaks SQL, `report` the only one that formats for people, `cli` wires them.
 
 pub mod accounting;
+pub mod chem;
 pub mod cli;
+pub mod eos;
 pub mod error;
 pub mod ledger;
 pub mod quantity;

@@ -1,8 +1,11 @@
 //! The command line: parse with clap, call the core and the store, hand a report back.
 //! The clock is read once per command, by the caller, and passed in.
 
+mod convert;
 mod demo;
+mod density;
 mod inputs;
+mod potential;
 mod record;
 mod reports;
 mod setup;
@@ -57,6 +60,12 @@ pub enum Command {
     Balance(reports::BalanceArgs),
     /// Recompute every hash and check the ledger's structure
     Verify(verify::VerifyArgs),
+    /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
+    Convert(convert::ConvertArgs),
+    /// CO2 density, phase and compressibility factor by the Span–Wagner equation of state
+    Density(density::DensityArgs),
+    /// CO2 uptake potential of a rock (oxide composition) or a mineral (formula)
+    Potential(potential::PotentialArgs),
     /// Build a fresh ledger from the sample projects and print its tables
     Demo,
 }
@@ -110,6 +119,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Entries(a) => reports::entries(&ctx, a),
         Command::Balance(a) => reports::balance(&ctx, a),
         Command::Verify(a) => verify::verify(&ctx, a),
+        Command::Convert(a) => convert::convert(a),
+        Command::Density(a) => density::density(a),
+        Command::Potential(a) => potential::potential(a),
         Command::Demo => demo::demo(db.as_deref(), now),
     }
 }

@@ -1,8 +1,10 @@
 //! Quantities as the ledger keeps them: exact decimals, grams of CO2, fractions.
 
+pub mod conditions;
 pub mod decimal;
 pub mod fraction;
 pub mod mass;
+pub mod volume;
 
 pub use decimal::Decimal;
 pub use fraction::Fraction;

@@ -39,6 +39,11 @@ fn thousands(int: &str) -> String {
 /// A number with fixed decimals and thousands separators.
 pub fn grouped(x: f64, decimals: usize) -> String {
     let s = format!("{x:.decimals$}");
+    // A value that rounds to zero is shown as zero, never "-0.000".
+    let s = match s.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_string(),
+        _ => s,
+    };
     match s.split_once('.') {
         Some((i, f)) => format!("{}.{f}", thousands(i)),
         None => thousands(&s),
