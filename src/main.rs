@@ -28,6 +28,9 @@ fn main() -> ExitCode {
     };
     match run(cli, now) {
         Ok(report) => {
+            for w in &report.warnings {
+                eprintln!("sinkbook: warning: {w}");
+            }
             print!("{}", render(&report, format));
             ExitCode::SUCCESS
         }

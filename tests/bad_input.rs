@@ -82,7 +82,7 @@ fn quantities() {
         &inject(&["--mass", "10 t", "--co2-fraction", "abc"]),
         r#"--co2-fraction "abc": not a decimal number"#,
     );
-    refused(&l, &inject(&[]), "--mass is required");
+    refused(&l, &inject(&[]), "a quantity is needed: --mass");
 }
 
 #[test]

@@ -1,51 +1,245 @@
-//! The storage balance by reporting period: what went in, what is counted as stored, and how
-//! much of the permit that uses.
+//! The mass balance of geological storage by reporting period: 40 CFR Part 98 Subpart RR
+//! (§98.443, RR-1 to RR-12) or ISO 27916 for CO2-EOR, every term its own figure.
 
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
 use std::collections::BTreeMap;
 
+/// Which published balance a table follows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum BalanceMethod {
+    /// 40 CFR 98.443: sequestered = injected − produced − surface leakage − leaks and vents.
+    Rr,
+    /// ISO 27916: stored = input − operational losses − losses from the EOR complex.
+    Iso27916,
+}
+
+/// The terms of one period, each in whole grams.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct Terms {
+    pub receipts: Mass,
+    pub redeliveries: Mass,
+    pub injected: Mass,
+    /// CO2 metered at the separators.
+    pub separated: Mass,
+    /// CO2 entrained in produced fluids: X × separated, per production entry.
+    pub entrained: Mass,
+    pub surface_leakage: Mass,
+    pub leaks_injection_side: Mass,
+    pub leaks_production_side: Mass,
+    pub emissions: Mass,
+}
+
+impl Terms {
+    /// RR-1/RR-4: CO2 received, net of what was redelivered.
+    pub fn received(&self) -> Mass {
+        self.receipts - self.redeliveries
+    }
+
+    /// RR-9 form: CO2P = (1 + X)·ΣCO2w — separated plus entrained.
+    pub fn produced(&self) -> Mass {
+        self.separated + self.entrained
+    }
+
+    /// RR-11 when anything was produced, else RR-12. Returns the equation used.
+    pub fn sequestered_rr(&self) -> (Mass, &'static str) {
+        if self.produced() == Mass::ZERO && self.leaks_production_side == Mass::ZERO {
+            (
+                self.injected - self.surface_leakage - self.leaks_injection_side,
+                "RR-12",
+            )
+        } else {
+            (
+                self.injected
+                    - self.produced()
+                    - self.surface_leakage
+                    - self.leaks_injection_side
+                    - self.leaks_production_side,
+                "RR-11",
+            )
+        }
+    }
+
+    /// ISO 27916: operational losses are the leaks and vents on both sides.
+    pub fn operational_losses(&self) -> Mass {
+        self.leaks_injection_side + self.leaks_production_side
+    }
+
+    /// ISO 27916: losses from the EOR complex — surface leakage and CO2 leaving with produced
+    /// fluids. CO2 separated and re-injected is recycled inside the complex and never counted.
+    pub fn complex_losses(&self) -> Mass {
+        self.surface_leakage + self.entrained
+    }
+
+    pub fn stored_iso(&self) -> Mass {
+        self.received() - self.operational_losses() - self.complex_losses()
+    }
+
+    pub fn stored(&self, method: BalanceMethod) -> (Mass, &'static str) {
+        match method {
+            BalanceMethod::Rr => self.sequestered_rr(),
+            BalanceMethod::Iso27916 => (self.stored_iso(), "ISO 27916"),
+        }
+    }
+
+    fn add(&mut self, kind: EntryKind, side_production: bool, g: Mass) {
+        let slot = match kind {
+            EntryKind::Receipt => &mut self.receipts,
+            EntryKind::Redelivery => &mut self.redeliveries,
+            EntryKind::Injection => &mut self.injected,
+            EntryKind::Production => &mut self.separated,
+            EntryKind::Leakage => &mut self.surface_leakage,
+            EntryKind::EquipmentLeak if side_production => &mut self.leaks_production_side,
+            EntryKind::EquipmentLeak => &mut self.leaks_injection_side,
+            EntryKind::Emission => &mut self.emissions,
+            EntryKind::Survey => return,
+        };
+        *slot += g;
+    }
+}
+
 /// One reporting period's line.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BalanceLine {
     pub bucket: Bucket,
-    pub injected: Mass,
+    pub terms: Terms,
     pub stored: Mass,
+    pub equation: &'static str,
     pub cumulative_injected: Mass,
     pub cumulative_stored: Mass,
     /// Cumulative stored as a share of permitted capacity, in %.
     pub permit_used_pct: Option<f64>,
+    pub headroom: Option<Mass>,
+}
+
+/// The entrained fraction X a production entry was recorded with (0 when none).
+pub fn entrained_fraction(e: &Entry) -> f64 {
+    e.reading
+        .get("entrained_fraction")
+        .and_then(|x| x.parse().ok())
+        .unwrap_or(0.0)
 }
 
 /// Balances the effective entries of a project by period. Entries spanning periods are split by
-/// days (exactly, in whole grams). Stored equals injected until losses are recorded.
+/// days, exactly in whole grams; cumulative figures run from the first reporting period.
 pub fn balance<'a>(
     project: &Project,
     entries: impl Iterator<Item = &'a Entry>,
     grouping: Grouping,
+    method: BalanceMethod,
 ) -> Vec<BalanceLine> {
-    let mut by: BTreeMap<Bucket, Mass> = BTreeMap::new();
-    for e in entries.filter(|e| e.kind == EntryKind::Injection) {
-        for (b, g) in apportion(e.signed_mass().grams(), e.period, grouping) {
-            *by.entry(b).or_default() += Mass::from_grams(g);
+    let mut by: BTreeMap<Bucket, Terms> = BTreeMap::new();
+    for e in entries {
+        let production_side = e.reading.get("side") == Some("production");
+        for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
+            by.entry(b)
+                .or_default()
+                .add(e.kind, production_side, Mass::from_grams(g));
+        }
+        if e.kind == EntryKind::Production {
+            let entrained = e.mass.scale(entrained_fraction(e));
+            for (b, g) in apportion(entrained.grams(), e.period, grouping) {
+                by.entry(b).or_default().entrained += Mass::from_grams(g);
+            }
         }
     }
-    let mut cum = Mass::ZERO;
+    let mut cum_injected = Mass::ZERO;
+    let mut cum_stored = Mass::ZERO;
     by.into_iter()
-        .map(|(bucket, injected)| {
-            cum += injected;
+        .map(|(bucket, terms)| {
+            let (stored, equation) = terms.stored(method);
+            cum_injected += terms.injected;
+            cum_stored += stored;
+            let capacity = project.permit_capacity.filter(|c| c.is_positive());
             BalanceLine {
                 bucket,
-                injected,
-                stored: injected,
-                cumulative_injected: cum,
-                cumulative_stored: cum,
-                permit_used_pct: project
-                    .permit_capacity
-                    .filter(|c| c.is_positive())
-                    .map(|c| 100.0 * cum.grams() as f64 / c.grams() as f64),
+                terms,
+                stored,
+                equation,
+                cumulative_injected: cum_injected,
+                cumulative_stored: cum_stored,
+                permit_used_pct: capacity
+                    .map(|c| 100.0 * cum_stored.grams() as f64 / c.grams() as f64),
+                headroom: capacity.map(|c| c - cum_stored),
             }
         })
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn t(tonnes: i64) -> Mass {
+        Mass::from_grams(tonnes * 1_000_000)
+    }
+
+    #[test]
+    fn rr_11_with_production() {
+        // RR-11 (computed, REFERENCES.md): injected 1 000 000, produced 408 000, surface leakage 150,
+        // injection-side leaks/vents 50, production-side 80 → 591 720 t sequestered.
+        let terms = Terms {
+            injected: t(1_000_000),
+            separated: t(408_000),
+            surface_leakage: t(150),
+            leaks_injection_side: t(50),
+            leaks_production_side: t(80),
+            ..Terms::default()
+        };
+        assert_eq!(terms.sequestered_rr(), (t(591_720), "RR-11"));
+    }
+
+    #[test]
+    fn rr_12_without_production() {
+        // RR-12 (computed, REFERENCES.md): injected 1 000 000, leakage 0, injection-side leaks 120 → 999 880 t.
+        let terms = Terms {
+            injected: t(1_000_000),
+            leaks_injection_side: t(120),
+            ..Terms::default()
+        };
+        assert_eq!(terms.sequestered_rr(), (t(999_880), "RR-12"));
+    }
+
+    #[test]
+    fn rr_1_received_over_four_quarters() {
+        // RR-4/RR-1 (computed, REFERENCES.md): Q = 250 000, 260 000, 255 000, 245 000 t; S = 0, 5 000,
+        // 0, 0 t; CO2 fraction 0.98, 0.98, 0.97, 0.99 → 984 800 t received.
+        let quarters = [
+            (250_000, 0, 98),
+            (260_000, 5_000, 98),
+            (255_000, 0, 97),
+            (245_000, 0, 99),
+        ];
+        let total: Mass = quarters
+            .iter()
+            .map(|&(q, s, c)| {
+                let terms = Terms {
+                    receipts: t(q * c / 100),
+                    redeliveries: t(s * c / 100),
+                    ..Terms::default()
+                };
+                terms.received()
+            })
+            .sum();
+        assert_eq!(total, t(984_800));
+    }
+
+    #[test]
+    fn iso_27916_counts_recycled_co2_once() {
+        // 1 000 t bought in, 300 t separated and re-injected (recycled): injection meters read 1 300 t.
+        // 2 % of the separated CO2 stays in the sold oil (X = 0.02), 1 t vented, 0.5 t leaked.
+        let terms = Terms {
+            receipts: t(1_000),
+            injected: t(1_300),
+            separated: t(300),
+            entrained: t(6),
+            leaks_production_side: t(1),
+            surface_leakage: Mass::from_grams(500_000),
+            ..Terms::default()
+        };
+        assert_eq!(terms.stored_iso(), Mass::from_grams(992_500_000));
+        // RR counts the same CO2: injected 1 300 − produced 306 − 1 − 0.5 = 992.5 t.
+        assert_eq!(terms.sequestered_rr().0, terms.stored_iso());
+    }
 }

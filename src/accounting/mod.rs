@@ -1,3 +1,5 @@
 //! Accounting methods over ledger entries. Pure: values in, values out.
 
 pub mod balance;
+pub mod leakage;
+pub mod metering;

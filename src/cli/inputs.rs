@@ -2,17 +2,13 @@
 
 use crate::error::{Error, Result};
 use crate::ledger::period::parse_date;
-use crate::quantity::{Fraction, Mass, MassReading};
+use crate::quantity::{Mass, MassReading};
 use chrono::NaiveDate;
 
 pub fn mass(field: &str, text: &str) -> Result<(MassReading, Mass)> {
     let r = MassReading::parse(text).map_err(|e| Error::field(field, text, e))?;
     let m = r.to_mass().map_err(|e| Error::field(field, text, e))?;
     Ok((r, m))
-}
-
-pub fn fraction(field: &str, text: &str) -> Result<Fraction> {
-    Fraction::parse(text).map_err(|e| Error::field(field, text, e))
 }
 
 pub fn date(field: &str, text: &str) -> Result<NaiveDate> {

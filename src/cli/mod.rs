@@ -15,7 +15,7 @@ use crate::error::Result;
 use crate::report::{Format, Report};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
-use clap::{Args, Parser, Subcommand};
+use clap::{Parser, Subcommand};
 use std::path::{Path, PathBuf};
 
 /// The ledger used when neither --db nor SINKBOOK_DB names one.
@@ -68,27 +68,6 @@ pub enum Command {
     Potential(potential::PotentialArgs),
     /// Build a fresh ledger from the sample projects and print its tables
     Demo,
-}
-
-/// Quantity options shared by `record` and `correct`.
-#[derive(Debug, Clone, Args, Default)]
-pub struct QuantityArgs {
-    /// Mass as metered, with its unit (units: g, kg, t, kt, Mt, lb, short_ton, long_ton)
-    #[arg(
-        long,
-        value_name = "MASS",
-        help_heading = "Quantity",
-        allow_hyphen_values = true
-    )]
-    pub mass: Option<String>,
-    /// CO2 fraction by mass, in (0, 1] or as a percentage (`98.5%`) [default: 1]
-    #[arg(
-        long,
-        value_name = "F",
-        help_heading = "Quantity",
-        allow_hyphen_values = true
-    )]
-    pub co2_fraction: Option<String>,
 }
 
 /// Everything a command needs besides its arguments.

@@ -1,22 +1,112 @@
 //! `record` and `correct`: readings become entries, sealed onto the project's chain.
 
 use super::setup::known_project;
-use super::{Context, QuantityArgs, inputs};
+use super::{Context, inputs};
+use crate::accounting::balance::{BalanceMethod, balance};
+use crate::accounting::leakage;
+use crate::accounting::metering::{Basis, MeterInput, measure};
 use crate::error::{Error, Result};
-use crate::ledger::append::{Appended, append, content_key};
-use crate::ledger::correction;
-use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
-use crate::quantity::{Fraction, Mass};
+use crate::ledger::append::{AppendError, Appended, append, content_key};
+use crate::ledger::correction::{self, effective};
+use crate::ledger::period::Grouping;
+use crate::ledger::{Entry, EntryKind, Period, Project, Reading, SealedEntry};
+use crate::quantity::Mass;
+use crate::quantity::volume::DensityMethod;
+use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
-use clap::{Args, Subcommand};
+use crate::store::Tx;
+use chrono::{Datelike, NaiveDate};
+use clap::{Args, Subcommand, ValueEnum};
+
+/// Quantity options shared by `record` and `correct`.
+#[derive(Debug, Clone, Args, Default)]
+pub struct QuantityArgs {
+    /// Mass as metered by a mass meter, with its unit (g, kg, t, kt, Mt, lb, short_ton, long_ton)
+    #[arg(
+        long,
+        value_name = "MASS",
+        help_heading = "Quantity",
+        allow_hyphen_values = true
+    )]
+    pub mass: Option<String>,
+    /// Standard volume from a volumetric meter, with reference conditions
+    /// (scf, Mscf, MMscf at 60 °F and 14.696 psia; Sm3; Nm3; or e.g. "1200 m3@15C,101.325kPa")
+    #[arg(
+        long,
+        value_name = "VOLUME",
+        help_heading = "Quantity",
+        allow_hyphen_values = true
+    )]
+    pub volume: Option<String>,
+    /// CO2 fraction, in (0, 1] or as a percentage (`98.5%`) [default: 1]
+    #[arg(
+        long,
+        value_name = "F",
+        help_heading = "Quantity",
+        allow_hyphen_values = true
+    )]
+    pub co2_fraction: Option<String>,
+    /// Basis of the CO2 fraction [default: mass for --mass, mol (volume) for --volume]
+    #[arg(long, value_enum, help_heading = "Quantity")]
+    pub co2_basis: Option<Basis>,
+    /// How a volume becomes a mass [default: eos]
+    #[arg(long, value_enum, help_heading = "Quantity")]
+    pub density: Option<DensityArg>,
+    /// Other gases of the stream as mole fractions, to turn a mol-basis fraction into a mass
+    /// fraction with --mass (e.g. N2=0.015,Ar=0.005)
+    #[arg(long, value_name = "GAS=X,…", help_heading = "Quantity")]
+    pub impurities: Option<String>,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum DensityArg {
+    /// Span–Wagner (1996) density at the volume's reference conditions
+    Eos,
+    /// 40 CFR 98.443: D = 0.0018682 t per standard m³ at 60 °F and 1 atm
+    Regulatory,
+}
+
+impl QuantityArgs {
+    fn is_given(&self) -> bool {
+        self.mass.is_some() || self.volume.is_some()
+    }
+
+    fn input(&self) -> MeterInput<'_> {
+        MeterInput {
+            mass: self.mass.as_deref(),
+            volume: self.volume.as_deref(),
+            co2_fraction: self.co2_fraction.as_deref(),
+            co2_basis: self.co2_basis,
+            density: self.density.map(|d| match d {
+                DensityArg::Eos => DensityMethod::Eos,
+                DensityArg::Regulatory => DensityMethod::Regulatory,
+            }),
+            impurities: self.impurities.as_deref(),
+        }
+    }
+}
 
 #[derive(Debug, Subcommand)]
 pub enum RecordCommand {
+    /// CO2 received by custody transfer into the project
+    Receipt(RecordArgs),
+    /// CO2 received but sent on without injection
+    Redelivery(RecordArgs),
     /// CO2 injected at an injection well, from its flow meter
-    Injection(RecordArgs),
+    Injection(InjectionArgs),
+    /// CO2 separated from produced fluids, per separator
+    Production(ProductionArgs),
+    /// Surface leakage through a leakage pathway (a mass, or a rate over the days of the event)
+    Leakage(LeakageArgs),
+    /// An equipment leak or vent between a flow meter and a wellhead
+    EquipmentLeak(EquipmentLeakArgs),
+    /// Emissions of the project's own work (energy, transport), reported beside storage
+    Emission(EmissionArgs),
+    /// A surface or well survey for leaks, with its result
+    Survey(SurveyArgs),
 }
 
-/// Options every record takes.
+/// Options every quantity record takes.
 #[derive(Debug, Args)]
 pub struct RecordArgs {
     pub project: String,
@@ -27,16 +117,104 @@ pub struct RecordArgs {
     pub quantity: QuantityArgs,
     /// First day the reading covers (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
-    pub from: String,
+    pub from: Option<String>,
     /// Last day the reading covers, included
     #[arg(long, value_name = "DATE")]
-    pub to: String,
+    pub to: Option<String>,
     /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
     /// The meter's identifier
     #[arg(long, value_name = "ID")]
     pub meter: Option<String>,
+    #[arg(long, value_name = "TEXT")]
+    pub note: Option<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct InjectionArgs {
+    #[command(flatten)]
+    pub base: RecordArgs,
+    /// Record even though it takes the project past its permit (the reports will flag it)
+    #[arg(long)]
+    pub over_permit: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct ProductionArgs {
+    #[command(flatten)]
+    pub base: RecordArgs,
+    /// Entrained fraction X: CO2 staying in produced fluids per unit separated (CO2P = (1 + X)·ΣCO2w)
+    #[arg(long, value_name = "X", default_value = "0")]
+    pub entrained_fraction: String,
+}
+
+#[derive(Debug, Args)]
+pub struct LeakageArgs {
+    #[command(flatten)]
+    pub base: RecordArgs,
+    /// The leakage pathway (e.g. "TF-I1 annulus", "fault F2")
+    #[arg(long)]
+    pub pathway: String,
+    /// Average leak rate, e.g. "2.5 t/h" or "40 kg/d": emitted = rate × 24 h × days, both dates included
+    #[arg(long, allow_hyphen_values = true)]
+    pub rate: Option<String>,
+    /// Start unknown: backdate to the last survey of the site that found no leak
+    #[arg(long)]
+    pub since_last_survey: bool,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum Side {
+    /// Between the injection flow meter and the injection wellhead
+    Injection,
+    /// Between the production wellhead and the production flow meter
+    Production,
+}
+
+#[derive(Debug, Args)]
+pub struct EquipmentLeakArgs {
+    #[command(flatten)]
+    pub base: RecordArgs,
+    #[arg(long, value_enum)]
+    pub side: Side,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum Category {
+    Energy,
+    Transport,
+    Other,
+}
+
+#[derive(Debug, Args)]
+pub struct EmissionArgs {
+    #[command(flatten)]
+    pub base: RecordArgs,
+    #[arg(long, value_enum, default_value_t = Category::Energy)]
+    pub category: Category,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+pub enum SurveyResult {
+    NoLeak,
+    LeakFound,
+}
+
+#[derive(Debug, Args)]
+pub struct SurveyArgs {
+    pub project: String,
+    #[arg(long)]
+    pub site: String,
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    #[arg(long, value_enum)]
+    pub result: SurveyResult,
+    /// The pathway surveyed, if the survey covered one pathway only
+    #[arg(long)]
+    pub pathway: Option<String>,
+    #[arg(long)]
+    pub key: Option<String>,
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
 }
@@ -64,25 +242,21 @@ pub struct CorrectArgs {
     pub meter: Option<String>,
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
+    /// Record even though the correction takes the project past its permit
+    #[arg(long)]
+    pub over_permit: bool,
 }
 
-/// A mass-meter reading: the mass as metered and its CO2 mass fraction, exactly multiplied.
-fn mass_reading(mass_text: &str, fraction_text: &str) -> Result<(Reading, Mass)> {
-    let (m, _) = inputs::mass("--mass", mass_text)?;
-    let f: Fraction = inputs::fraction("--co2-fraction", fraction_text)?;
-    let grams = m
-        .grams_exact()
-        .ok()
-        .and_then(|g| g.checked_mul(f.value()))
-        .and_then(|g| g.round_half_even())
-        .ok_or_else(|| Error::field("--mass", mass_text, "too large for the ledger"))?;
-    let mut r = Reading::default();
-    r.push("meter_type", "mass");
-    r.push("mass", m.to_string());
-    r.push("co2_fraction", f.to_string());
-    r.push("co2_basis", "mass");
-    Ok((r, Mass::from_grams(grams)))
-}
+/// Reading fields that belong to the kind of entry, not to the meter: a correction of the
+/// quantity keeps them.
+const KIND_FIELDS: &[&str] = &[
+    "entrained_fraction",
+    "side",
+    "pathway",
+    "category",
+    "result",
+    "backdated_to_survey",
+];
 
 fn period(from: &str, to: &str) -> Result<Period> {
     let f = inputs::date("--from", from)?;
@@ -90,42 +264,238 @@ fn period(from: &str, to: &str) -> Result<Period> {
     Period::new(f, t).map_err(|e| Error::field("--to", to, e))
 }
 
+fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str> {
+    v.as_deref()
+        .ok_or_else(|| Error::Refused(format!("{field} is required (ISO 8601 date)")))
+}
+
 fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
     v.as_deref().map_or(Ok(()), |t| inputs::text(field, t))
 }
 
-pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
-    let RecordCommand::Injection(a) = c;
-    let kind = EntryKind::Injection;
-    let mass_text = a.quantity.mass.as_deref().ok_or_else(|| {
-        Error::Refused(
-            "--mass is required: the metered mass with its unit, e.g. --mass \"1250.5 t\"".into(),
-        )
-    })?;
-    let (reading, mass) =
-        mass_reading(mass_text, a.quantity.co2_fraction.as_deref().unwrap_or("1"))?;
-    let period = period(&a.from, &a.to)?;
-    optional_text("--key", &a.key)?;
-    optional_text("--meter", &a.meter)?;
-    optional_text("--note", &a.note)?;
-    let entry = Entry {
-        project: a.project,
+/// An entry before its seq, key and time are set.
+fn draft(
+    kind: EntryKind,
+    b: &RecordArgs,
+    reading: Reading,
+    mass: Mass,
+    period: Period,
+    ctx: &Context,
+) -> Result<Entry> {
+    optional_text("--key", &b.key)?;
+    optional_text("--meter", &b.meter)?;
+    optional_text("--note", &b.note)?;
+    Ok(Entry {
+        project: b.project.clone(),
         seq: 0,
         kind,
-        site: a.site,
+        site: b.site.clone(),
         period,
         reading,
         mass,
         sign: kind.sign(),
         recorded_at: ctx.now,
         key: String::new(),
-        meter: a.meter,
-        note: a.note,
+        meter: b.meter.clone(),
+        note: b.note.clone(),
         corrects: None,
         reason: None,
         evidence: None,
+    })
+}
+
+fn metered(
+    kind: EntryKind,
+    b: &RecordArgs,
+    extra: &[(&str, String)],
+    ctx: &Context,
+) -> Result<Entry> {
+    let m = measure(&b.quantity.input())?;
+    let mut reading = m.reading;
+    for (n, v) in extra {
+        reading.push(n, v.clone());
+    }
+    let p = period(required(&b.from, "--from")?, required(&b.to, "--to")?)?;
+    draft(kind, b, reading, m.mass, p, ctx)
+}
+
+pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
+    let (entry, key, over_permit) = match c {
+        RecordCommand::Receipt(b) => (metered(EntryKind::Receipt, &b, &[], ctx)?, b.key, false),
+        RecordCommand::Redelivery(b) => {
+            (metered(EntryKind::Redelivery, &b, &[], ctx)?, b.key, false)
+        }
+        RecordCommand::Injection(a) => (
+            metered(EntryKind::Injection, &a.base, &[], ctx)?,
+            a.base.key,
+            a.over_permit,
+        ),
+        RecordCommand::Production(a) => {
+            let x = crate::quantity::Decimal::parse(&a.entrained_fraction)
+                .ok()
+                .filter(|x| !x.to_f64().is_sign_negative() && x.to_f64() < 1.0)
+                .ok_or_else(|| {
+                    Error::field(
+                        "--entrained-fraction",
+                        &a.entrained_fraction,
+                        "must be a number in [0, 1)",
+                    )
+                })?;
+            let extra = [("entrained_fraction", x.to_string())];
+            (
+                metered(EntryKind::Production, &a.base, &extra, ctx)?,
+                a.base.key,
+                false,
+            )
+        }
+        RecordCommand::EquipmentLeak(a) => {
+            let side = match a.side {
+                Side::Injection => "injection",
+                Side::Production => "production",
+            };
+            (
+                metered(
+                    EntryKind::EquipmentLeak,
+                    &a.base,
+                    &[("side", side.into())],
+                    ctx,
+                )?,
+                a.base.key,
+                false,
+            )
+        }
+        RecordCommand::Emission(a) => {
+            let cat = format!("{:?}", a.category).to_lowercase();
+            (
+                metered(EntryKind::Emission, &a.base, &[("category", cat)], ctx)?,
+                a.base.key,
+                false,
+            )
+        }
+        RecordCommand::Leakage(a) => return leakage_record(ctx, a),
+        RecordCommand::Survey(a) => {
+            let d = inputs::date("--date", &a.date)?;
+            let mut reading = Reading::default();
+            reading.push(
+                "result",
+                if a.result == SurveyResult::NoLeak {
+                    "no-leak"
+                } else {
+                    "leak-found"
+                },
+            );
+            if let Some(p) = &a.pathway {
+                inputs::text("--pathway", p)?;
+                reading.push("pathway", p.clone());
+            }
+            let b = RecordArgs {
+                project: a.project,
+                site: a.site,
+                quantity: QuantityArgs::default(),
+                from: None,
+                to: None,
+                key: a.key.clone(),
+                meter: None,
+                note: a.note,
+            };
+            (
+                draft(
+                    EntryKind::Survey,
+                    &b,
+                    reading,
+                    Mass::ZERO,
+                    Period::day(d),
+                    ctx,
+                )?,
+                a.key,
+                false,
+            )
+        }
     };
-    commit(ctx, entry, a.key)
+    commit(ctx, entry, key, over_permit)
+}
+
+/// A leak event: a metered mass, or a rate over its days; with an unknown start, backdated to
+/// the last survey of the site that found no leak (Regulation (EU) 2018/2066 Annex IV §23 B.3).
+fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
+    inputs::text("--pathway", &a.pathway)?;
+    let b = &a.base;
+    let to = inputs::date("--to", required(&b.to, "--to")?)?;
+    let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
+    let from = match (&b.from, a.since_last_survey) {
+        (Some(_), true) => {
+            return Err(Error::Refused(
+                "give --from or --since-last-survey, not both".into(),
+            ));
+        }
+        (Some(f), false) => inputs::date("--from", f)?,
+        (None, true) => {
+            let survey = ctx
+                .open()?
+                .read(|tx| last_clear_survey(tx, &b.project, &b.site, to))?;
+            let d = survey.ok_or_else(|| {
+                Error::field(
+                    "--since-last-survey",
+                    &b.site,
+                    format!("no survey of this site up to {to} found no leak: give --from"),
+                )
+            })?;
+            extra.push(("backdated_to_survey", d.to_string()));
+            d
+        }
+        (None, false) => {
+            return Err(Error::Refused(
+                "--from is required (or --since-last-survey)".into(),
+            ));
+        }
+    };
+    let period = Period::new(from, to).map_err(|e| Error::field("--to", &to.to_string(), e))?;
+    let (mut reading, mass) = match &a.rate {
+        Some(rate) => {
+            if b.quantity.is_given() {
+                return Err(Error::Refused(
+                    "give --rate or a quantity (--mass/--volume), not both".into(),
+                ));
+            }
+            let r = leakage::LeakRate::parse(rate).map_err(|e| Error::field("--rate", rate, e))?;
+            let mass = r
+                .emitted(period)
+                .map_err(|e| Error::field("--rate", rate, e))?;
+            let mut reading = Reading::default();
+            reading.push("rate", r.to_string());
+            reading.push("days", period.days().to_string());
+            reading.push(
+                "method",
+                "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
+            );
+            (reading, mass)
+        }
+        None => {
+            let m = measure(&b.quantity.input())?;
+            (m.reading, m.mass)
+        }
+    };
+    for (n, v) in extra {
+        reading.push(n, v);
+    }
+    let entry = draft(EntryKind::Leakage, b, reading, mass, period, ctx)?;
+    commit(ctx, entry, b.key.clone(), false)
+}
+
+/// The date of the latest no-leak survey of a site on or before `to`.
+fn last_clear_survey(
+    tx: &mut Tx<'_>,
+    project: &str,
+    site: &str,
+    to: NaiveDate,
+) -> Result<Option<NaiveDate>> {
+    known_project(tx, project)?;
+    let all = tx.entries(project)?;
+    Ok(effective(&all)
+        .filter(|e| e.kind == EntryKind::Survey && e.site == site && e.period.to <= to)
+        .filter(|e| e.reading.get("result") == Some("no-leak"))
+        .map(|e| e.period.to)
+        .max())
 }
 
 pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
@@ -133,27 +503,48 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     optional_text("--key", &a.key)?;
     optional_text("--meter", &a.meter)?;
     optional_text("--note", &a.note)?;
-    let mut store = ctx.open()?;
-    let target = store.read(|tx| {
+    let target = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
         let all = tx.entries(&a.project)?;
         correction::target(&all, a.seq)
             .cloned()
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))
     })?;
-    let mass_text = a
-        .quantity
-        .mass
-        .clone()
-        .or_else(|| target.reading.get("mass").map(str::to_string));
-    let fraction_text = a
-        .quantity
-        .co2_fraction
-        .clone()
-        .or_else(|| target.reading.get("co2_fraction").map(str::to_string));
-    let (reading, mass) = match (mass_text, fraction_text) {
-        (Some(m), f) => mass_reading(&m, f.as_deref().unwrap_or("1"))?,
-        (None, _) => (target.reading.clone(), target.mass),
+    let (reading, mass) = if a.quantity.is_given() {
+        let m = measure(&a.quantity.input())?;
+        let mut reading = m.reading;
+        for (n, v) in &target.reading.0 {
+            if KIND_FIELDS.contains(&n.as_str()) {
+                reading.push(n, v.clone());
+            }
+        }
+        (reading, m.mass)
+    } else if a.quantity.co2_fraction.is_some() {
+        // A new fraction on the same meter reading: restate the quantity as recorded.
+        let mut q = a.quantity.clone();
+        q.mass = target.reading.get("mass").map(str::to_string);
+        q.volume = target.reading.get("volume").map(str::to_string);
+        q.co2_basis = q.co2_basis.or(match target.reading.get("co2_basis") {
+            Some("mol") => Some(Basis::Mol),
+            _ => None,
+        });
+        if !q.is_given() {
+            return Err(Error::field(
+                "--co2-fraction",
+                q.co2_fraction.as_deref().unwrap_or(""),
+                "the corrected entry has no metered quantity",
+            ));
+        }
+        let m = measure(&q.input())?;
+        let mut reading = m.reading;
+        for (n, v) in &target.reading.0 {
+            if KIND_FIELDS.contains(&n.as_str()) {
+                reading.push(n, v.clone());
+            }
+        }
+        (reading, m.mass)
+    } else {
+        (target.reading.clone(), target.mass)
     };
     let from = a.from.unwrap_or_else(|| target.period.from.to_string());
     let to = a.to.unwrap_or_else(|| target.period.to.to_string());
@@ -172,14 +563,85 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
         evidence: None,
         ..target
     };
-    commit(ctx, entry, a.key)
+    commit(ctx, entry, a.key, a.over_permit)
+}
+
+/// The permit check of an injection: cumulative stored against the permitted capacity (refused
+/// past 100 % unless acknowledged; a warning past 90 %) and the year's injection against an
+/// annual maximum.
+fn permit_check(
+    project: &Project,
+    entries: &[SealedEntry],
+    new: &Entry,
+    over_permit: bool,
+) -> Result<Vec<String>> {
+    let mut after: Vec<Entry> = effective(entries)
+        .filter(|e| Some(e.seq) != new.corrects)
+        .cloned()
+        .collect();
+    after.push(new.clone());
+    let mut warnings = Vec::new();
+    let mut exceeded = Vec::new();
+    if let Some(cap) = project.permit_capacity.filter(|c| c.is_positive()) {
+        let lines = balance(project, after.iter(), Grouping::Year, BalanceMethod::Rr);
+        let stored = lines.last().map_or(Mass::ZERO, |l| l.cumulative_stored);
+        let pct = 100.0 * stored.grams() as f64 / cap.grams() as f64;
+        if stored > cap {
+            exceeded.push(format!(
+                "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
+                tonnes_text(stored),
+                tonnes_text(cap)
+            ));
+        } else if pct > 90.0 {
+            warnings.push(format!(
+                "project {} has used {pct:.2} % of its permitted capacity",
+                project.code
+            ));
+        }
+    }
+    if let Some(max) = project.permit_annual {
+        let year = new.period.to.year();
+        let lines = balance(project, after.iter(), Grouping::Year, BalanceMethod::Rr);
+        let injected = lines
+            .iter()
+            .find(|l| l.bucket.year == year)
+            .map_or(Mass::ZERO, |l| l.terms.injected);
+        if injected > max {
+            exceeded.push(format!(
+                "injection in {year} would be {} t, above the permitted annual maximum {} t",
+                tonnes_text(injected),
+                tonnes_text(max)
+            ));
+        }
+    }
+    if !exceeded.is_empty() && !over_permit {
+        return Err(Error::Refused(format!(
+            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
+            project.code,
+            exceeded.join("; ")
+        )));
+    }
+    warnings.extend(
+        exceeded
+            .into_iter()
+            .map(|e| format!("recorded over the permit: {e}")),
+    );
+    Ok(warnings)
 }
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
-fn commit(ctx: &Context, mut entry: Entry, key: Option<String>) -> Result<Report> {
+fn commit(
+    ctx: &Context,
+    mut entry: Entry,
+    key: Option<String>,
+    over_permit: bool,
+) -> Result<Report> {
+    if over_permit {
+        entry.reading.push("over_permit", "acknowledged");
+    }
     entry.key = key.unwrap_or_else(|| content_key(&entry));
-    let outcome = ctx.open()?.write(|tx| {
-        known_project(tx, &entry.project)?;
+    let (outcome, warnings) = ctx.open()?.write(|tx| {
+        let project = known_project(tx, &entry.project)?;
         let site = tx.site(&entry.project, &entry.site)?.ok_or_else(|| {
             Error::field(
                 "--site",
@@ -187,26 +649,34 @@ fn commit(ctx: &Context, mut entry: Entry, key: Option<String>) -> Result<Report
                 format!("is not a site of project {}", entry.project),
             )
         })?;
+        let all = tx.entries(&entry.project)?;
         if let Some(target) = entry.corrects {
             // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
-            let all = tx.entries(&entry.project)?;
             correction::target(&all, target)
                 .map_err(|e| Error::field("seq", &target.to_string(), e))?;
         }
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
         let outcome = append(entry.clone(), &site, tip, holder).map_err(|e| match e {
-            crate::ledger::append::AppendError::KeyTaken { .. } => {
-                Error::field("--key", &entry.key, e)
-            }
-            _ => Error::field("--site", &entry.site, e),
+            AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
+            AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
         })?;
+        let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {
+            if matches!(
+                s.entry.kind,
+                EntryKind::Injection
+                    | EntryKind::Production
+                    | EntryKind::Leakage
+                    | EntryKind::EquipmentLeak
+            ) {
+                warnings = permit_check(&project, &all, &s.entry, over_permit)?;
+            }
             tx.append(std::slice::from_ref(s))?;
         }
-        Ok(outcome)
+        Ok((outcome, warnings))
     })?;
-    Ok(match outcome {
+    let mut report = match outcome {
         Appended::New(s) => Report::default()
             .line(format!("recorded {} seq {}", s.entry.project, s.entry.seq))
             .table(recorded_table(&s)),
@@ -216,7 +686,9 @@ fn commit(ctx: &Context, mut entry: Entry, key: Option<String>) -> Result<Report
                 s.entry.project, s.entry.seq, s.entry.key
             ))
             .table(recorded_table(&s)),
-    })
+    };
+    report.warnings = warnings;
+    Ok(report)
 }
 
 fn recorded_table(s: &SealedEntry) -> Table {

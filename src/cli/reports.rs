@@ -2,10 +2,12 @@
 
 use super::Context;
 use super::setup::known_project;
-use crate::accounting::balance::balance as compute_balance;
+use crate::accounting::balance::{BalanceLine, BalanceMethod, balance as compute_balance};
 use crate::error::Result;
 use crate::ledger::correction::{effective, superseded_by};
 use crate::ledger::period::Grouping;
+use crate::ledger::{Entry, EntryKind, Project};
+use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
 
@@ -94,6 +96,9 @@ pub struct BalanceArgs {
     pub project: String,
     #[arg(long, value_enum, default_value_t = By::Quarter)]
     pub by: By,
+    /// rr: 40 CFR 98.443 (RR-11/RR-12); iso27916: the CO2-EOR form, recycled CO2 counted once
+    #[arg(long, value_enum, default_value_t = BalanceMethod::Rr)]
+    pub method: BalanceMethod,
 }
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
@@ -106,45 +111,206 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
         By::Quarter => Grouping::Quarter,
         By::Year => Grouping::Year,
     };
-    let lines = compute_balance(&project, effective(&all), grouping);
+    let lines = compute_balance(&project, effective(&all), grouping, a.method);
+    let by = format!("{:?}", a.by).to_lowercase();
+    let mut t = match a.method {
+        BalanceMethod::Rr => rr_table(&project, &lines, &by),
+        BalanceMethod::Iso27916 => iso_table(&project, &lines, &by),
+    };
+    permit_notes(&mut t, &project, &lines, effective(&all));
+    t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
+    let mut report = Report::default().table(t);
+    if let Some(l) = leakage_table(&project, effective(&all)) {
+        report = report.table(l);
+    }
+    Ok(report)
+}
+
+fn permit_cells(l: &BalanceLine) -> [Cell; 2] {
+    [
+        l.permit_used_pct.map_or(Cell::Empty, Cell::Percent),
+        l.headroom.map_or(Cell::Empty, Cell::Tonnes),
+    ]
+}
+
+fn rr_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
     let mut t = Table::new(
         "balance",
         format!(
-            "Storage balance by {}, project {}",
-            format!("{:?}", a.by).to_lowercase(),
+            "Mass balance (40 CFR 98.443) by {by}, project {}",
             project.code
         ),
         columns(&[
             ("Period", "period"),
+            ("Received (t)", "received_t"),
             ("Injected (t)", "injected_t"),
-            ("Stored (t)", "stored_t"),
-            ("Cumulative injected (t)", "cumulative_injected_t"),
-            ("Cumulative stored (t)", "cumulative_stored_t"),
+            ("Produced (t)", "produced_t"),
+            ("", "separated_t"),
+            ("", "entrained_t"),
+            ("Surface leakage (t)", "surface_leakage_t"),
+            ("Leaks/vents inj. side (t)", "equipment_leak_injection_t"),
+            ("Leaks/vents prod. side (t)", "equipment_leak_production_t"),
+            ("Sequestered (t)", "stored_t"),
+            ("Eq.", "equation"),
+            ("", "cumulative_injected_t"),
+            ("Cumulative sequestered (t)", "cumulative_stored_t"),
             ("Permit used (%)", "permit_used_pct"),
+            ("Headroom (t)", "headroom_t"),
+            ("Project emissions (t)", "emissions_t"),
         ]),
     );
-    for l in &lines {
+    for l in lines {
+        let x = &l.terms;
+        let [used, headroom] = permit_cells(l);
         t.push(vec![
             Cell::text(l.bucket.to_string()),
-            Cell::Tonnes(l.injected),
+            Cell::Tonnes(x.received()),
+            Cell::Tonnes(x.injected),
+            Cell::Tonnes(x.produced()),
+            Cell::Tonnes(x.separated),
+            Cell::Tonnes(x.entrained),
+            Cell::Tonnes(x.surface_leakage),
+            Cell::Tonnes(x.leaks_injection_side),
+            Cell::Tonnes(x.leaks_production_side),
             Cell::Tonnes(l.stored),
+            Cell::text(l.equation),
             Cell::Tonnes(l.cumulative_injected),
             Cell::Tonnes(l.cumulative_stored),
-            l.permit_used_pct.map_or(Cell::Empty, Cell::Percent),
+            used,
+            headroom,
+            Cell::Tonnes(x.emissions),
         ]);
     }
-    match project.permit_capacity {
-        Some(c) => t.note(format!(
+    t.note("RR-11: sequestered = injected − produced − surface leakage − leaks/vents on both sides; RR-12 when nothing is produced. Received = receipts − redeliveries (RR-1/RR-4); produced = (1 + X) × CO2 separated (entrained fraction X).");
+    t
+}
+
+fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
+    let mut t = Table::new(
+        "balance",
+        format!("Mass balance (ISO 27916) by {by}, project {}", project.code),
+        columns(&[
+            ("Period", "period"),
+            ("Input (t)", "input_t"),
+            ("Operational losses (t)", "operational_losses_t"),
+            ("Losses from EOR complex (t)", "complex_losses_t"),
+            ("Stored (t)", "stored_t"),
+            ("Cumulative stored (t)", "cumulative_stored_t"),
+            ("Recycled (t)", "recycled_t"),
+            ("Permit used (%)", "permit_used_pct"),
+            ("Headroom (t)", "headroom_t"),
+        ]),
+    );
+    for l in lines {
+        let x = &l.terms;
+        let [used, headroom] = permit_cells(l);
+        t.push(vec![
+            Cell::text(l.bucket.to_string()),
+            Cell::Tonnes(x.received()),
+            Cell::Tonnes(x.operational_losses()),
+            Cell::Tonnes(x.complex_losses()),
+            Cell::Tonnes(l.stored),
+            Cell::Tonnes(l.cumulative_stored),
+            Cell::Tonnes(x.separated),
+            used,
+            headroom,
+        ]);
+    }
+    t.note("Stored = input (receipts − redeliveries) − operational losses (leaks and vents) − losses from the EOR complex (surface leakage and CO2 entrained in produced fluids). CO2 separated and re-injected is recycled inside the complex and not counted again.");
+    t
+}
+
+/// Flags a permit exceeded, whether by the figures or by a record made with --over-permit.
+fn permit_notes<'a>(
+    t: &mut Table,
+    project: &Project,
+    lines: &[BalanceLine],
+    entries: impl Iterator<Item = &'a Entry>,
+) {
+    match (project.permit_capacity, lines.last()) {
+        (Some(cap), Some(last)) if last.cumulative_stored > cap => t.note(format!(
+            "PERMIT EXCEEDED: cumulative stored {} t is above the permitted capacity {} t.",
+            tonnes_text(last.cumulative_stored),
+            tonnes_text(cap)
+        )),
+        (Some(cap), _) => t.note(format!(
             "Permitted capacity {} t{}.",
-            crate::report::render::tonnes_text(c),
+            tonnes_text(cap),
             project
                 .permit_ref
                 .as_deref()
                 .map(|r| format!(" under permit {r}"))
                 .unwrap_or_default()
         )),
-        None => t.note("No permitted capacity registered for this project."),
+        (None, _) => t.note("No permitted capacity registered for this project."),
     }
-    t.note("Stored equals injected: no losses are recorded against this project. Entries spanning periods are split by days.");
-    Ok(Report::default().table(t))
+    if let Some(max) = project.permit_annual {
+        for y in lines
+            .iter()
+            .map(|l| l.bucket.year)
+            .collect::<std::collections::BTreeSet<_>>()
+        {
+            let injected: crate::quantity::Mass = lines
+                .iter()
+                .filter(|l| l.bucket.year == y)
+                .map(|l| l.terms.injected)
+                .sum();
+            if injected > max {
+                t.note(format!(
+                    "PERMIT EXCEEDED: injection in {y} was {} t, above the annual maximum {} t.",
+                    tonnes_text(injected),
+                    tonnes_text(max)
+                ));
+            }
+        }
+    }
+    let over: Vec<String> = entries
+        .filter(|e| e.reading.get("over_permit").is_some())
+        .map(|e| e.seq.to_string())
+        .collect();
+    if !over.is_empty() {
+        t.note(format!(
+            "Recorded over the permit (--over-permit): seq {}.",
+            over.join(", ")
+        ));
+    }
+}
+
+/// Surface leakage by pathway, each event with how it was quantified.
+fn leakage_table<'a>(project: &Project, entries: impl Iterator<Item = &'a Entry>) -> Option<Table> {
+    let mut t = Table::new(
+        "leakage",
+        format!("Surface leakage by pathway, project {}", project.code),
+        columns(&[
+            ("Pathway", "pathway"),
+            ("Site", "site"),
+            ("Period", "period"),
+            ("Quantified by", "method"),
+            ("CO2 (t)", "co2_t"),
+            ("Seq", "seq"),
+        ]),
+    );
+    let mut leaks: Vec<&Entry> = entries.filter(|e| e.kind == EntryKind::Leakage).collect();
+    leaks.sort_by(|a, b| {
+        (a.reading.get("pathway"), a.period).cmp(&(b.reading.get("pathway"), b.period))
+    });
+    for e in &leaks {
+        let how = match (e.reading.get("rate"), e.reading.get("backdated_to_survey")) {
+            (Some(r), Some(s)) => format!(
+                "{r} × 24 h × {} d, start backdated to the no-leak survey of {s}",
+                e.period.days()
+            ),
+            (Some(r), None) => format!("{r} × 24 h × {} d", e.period.days()),
+            (None, _) => "metered".to_string(),
+        };
+        t.push(vec![
+            Cell::opt_text(e.reading.get("pathway")),
+            Cell::text(&e.site),
+            Cell::text(e.period.to_string()),
+            Cell::text(how),
+            Cell::Tonnes(e.mass),
+            Cell::Int(e.seq as i64),
+        ]);
+    }
+    (!leaks.is_empty()).then_some(t)
 }

@@ -44,6 +44,9 @@ pub struct ProjectAdd {
     /// Permitted cumulative stored mass, e.g. "2.5 Mt"
     #[arg(long, value_name = "MASS")]
     pub permit_capacity: Option<String>,
+    /// Maximum injection in a calendar year, if the permit sets one, e.g. "1 Mt"
+    #[arg(long, value_name = "MASS")]
+    pub permit_annual: Option<String>,
 }
 
 pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
@@ -95,6 +98,11 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
         .as_deref()
         .map(|t| inputs::mass("--permit-capacity", t).map(|(_, m)| m))
         .transpose()?;
+    let permit_annual = a
+        .permit_annual
+        .as_deref()
+        .map(|t| inputs::mass("--permit-annual", t).map(|(_, m)| m))
+        .transpose()?;
     let p = Project {
         code: a.code,
         name: a.name,
@@ -102,6 +110,7 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
         operator: a.operator,
         permit_ref: a.permit_ref,
         permit_capacity,
+        permit_annual,
         registered_at: ctx.now,
     };
     ctx.open()?.write(|tx| {
@@ -127,6 +136,7 @@ fn projects_table(projects: &[Project]) -> Table {
             ("Operator", "operator"),
             ("Permit", "permit_ref"),
             ("Permitted capacity (t)", "permit_capacity_t"),
+            ("Annual maximum (t)", "permit_annual_t"),
         ]),
     );
     for p in projects {
@@ -137,6 +147,7 @@ fn projects_table(projects: &[Project]) -> Table {
             Cell::text(&p.operator),
             Cell::opt_text(p.permit_ref.as_deref()),
             p.permit_capacity.map_or(Cell::Empty, Cell::Tonnes),
+            p.permit_annual.map_or(Cell::Empty, Cell::Tonnes),
         ]);
     }
     t

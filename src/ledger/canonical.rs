@@ -86,6 +86,7 @@ pub fn encode_project(p: &Project) -> Vec<u8> {
     w.str(&p.operator);
     w.opt(p.permit_ref.as_deref(), Writer::str);
     w.opt(p.permit_capacity.map(|m| m.grams()), Writer::i64);
+    w.opt(p.permit_annual.map(|m| m.grams()), Writer::i64);
     w.i64(p.registered_at.timestamp_micros());
     w.0
 }

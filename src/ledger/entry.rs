@@ -11,6 +11,13 @@ named_enum! {
     /// at the end, never reorder (docs/ledger-format.md).
     EntryKind {
         Injection => "injection",
+        Receipt => "receipt",
+        Redelivery => "redelivery",
+        Production => "production",
+        Leakage => "leakage",
+        EquipmentLeak => "equipment-leak",
+        Emission => "emission",
+        Survey => "survey",
     }
 }
 
@@ -20,17 +27,27 @@ impl EntryKind {
         Self::ALL.iter().position(|k| *k == self).expect("listed") as u8
     }
 
-    /// Whether the entry adds to storage, deducts from it, or carries no mass.
+    /// Whether the entry adds to storage, deducts from it, or is a term reported beside it.
     pub fn sign(self) -> Sign {
         match self {
             Self::Injection => Sign::Adds,
+            Self::Production | Self::Leakage | Self::EquipmentLeak => Sign::Deducts,
+            Self::Receipt | Self::Redelivery | Self::Emission | Self::Survey => Sign::Neutral,
         }
     }
 
     /// The site kinds an entry of this kind may be recorded at.
     pub fn site_kinds(self) -> &'static [SiteKind] {
+        use SiteKind::*;
         match self {
-            Self::Injection => &[SiteKind::InjectionWell],
+            Self::Injection => &[InjectionWell],
+            Self::Receipt => &[Plant, InjectionWell],
+            Self::Redelivery => &[Plant],
+            Self::Production => &[ProductionWell, Plant],
+            Self::EquipmentLeak => &[InjectionWell, ProductionWell, Plant],
+            Self::Leakage | Self::Emission | Self::Survey => {
+                &[InjectionWell, ProductionWell, MonitoringWell, Field, Plant]
+            }
         }
     }
 }
@@ -104,15 +121,6 @@ pub struct Entry {
 }
 
 impl Entry {
-    /// Grams with their sign: positive adds to storage, negative deducts.
-    pub fn signed_mass(&self) -> Mass {
-        match self.sign {
-            Sign::Adds => self.mass,
-            Sign::Deducts => -self.mass,
-            Sign::Neutral => Mass::ZERO,
-        }
-    }
-
     /// Whether two entries record the same thing, ignoring position and time of recording;
     /// a re-submission of the same key with the same content is a harmless retry.
     pub fn same_content(&self, other: &Entry) -> bool {

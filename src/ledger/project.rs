@@ -68,6 +68,8 @@ pub struct Project {
     pub operator: String,
     pub permit_ref: Option<String>,
     pub permit_capacity: Option<Mass>,
+    /// Maximum injection in a calendar year, if the permit sets one.
+    pub permit_annual: Option<Mass>,
     pub registered_at: DateTime<Utc>,
 }
 

@@ -98,6 +98,8 @@ impl Table {
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct Report {
     pub lines: Vec<String>,
+    /// Warnings for stderr, whatever the output format (e.g. a permit nearly used up).
+    pub warnings: Vec<String>,
     pub tables: Vec<Table>,
     /// Whether people get the cautions line at the end (every report that states figures).
     pub cautions: bool,
@@ -109,6 +111,11 @@ impl Report {
         self
     }
 
+    pub fn warning(mut self, w: impl Into<String>) -> Self {
+        self.warnings.push(w.into());
+        self
+    }
+
     pub fn table(mut self, t: Table) -> Self {
         self.tables.push(t);
         self.cautions = true;
@@ -117,6 +124,7 @@ impl Report {
 
     pub fn extend(&mut self, other: Report) {
         self.lines.extend(other.lines);
+        self.warnings.extend(other.warnings);
         self.tables.extend(other.tables);
         self.cautions |= other.cautions;
     }

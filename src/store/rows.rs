@@ -22,6 +22,7 @@ pub struct ProjectRow {
     pub operator: String,
     pub permit_ref: Option<String>,
     pub permit_capacity_g: Option<i64>,
+    pub permit_annual_g: Option<i64>,
     pub created_at: NaiveDateTime,
     pub row_hash: String,
 }
@@ -78,6 +79,7 @@ impl ProjectRow {
             operator: p.operator.clone(),
             permit_ref: p.permit_ref.clone(),
             permit_capacity_g: p.permit_capacity.map(Mass::grams),
+            permit_annual_g: p.permit_annual.map(Mass::grams),
             created_at: p.registered_at.naive_utc(),
             row_hash: leaf_hash(&encode_project(p)).to_hex(),
         }
@@ -93,6 +95,7 @@ impl ProjectRow {
             operator: self.operator.clone(),
             permit_ref: self.permit_ref.clone(),
             permit_capacity: self.permit_capacity_g.map(Mass::from_grams),
+            permit_annual: self.permit_annual_g.map(Mass::from_grams),
             registered_at: utc(self.created_at),
         };
         if leaf_hash(&encode_project(&p)).to_hex() != self.row_hash {

@@ -8,6 +8,7 @@ diesel::table! {
         operator -> Text,
         permit_ref -> Nullable<Text>,
         permit_capacity_g -> Nullable<BigInt>,
+        permit_annual_g -> Nullable<BigInt>,
         created_at -> Timestamp,
         row_hash -> Text,
     }

@@ -9,6 +9,7 @@ CREATE TABLE projects (
     operator TEXT NOT NULL,
     permit_ref TEXT,
     permit_capacity_g INTEGER,
+    permit_annual_g INTEGER,
     created_at TEXT NOT NULL,
     row_hash TEXT NOT NULL
 ) STRICT;

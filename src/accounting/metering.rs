@@ -1,0 +1,219 @@
+//! How a meter reading becomes grams of CO2: a mass meter (mass × CO2 mass fraction) or a
+//! volumetric meter (standard volume × CO2 density × CO2 volume fraction, the form of 40 CFR
+//! 98.443). The reading is kept as given, with every factor used, so each gram can be traced.
+
+use crate::chem::gas_mix::{Balance, StreamComposition};
+use crate::error::{Error, Result};
+use crate::ledger::Reading;
+use crate::quantity::mass::round_half_even_f64;
+use crate::quantity::volume::{DensityMethod, StandardVolume};
+use crate::quantity::{Fraction, Mass, MassReading};
+
+/// What a CO2 fraction is a fraction of.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Basis {
+    /// By mass (weight fraction).
+    Mass,
+    /// By amount of substance, i.e. by volume for ideal mixing.
+    Mol,
+}
+
+impl Basis {
+    fn name(self) -> &'static str {
+        match self {
+            Basis::Mass => "mass",
+            Basis::Mol => "mol",
+        }
+    }
+}
+
+/// The quantity options of a record, as typed.
+#[derive(Debug, Clone, Default)]
+pub struct MeterInput<'a> {
+    pub mass: Option<&'a str>,
+    pub volume: Option<&'a str>,
+    pub co2_fraction: Option<&'a str>,
+    pub co2_basis: Option<Basis>,
+    pub density: Option<DensityMethod>,
+    pub impurities: Option<&'a str>,
+}
+
+/// A reading and the grams of CO2 it comes to.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Measured {
+    pub reading: Reading,
+    pub mass: Mass,
+}
+
+/// Version of the conversion rules, kept in every reading they produced.
+pub const CONVERSIONS: &str = "sinkbook-conversions-1";
+
+fn fraction(text: &str) -> Result<Fraction> {
+    Fraction::parse(text).map_err(|e| Error::field("--co2-fraction", text, e))
+}
+
+/// `N2=0.02,Ar=0.005` → mole fractions of the whole stream.
+fn impurities(text: &str) -> Result<Vec<(String, f64)>> {
+    text.split(',')
+        .map(|part| {
+            let (name, x) = part.split_once('=').ok_or_else(|| {
+                Error::field(
+                    "--impurities",
+                    part,
+                    "write GAS=mole fraction, e.g. N2=0.02",
+                )
+            })?;
+            let x = crate::quantity::Decimal::parse(x.trim())
+                .map_err(|e| Error::field("--impurities", part, e))?;
+            Ok((name.trim().to_string(), x.to_f64()))
+        })
+        .collect()
+}
+
+/// The CO2 mass fraction of a stream whose CO2 mole fraction is `x`, from its stated impurities.
+fn mass_fraction_from_mol(x: Fraction, impurity_text: Option<&str>) -> Result<f64> {
+    if x == Fraction::ONE {
+        return Ok(1.0);
+    }
+    let text = impurity_text.ok_or_else(|| {
+        Error::Refused(
+            "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)".into(),
+        )
+    })?;
+    let list = impurities(text)?;
+    let refs: Vec<(&str, f64)> = list.iter().map(|(n, v)| (n.as_str(), *v)).collect();
+    StreamComposition::from_mole_fractions(x.to_f64(), &refs, Balance::Stated)
+        .map(|s| s.co2_mass_fraction())
+        .map_err(|e| Error::field("--impurities", text, e))
+}
+
+/// Turns the typed quantity options into a reading and grams.
+pub fn measure(input: &MeterInput<'_>) -> Result<Measured> {
+    let mut r = Reading::default();
+    match (input.mass, input.volume) {
+        (Some(_), Some(_)) => Err(Error::Refused("give --mass or --volume, not both".into())),
+        (None, None) => Err(Error::Refused(
+            "a quantity is needed: --mass \"1250.5 t\" (mass meter) or --volume \"2.5 MMscf\" (volumetric meter)".into(),
+        )),
+        (Some(text), None) => {
+            let m = MassReading::parse(text).map_err(|e| Error::field("--mass", text, e))?;
+            let basis = input.co2_basis.unwrap_or(Basis::Mass);
+            let f = fraction(input.co2_fraction.unwrap_or("1"))?;
+            r.push("meter_type", "mass");
+            r.push("mass", m.to_string());
+            r.push("co2_fraction", f.to_string());
+            r.push("co2_basis", basis.name());
+            let exact = m.grams_exact().map_err(|e| Error::field("--mass", text, e))?;
+            let grams = match basis {
+                Basis::Mass => exact.checked_mul(f.value()).and_then(|g| g.round_half_even()),
+                Basis::Mol => {
+                    let w = mass_fraction_from_mol(f, input.impurities)?;
+                    if let Some(i) = input.impurities {
+                        r.push("impurities_mol", i);
+                    }
+                    r.push("co2_mass_fraction", format!("{w:.9}"));
+                    r.push("conversions", CONVERSIONS);
+                    Some(round_half_even_f64(exact.to_f64() * w))
+                }
+            }
+            .ok_or_else(|| Error::field("--mass", text, "too large for the ledger"))?;
+            Ok(Measured { reading: r, mass: Mass::from_grams(grams) })
+        }
+        (None, Some(text)) => {
+            let v = StandardVolume::parse(text).map_err(|e| Error::field("--volume", text, e))?;
+            if input.co2_basis == Some(Basis::Mass) {
+                return Err(Error::field(
+                    "--co2-basis",
+                    "mass",
+                    "a volumetric meter's CO2 fraction is by volume: give it with --co2-basis mol",
+                ));
+            }
+            let f = fraction(input.co2_fraction.unwrap_or("1"))?;
+            let method = input.density.unwrap_or(DensityMethod::Eos);
+            let vm = v.mass(method).map_err(|e| Error::field("--volume", text, e))?;
+            r.push("meter_type", "volumetric");
+            r.push("volume", v.to_string());
+            r.push("reference_conditions", v.conditions.to_string());
+            r.push("volume_m3", format!("{:.6}", vm.m3));
+            r.push("density_method", method.name());
+            r.push("co2_density_kg_m3", format!("{:.9}", vm.density_kg_per_m3));
+            r.push("co2_fraction", f.to_string());
+            r.push("co2_basis", "mol");
+            r.push("conversions", CONVERSIONS);
+            let grams = vm.kg * 1000.0 * f.to_f64();
+            if !grams.is_finite() || grams >= 9.0e18 {
+                return Err(Error::field("--volume", text, "too large for the ledger"));
+            }
+            Ok(Measured { reading: r, mass: Mass::from_grams(round_half_even_f64(grams)) })
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn grams(i: MeterInput<'_>) -> i64 {
+        measure(&i).unwrap().mass.grams()
+    }
+
+    #[test]
+    fn mass_meter_is_exact() {
+        let i = MeterInput {
+            mass: Some("1250.5 t"),
+            co2_fraction: Some("98.5%"),
+            ..Default::default()
+        };
+        assert_eq!(grams(i), 1_231_742_500);
+    }
+
+    #[test]
+    fn volumetric_meter_by_the_regulatory_density() {
+        // 40 CFR 98.443 RR-2 form: Q (standard m³) × D × C; D = 0.0018682 t/m³ (read).
+        let i = MeterInput {
+            volume: Some("1000000 scf"),
+            co2_fraction: Some("0.98"),
+            density: Some(DensityMethod::Regulatory),
+            ..Default::default()
+        };
+        let expected: f64 = 1e6 * 0.028316846592 * 1.8682 * 0.98 * 1000.0;
+        assert_eq!(grams(i), expected.round_ties_even() as i64);
+    }
+
+    #[test]
+    fn mole_fraction_with_a_mass_meter_needs_the_impurities() {
+        let base = MeterInput {
+            mass: Some("100 t"),
+            co2_fraction: Some("0.95"),
+            co2_basis: Some(Basis::Mol),
+            ..Default::default()
+        };
+        assert!(measure(&base).is_err());
+        let with = MeterInput {
+            impurities: Some("N2=0.05"),
+            ..base
+        };
+        // w = 0.95·44.009 / (0.95·44.009 + 0.05·28.014) = 0.967583 — computed (CIAAW 2021 weights).
+        let g = grams(with);
+        assert!((g as f64 / 1e8 - 0.967_583).abs() < 1e-6, "{g}");
+    }
+
+    #[test]
+    fn refusals() {
+        assert!(measure(&MeterInput::default()).is_err());
+        assert!(
+            measure(&MeterInput {
+                mass: Some("1 t"),
+                volume: Some("1 scf"),
+                ..Default::default()
+            })
+            .is_err()
+        );
+        let v = MeterInput {
+            volume: Some("1 scf"),
+            co2_basis: Some(Basis::Mass),
+            ..Default::default()
+        };
+        assert!(measure(&v).unwrap_err().to_string().contains("--co2-basis"));
+    }
+}
