@@ -5,6 +5,7 @@ mod convert;
 mod demo;
 mod density;
 mod inputs;
+mod meters;
 mod potential;
 mod record;
 mod reports;
@@ -58,6 +59,8 @@ pub enum Command {
     Entries(reports::EntriesArgs),
     /// Injected and stored tonnes by period, cumulative, and permit use
     Balance(reports::BalanceArgs),
+    /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
+    Meters(meters::MetersArgs),
     /// Recompute every hash and check the ledger's structure
     Verify(verify::VerifyArgs),
     /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
@@ -97,6 +100,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Correct(a) => record::correct(&ctx, a),
         Command::Entries(a) => reports::entries(&ctx, a),
         Command::Balance(a) => reports::balance(&ctx, a),
+        Command::Meters(a) => meters::meters(&ctx, a),
         Command::Verify(a) => verify::verify(&ctx, a),
         Command::Convert(a) => convert::convert(a),
         Command::Density(a) => density::density(a),

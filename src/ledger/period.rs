@@ -84,6 +84,16 @@ impl Grouping {
 }
 
 impl Bucket {
+    /// First day of the bucket.
+    pub fn first_day(self) -> NaiveDate {
+        let month = match self.grouping_rank {
+            0 => self.part,
+            1 => self.part * 3 - 2,
+            _ => 1,
+        };
+        NaiveDate::from_ymd_opt(self.year, month, 1).expect("valid calendar date")
+    }
+
     /// Last day of the bucket.
     pub fn last_day(self) -> NaiveDate {
         let (y, m) = match self.grouping_rank {
@@ -173,6 +183,9 @@ mod tests {
             d("2026-12-31")
         );
         assert_eq!(Grouping::Year.bucket(d("2028-02-29")).to_string(), "2028");
+        assert_eq!(Grouping::Quarter.bucket(d("2026-05-10")).first_day(), d("2026-04-01"));
+        assert_eq!(Grouping::Month.bucket(d("2026-05-10")).first_day(), d("2026-05-01"));
+        assert_eq!(Grouping::Year.bucket(d("2026-05-10")).first_day(), d("2026-01-01"));
     }
 
     #[test]

@@ -1,0 +1,128 @@
+//! `meters`: for each meter and quarter of a year, the quantity read, its CO2 concentration,
+//! the meter type and how it was converted — the per-meter figures a report files.
+
+use super::Context;
+use super::setup::known_project;
+use crate::error::{Error, Result};
+use crate::ledger::correction::effective;
+use crate::ledger::period::{Bucket, Grouping, apportion};
+use crate::ledger::{Entry, EntryKind};
+use crate::quantity::{Mass, MassReading};
+use crate::report::{Cell, Report, Table, columns};
+use clap::Args;
+use std::collections::BTreeMap;
+
+#[derive(Debug, Args)]
+pub struct MetersArgs {
+    pub project: String,
+    /// The reporting year
+    #[arg(long)]
+    pub year: i32,
+}
+
+/// One meter's quarter.
+#[derive(Default)]
+struct Row {
+    site: String,
+    kind: Option<EntryKind>,
+    meter_type: String,
+    conversion: String,
+    readings: usize,
+    /// Metered mass in grams (mass meters) or standard volume in m³ (volumetric).
+    quantity: f64,
+    /// Quantity × CO2 fraction, for the weighted mean concentration.
+    weighted_fraction: f64,
+    co2: Mass,
+}
+
+fn conversion(e: &Entry) -> String {
+    match (e.reading.get("meter_type"), e.reading.get("density_method")) {
+        (Some("volumetric"), Some("regulatory")) => "volume × D (40 CFR 98.443) × CO2 vol. fraction".into(),
+        (Some("volumetric"), _) => "volume × ρ (Span–Wagner) × CO2 vol. fraction".into(),
+        (_, _) if e.reading.get("co2_basis") == Some("mol") => "mass × CO2 mass fraction (from mole fraction)".into(),
+        _ => "mass × CO2 mass fraction".into(),
+    }
+}
+
+/// The metered quantity of an entry: grams for a mass meter, m³ for a volumetric one.
+fn metered_quantity(e: &Entry) -> Option<f64> {
+    match e.reading.get("meter_type")? {
+        "mass" => MassReading::parse(e.reading.get("mass")?).ok()?.grams_exact().ok().map(|g| g.to_f64()),
+        "volumetric" => e.reading.get("volume_m3")?.parse().ok(),
+        _ => None,
+    }
+}
+
+pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
+    if !(1900..=9999).contains(&a.year) {
+        return Err(Error::field("--year", &a.year.to_string(), "is not a plausible reporting year"));
+    }
+    let all = ctx.open()?.read(|tx| {
+        known_project(tx, &a.project)?;
+        tx.entries(&a.project)
+    })?;
+    let mut rows: BTreeMap<(String, Bucket), Row> = BTreeMap::new();
+    for e in effective(&all) {
+        let Some(q) = metered_quantity(e) else { continue };
+        let fraction: f64 = e.reading.get("co2_fraction").and_then(|f| f.parse().ok()).unwrap_or(1.0);
+        let meter = e.meter.clone().unwrap_or_else(|| format!("({})", e.site));
+        let total_days = e.period.days() as f64;
+        for (bucket, g) in apportion(e.mass.grams(), e.period, Grouping::Quarter) {
+            if bucket.year != a.year {
+                continue;
+            }
+            let days = (bucket.last_day().min(e.period.to) - e.period.from.max(bucket.first_day())).num_days() as f64 + 1.0;
+            let share = q * days / total_days;
+            let r = rows.entry((meter.clone(), bucket)).or_default();
+            r.site = e.site.clone();
+            r.kind = Some(e.kind);
+            r.meter_type = e.reading.get("meter_type").unwrap_or("").to_string();
+            let c = conversion(e);
+            if r.conversion.is_empty() || r.conversion == c {
+                r.conversion = c;
+            } else {
+                r.conversion = "mixed (see entries)".into();
+            }
+            r.readings += 1;
+            r.quantity += share;
+            r.weighted_fraction += share * fraction;
+            r.co2 += Mass::from_grams(g);
+        }
+    }
+    let mut t = Table::new(
+        "meters",
+        format!("Meters by quarter, {}, project {}", a.year, a.project),
+        columns(&[
+            ("Meter", "meter"),
+            ("Site", "site"),
+            ("Kind", "kind"),
+            ("Quarter", "quarter"),
+            ("Meter type", "meter_type"),
+            ("Entries", "entries"),
+            ("Quantity read", "quantity"),
+            ("Unit", "quantity_unit"),
+            ("CO2 fraction (mean)", "co2_fraction_mean"),
+            ("Conversion", "conversion"),
+            ("CO2 (t)", "co2_t"),
+        ]),
+    );
+    for ((meter, bucket), r) in &rows {
+        let (quantity, unit) = if r.meter_type == "volumetric" { (r.quantity, "m³ (std)") } else { (r.quantity / 1e6, "t") };
+        t.push(vec![
+            Cell::text(meter),
+            Cell::text(&r.site),
+            Cell::text(r.kind.map_or("", |k| k.name())),
+            Cell::text(bucket.to_string()),
+            Cell::text(&r.meter_type),
+            Cell::Int(r.readings as i64),
+            Cell::Number(quantity, 3),
+            Cell::text(unit),
+            Cell::Number(if r.quantity > 0.0 { r.weighted_fraction / r.quantity } else { 0.0 }, 4),
+            Cell::text(&r.conversion),
+            Cell::Tonnes(r.co2),
+        ]);
+    }
+    t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it. Entries spanning quarters are split by days.");
+    Ok(Report::default().table(t))
+}
+
