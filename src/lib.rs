@@ -8,6 +8,7 @@ pub mod chem;
 pub mod cli;
 pub mod eos;
 pub mod error;
+pub mod import;
 pub mod ledger;
 pub mod quantity;
 pub mod report;

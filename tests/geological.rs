@@ -14,8 +14,22 @@ fn json(l: &Ledger, args: &[&str]) -> Value {
 /// A small EOR project: CO2 bought in at a plant, injected, produced back, recycled.
 fn eor() -> Ledger {
     let l = Ledger::new();
-    l.ok(&["project", "add", "KRE", "--name", "Kestrel Ridge EOR", "--method", "eor", "--operator", "Northdeep Storage Cooperative"]);
-    for (s, k) in [("KR-P", "plant"), ("KR-I1", "injection-well"), ("KR-W1", "production-well")] {
+    l.ok(&[
+        "project",
+        "add",
+        "KRE",
+        "--name",
+        "Kestrel Ridge EOR",
+        "--method",
+        "eor",
+        "--operator",
+        "Northdeep Storage Cooperative",
+    ]);
+    for (s, k) in [
+        ("KR-P", "plant"),
+        ("KR-I1", "injection-well"),
+        ("KR-W1", "production-well"),
+    ] {
         l.ok(&["site", "add", "KRE", s, "--kind", k]);
     }
     let q1 = ["--from", "2026-01-01", "--to", "2026-03-31"];
@@ -27,11 +41,38 @@ fn eor() -> Ledger {
     };
     rec("receipt", "KR-P", &["--mass", "1000 t", "--meter", "CT-1"]);
     rec("redelivery", "KR-P", &["--mass", "20 t", "--meter", "CT-2"]);
-    rec("injection", "KR-I1", &["--mass", "1280 t", "--meter", "FM-1"]);
-    rec("production", "KR-P", &["--mass", "300 t", "--entrained-fraction", "0.02", "--meter", "SEP-1"]);
-    rec("equipment-leak", "KR-I1", &["--mass", "0.4 t", "--side", "injection"]);
-    rec("equipment-leak", "KR-W1", &["--mass", "1 t", "--side", "production"]);
-    rec("emission", "KR-P", &["--mass", "35 t", "--category", "energy"]);
+    rec(
+        "injection",
+        "KR-I1",
+        &["--mass", "1280 t", "--meter", "FM-1"],
+    );
+    rec(
+        "production",
+        "KR-P",
+        &[
+            "--mass",
+            "300 t",
+            "--entrained-fraction",
+            "0.02",
+            "--meter",
+            "SEP-1",
+        ],
+    );
+    rec(
+        "equipment-leak",
+        "KR-I1",
+        &["--mass", "0.4 t", "--side", "injection"],
+    );
+    rec(
+        "equipment-leak",
+        "KR-W1",
+        &["--mass", "1 t", "--side", "production"],
+    );
+    rec(
+        "emission",
+        "KR-P",
+        &["--mass", "35 t", "--category", "energy"],
+    );
     l
 }
 
@@ -54,27 +95,64 @@ fn rr_11_terms_for_an_eor_project() {
 #[test]
 fn iso_27916_counts_recycled_once() {
     let l = eor();
-    let b = json(&l, &["balance", "KRE", "--by", "year", "--method", "iso27916"]);
+    let b = json(
+        &l,
+        &["balance", "KRE", "--by", "year", "--method", "iso27916"],
+    );
     let y = &b[0];
     assert_eq!(y["input_t"], 980.0);
     assert_eq!(y["operational_losses_t"], 1.4);
     assert_eq!(y["complex_losses_t"], 6.0);
     assert_eq!(y["stored_t"], 972.6);
     assert_eq!(y["recycled_t"], 300.0);
-    insta::assert_snapshot!("kre_iso27916_year", l.ok(&["balance", "KRE", "--by", "year", "--method", "iso27916"]));
-    insta::assert_snapshot!("kre_rr_quarter", l.ok(&["balance", "KRE", "--by", "quarter"]));
+    insta::assert_snapshot!(
+        "kre_iso27916_year",
+        l.ok(&["balance", "KRE", "--by", "year", "--method", "iso27916"])
+    );
+    insta::assert_snapshot!(
+        "kre_rr_quarter",
+        l.ok(&["balance", "KRE", "--by", "quarter"])
+    );
 }
 
 #[test]
 fn volumetric_meters_and_the_meter_table() {
     let l = Ledger::with_tfs();
     l.ok(&[
-        "record", "injection", "TFS", "--site", "TF-I2", "--meter", "FM-201", "--volume", "500 MMscf", "--co2-fraction", "0.99",
-        "--density", "regulatory", "--from", "2026-01-01", "--to", "2026-01-31",
+        "record",
+        "injection",
+        "TFS",
+        "--site",
+        "TF-I2",
+        "--meter",
+        "FM-201",
+        "--volume",
+        "500 MMscf",
+        "--co2-fraction",
+        "0.99",
+        "--density",
+        "regulatory",
+        "--from",
+        "2026-01-01",
+        "--to",
+        "2026-01-31",
     ]);
     l.ok(&[
-        "record", "injection", "TFS", "--site", "TF-I1", "--meter", "FM-101", "--mass", "20000 t", "--co2-fraction", "0.985",
-        "--from", "2026-01-01", "--to", "2026-01-31",
+        "record",
+        "injection",
+        "TFS",
+        "--site",
+        "TF-I1",
+        "--meter",
+        "FM-101",
+        "--mass",
+        "20000 t",
+        "--co2-fraction",
+        "0.985",
+        "--from",
+        "2026-01-01",
+        "--to",
+        "2026-01-31",
     ]);
     let e = json(&l, &["entries", "TFS"]);
     // 500e6 scf × 0.028316846592 m³/scf × 1.8682 kg/m³ × 0.99 — the RR-2 form with D (40 CFR 98.443, read).
@@ -85,17 +163,50 @@ fn volumetric_meters_and_the_meter_table() {
     assert_eq!(m[0]["quantity"], 20000.0);
     assert_eq!(m[1]["meter_type"], "volumetric");
     assert_eq!(m[1]["co2_fraction_mean"], 0.99);
-    insta::assert_snapshot!("tfs_meters_2026", l.ok(&["meters", "TFS", "--year", "2026"]));
+    insta::assert_snapshot!(
+        "tfs_meters_2026",
+        l.ok(&["meters", "TFS", "--year", "2026"])
+    );
 }
 
 #[test]
 fn leak_by_rate_backdated_to_the_last_clear_survey() {
     let l = Ledger::with_tfs();
-    l.ok(&["record", "survey", "TFS", "--site", "TF-M1", "--date", "2026-03-20", "--result", "no-leak"]);
-    l.ok(&["record", "survey", "TFS", "--site", "TF-M1", "--date", "2026-06-20", "--result", "leak-found"]);
+    l.ok(&[
+        "record",
+        "survey",
+        "TFS",
+        "--site",
+        "TF-M1",
+        "--date",
+        "2026-03-20",
+        "--result",
+        "no-leak",
+    ]);
+    l.ok(&[
+        "record",
+        "survey",
+        "TFS",
+        "--site",
+        "TF-M1",
+        "--date",
+        "2026-06-20",
+        "--result",
+        "leak-found",
+    ]);
     let r = l.run(&[
-        "record", "leakage", "TFS", "--site", "TF-M1", "--pathway", "TF-M1 annulus", "--rate", "0.02 t/h",
-        "--since-last-survey", "--to", "2026-06-24",
+        "record",
+        "leakage",
+        "TFS",
+        "--site",
+        "TF-M1",
+        "--pathway",
+        "TF-M1 annulus",
+        "--rate",
+        "0.02 t/h",
+        "--since-last-survey",
+        "--to",
+        "2026-06-24",
     ]);
     assert_eq!(r.code, 0, "{}", r.err);
     let e = json(&l, &["entries", "TFS"]);
@@ -108,18 +219,62 @@ fn leak_by_rate_backdated_to_the_last_clear_survey() {
     assert_eq!(b["balance"][1]["surface_leakage_t"], 40.8);
     assert_eq!(b["leakage"][0]["pathway"], "TF-M1 annulus");
     // Without a clear survey there is nothing to backdate to.
-    let r = l.run(&["record", "leakage", "TFS", "--site", "TF-I1", "--pathway", "x", "--rate", "1 t/h", "--since-last-survey", "--to", "2026-06-24"]);
+    let r = l.run(&[
+        "record",
+        "leakage",
+        "TFS",
+        "--site",
+        "TF-I1",
+        "--pathway",
+        "x",
+        "--rate",
+        "1 t/h",
+        "--since-last-survey",
+        "--to",
+        "2026-06-24",
+    ]);
     assert_eq!(r.code, 1);
-    assert!(r.err.contains("no survey of this site up to 2026-06-24 found no leak"), "{}", r.err);
+    assert!(
+        r.err
+            .contains("no survey of this site up to 2026-06-24 found no leak"),
+        "{}",
+        r.err
+    );
 }
 
 #[test]
 fn permits_warn_refuse_and_flag() {
     let l = Ledger::new();
-    l.ok(&["project", "add", "SML", "--name", "Small", "--method", "saline-aquifer", "--operator", "N", "--permit-capacity", "1000 t", "--permit-annual", "800 t"]);
+    l.ok(&[
+        "project",
+        "add",
+        "SML",
+        "--name",
+        "Small",
+        "--method",
+        "saline-aquifer",
+        "--operator",
+        "N",
+        "--permit-capacity",
+        "1000 t",
+        "--permit-annual",
+        "800 t",
+    ]);
     l.ok(&["site", "add", "SML", "W", "--kind", "injection-well"]);
     let inj = |mass: &str, m: &str, extra: &[&str]| {
-        let mut a = vec!["record", "injection", "SML", "--site", "W", "--mass", mass, "--from", m, "--to", m];
+        let mut a = vec![
+            "record",
+            "injection",
+            "SML",
+            "--site",
+            "W",
+            "--mass",
+            mass,
+            "--from",
+            m,
+            "--to",
+            m,
+        ];
         a.extend_from_slice(extra);
         l.run(&a)
     };
@@ -128,20 +283,43 @@ fn permits_warn_refuse_and_flag() {
     assert!(r.err.is_empty());
     let r = inj("210 t", "2027-01-10", &[]);
     assert_eq!(r.code, 0);
-    assert!(r.err.contains("warning: project SML has used 91.00 % of its permitted capacity"), "{}", r.err);
+    assert!(
+        r.err
+            .contains("warning: project SML has used 91.00 % of its permitted capacity"),
+        "{}",
+        r.err
+    );
     let r = inj("100 t", "2027-02-10", &[]);
     assert_eq!(r.code, 1);
-    assert!(r.err.contains("cumulative stored 1,010.000 t would be 101.00 % of the permitted capacity 1,000.000 t"), "{}", r.err);
+    assert!(
+        r.err.contains(
+            "cumulative stored 1,010.000 t would be 101.00 % of the permitted capacity 1,000.000 t"
+        ),
+        "{}",
+        r.err
+    );
     let r = inj("100 t", "2027-02-10", &["--over-permit"]);
     assert_eq!(r.code, 0, "{}", r.err);
     assert!(r.err.contains("recorded over the permit"), "{}", r.err);
     let b = l.ok(&["balance", "SML", "--by", "year"]);
-    assert!(b.contains("PERMIT EXCEEDED: cumulative stored 1,010.000 t"), "{b}");
-    assert!(b.contains("Recorded over the permit (--over-permit): seq 2."), "{b}");
+    assert!(
+        b.contains("PERMIT EXCEEDED: cumulative stored 1,010.000 t"),
+        "{b}"
+    );
+    assert!(
+        b.contains("Recorded over the permit (--over-permit): seq 2."),
+        "{b}"
+    );
     // The annual maximum: 800 t in 2026.
     let r = inj("150 t", "2026-03-10", &[]);
     assert_eq!(r.code, 1);
-    assert!(r.err.contains("injection in 2026 would be 850.000 t, above the permitted annual maximum 800.000 t"), "{}", r.err);
+    assert!(
+        r.err.contains(
+            "injection in 2026 would be 850.000 t, above the permitted annual maximum 800.000 t"
+        ),
+        "{}",
+        r.err
+    );
 }
 
 #[test]
@@ -149,15 +327,168 @@ fn bad_geological_inputs() {
     let l = eor();
     let before = l.count("KRE");
     for (args, needle) in [
-        (&["record", "production", "KRE", "--site", "KR-P", "--mass", "1 t", "--entrained-fraction", "1.5", "--from", "2026-01-01", "--to", "2026-01-01"][..], "--entrained-fraction \"1.5\""),
-        (&["record", "leakage", "KRE", "--site", "KR-P", "--pathway", "p", "--rate", "2 t/week", "--from", "2026-01-01", "--to", "2026-01-02"][..], "--rate \"2 t/week\""),
-        (&["record", "leakage", "KRE", "--site", "KR-P", "--pathway", "p", "--rate", "2 t/h", "--mass", "1 t", "--from", "2026-01-01", "--to", "2026-01-02"][..], "not both"),
-        (&["record", "receipt", "KRE", "--site", "KR-W1", "--mass", "1 t", "--from", "2026-01-01", "--to", "2026-01-02"][..], "receipt entries are recorded at sites of kind plant or injection-well"),
-        (&["record", "injection", "KRE", "--site", "KR-I1", "--volume", "1200 m3", "--from", "2026-01-01", "--to", "2026-01-02"][..], "reference conditions"),
-        (&["record", "injection", "KRE", "--site", "KR-I1", "--volume", "12 Sm3", "--density", "regulatory", "--from", "2026-01-01", "--to", "2026-01-02"][..], "60 °F and 1 atm"),
-        (&["record", "injection", "KRE", "--site", "KR-I1", "--mass", "12 t", "--co2-fraction", "0.9", "--co2-basis", "mol", "--from", "2026-01-01", "--to", "2026-01-02"][..], "--impurities"),
-        (&["record", "injection", "KRE", "--site", "KR-I1", "--mass", "12 t", "--co2-fraction", "0.9", "--co2-basis", "mol", "--impurities", "N2=0.2", "--from", "2026-01-01", "--to", "2026-01-02"][..], "--impurities \"N2=0.2\""),
-        (&["record", "survey", "KRE", "--site", "KR-P", "--date", "2026-02-30", "--result", "no-leak"][..], "--date \"2026-02-30\""),
+        (
+            &[
+                "record",
+                "production",
+                "KRE",
+                "--site",
+                "KR-P",
+                "--mass",
+                "1 t",
+                "--entrained-fraction",
+                "1.5",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-01",
+            ][..],
+            "--entrained-fraction \"1.5\"",
+        ),
+        (
+            &[
+                "record",
+                "leakage",
+                "KRE",
+                "--site",
+                "KR-P",
+                "--pathway",
+                "p",
+                "--rate",
+                "2 t/week",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "--rate \"2 t/week\"",
+        ),
+        (
+            &[
+                "record",
+                "leakage",
+                "KRE",
+                "--site",
+                "KR-P",
+                "--pathway",
+                "p",
+                "--rate",
+                "2 t/h",
+                "--mass",
+                "1 t",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "not both",
+        ),
+        (
+            &[
+                "record",
+                "receipt",
+                "KRE",
+                "--site",
+                "KR-W1",
+                "--mass",
+                "1 t",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "receipt entries are recorded at sites of kind plant or injection-well",
+        ),
+        (
+            &[
+                "record",
+                "injection",
+                "KRE",
+                "--site",
+                "KR-I1",
+                "--volume",
+                "1200 m3",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "reference conditions",
+        ),
+        (
+            &[
+                "record",
+                "injection",
+                "KRE",
+                "--site",
+                "KR-I1",
+                "--volume",
+                "12 Sm3",
+                "--density",
+                "regulatory",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "60 °F and 1 atm",
+        ),
+        (
+            &[
+                "record",
+                "injection",
+                "KRE",
+                "--site",
+                "KR-I1",
+                "--mass",
+                "12 t",
+                "--co2-fraction",
+                "0.9",
+                "--co2-basis",
+                "mol",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "--impurities",
+        ),
+        (
+            &[
+                "record",
+                "injection",
+                "KRE",
+                "--site",
+                "KR-I1",
+                "--mass",
+                "12 t",
+                "--co2-fraction",
+                "0.9",
+                "--co2-basis",
+                "mol",
+                "--impurities",
+                "N2=0.2",
+                "--from",
+                "2026-01-01",
+                "--to",
+                "2026-01-02",
+            ][..],
+            "--impurities \"N2=0.2\"",
+        ),
+        (
+            &[
+                "record",
+                "survey",
+                "KRE",
+                "--site",
+                "KR-P",
+                "--date",
+                "2026-02-30",
+                "--result",
+                "no-leak",
+            ][..],
+            "--date \"2026-02-30\"",
+        ),
     ] {
         let r = l.run(args);
         assert_eq!(r.code, 1, "{args:?}: {}", r.err);

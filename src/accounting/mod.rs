@@ -3,3 +3,4 @@
 pub mod balance;
 pub mod leakage;
 pub mod metering;
+pub mod permit;

@@ -37,9 +37,13 @@ struct Row {
 
 fn conversion(e: &Entry) -> String {
     match (e.reading.get("meter_type"), e.reading.get("density_method")) {
-        (Some("volumetric"), Some("regulatory")) => "volume × D (40 CFR 98.443) × CO2 vol. fraction".into(),
+        (Some("volumetric"), Some("regulatory")) => {
+            "volume × D (40 CFR 98.443) × CO2 vol. fraction".into()
+        }
         (Some("volumetric"), _) => "volume × ρ (Span–Wagner) × CO2 vol. fraction".into(),
-        (_, _) if e.reading.get("co2_basis") == Some("mol") => "mass × CO2 mass fraction (from mole fraction)".into(),
+        (_, _) if e.reading.get("co2_basis") == Some("mol") => {
+            "mass × CO2 mass fraction (from mole fraction)".into()
+        }
         _ => "mass × CO2 mass fraction".into(),
     }
 }
@@ -47,7 +51,11 @@ fn conversion(e: &Entry) -> String {
 /// The metered quantity of an entry: grams for a mass meter, m³ for a volumetric one.
 fn metered_quantity(e: &Entry) -> Option<f64> {
     match e.reading.get("meter_type")? {
-        "mass" => MassReading::parse(e.reading.get("mass")?).ok()?.grams_exact().ok().map(|g| g.to_f64()),
+        "mass" => MassReading::parse(e.reading.get("mass")?)
+            .ok()?
+            .grams_exact()
+            .ok()
+            .map(|g| g.to_f64()),
         "volumetric" => e.reading.get("volume_m3")?.parse().ok(),
         _ => None,
     }
@@ -55,7 +63,11 @@ fn metered_quantity(e: &Entry) -> Option<f64> {
 
 pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
     if !(1900..=9999).contains(&a.year) {
-        return Err(Error::field("--year", &a.year.to_string(), "is not a plausible reporting year"));
+        return Err(Error::field(
+            "--year",
+            &a.year.to_string(),
+            "is not a plausible reporting year",
+        ));
     }
     let all = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
@@ -63,15 +75,23 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
     })?;
     let mut rows: BTreeMap<(String, Bucket), Row> = BTreeMap::new();
     for e in effective(&all) {
-        let Some(q) = metered_quantity(e) else { continue };
-        let fraction: f64 = e.reading.get("co2_fraction").and_then(|f| f.parse().ok()).unwrap_or(1.0);
+        let Some(q) = metered_quantity(e) else {
+            continue;
+        };
+        let fraction: f64 = e
+            .reading
+            .get("co2_fraction")
+            .and_then(|f| f.parse().ok())
+            .unwrap_or(1.0);
         let meter = e.meter.clone().unwrap_or_else(|| format!("({})", e.site));
         let total_days = e.period.days() as f64;
         for (bucket, g) in apportion(e.mass.grams(), e.period, Grouping::Quarter) {
             if bucket.year != a.year {
                 continue;
             }
-            let days = (bucket.last_day().min(e.period.to) - e.period.from.max(bucket.first_day())).num_days() as f64 + 1.0;
+            let days = (bucket.last_day().min(e.period.to) - e.period.from.max(bucket.first_day()))
+                .num_days() as f64
+                + 1.0;
             let share = q * days / total_days;
             let r = rows.entry((meter.clone(), bucket)).or_default();
             r.site = e.site.clone();
@@ -107,7 +127,11 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         ]),
     );
     for ((meter, bucket), r) in &rows {
-        let (quantity, unit) = if r.meter_type == "volumetric" { (r.quantity, "m³ (std)") } else { (r.quantity / 1e6, "t") };
+        let (quantity, unit) = if r.meter_type == "volumetric" {
+            (r.quantity, "m³ (std)")
+        } else {
+            (r.quantity / 1e6, "t")
+        };
         t.push(vec![
             Cell::text(meter),
             Cell::text(&r.site),
@@ -117,7 +141,14 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             Cell::Int(r.readings as i64),
             Cell::Number(quantity, 3),
             Cell::text(unit),
-            Cell::Number(if r.quantity > 0.0 { r.weighted_fraction / r.quantity } else { 0.0 }, 4),
+            Cell::Number(
+                if r.quantity > 0.0 {
+                    r.weighted_fraction / r.quantity
+                } else {
+                    0.0
+                },
+                4,
+            ),
             Cell::text(&r.conversion),
             Cell::Tonnes(r.co2),
         ]);
@@ -125,4 +156,3 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
     t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it. Entries spanning quarters are split by days.");
     Ok(Report::default().table(t))
 }
-

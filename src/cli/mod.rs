@@ -4,6 +4,7 @@
 mod convert;
 mod demo;
 mod density;
+mod import;
 mod inputs;
 mod meters;
 mod potential;
@@ -59,6 +60,8 @@ pub enum Command {
     Entries(reports::EntriesArgs),
     /// Injected and stored tonnes by period, cumulative, and permit use
     Balance(reports::BalanceArgs),
+    /// Import a meter export (CSV): raw readings kept, one entry per meter per day
+    Import(import::ImportArgs),
     /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
     Meters(meters::MetersArgs),
     /// Recompute every hash and check the ledger's structure
@@ -100,6 +103,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Correct(a) => record::correct(&ctx, a),
         Command::Entries(a) => reports::entries(&ctx, a),
         Command::Balance(a) => reports::balance(&ctx, a),
+        Command::Import(a) => import::import(&ctx, a),
         Command::Meters(a) => meters::meters(&ctx, a),
         Command::Verify(a) => verify::verify(&ctx, a),
         Command::Convert(a) => convert::convert(a),

@@ -2,20 +2,18 @@
 
 use super::setup::known_project;
 use super::{Context, inputs};
-use crate::accounting::balance::{BalanceMethod, balance};
 use crate::accounting::leakage;
 use crate::accounting::metering::{Basis, MeterInput, measure};
+use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, append, content_key};
 use crate::ledger::correction::{self, effective};
-use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind, Period, Project, Reading, SealedEntry};
+use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
-use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
-use chrono::{Datelike, NaiveDate};
+use chrono::NaiveDate;
 use clap::{Args, Subcommand, ValueEnum};
 
 /// Quantity options shared by `record` and `correct`.
@@ -566,69 +564,6 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     commit(ctx, entry, a.key, a.over_permit)
 }
 
-/// The permit check of an injection: cumulative stored against the permitted capacity (refused
-/// past 100 % unless acknowledged; a warning past 90 %) and the year's injection against an
-/// annual maximum.
-fn permit_check(
-    project: &Project,
-    entries: &[SealedEntry],
-    new: &Entry,
-    over_permit: bool,
-) -> Result<Vec<String>> {
-    let mut after: Vec<Entry> = effective(entries)
-        .filter(|e| Some(e.seq) != new.corrects)
-        .cloned()
-        .collect();
-    after.push(new.clone());
-    let mut warnings = Vec::new();
-    let mut exceeded = Vec::new();
-    if let Some(cap) = project.permit_capacity.filter(|c| c.is_positive()) {
-        let lines = balance(project, after.iter(), Grouping::Year, BalanceMethod::Rr);
-        let stored = lines.last().map_or(Mass::ZERO, |l| l.cumulative_stored);
-        let pct = 100.0 * stored.grams() as f64 / cap.grams() as f64;
-        if stored > cap {
-            exceeded.push(format!(
-                "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
-                tonnes_text(stored),
-                tonnes_text(cap)
-            ));
-        } else if pct > 90.0 {
-            warnings.push(format!(
-                "project {} has used {pct:.2} % of its permitted capacity",
-                project.code
-            ));
-        }
-    }
-    if let Some(max) = project.permit_annual {
-        let year = new.period.to.year();
-        let lines = balance(project, after.iter(), Grouping::Year, BalanceMethod::Rr);
-        let injected = lines
-            .iter()
-            .find(|l| l.bucket.year == year)
-            .map_or(Mass::ZERO, |l| l.terms.injected);
-        if injected > max {
-            exceeded.push(format!(
-                "injection in {year} would be {} t, above the permitted annual maximum {} t",
-                tonnes_text(injected),
-                tonnes_text(max)
-            ));
-        }
-    }
-    if !exceeded.is_empty() && !over_permit {
-        return Err(Error::Refused(format!(
-            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
-            project.code,
-            exceeded.join("; ")
-        )));
-    }
-    warnings.extend(
-        exceeded
-            .into_iter()
-            .map(|e| format!("recorded over the permit: {e}")),
-    );
-    Ok(warnings)
-}
-
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
 fn commit(
     ctx: &Context,
@@ -670,7 +605,8 @@ fn commit(
                     | EntryKind::Leakage
                     | EntryKind::EquipmentLeak
             ) {
-                warnings = permit_check(&project, &all, &s.entry, over_permit)?;
+                warnings =
+                    permit::check(&project, &all, std::slice::from_ref(&s.entry), over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }

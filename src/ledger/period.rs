@@ -183,9 +183,18 @@ mod tests {
             d("2026-12-31")
         );
         assert_eq!(Grouping::Year.bucket(d("2028-02-29")).to_string(), "2028");
-        assert_eq!(Grouping::Quarter.bucket(d("2026-05-10")).first_day(), d("2026-04-01"));
-        assert_eq!(Grouping::Month.bucket(d("2026-05-10")).first_day(), d("2026-05-01"));
-        assert_eq!(Grouping::Year.bucket(d("2026-05-10")).first_day(), d("2026-01-01"));
+        assert_eq!(
+            Grouping::Quarter.bucket(d("2026-05-10")).first_day(),
+            d("2026-04-01")
+        );
+        assert_eq!(
+            Grouping::Month.bucket(d("2026-05-10")).first_day(),
+            d("2026-05-01")
+        );
+        assert_eq!(
+            Grouping::Year.bucket(d("2026-05-10")).first_day(),
+            d("2026-01-01")
+        );
     }
 
     #[test]

@@ -64,16 +64,19 @@ impl Decimal {
         if (int.is_empty() && frac.is_empty()) || !all_digits(int) || !all_digits(frac) {
             return Err(DecimalError::Malformed);
         }
-        let joined = format!("{int}{frac}");
-        let significant = joined.trim_start_matches('0');
-        if significant.len() > 30 {
-            return Err(DecimalError::TooLong);
+        // Digits of int then frac, leading zeros skipped, without building a joined string.
+        let mut mantissa: i128 = 0;
+        let mut significant = 0usize;
+        for b in int.bytes().chain(frac.bytes()) {
+            if significant == 0 && b == b'0' {
+                continue;
+            }
+            significant += 1;
+            if significant > 30 {
+                return Err(DecimalError::TooLong);
+            }
+            mantissa = mantissa * 10 + i128::from(b - b'0');
         }
-        let mut mantissa: i128 = if significant.is_empty() {
-            0
-        } else {
-            significant.parse().map_err(|_| DecimalError::TooLong)?
-        };
         let mut scale =
             i64::try_from(frac.len()).map_err(|_| DecimalError::TooLong)? - i64::from(exp);
         if scale < 0 {

@@ -208,3 +208,27 @@ impl EntryRow {
         })
     }
 }
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = super::schema::imports, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct ImportRow {
+    pub id: i64,
+    pub project: String,
+    pub file_name: String,
+    pub file_sha256: String,
+    pub kind: String,
+    pub row_count: i64,
+    pub imported_at: NaiveDateTime,
+}
+
+/// One raw meter reading as imported: the line as written and the grams read from it.
+#[derive(Debug, Clone, Queryable, Selectable)]
+#[diesel(table_name = super::schema::readings, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct ReadingRow {
+    pub import_id: i64,
+    pub line: i64,
+    pub meter: String,
+    pub day: String,
+    pub grams: i64,
+    pub raw: String,
+}

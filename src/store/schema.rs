@@ -47,3 +47,26 @@ diesel::table! {
         chain_hash -> Text,
     }
 }
+
+diesel::table! {
+    imports (id) {
+        id -> BigInt,
+        project -> Text,
+        file_name -> Text,
+        file_sha256 -> Text,
+        kind -> Text,
+        row_count -> BigInt,
+        imported_at -> Timestamp,
+    }
+}
+
+diesel::table! {
+    readings (import_id, line) {
+        import_id -> BigInt,
+        line -> BigInt,
+        meter -> Text,
+        day -> Text,
+        grams -> BigInt,
+        raw -> Text,
+    }
+}

@@ -1,0 +1,146 @@
+//! Meter import throughput: 1,000,000 generated meter rows imported by `sinkbook import`
+//! (validating, converting, rolling up by meter-day, hash-chaining, keeping every raw row)
+//! beside the sqlite3 shell's plain `.import` of the same CSV into a plain table, in the same
+//! run. Also the time of `balance --by quarter` on the imported ledger and the import's peak
+//! memory. Run with `cargo bench --bench import` (needs `sqlite3` and `/usr/bin/time` for the
+//! baseline and the memory figure; says so when they are missing).
+
+use std::io::Write;
+use std::path::Path;
+use std::process::Command;
+use std::time::Instant;
+
+const ROWS: u64 = 1_000_000;
+
+/// Two meters, one mass (t) and one volumetric (Mscf), a reading every 63 s through 2026.
+fn generate(path: &Path) {
+    let mut f = std::io::BufWriter::new(std::fs::File::create(path).unwrap());
+    writeln!(f, "timestamp,site,quantity,unit,co2_fraction,meter").unwrap();
+    let start = chrono::DateTime::parse_from_rfc3339("2026-01-01T00:00:00Z").unwrap();
+    let mut x: u64 = 0x2545_F491_4F6C_DD1D;
+    for i in 0..ROWS / 2 {
+        let t = (start + chrono::Duration::seconds(63 * i as i64)).format("%Y-%m-%dT%H:%M:%SZ");
+        x ^= x << 13;
+        x ^= x >> 7;
+        x ^= x << 17;
+        let u = (x % 10_000) as f64 / 10_000.0;
+        writeln!(f, "{t},TF-I1,{:.4},t,0.985,FM-101", 0.5 + 0.4 * u).unwrap();
+        writeln!(f, "{t},TF-I2,{:.3},Mscf,0.99,FM-201", 9.0 + 3.0 * u).unwrap();
+    }
+}
+
+fn sinkbook(db: &Path, args: &[&str]) -> std::process::Output {
+    let o = Command::new(env!("CARGO_BIN_EXE_sinkbook"))
+        .arg("--db")
+        .arg(db)
+        .args(args)
+        .output()
+        .unwrap();
+    assert!(
+        o.status.success(),
+        "sinkbook {args:?}: {}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    o
+}
+
+fn timed(mut cmd: Command) -> (f64, std::process::Output) {
+    let t = Instant::now();
+    let o = cmd.output().unwrap();
+    (t.elapsed().as_secs_f64(), o)
+}
+
+fn main() {
+    let dir = tempfile::tempdir().unwrap();
+    let csv = dir.path().join("meters.csv");
+    generate(&csv);
+    let db = dir.path().join("ledger.db");
+    sinkbook(&db, &["init"]);
+    sinkbook(
+        &db,
+        &[
+            "project",
+            "add",
+            "TFS",
+            "--name",
+            "Tamsin Flats Storage",
+            "--method",
+            "saline-aquifer",
+            "--operator",
+            "Northdeep Storage Cooperative",
+        ],
+    );
+    sinkbook(
+        &db,
+        &["site", "add", "TFS", "TF-I1", "--kind", "injection-well"],
+    );
+    sinkbook(
+        &db,
+        &["site", "add", "TFS", "TF-I2", "--kind", "injection-well"],
+    );
+
+    let have_time = Path::new("/usr/bin/time").exists();
+    let mut cmd = if have_time {
+        let mut c = Command::new("/usr/bin/time");
+        c.args(["-f", "%M"]).arg(env!("CARGO_BIN_EXE_sinkbook"));
+        c
+    } else {
+        Command::new(env!("CARGO_BIN_EXE_sinkbook"))
+    };
+    cmd.arg("--db").arg(&db).args(["import", "TFS"]).arg(&csv);
+    let (ours, out) = timed(cmd);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let peak_kb: Option<u64> = have_time
+        .then(|| {
+            String::from_utf8_lossy(&out.stderr)
+                .lines()
+                .last()
+                .and_then(|l| l.trim().parse().ok())
+        })
+        .flatten();
+
+    println!(
+        "meter import of {ROWS} rows ({:.1} MB)",
+        std::fs::metadata(&csv).unwrap().len() as f64 / 1e6
+    );
+    println!(
+        "  sinkbook import      {ours:>7.3} s  {:>10.0} rows/s",
+        ROWS as f64 / ours
+    );
+    let plain = dir.path().join("plain.db");
+    let mut shell = Command::new("sqlite3");
+    shell
+        .arg(&plain)
+        .arg(".mode csv")
+        .arg(format!(".import {} readings", csv.display()));
+    match timed(shell) {
+        (secs, o) if o.status.success() => {
+            println!(
+                "  sqlite3 .import      {secs:>7.3} s  {:>10.0} rows/s  (baseline, same run)",
+                ROWS as f64 / secs
+            );
+            println!(
+                "  ratio                {:>7.2}  (sinkbook rows/s ÷ sqlite3 rows/s; target ≥ 1, aim 1.5)",
+                secs / ours
+            );
+        }
+        _ => println!("  sqlite3 .import      not measured: no sqlite3 shell on this machine"),
+    }
+    let t = Instant::now();
+    sinkbook(&db, &["balance", "TFS", "--by", "quarter"]);
+    println!(
+        "  balance --by quarter {:>7.3} s  (target < 0.1 s)",
+        t.elapsed().as_secs_f64()
+    );
+    match peak_kb {
+        Some(kb) => println!(
+            "  import peak memory   {:>7.1} MB  (target < 100 MB)",
+            kb as f64 / 1024.0
+        ),
+        None => println!("  import peak memory   not measured: no /usr/bin/time"),
+    }
+}
