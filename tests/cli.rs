@@ -254,7 +254,7 @@ fn demo_without_db_uses_a_temporary_file() {
     assert!(
         String::from_utf8(o.stdout)
             .unwrap()
-            .contains("Mass balance (40 CFR 98.443) by quarter, project TFS")
+            .contains("Mass balance (ISO 27916) by year, project KRE")
     );
     assert_eq!(
         std::fs::read_dir(dir.path()).unwrap().count(),

@@ -51,6 +51,11 @@ struct Day {
     last_line: u64,
     mass_rows: u64,
     volume_rows: u64,
+    /// Grams of stream read by mass meters, and standard m³ read by volumetric ones.
+    mass_read: f64,
+    volume_read: f64,
+    /// Σ read × CO2 fraction, for the day's weighted mean concentration.
+    weighted_fraction: f64,
 }
 
 /// Bad rows listed in the one-line refusal before "and N more".
@@ -133,9 +138,12 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
                         d.grams = d.grams.checked_add(r.grams).ok_or_else(|| Error::field("FILE", &file_name, "totals too large for the ledger"))?;
                         if r.volumetric {
                             d.volume_rows += 1;
+                            d.volume_read += r.read;
                         } else {
                             d.mass_rows += 1;
+                            d.mass_read += r.read;
                         }
+                        d.weighted_fraction += r.read * r.fraction;
                         accepted += 1;
                         batch.push(ReadingRow {
                             import_id,
@@ -199,6 +207,16 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
                 _ => "mixed",
             };
             reading.push("meter_type", meter_type);
+            if d.mass_rows > 0 {
+                reading.push("mass", Mass::from_grams(d.mass_read.round_ties_even() as i64).to_string());
+            }
+            if d.volume_rows > 0 {
+                reading.push("volume_m3", format!("{:.6}", d.volume_read));
+            }
+            let read = d.mass_read + d.volume_read;
+            if read > 0.0 && meter_type != "mixed" {
+                reading.push("co2_fraction_mean", format!("{:.6}", d.weighted_fraction / read));
+            }
             reading.push("density_method", density.name());
             let entry = Entry {
                 project: a.project.clone(),

@@ -81,6 +81,7 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         let fraction: f64 = e
             .reading
             .get("co2_fraction")
+            .or(e.reading.get("co2_fraction_mean"))
             .and_then(|f| f.parse().ok())
             .unwrap_or(1.0);
         let meter = e.meter.clone().unwrap_or_else(|| format!("({})", e.site));

@@ -84,6 +84,10 @@ pub struct MeterRow {
     pub meter: String,
     pub basis: Basis,
     pub volumetric: bool,
+    /// What the meter read before the CO2 fraction: grams of stream (mass meters) or standard m³.
+    pub read: f64,
+    /// The CO2 fraction as a number, to weight a day's mean concentration.
+    pub fraction: f64,
     pub grams: i64,
 }
 
@@ -92,7 +96,7 @@ pub struct MeterRow {
 #[derive(Debug, Clone)]
 enum UnitFactor {
     Mass(Decimal),
-    Volume { kg_per_unit: f64 },
+    Volume { kg_per_unit: f64, m3_per_unit: f64 },
 }
 
 struct Converter {
@@ -115,7 +119,10 @@ impl Converter {
                 let v = StandardVolume::parse(&format!("1 {unit}"))
                     .map_err(|e| format!("unit {unit:?}: {e}"))?;
                 let m = v.mass(density).map_err(|e| format!("unit {unit:?}: {e}"))?;
-                Ok(UnitFactor::Volume { kg_per_unit: m.kg })
+                Ok(UnitFactor::Volume {
+                    kg_per_unit: m.kg,
+                    m3_per_unit: m.m3,
+                })
             })
             .clone()
     }
@@ -178,13 +185,17 @@ fn convert(
         }
         (other, _) => return Err(format!("basis {other:?}: use mass or mol")),
     };
+    let read = match factor {
+        UnitFactor::Mass(g) => q.checked_mul(g).map_or(f64::INFINITY, Decimal::to_f64),
+        UnitFactor::Volume { m3_per_unit, .. } => q.to_f64() * m3_per_unit,
+    };
     let grams = match factor {
         UnitFactor::Mass(g) => q
             .checked_mul(g)
             .and_then(|x| x.checked_mul(f.value()))
             .and_then(Decimal::round_half_even)
             .ok_or_else(|| format!("quantity {quantity:?}: too large"))?,
-        UnitFactor::Volume { kg_per_unit } => {
+        UnitFactor::Volume { kg_per_unit, .. } => {
             let g = q.to_f64() * kg_per_unit * 1000.0 * f.to_f64();
             if !g.is_finite() || g > 9.0e18 {
                 return Err(format!("quantity {quantity:?}: too large"));
@@ -204,6 +215,8 @@ fn convert(
         },
         basis,
         volumetric,
+        read,
+        fraction: f.to_f64(),
         grams,
     })
 }
