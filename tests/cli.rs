@@ -160,6 +160,8 @@ fn corrections_replace_and_can_be_corrected() {
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "entries", "TFS"])).unwrap();
     assert_eq!(v[4]["corrects"], 0);
+    // A correction of the mass keeps the corrected reading's CO2 fraction (0.985).
+    assert_eq!(v[4]["co2_g"], 35_460_000_000i64);
     assert_eq!(v[4]["corrected_by"], 5);
     assert_eq!(v[5]["reading"][1], serde_json::json!(["mass", "36000 t"]));
     assert_eq!(v[5]["co2_g"], 35_640_000_000i64); // 36 000 t × 0.99

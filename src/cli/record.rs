@@ -496,6 +496,39 @@ fn last_clear_survey(
         .max())
 }
 
+/// The quantity of a correction: what it gives, and for the rest the corrected reading's own
+/// quantity, CO2 fraction, basis and density method.
+fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
+    let mut q = given.clone();
+    if !q.is_given() {
+        q.mass = was.get("mass").map(str::to_string);
+        q.volume = was.get("volume").map(str::to_string);
+        if !q.is_given() {
+            return Err(Error::field(
+                "--co2-fraction",
+                q.co2_fraction.as_deref().unwrap_or(""),
+                "the corrected entry has no metered quantity to apply it to: give --mass or --volume",
+            ));
+        }
+    }
+    let fraction = was.get("co2_fraction").or(was.get("co2_fraction_mean"));
+    q.co2_fraction = q.co2_fraction.or(fraction.map(str::to_string));
+    q.co2_basis = q.co2_basis.or(match was.get("co2_basis") {
+        Some("mol") => Some(Basis::Mol),
+        Some("mass") => Some(Basis::Mass),
+        _ => None,
+    });
+    q.density = q.density.or(match was.get("density_method") {
+        Some("regulatory") => Some(DensityArg::Regulatory),
+        Some("eos") => Some(DensityArg::Eos),
+        _ => None,
+    });
+    q.impurities = q
+        .impurities
+        .or(was.get("impurities_mol").map(str::to_string));
+    Ok(q)
+}
+
 pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     inputs::text("--reason", &a.reason)?;
     optional_text("--key", &a.key)?;
@@ -508,31 +541,8 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
             .cloned()
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))
     })?;
-    let (reading, mass) = if a.quantity.is_given() {
-        let m = measure(&a.quantity.input())?;
-        let mut reading = m.reading;
-        for (n, v) in &target.reading.0 {
-            if KIND_FIELDS.contains(&n.as_str()) {
-                reading.push(n, v.clone());
-            }
-        }
-        (reading, m.mass)
-    } else if a.quantity.co2_fraction.is_some() {
-        // A new fraction on the same meter reading: restate the quantity as recorded.
-        let mut q = a.quantity.clone();
-        q.mass = target.reading.get("mass").map(str::to_string);
-        q.volume = target.reading.get("volume").map(str::to_string);
-        q.co2_basis = q.co2_basis.or(match target.reading.get("co2_basis") {
-            Some("mol") => Some(Basis::Mol),
-            _ => None,
-        });
-        if !q.is_given() {
-            return Err(Error::field(
-                "--co2-fraction",
-                q.co2_fraction.as_deref().unwrap_or(""),
-                "the corrected entry has no metered quantity",
-            ));
-        }
+    let (reading, mass) = if a.quantity.is_given() || a.quantity.co2_fraction.is_some() {
+        let q = restated(&a.quantity, &target.reading)?;
         let m = measure(&q.input())?;
         let mut reading = m.reading;
         for (n, v) in &target.reading.0 {

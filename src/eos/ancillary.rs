@@ -5,7 +5,8 @@ use super::constants::{CRITICAL_DENSITY_KG_PER_M3, CRITICAL_PRESSURE_PA, CRITICA
 
 /// Vapour pressure, Pa, for a temperature below the critical one (Span & Wagner 1996, eq. 3.13;
 /// from memory, checked against CoolProp's saturation pressure to 3e-5 from 220 to 304 K —
-/// REFERENCES.md): ln(ps/pc) = (Tc/T) Σ aᵢ (1 − T/Tc)^tᵢ.
+/// REFERENCES.md; within 4.2e-5 of the full equation's down to the triple point, tested in
+/// `density`): ln(ps/pc) = (Tc/T) Σ aᵢ (1 − T/Tc)^tᵢ.
 pub(super) fn vapour_pressure(temperature_k: f64) -> f64 {
     let x = 1.0 - temperature_k / CRITICAL_TEMPERATURE_K;
     let x2 = x * x;
@@ -15,15 +16,17 @@ pub(super) fn vapour_pressure(temperature_k: f64) -> f64 {
 
 /// Saturated liquid and vapour densities, kg/m³, below the critical temperature: a starting
 /// point for the saturation solve and the phase brackets only, never an answer (Span & Wagner
-/// 1996, eqs. 3.14 and 3.15, from memory; they agree with CoolProp's saturated densities to
-/// 0.6 % for the liquid and 0.2 % for the vapour, closest to the critical point, where the two
-/// phases meet): ln(ρ/ρc) = Σ aᵢ (1 − T/Tc)^tᵢ.
+/// 1996, eqs. 3.14 and 3.15, from memory; they agree with the full equation's saturated
+/// densities to 0.7 % for the liquid and 0.3 % for the vapour, worst a few µK below Tc, where
+/// the phases meet): ln(ρ/ρc) = Σ aᵢ (1 − T/Tc)^tᵢ.
 pub(super) fn saturated_densities(temperature_k: f64) -> (f64, f64) {
     let x = 1.0 - temperature_k / CRITICAL_TEMPERATURE_K;
-    let x_034 = x.powf(0.34);
+    // Powers as exp(k ln x), faster than powf and cbrt; exponents 10/6, 11/6, 7/3 and 14/3 are
+    // whole multiples of 1/6.
+    let ln_x = x.ln();
+    let x_034 = (0.34 * ln_x).exp();
     let x_half = x.sqrt();
-    // Exponents 10/6, 11/6, 7/3 and 14/3 are whole multiples of x^(1/6).
-    let sixth = x_half.cbrt();
+    let sixth = (ln_x / 6.0).exp();
     let sixth2 = sixth * sixth;
     let sixth4 = sixth2 * sixth2;
     let x_10_6 = sixth4 * sixth4 * sixth2;

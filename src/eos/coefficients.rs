@@ -3,18 +3,18 @@
 //! Kept as typed const tables so the compiler sees their sizes and exponents; a test checks them,
 //! digit for digit, against the transcription `span-wagner-1996-co2-residual.tsv` beside this file.
 
-/// Terms 1–34: n δ^d τ^t exp(−δ^c); c = 0 marks the seven polynomial terms (no exponential).
+/// A polynomial or exponential term (see [`POWER`]).
 pub(super) struct PowerTerm {
     pub n: f64,
-    pub d: usize,
+    pub d: u32,
     pub t: f64,
-    pub c: usize,
+    pub c: u32,
 }
 
 /// A Gaussian bell-shaped term (see [`GAUSSIAN`]).
 pub(super) struct GaussianTerm {
     pub n: f64,
-    pub d: usize,
+    pub d: u32,
     pub t: f64,
     pub alpha: f64,
     pub beta: f64,
@@ -35,325 +35,61 @@ pub(super) struct NonAnalyticTerm {
     pub big_d: f64,
 }
 
-/// Largest power of δ in [`POWER`] and [`GAUSSIAN`] (as d or c): the size of the δ-power table.
-pub(super) const MAX_DELTA_POWER: usize = 10;
-/// Largest whole power of τ in the tables: the size of the τ-power table.
-pub(super) const MAX_TAU_POWER: usize = 28;
-
-/// τ exponents are multiples of ¼ up to [`MAX_TAU_POWER`], so τ^t is a table entry times a
-/// root of τ; δ exponents fit the δ-power table. Checked when compiling, so indexing cannot fail.
-const fn exponents_fit() -> bool {
-    const fn tau_fits(t: f64) -> bool {
-        let quarters = t * 4.0;
-        quarters >= 0.0 && quarters == (quarters as usize) as f64 && t <= MAX_TAU_POWER as f64
-    }
-    let mut i = 0;
-    while i < POWER.len() {
-        let term = &POWER[i];
-        if !tau_fits(term.t) || term.d > MAX_DELTA_POWER || term.c > MAX_DELTA_POWER {
-            return false;
-        }
-        i += 1;
-    }
-    let mut i = 0;
-    while i < GAUSSIAN.len() {
-        if !tau_fits(GAUSSIAN[i].t) || GAUSSIAN[i].d > MAX_DELTA_POWER {
-            return false;
-        }
-        i += 1;
-    }
-    true
-}
-const _: () = assert!(exponents_fit());
-
+/// Terms 1–34: n δ^d τ^t exp(−δ^c), with c = 0 for the seven polynomial terms 1–7.
+#[rustfmt::skip]
 pub(super) const POWER: [PowerTerm; 34] = [
-    PowerTerm {
-        n: 0.38856823203161,
-        d: 1,
-        t: 0.0,
-        c: 0,
-    },
-    PowerTerm {
-        n: 2.938547594274,
-        d: 1,
-        t: 0.75,
-        c: 0,
-    },
-    PowerTerm {
-        n: -5.5867188534934,
-        d: 1,
-        t: 1.0,
-        c: 0,
-    },
-    PowerTerm {
-        n: -0.76753199592477,
-        d: 1,
-        t: 2.0,
-        c: 0,
-    },
-    PowerTerm {
-        n: 0.31729005580416,
-        d: 2,
-        t: 0.75,
-        c: 0,
-    },
-    PowerTerm {
-        n: 0.54803315897767,
-        d: 2,
-        t: 2.0,
-        c: 0,
-    },
-    PowerTerm {
-        n: 0.12279411220335,
-        d: 3,
-        t: 0.75,
-        c: 0,
-    },
-    PowerTerm {
-        n: 2.165896154322,
-        d: 1,
-        t: 1.5,
-        c: 1,
-    },
-    PowerTerm {
-        n: 1.5841735109724,
-        d: 2,
-        t: 1.5,
-        c: 1,
-    },
-    PowerTerm {
-        n: -0.23132705405503,
-        d: 4,
-        t: 2.5,
-        c: 1,
-    },
-    PowerTerm {
-        n: 0.058116916431436,
-        d: 5,
-        t: 0.0,
-        c: 1,
-    },
-    PowerTerm {
-        n: -0.55369137205382,
-        d: 5,
-        t: 1.5,
-        c: 1,
-    },
-    PowerTerm {
-        n: 0.48946615909422,
-        d: 5,
-        t: 2.0,
-        c: 1,
-    },
-    PowerTerm {
-        n: -0.024275739843501,
-        d: 6,
-        t: 0.0,
-        c: 1,
-    },
-    PowerTerm {
-        n: 0.062494790501678,
-        d: 6,
-        t: 1.0,
-        c: 1,
-    },
-    PowerTerm {
-        n: -0.12175860225246,
-        d: 6,
-        t: 2.0,
-        c: 1,
-    },
-    PowerTerm {
-        n: -0.37055685270086,
-        d: 1,
-        t: 3.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.016775879700426,
-        d: 1,
-        t: 6.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.11960736637987,
-        d: 4,
-        t: 3.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.045619362508778,
-        d: 4,
-        t: 6.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: 0.035612789270346,
-        d: 4,
-        t: 8.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.0074427727132052,
-        d: 7,
-        t: 6.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.0017395704902432,
-        d: 8,
-        t: 0.0,
-        c: 2,
-    },
-    PowerTerm {
-        n: -0.021810121289527,
-        d: 2,
-        t: 7.0,
-        c: 3,
-    },
-    PowerTerm {
-        n: 0.024332166559236,
-        d: 3,
-        t: 12.0,
-        c: 3,
-    },
-    PowerTerm {
-        n: -0.037440133423463,
-        d: 3,
-        t: 16.0,
-        c: 3,
-    },
-    PowerTerm {
-        n: 0.14338715756878,
-        d: 5,
-        t: 22.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: -0.13491969083286,
-        d: 5,
-        t: 24.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: -0.02315122505348,
-        d: 6,
-        t: 16.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: 0.012363125492901,
-        d: 7,
-        t: 24.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: 0.002105832197294,
-        d: 8,
-        t: 8.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: -0.00033958519026368,
-        d: 10,
-        t: 2.0,
-        c: 4,
-    },
-    PowerTerm {
-        n: 0.0055993651771592,
-        d: 4,
-        t: 28.0,
-        c: 5,
-    },
-    PowerTerm {
-        n: -0.00030335118055646,
-        d: 8,
-        t: 14.0,
-        c: 6,
-    },
+    PowerTerm { n: 0.38856823203161, d: 1, t: 0.0, c: 0 },
+    PowerTerm { n: 2.938547594274, d: 1, t: 0.75, c: 0 },
+    PowerTerm { n: -5.5867188534934, d: 1, t: 1.0, c: 0 },
+    PowerTerm { n: -0.76753199592477, d: 1, t: 2.0, c: 0 },
+    PowerTerm { n: 0.31729005580416, d: 2, t: 0.75, c: 0 },
+    PowerTerm { n: 0.54803315897767, d: 2, t: 2.0, c: 0 },
+    PowerTerm { n: 0.12279411220335, d: 3, t: 0.75, c: 0 },
+    PowerTerm { n: 2.165896154322, d: 1, t: 1.5, c: 1 },
+    PowerTerm { n: 1.5841735109724, d: 2, t: 1.5, c: 1 },
+    PowerTerm { n: -0.23132705405503, d: 4, t: 2.5, c: 1 },
+    PowerTerm { n: 0.058116916431436, d: 5, t: 0.0, c: 1 },
+    PowerTerm { n: -0.55369137205382, d: 5, t: 1.5, c: 1 },
+    PowerTerm { n: 0.48946615909422, d: 5, t: 2.0, c: 1 },
+    PowerTerm { n: -0.024275739843501, d: 6, t: 0.0, c: 1 },
+    PowerTerm { n: 0.062494790501678, d: 6, t: 1.0, c: 1 },
+    PowerTerm { n: -0.12175860225246, d: 6, t: 2.0, c: 1 },
+    PowerTerm { n: -0.37055685270086, d: 1, t: 3.0, c: 2 },
+    PowerTerm { n: -0.016775879700426, d: 1, t: 6.0, c: 2 },
+    PowerTerm { n: -0.11960736637987, d: 4, t: 3.0, c: 2 },
+    PowerTerm { n: -0.045619362508778, d: 4, t: 6.0, c: 2 },
+    PowerTerm { n: 0.035612789270346, d: 4, t: 8.0, c: 2 },
+    PowerTerm { n: -0.0074427727132052, d: 7, t: 6.0, c: 2 },
+    PowerTerm { n: -0.0017395704902432, d: 8, t: 0.0, c: 2 },
+    PowerTerm { n: -0.021810121289527, d: 2, t: 7.0, c: 3 },
+    PowerTerm { n: 0.024332166559236, d: 3, t: 12.0, c: 3 },
+    PowerTerm { n: -0.037440133423463, d: 3, t: 16.0, c: 3 },
+    PowerTerm { n: 0.14338715756878, d: 5, t: 22.0, c: 4 },
+    PowerTerm { n: -0.13491969083286, d: 5, t: 24.0, c: 4 },
+    PowerTerm { n: -0.02315122505348, d: 6, t: 16.0, c: 4 },
+    PowerTerm { n: 0.012363125492901, d: 7, t: 24.0, c: 4 },
+    PowerTerm { n: 0.002105832197294, d: 8, t: 8.0, c: 4 },
+    PowerTerm { n: -0.00033958519026368, d: 10, t: 2.0, c: 4 },
+    PowerTerm { n: 0.0055993651771592, d: 4, t: 28.0, c: 5 },
+    PowerTerm { n: -0.00030335118055646, d: 8, t: 14.0, c: 6 },
 ];
 
 /// Terms 35–39: n δ^d τ^t exp(−α(δ − ε)² − β(τ − γ)²).
+#[rustfmt::skip]
 pub(super) const GAUSSIAN: [GaussianTerm; 5] = [
-    GaussianTerm {
-        n: -213.6548868832,
-        d: 2,
-        t: 1.0,
-        alpha: 25.0,
-        beta: 325.0,
-        gamma: 1.16,
-        epsilon: 1.0,
-    },
-    GaussianTerm {
-        n: 26641.569149272,
-        d: 2,
-        t: 0.0,
-        alpha: 25.0,
-        beta: 300.0,
-        gamma: 1.19,
-        epsilon: 1.0,
-    },
-    GaussianTerm {
-        n: -24027.212204557,
-        d: 2,
-        t: 1.0,
-        alpha: 25.0,
-        beta: 300.0,
-        gamma: 1.19,
-        epsilon: 1.0,
-    },
-    GaussianTerm {
-        n: -283.41603423999,
-        d: 3,
-        t: 3.0,
-        alpha: 15.0,
-        beta: 275.0,
-        gamma: 1.25,
-        epsilon: 1.0,
-    },
-    GaussianTerm {
-        n: 212.47284400179,
-        d: 3,
-        t: 3.0,
-        alpha: 20.0,
-        beta: 275.0,
-        gamma: 1.22,
-        epsilon: 1.0,
-    },
+    GaussianTerm { n: -213.6548868832, d: 2, t: 1.0, alpha: 25.0, beta: 325.0, gamma: 1.16, epsilon: 1.0 },
+    GaussianTerm { n: 26641.569149272, d: 2, t: 0.0, alpha: 25.0, beta: 300.0, gamma: 1.19, epsilon: 1.0 },
+    GaussianTerm { n: -24027.212204557, d: 2, t: 1.0, alpha: 25.0, beta: 300.0, gamma: 1.19, epsilon: 1.0 },
+    GaussianTerm { n: -283.41603423999, d: 3, t: 3.0, alpha: 15.0, beta: 275.0, gamma: 1.25, epsilon: 1.0 },
+    GaussianTerm { n: 212.47284400179, d: 3, t: 3.0, alpha: 20.0, beta: 275.0, gamma: 1.22, epsilon: 1.0 },
 ];
 
 /// Terms 40–42: n Δ^b δ ψ, the non-analytic terms that shape the critical region.
+#[rustfmt::skip]
 pub(super) const NON_ANALYTIC: [NonAnalyticTerm; 3] = [
-    NonAnalyticTerm {
-        n: -0.66642276540751,
-        a: 3.5,
-        b: 0.875,
-        beta: 0.3,
-        big_a: 0.7,
-        big_b: 0.3,
-        big_c: 10.0,
-        big_d: 275.0,
-    },
-    NonAnalyticTerm {
-        n: 0.72608632349897,
-        a: 3.5,
-        b: 0.925,
-        beta: 0.3,
-        big_a: 0.7,
-        big_b: 0.3,
-        big_c: 10.0,
-        big_d: 275.0,
-    },
-    NonAnalyticTerm {
-        n: 0.055068668612842,
-        a: 3.0,
-        b: 0.875,
-        beta: 0.3,
-        big_a: 0.7,
-        big_b: 1.0,
-        big_c: 12.5,
-        big_d: 275.0,
-    },
+    NonAnalyticTerm { n: -0.66642276540751, a: 3.5, b: 0.875, beta: 0.3, big_a: 0.7, big_b: 0.3, big_c: 10.0, big_d: 275.0 },
+    NonAnalyticTerm { n: 0.72608632349897, a: 3.5, b: 0.925, beta: 0.3, big_a: 0.7, big_b: 0.3, big_c: 10.0, big_d: 275.0 },
+    NonAnalyticTerm { n: 0.055068668612842, a: 3.0, b: 0.875, beta: 0.3, big_a: 0.7, big_b: 1.0, big_c: 12.5, big_d: 275.0 },
 ];
 
 #[cfg(test)]

@@ -24,27 +24,44 @@ pub enum EosError {
     },
 }
 
+/// A number as people write it, switching to exponent form for the very large and very small
+/// values an out-of-range input can have.
+struct Number(f64);
+
+impl fmt::Display for Number {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let magnitude = self.0.abs();
+        if magnitude == 0.0 || (1e-3..1e12).contains(&magnitude) || !magnitude.is_finite() {
+            write!(f, "{}", self.0)
+        } else {
+            write!(f, "{:e}", self.0)
+        }
+    }
+}
+
 impl fmt::Display for EosError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match *self {
-            EosError::TemperatureOutOfRange { temperature_k: t } => {
-                if t.is_nan() {
+            EosError::TemperatureOutOfRange { temperature_k } => {
+                let t = Number(temperature_k);
+                if temperature_k.is_nan() {
                     write!(f, "temperature is not a number")
                 } else {
                     write!(
                         f,
                         "temperature {t} K is outside the Span–Wagner range 216.592–1100 K"
                     )?;
-                    if t < TRIPLE_POINT_TEMPERATURE_K {
+                    if temperature_k < TRIPLE_POINT_TEMPERATURE_K {
                         write!(f, ": CO2 is solid below the triple point")?;
                     }
                     Ok(())
                 }
             }
-            EosError::PressureOutOfRange { pressure_pa: p } => {
-                if p.is_nan() {
+            EosError::PressureOutOfRange { pressure_pa } => {
+                let p = Number(pressure_pa);
+                if pressure_pa.is_nan() {
                     write!(f, "pressure is not a number")
-                } else if p > 0.0 && p < MIN_PRESSURE_PA {
+                } else if pressure_pa > 0.0 && pressure_pa < MIN_PRESSURE_PA {
                     write!(
                         f,
                         "pressure {p} Pa is below {MIN_PRESSURE_PA:e} Pa, too low for a representable density"
@@ -62,8 +79,9 @@ impl fmt::Display for EosError {
                 melting_pressure_pa,
             } => write!(
                 f,
-                "pressure {pressure_pa} Pa at {temperature_k} K is above the melting pressure \
-                 {melting_pressure_pa:.0} Pa: CO2 is solid there, outside the Span–Wagner fluid range"
+                "pressure {} Pa at {temperature_k} K is above the melting pressure \
+                 {melting_pressure_pa:.0} Pa: CO2 is solid there, outside the Span–Wagner fluid range",
+                Number(pressure_pa)
             ),
             EosError::OnSaturationLine {
                 temperature_k,

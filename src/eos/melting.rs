@@ -9,3 +9,21 @@ pub(super) fn melting_pressure(temperature_k: f64) -> f64 {
     let x = temperature_k / TRIPLE_POINT_TEMPERATURE_K - 1.0;
     TRIPLE_POINT_PRESSURE_PA * (1.0 + 1955.5390 * x + 2055.4593 * x * x)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn melting_line() {
+        // read: it starts at the triple point (Span & Wagner 1996 constants).
+        assert_eq!(
+            melting_pressure(TRIPLE_POINT_TEMPERATURE_K),
+            TRIPLE_POINT_PRESSURE_PA
+        );
+        // computed with CoolProp 8.0.0 (AbstractState melting_line): 182.0759 MPa at 250 K,
+        // 548.4474 MPa at 300 K.
+        assert!((melting_pressure(250.0) / 182_075_910.245_213 - 1.0).abs() < 1e-12);
+        assert!((melting_pressure(300.0) / 548_447_421.146_881 - 1.0).abs() < 1e-12);
+    }
+}
