@@ -1,21 +1,14 @@
 //! `convert`: masses, standard gas volumes and species (CaCO3, C, minerals) into CO2 and back.
 
 use super::potential::RouteArg;
+use super::record::DensityArg;
 use crate::chem::formula::Formula;
 use crate::chem::mineral::{CO2_PER_C, Redox, Route, co2_content, uptake};
 use crate::error::{Error, Result};
 use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError, VolumeMass};
 use crate::quantity::{MassReading, MassUnit};
 use crate::report::{Cell, Report, Table, columns};
-use clap::{Args, ValueEnum};
-
-#[derive(Debug, Clone, Copy, ValueEnum)]
-pub enum DensityArg {
-    /// Span–Wagner (1996) density at the volume's reference conditions
-    Eos,
-    /// 40 CFR 98.443: D = 0.0018682 t per m³ at 60 °F and 1 atm
-    Regulatory,
-}
+use clap::Args;
 
 #[derive(Debug, Args)]
 pub struct ConvertArgs {
@@ -44,18 +37,8 @@ struct Step {
     how: String,
 }
 
-fn density_method(a: &ConvertArgs) -> (DensityMethod, &'static str) {
-    match a.density {
-        DensityArg::Eos => (DensityMethod::Eos, "Span & Wagner (1996) equation of state"),
-        DensityArg::Regulatory => (
-            DensityMethod::Regulatory,
-            "40 CFR 98.443, D = 0.0018682 t/m³ at 60 °F, 1 atm",
-        ),
-    }
-}
-
 fn volume_mass(v: &StandardVolume, a: &ConvertArgs, field: &str, text: &str) -> Result<VolumeMass> {
-    v.mass(density_method(a).0)
+    v.mass(DensityMethod::from(a.density))
         .map_err(|e| Error::field(field, text, e))
 }
 
@@ -195,7 +178,7 @@ fn co2_mass_to(kg: f64, target: &str, a: &ConvertArgs) -> Result<Step> {
             "÷ {:.5} kg/m³ at {} ({})",
             vm.density_kg_per_m3,
             probe.conditions,
-            density_method(a).1
+            DensityMethod::from(a.density).source()
         ),
     })
 }
@@ -208,7 +191,7 @@ fn from_volume(v: &StandardVolume, a: &ConvertArgs) -> Result<Step> {
         vm.m3,
         vm.density_kg_per_m3,
         v.conditions,
-        density_method(a).1,
+        DensityMethod::from(a.density).source(),
         step.how
     );
     Ok(step)

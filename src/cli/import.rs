@@ -66,10 +66,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         .filter(|k| !matches!(k, EntryKind::Survey | EntryKind::Leakage))
         .ok_or_else(|| Error::field("--kind", &a.kind, "is not a metered entry kind (injection, receipt, redelivery, production, equipment-leak, emission)"))?;
     let columns = ColumnMap::parse(a.columns.as_deref())?;
-    let density = match a.density {
-        DensityArg::Eos => DensityMethod::Eos,
-        DensityArg::Regulatory => DensityMethod::Regulatory,
-    };
+    let density = DensityMethod::from(a.density);
     let file_name = a
         .file
         .file_name()

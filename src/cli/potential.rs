@@ -2,7 +2,7 @@
 
 use crate::chem::formula::Formula;
 use crate::chem::mineral::{Redox, Route, uptake};
-use crate::chem::oxides::{OxideComposition, RenforthParameters, renforth, steinour};
+use crate::chem::oxides::{OxideComposition, RenforthParameters, Term, renforth, steinour};
 use crate::error::{Error, Result};
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
@@ -71,66 +71,70 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
         .map_err(|e| Error::field("--eta", &eta.to_string(), e))?;
 
     let s = steinour(&rock);
-    let mut st = Table::new(
-        "steinour",
-        "Steinour formula (as used by Huntzinger et al. 2009)",
-        columns(&[
-            ("Term", "term"),
-            ("Given (wt%)", "wt_pct"),
-            ("Coefficient", "coefficient"),
-            ("CO2 (wt%)", "co2_wt_pct"),
-        ]),
+    let mut st = terms_table(
+        (
+            "steinour",
+            "Steinour formula (as used by Huntzinger et al. 2009)".into(),
+        ),
+        ("CO2 (wt%)", "co2_wt_pct", 3),
+        &s.terms,
+        s.co2_wt_pct,
     );
-    for t in &s.terms {
-        st.push(vec![
-            Cell::text(t.constituent.name()),
-            Cell::Number(t.wt_pct, 3),
-            Cell::Number(t.coefficient, 4),
-            Cell::Number(t.value, 3),
-        ]);
-    }
-    st.push(vec![
-        Cell::text("total"),
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Number(s.co2_wt_pct, 3),
-    ]);
     st.note(format!(
         "= {:.1} kg CO2 per t of rock, carbonate route. Coefficients are molar-mass ratios computed from CIAAW 2021 atomic weights.",
         s.kg_co2_per_t()
     ));
-
     let r = renforth(&rock, params);
-    let mut rt = Table::new(
-        "renforth",
-        format!("Modified Steinour formula (Renforth 2019), η = {eta}"),
-        columns(&[
-            ("Term", "term"),
-            ("Given (wt%)", "wt_pct"),
-            ("Coefficient", "coefficient"),
-            ("CO2 (kg/t)", "co2_kg_per_t"),
-        ]),
+    let mut rt = terms_table(
+        (
+            "renforth",
+            format!("Modified Steinour formula (Renforth 2019), η = {eta}"),
+        ),
+        ("CO2 (kg/t)", "co2_kg_per_t", 1),
+        &r.terms,
+        r.kg_co2_per_t,
     );
-    for t in &r.terms {
-        rt.push(vec![
-            Cell::text(t.constituent.name()),
-            Cell::Number(t.wt_pct, 3),
-            Cell::Number(t.coefficient, 4),
-            Cell::Number(t.value, 1),
-        ]);
-    }
-    rt.push(vec![
-        Cell::text("total"),
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Number(r.kg_co2_per_t, 1),
-    ]);
     rt.note(format!(
         "E_pot = (M_CO2/100)·Σ(coefficient·wt%/M_oxide)·10³·η; δ (P2O5) = {}. η runs from 1 (carbonate) to 2 (bicarbonate).",
         a.delta
     ));
     rt.note("A potential, not a measured removal: what dissolves, and what stays as bicarbonate, must be measured.");
     Ok(Report::default().table(st).table(rt))
+}
+
+/// One formula's terms, each with the given share, its coefficient and its contribution, and
+/// the total.
+fn terms_table(
+    (id, title): (&'static str, String),
+    (label, key, decimals): (&'static str, &'static str, usize),
+    terms: &[Term],
+    total: f64,
+) -> Table {
+    let mut t = Table::new(
+        id,
+        title,
+        columns(&[
+            ("Term", "term"),
+            ("Given (wt%)", "wt_pct"),
+            ("Coefficient", "coefficient"),
+            (label, key),
+        ]),
+    );
+    for x in terms {
+        t.push(vec![
+            Cell::text(x.constituent.name()),
+            Cell::Number(x.wt_pct, 3),
+            Cell::Number(x.coefficient, 4),
+            Cell::Number(x.value, decimals),
+        ]);
+    }
+    t.push(vec![
+        Cell::text("total"),
+        Cell::Empty,
+        Cell::Empty,
+        Cell::Number(total, decimals),
+    ]);
+    t
 }
 
 fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {

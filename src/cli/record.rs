@@ -64,6 +64,15 @@ pub enum DensityArg {
     Regulatory,
 }
 
+impl From<DensityArg> for DensityMethod {
+    fn from(d: DensityArg) -> DensityMethod {
+        match d {
+            DensityArg::Eos => DensityMethod::Eos,
+            DensityArg::Regulatory => DensityMethod::Regulatory,
+        }
+    }
+}
+
 impl QuantityArgs {
     fn is_given(&self) -> bool {
         self.mass.is_some() || self.volume.is_some()
@@ -75,10 +84,7 @@ impl QuantityArgs {
             volume: self.volume.as_deref(),
             co2_fraction: self.co2_fraction.as_deref(),
             co2_basis: self.co2_basis,
-            density: self.density.map(|d| match d {
-                DensityArg::Eos => DensityMethod::Eos,
-                DensityArg::Regulatory => DensityMethod::Regulatory,
-            }),
+            density: self.density.map(DensityMethod::from),
             impurities: self.impurities.as_deref(),
         }
     }

@@ -180,6 +180,14 @@ impl DensityMethod {
             Self::Regulatory => "regulatory",
         }
     }
+
+    /// The method and its source, as outputs name it.
+    pub fn source(self) -> &'static str {
+        match self {
+            Self::Eos => "Span & Wagner (1996) equation of state",
+            Self::Regulatory => "40 CFR 98.443, D = 0.0018682 t/m³ at 60 °F, 1 atm",
+        }
+    }
 }
 
 /// A volume's mass with the density that produced it.
