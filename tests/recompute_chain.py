@@ -8,7 +8,13 @@ import json
 import struct
 import sys
 
-KINDS = {"injection": 0}
+KINDS = {
+    name: i
+    for i, name in enumerate(
+        "injection receipt redelivery production leakage equipment-leak emission survey "
+        "tracer-sample carbonation application soil-sample reversal calibration".split()
+    )
+}
 SIGNS = {"adds": 0, "deducts": 1, "neutral": 2}
 EPOCH = datetime.date(1970, 1, 1)
 

@@ -93,7 +93,14 @@ impl Terms {
             EntryKind::EquipmentLeak if side_production => &mut self.leaks_production_side,
             EntryKind::EquipmentLeak => &mut self.leaks_injection_side,
             EntryKind::Emission => &mut self.emissions,
-            EntryKind::Survey => return,
+            // Observations, and the routes and claims other modules account for.
+            EntryKind::Survey
+            | EntryKind::TracerSample
+            | EntryKind::Carbonation
+            | EntryKind::Application
+            | EntryKind::SoilSample
+            | EntryKind::Reversal
+            | EntryKind::Calibration => return,
         };
         *slot += g;
     }

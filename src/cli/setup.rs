@@ -3,6 +3,8 @@
 use super::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project, Site, SiteKind};
+use crate::quantity::area::Area;
+use crate::quantity::fraction::parse_uncertainty;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
 use clap::{Args, Subcommand};
@@ -162,6 +164,12 @@ pub enum SiteCommand {
         /// injection-well, production-well, monitoring-well, field, plant
         #[arg(long)]
         kind: String,
+        /// A field's area, e.g. "12.5 ha" (ha, m2, km2, acre)
+        #[arg(long)]
+        area: Option<String>,
+        /// Uncertainty (95 %) of the site's meter or measurements, e.g. 0.5%
+        #[arg(long)]
+        uncertainty: Option<String>,
     },
     /// List a project's sites
     List { project: String },
@@ -173,6 +181,8 @@ pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
             project,
             code,
             kind,
+            area,
+            uncertainty,
         } => {
             inputs::code("site", &code)?;
             let kind = SiteKind::from_name(&kind).ok_or_else(|| {
@@ -182,10 +192,26 @@ pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
                     format!("is not a site kind (use {})", SiteKind::choices()),
                 )
             })?;
+            let area = area
+                .map(|a| {
+                    Area::parse(&a)
+                        .map(|x| x.to_string())
+                        .map_err(|e| Error::field("--area", &a, e))
+                })
+                .transpose()?;
+            let uncertainty = uncertainty
+                .map(|u| {
+                    parse_uncertainty(&u)
+                        .map(|_| u.trim().to_string())
+                        .map_err(|e| Error::field("--uncertainty", &u, e))
+                })
+                .transpose()?;
             let s = Site {
                 project: project.clone(),
                 code: code.clone(),
                 kind,
+                area,
+                uncertainty,
                 registered_at: ctx.now,
             };
             ctx.open()?.write(|tx| {
@@ -220,6 +246,8 @@ fn sites_table(project: &str, sites: &[Site]) -> Table {
         columns(&[
             ("Code", "code"),
             ("Kind", "kind"),
+            ("Area", "area"),
+            ("Uncertainty (95 %)", "uncertainty"),
             ("Registered (UTC)", "registered_at"),
         ]),
     );
@@ -227,6 +255,8 @@ fn sites_table(project: &str, sites: &[Site]) -> Table {
         t.push(vec![
             Cell::text(&s.code),
             Cell::text(s.kind.name()),
+            Cell::opt_text(s.area.as_deref()),
+            Cell::opt_text(s.uncertainty.as_deref()),
             Cell::text(s.registered_at.format("%Y-%m-%d %H:%M:%S").to_string()),
         ]);
     }

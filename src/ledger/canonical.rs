@@ -99,6 +99,8 @@ pub fn encode_site(s: &Site) -> Vec<u8> {
     w.str(&s.project);
     w.str(&s.code);
     w.str(s.kind.name());
+    w.opt(s.area.as_deref(), Writer::str);
+    w.opt(s.uncertainty.as_deref(), Writer::str);
     w.i64(s.registered_at.timestamp_micros());
     w.0
 }

@@ -18,6 +18,12 @@ named_enum! {
         EquipmentLeak => "equipment-leak",
         Emission => "emission",
         Survey => "survey",
+        TracerSample => "tracer-sample",
+        Carbonation => "carbonation",
+        Application => "application",
+        SoilSample => "soil-sample",
+        Reversal => "reversal",
+        Calibration => "calibration",
     }
 }
 
@@ -30,9 +36,18 @@ impl EntryKind {
     /// Whether the entry adds to storage, deducts from it, or is a term reported beside it.
     pub fn sign(self) -> Sign {
         match self {
-            Self::Injection => Sign::Adds,
-            Self::Production | Self::Leakage | Self::EquipmentLeak => Sign::Deducts,
-            Self::Receipt | Self::Redelivery | Self::Emission | Self::Survey => Sign::Neutral,
+            Self::Injection | Self::Carbonation => Sign::Adds,
+            Self::Production | Self::Leakage | Self::EquipmentLeak | Self::Reversal => {
+                Sign::Deducts
+            }
+            Self::Receipt
+            | Self::Redelivery
+            | Self::Emission
+            | Self::Survey
+            | Self::TracerSample
+            | Self::Application
+            | Self::SoilSample
+            | Self::Calibration => Sign::Neutral,
         }
     }
 
@@ -45,7 +60,10 @@ impl EntryKind {
             Self::Redelivery => &[Plant],
             Self::Production => &[ProductionWell, Plant],
             Self::EquipmentLeak => &[InjectionWell, ProductionWell, Plant],
-            Self::Leakage | Self::Emission | Self::Survey => {
+            Self::TracerSample => &[MonitoringWell],
+            Self::Carbonation => &[Plant],
+            Self::Application | Self::SoilSample => &[Field],
+            Self::Leakage | Self::Emission | Self::Survey | Self::Reversal | Self::Calibration => {
                 &[InjectionWell, ProductionWell, MonitoringWell, Field, Plant]
             }
         }

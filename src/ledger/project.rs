@@ -79,6 +79,11 @@ pub struct Site {
     pub project: String,
     pub code: String,
     pub kind: SiteKind,
+    /// A field's area as given (e.g. "12.5 ha").
+    pub area: Option<String>,
+    /// The meter or measurement uncertainty at 95 % as given (e.g. "0.5%"), until a calibration
+    /// entry sets another.
+    pub uncertainty: Option<String>,
     pub registered_at: DateTime<Utc>,
 }
 

@@ -85,3 +85,32 @@ mod tests {
         ));
     }
 }
+
+/// A relative uncertainty at 95 % as written (`0.5%` or `0.005`): at least 0, below 100 %.
+pub fn parse_uncertainty(text: &str) -> Result<Decimal, FractionError> {
+    let t = text.trim();
+    let value = match t.strip_suffix('%') {
+        Some(p) => Decimal::parse(p)
+            .map_err(FractionError::Number)?
+            .checked_mul(Decimal::parse("0.01").expect("valid"))
+            .ok_or(FractionError::Number(DecimalError::TooLong))?,
+        None => Decimal::parse(t).map_err(FractionError::Number)?,
+    };
+    if value.to_f64() < 0.0 || value.cmp_value(Decimal::from_int(1)).is_ge() {
+        return Err(FractionError::OutOfRange);
+    }
+    Ok(value)
+}
+
+#[cfg(test)]
+mod uncertainty_tests {
+    use super::*;
+
+    #[test]
+    fn uncertainties() {
+        assert_eq!(parse_uncertainty("0.5%").unwrap().to_string(), "0.005");
+        assert_eq!(parse_uncertainty("0").unwrap().to_string(), "0");
+        assert!(parse_uncertainty("100%").is_err());
+        assert!(parse_uncertainty("-1%").is_err());
+    }
+}

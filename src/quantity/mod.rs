@@ -1,5 +1,6 @@
 //! Quantities as the ledger keeps them: exact decimals, grams of CO2, fractions.
 
+pub mod area;
 pub mod conditions;
 pub mod decimal;
 pub mod fraction;

@@ -33,6 +33,8 @@ pub struct SiteRow {
     pub project: String,
     pub code: String,
     pub kind: String,
+    pub area: Option<String>,
+    pub uncertainty: Option<String>,
     pub created_at: NaiveDateTime,
     pub row_hash: String,
 }
@@ -114,6 +116,8 @@ impl SiteRow {
             project: s.project.clone(),
             code: s.code.clone(),
             kind: s.kind.name().into(),
+            area: s.area.clone(),
+            uncertainty: s.uncertainty.clone(),
             created_at: s.registered_at.naive_utc(),
             row_hash: leaf_hash(&encode_site(s)).to_hex(),
         }
@@ -125,6 +129,8 @@ impl SiteRow {
             code: self.code.clone(),
             kind: SiteKind::from_name(&self.kind)
                 .ok_or_else(|| format!("unknown site kind {:?}", self.kind))?,
+            area: self.area.clone(),
+            uncertainty: self.uncertainty.clone(),
             registered_at: utc(self.created_at),
         };
         if leaf_hash(&encode_site(&s)).to_hex() != self.row_hash {

@@ -19,6 +19,8 @@ diesel::table! {
         project -> Text,
         code -> Text,
         kind -> Text,
+        area -> Nullable<Text>,
+        uncertainty -> Nullable<Text>,
         created_at -> Timestamp,
         row_hash -> Text,
     }

@@ -18,6 +18,8 @@ CREATE TABLE sites (
     project TEXT NOT NULL REFERENCES projects (code),
     code TEXT NOT NULL,
     kind TEXT NOT NULL,
+    area TEXT,
+    uncertainty TEXT,
     created_at TEXT NOT NULL,
     row_hash TEXT NOT NULL,
     PRIMARY KEY (project, code)
