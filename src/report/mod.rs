@@ -1,5 +1,6 @@
 //! Everything formatted for people or programs: the only module that renders.
 
+pub mod chart;
 pub mod render;
 pub mod table;
 
