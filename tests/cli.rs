@@ -171,8 +171,8 @@ fn corrections_replace_and_can_be_corrected() {
         serde_json::from_str(&l.ok(&["--format", "json", "balance", "TFS"])).unwrap();
     let q1 =
         35_640_000_000i64 + (25_202_400_000i64 * 985 / 1000) + (37_072_900_000i64 * 985 / 1000);
-    assert_eq!(b[0]["period"], "2026-Q1");
-    assert_eq!(b[0]["injected_t"], q1 as f64 / 1e6);
+    assert_eq!(b["balance"][0]["period"], "2026-Q1");
+    assert_eq!(b["balance"][0]["injected_t"], q1 as f64 / 1e6);
     insta::assert_snapshot!("entries_with_corrections", l.ok(&["entries", "TFS"]));
 }
 
@@ -212,9 +212,9 @@ fn periods_spanning_quarters_are_split_by_days() {
     );
     let b: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "balance", "TFS"])).unwrap();
-    assert_eq!(b[0]["injected_t"], 98.5);
-    assert_eq!(b[1]["injected_t"], 886.5);
-    assert_eq!(b[1]["cumulative_stored_t"], 985.0);
+    assert_eq!(b["balance"][0]["injected_t"], 98.5);
+    assert_eq!(b["balance"][1]["injected_t"], 886.5);
+    assert_eq!(b["balance"][1]["cumulative_stored_t"], 985.0);
 }
 
 #[test]

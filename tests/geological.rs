@@ -80,7 +80,7 @@ fn eor() -> Ledger {
 fn rr_11_terms_for_an_eor_project() {
     let l = eor();
     let b = json(&l, &["balance", "KRE", "--by", "year"]);
-    let y = &b[0];
+    let y = &b["balance"][0];
     assert_eq!(y["received_t"], 980.0);
     assert_eq!(y["injected_t"], 1280.0);
     assert_eq!(y["separated_t"], 300.0);
@@ -99,7 +99,7 @@ fn iso_27916_counts_recycled_once() {
         &l,
         &["balance", "KRE", "--by", "year", "--method", "iso27916"],
     );
-    let y = &b[0];
+    let y = &b["balance"][0];
     assert_eq!(y["input_t"], 980.0);
     assert_eq!(y["operational_losses_t"], 1.4);
     assert_eq!(y["complex_losses_t"], 6.0);

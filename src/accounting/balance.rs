@@ -1,6 +1,9 @@
 //! The mass balance of geological storage by reporting period: 40 CFR Part 98 Subpart RR
 //! (§98.443, RR-1 to RR-12) or ISO 27916 for CO2-EOR, every term its own figure.
 
+use crate::accounting::uncertainty::{
+    Estimate, Reading, Term, TermSign, mass_balance, sum_readings,
+};
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
@@ -118,6 +121,100 @@ pub struct BalanceLine {
     /// Cumulative stored as a share of permitted capacity, in %.
     pub permit_used_pct: Option<f64>,
     pub headroom: Option<Mass>,
+    /// Stored with its uncertainty (95 %) for the period, and cumulative.
+    pub uncertainty: Estimate,
+    pub cumulative_uncertainty: Estimate,
+}
+
+/// The readings behind each term of the balance, for its uncertainty: readings of one meter add
+/// their uncertainties linearly, different meters and terms combine in quadrature.
+#[derive(Default, Clone)]
+struct TermReadings {
+    receipts: Vec<Reading>,
+    redeliveries: Vec<Reading>,
+    injected: Vec<Reading>,
+    separated: Vec<Reading>,
+    entrained: Vec<Reading>,
+    surface_leakage: Vec<Reading>,
+    leaks_injection_side: Vec<Reading>,
+    leaks_production_side: Vec<Reading>,
+}
+
+impl TermReadings {
+    fn slot(&mut self, kind: EntryKind, production_side: bool) -> Option<&mut Vec<Reading>> {
+        Some(match kind {
+            EntryKind::Receipt => &mut self.receipts,
+            EntryKind::Redelivery => &mut self.redeliveries,
+            EntryKind::Injection => &mut self.injected,
+            EntryKind::Production => &mut self.separated,
+            EntryKind::Leakage => &mut self.surface_leakage,
+            EntryKind::EquipmentLeak if production_side => &mut self.leaks_production_side,
+            EntryKind::EquipmentLeak => &mut self.leaks_injection_side,
+            _ => return None,
+        })
+    }
+
+    fn extend(&mut self, other: &TermReadings) {
+        self.receipts.extend_from_slice(&other.receipts);
+        self.redeliveries.extend_from_slice(&other.redeliveries);
+        self.injected.extend_from_slice(&other.injected);
+        self.separated.extend_from_slice(&other.separated);
+        self.entrained.extend_from_slice(&other.entrained);
+        self.surface_leakage
+            .extend_from_slice(&other.surface_leakage);
+        self.leaks_injection_side
+            .extend_from_slice(&other.leaks_injection_side);
+        self.leaks_production_side
+            .extend_from_slice(&other.leaks_production_side);
+    }
+
+    /// The stored figure with its uncertainty, by the method's terms.
+    fn estimate(&self, method: BalanceMethod) -> Estimate {
+        use TermSign::{Adds, Deducts};
+        let terms: Vec<(&str, TermSign, &Vec<Reading>)> = match method {
+            BalanceMethod::Rr => vec![
+                ("injected", Adds, &self.injected),
+                ("separated", Deducts, &self.separated),
+                ("entrained", Deducts, &self.entrained),
+                ("surface leakage", Deducts, &self.surface_leakage),
+                ("leaks injection side", Deducts, &self.leaks_injection_side),
+                (
+                    "leaks production side",
+                    Deducts,
+                    &self.leaks_production_side,
+                ),
+            ],
+            BalanceMethod::Iso27916 => vec![
+                ("receipts", Adds, &self.receipts),
+                ("redeliveries", Deducts, &self.redeliveries),
+                ("leaks injection side", Deducts, &self.leaks_injection_side),
+                (
+                    "leaks production side",
+                    Deducts,
+                    &self.leaks_production_side,
+                ),
+                ("surface leakage", Deducts, &self.surface_leakage),
+                ("entrained", Deducts, &self.entrained),
+            ],
+        };
+        let terms: Vec<Term> = terms
+            .into_iter()
+            .map(|(name, sign, readings)| Term {
+                name: name.to_string(),
+                sign,
+                estimate: sum_readings(readings)
+                    .map_or(Estimate::absolute(Mass::ZERO, Mass::ZERO), |s| s.total),
+            })
+            .collect();
+        mass_balance(&terms).unwrap_or(Estimate::absolute(Mass::ZERO, Mass::ZERO))
+    }
+}
+
+/// The meter a reading's systematic error belongs to: its meter, or its site's.
+fn meter_key(e: &Entry) -> String {
+    e.meter
+        .clone()
+        .unwrap_or_else(|| format!("site {}", e.site))
 }
 
 /// The entrained fraction X a production entry was recorded with (0 when none).
@@ -130,36 +227,52 @@ pub fn entrained_fraction(e: &Entry) -> f64 {
 
 /// Balances the effective entries of a project by period. Entries spanning periods are split by
 /// days, exactly in whole grams; cumulative figures run from the first reporting period.
+/// `rel_u` gives each entry's relative uncertainty (95 %); 0 where none is stated.
 pub fn balance<'a>(
     project: &Project,
     entries: impl Iterator<Item = &'a Entry>,
     grouping: Grouping,
     method: BalanceMethod,
+    rel_u: &dyn Fn(&Entry) -> f64,
 ) -> Vec<BalanceLine> {
-    let mut by: BTreeMap<Bucket, Terms> = BTreeMap::new();
+    let mut by: BTreeMap<Bucket, (Terms, TermReadings)> = BTreeMap::new();
     for e in entries {
         let production_side = e.reading.get("side") == Some("production");
+        let u = rel_u(e);
+        let reading = |g: i64| Reading {
+            meter: meter_key(e),
+            mass: Mass::from_grams(g),
+            rel_u: u,
+        };
         for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
-            by.entry(b)
-                .or_default()
-                .add(e.kind, production_side, Mass::from_grams(g));
+            let (terms, readings) = by.entry(b).or_default();
+            terms.add(e.kind, production_side, Mass::from_grams(g));
+            if let Some(slot) = readings.slot(e.kind, production_side) {
+                slot.push(reading(g));
+            }
         }
         if e.kind == EntryKind::Production {
             let entrained = e.mass.scale(entrained_fraction(e));
             for (b, g) in apportion(entrained.grams(), e.period, grouping) {
-                by.entry(b).or_default().entrained += Mass::from_grams(g);
+                let (terms, readings) = by.entry(b).or_default();
+                terms.entrained += Mass::from_grams(g);
+                readings.entrained.push(reading(g));
             }
         }
     }
     let mut cum_injected = Mass::ZERO;
     let mut cum_stored = Mass::ZERO;
+    let mut cum_readings = TermReadings::default();
     by.into_iter()
-        .map(|(bucket, terms)| {
+        .map(|(bucket, (terms, readings))| {
             let (stored, equation) = terms.stored(method);
             cum_injected += terms.injected;
             cum_stored += stored;
             let capacity = project.permit_capacity.filter(|c| c.is_positive());
+            cum_readings.extend(&readings);
             BalanceLine {
+                uncertainty: readings.estimate(method),
+                cumulative_uncertainty: cum_readings.estimate(method),
                 bucket,
                 terms,
                 stored,

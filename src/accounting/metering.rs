@@ -36,6 +36,8 @@ pub struct MeterInput<'a> {
     pub co2_basis: Option<Basis>,
     pub density: Option<DensityMethod>,
     pub impurities: Option<&'a str>,
+    /// The reading's own uncertainty (95 %), when it has one.
+    pub uncertainty: Option<&'a str>,
 }
 
 /// A reading and the grams of CO2 it comes to.
@@ -87,8 +89,19 @@ fn mass_fraction_from_mol(x: Fraction, impurity_text: Option<&str>) -> Result<f6
         .map_err(|e| Error::field("--impurities", text, e))
 }
 
-/// Turns the typed quantity options into a reading and grams.
+/// Turns the typed quantity options into a reading and grams; a reading's own uncertainty is
+/// kept beside it.
 pub fn measure(input: &MeterInput<'_>) -> Result<Measured> {
+    let mut m = measure_quantity(input)?;
+    if let Some(u) = input.uncertainty {
+        let d = crate::quantity::fraction::parse_uncertainty(u)
+            .map_err(|e| Error::field("--uncertainty", u, e))?;
+        m.reading.push("uncertainty", d.to_string());
+    }
+    Ok(m)
+}
+
+fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
     let mut r = Reading::default();
     match (input.mass, input.volume) {
         (Some(_), Some(_)) => Err(Error::Refused("give --mass or --volume, not both".into())),

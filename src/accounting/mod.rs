@@ -2,6 +2,7 @@
 
 pub mod balance;
 pub mod buffer_pool;
+pub mod claims;
 pub mod conservative;
 pub mod leakage;
 pub mod materiality;

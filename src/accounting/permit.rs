@@ -26,7 +26,13 @@ pub fn check(
         .cloned()
         .collect();
     after.extend_from_slice(new);
-    let lines = balance(project, after.iter(), Grouping::Year, BalanceMethod::Rr);
+    let lines = balance(
+        project,
+        after.iter(),
+        Grouping::Year,
+        BalanceMethod::Rr,
+        &|_| 0.0,
+    );
     let mut warnings = Vec::new();
     let mut exceeded = Vec::new();
     if let Some(cap) = project.permit_capacity.filter(|c| c.is_positive()) {

@@ -1,6 +1,7 @@
 //! The command line: parse with clap, call the core and the store, hand a report back.
 //! The clock is read once per command, by the caller, and passed in.
 
+mod claims;
 mod convert;
 mod demo;
 mod density;
@@ -10,6 +11,7 @@ mod meters;
 mod potential;
 mod record;
 mod reports;
+mod settings;
 mod setup;
 mod verify;
 

@@ -10,6 +10,7 @@ use crate::ledger::append::{AppendError, Appended, append, content_key};
 use crate::ledger::correction::{self, effective};
 use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
+use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::volume::DensityMethod;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
@@ -54,6 +55,9 @@ pub struct QuantityArgs {
     /// fraction with --mass (e.g. N2=0.015,Ar=0.005)
     #[arg(long, value_name = "GAS=X,…", help_heading = "Quantity")]
     pub impurities: Option<String>,
+    /// Uncertainty (95 %) of this reading, e.g. 0.5% [default: the site's, or its latest calibration]
+    #[arg(long, help_heading = "Quantity")]
+    pub uncertainty: Option<String>,
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -86,6 +90,7 @@ impl QuantityArgs {
             co2_basis: self.co2_basis,
             density: self.density.map(DensityMethod::from),
             impurities: self.impurities.as_deref(),
+            uncertainty: self.uncertainty.as_deref(),
         }
     }
 }
@@ -108,6 +113,10 @@ pub enum RecordCommand {
     Emission(EmissionArgs),
     /// A surface or well survey for leaks, with its result
     Survey(SurveyArgs),
+    /// A meter calibration or verification: the uncertainty in force from its date
+    Calibration(CalibrationArgs),
+    /// A loss found after tonnes were claimed: cancels the buffer pool first, then claimable tonnes
+    Reversal(ReversalArgs),
 }
 
 /// Options every quantity record takes.
@@ -221,6 +230,42 @@ pub struct SurveyArgs {
     pub key: Option<String>,
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct CalibrationArgs {
+    pub project: String,
+    #[arg(long)]
+    pub site: String,
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    /// The meter's uncertainty (95 %) found, e.g. 0.4%
+    #[arg(long)]
+    pub uncertainty: String,
+    #[arg(long, value_name = "ID")]
+    pub meter: Option<String>,
+    #[arg(long)]
+    pub key: Option<String>,
+    #[arg(long, value_name = "TEXT")]
+    pub note: Option<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct ReversalArgs {
+    pub project: String,
+    #[arg(long)]
+    pub site: String,
+    /// The CO2 lost, with its unit
+    #[arg(long, allow_hyphen_values = true)]
+    pub mass: String,
+    /// The day the loss was found
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    /// What was lost and how it was found
+    #[arg(long)]
+    pub reason: String,
+    #[arg(long)]
+    pub key: Option<String>,
 }
 
 #[derive(Debug, Args)]
@@ -377,6 +422,55 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             )
         }
         RecordCommand::Leakage(a) => return leakage_record(ctx, a),
+        RecordCommand::Calibration(a) => {
+            let d = inputs::date("--date", &a.date)?;
+            let u = parse_uncertainty(&a.uncertainty)
+                .map_err(|e| Error::field("--uncertainty", &a.uncertainty, e))?;
+            let mut reading = Reading::default();
+            reading.push("uncertainty", u.to_string());
+            let b = RecordArgs {
+                project: a.project,
+                site: a.site,
+                quantity: QuantityArgs::default(),
+                from: None,
+                to: None,
+                key: a.key.clone(),
+                meter: a.meter,
+                note: a.note,
+            };
+            (
+                draft(
+                    EntryKind::Calibration,
+                    &b,
+                    reading,
+                    Mass::ZERO,
+                    Period::day(d),
+                    ctx,
+                )?,
+                a.key,
+                false,
+            )
+        }
+        RecordCommand::Reversal(a) => {
+            let d = inputs::date("--date", &a.date)?;
+            inputs::text("--reason", &a.reason)?;
+            let (m, mass) = inputs::mass("--mass", &a.mass)?;
+            let mut reading = Reading::default();
+            reading.push("mass", m.to_string());
+            let b = RecordArgs {
+                project: a.project,
+                site: a.site,
+                quantity: QuantityArgs::default(),
+                from: None,
+                to: None,
+                key: a.key.clone(),
+                meter: None,
+                note: None,
+            };
+            let mut e = draft(EntryKind::Reversal, &b, reading, mass, Period::day(d), ctx)?;
+            e.reason = Some(a.reason);
+            (e, a.key, false)
+        }
         RecordCommand::Survey(a) => {
             let d = inputs::date("--date", &a.date)?;
             let mut reading = Reading::default();
@@ -532,6 +626,7 @@ fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
     q.impurities = q
         .impurities
         .or(was.get("impurities_mol").map(str::to_string));
+    q.uncertainty = q.uncertainty.or(was.get("uncertainty").map(str::to_string));
     Ok(q)
 }
 

@@ -1,10 +1,12 @@
 //! `entries` and `balance`: what the ledger holds, and what it adds up to.
 
 use super::Context;
+use super::claims::{ProjectView, claims_table, deduction_rule, pool_table};
 use super::setup::known_project;
-use crate::accounting::balance::{BalanceLine, BalanceMethod, balance as compute_balance};
+use crate::accounting::balance::{BalanceLine, BalanceMethod};
+use crate::accounting::claims::{PoolEvent, buffer_pool, claims};
 use crate::error::Result;
-use crate::ledger::correction::{effective, superseded_by};
+use crate::ledger::correction::superseded_by;
 use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::report::render::tonnes_text;
@@ -99,29 +101,44 @@ pub struct BalanceArgs {
     /// rr: 40 CFR 98.443 (RR-11/RR-12); iso27916: the CO2-EOR form, recycled CO2 counted once
     #[arg(long, value_enum, default_value_t = BalanceMethod::Rr)]
     pub method: BalanceMethod,
+    /// Deduct only the share of the uncertainty above this threshold (e.g. 5%) [default: deduct
+    /// the whole uncertainty]
+    #[arg(long, value_name = "SHARE")]
+    pub deduct_excess_over: Option<String>,
 }
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
-    let (project, all) = ctx.open()?.read(|tx| {
-        let p = known_project(tx, &a.project)?;
-        Ok((p, tx.entries(&a.project)?))
-    })?;
+    let mut store = ctx.open()?;
+    let view = store.read(|tx| ProjectView::load(tx, &a.project, ctx.now))?;
     let grouping = match a.by {
         By::Month => Grouping::Month,
         By::Quarter => Grouping::Quarter,
         By::Year => Grouping::Year,
     };
-    let lines = compute_balance(&project, effective(&all), grouping, a.method);
+    let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
+    let project = &view.project;
+    let lines = view.balance(grouping, a.method);
     let by = format!("{:?}", a.by).to_lowercase();
     let mut t = match a.method {
-        BalanceMethod::Rr => rr_table(&project, &lines, &by),
-        BalanceMethod::Iso27916 => iso_table(&project, &lines, &by),
+        BalanceMethod::Rr => rr_table(project, &lines, &by),
+        BalanceMethod::Iso27916 => iso_table(project, &lines, &by),
     };
-    permit_notes(&mut t, &project, &lines, effective(&all));
+    permit_notes(&mut t, project, &lines, view.effective());
     t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
+    t.note(view.uncertainty_note());
     let mut report = Report::default().table(t);
-    if let Some(l) = leakage_table(&project, effective(&all)) {
+    if let Some(l) = leakage_table(project, view.effective()) {
         report = report.table(l);
+    }
+    let rules = view.rules(deduction);
+    let period_claims = claims(&lines, &rules);
+    report = report.table(claims_table(project, &period_claims, &rules, &by));
+    // The pool's timeline is monthly whatever the table's grouping, so a reversal meets the
+    // same pool in every report.
+    let monthly = claims(&view.balance(Grouping::Month, a.method), &rules);
+    let (pool, events) = buffer_pool(&monthly, view.effective());
+    if rules.buffer_share > 0.0 || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
+        report = report.table(pool_table(project, &pool, &events));
     }
     Ok(report)
 }
@@ -151,6 +168,8 @@ fn rr_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             ("Leaks/vents inj. side (t)", "equipment_leak_injection_t"),
             ("Leaks/vents prod. side (t)", "equipment_leak_production_t"),
             ("Sequestered (t)", "stored_t"),
+            ("± (t)", "stored_u_t"),
+            ("± (%)", "stored_u_pct"),
             ("Eq.", "equation"),
             ("", "cumulative_injected_t"),
             ("Cumulative sequestered (t)", "cumulative_stored_t"),
@@ -173,6 +192,8 @@ fn rr_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             Cell::Tonnes(x.leaks_injection_side),
             Cell::Tonnes(x.leaks_production_side),
             Cell::Tonnes(l.stored),
+            Cell::Tonnes(l.uncertainty.abs_u()),
+            l.uncertainty.rel_u_pct().map_or(Cell::Empty, Cell::Percent),
             Cell::text(l.equation),
             Cell::Tonnes(l.cumulative_injected),
             Cell::Tonnes(l.cumulative_stored),
@@ -195,6 +216,8 @@ fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             ("Operational losses (t)", "operational_losses_t"),
             ("Losses from EOR complex (t)", "complex_losses_t"),
             ("Stored (t)", "stored_t"),
+            ("± (t)", "stored_u_t"),
+            ("± (%)", "stored_u_pct"),
             ("Cumulative stored (t)", "cumulative_stored_t"),
             ("Recycled (t)", "recycled_t"),
             ("Permit used (%)", "permit_used_pct"),
@@ -210,6 +233,8 @@ fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             Cell::Tonnes(x.operational_losses()),
             Cell::Tonnes(x.complex_losses()),
             Cell::Tonnes(l.stored),
+            Cell::Tonnes(l.uncertainty.abs_u()),
+            l.uncertainty.rel_u_pct().map_or(Cell::Empty, Cell::Percent),
             Cell::Tonnes(l.cumulative_stored),
             Cell::Tonnes(x.separated),
             used,

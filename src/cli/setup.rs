@@ -25,8 +25,10 @@ pub enum ProjectCommand {
     Add(ProjectAdd),
     /// List the projects of the ledger
     List,
-    /// Show one project with its sites
+    /// Show one project with its sites and settings
     Show { code: String },
+    /// Record a change to a project's buffer share, retention model or temporary storage terms
+    Set(super::settings::ProjectSet),
 }
 
 #[derive(Debug, Args)]
@@ -59,14 +61,16 @@ pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
             Ok(Report::default().table(projects_table(&projects)))
         }
         ProjectCommand::Show { code } => {
-            let (p, sites) = ctx.open()?.read(|tx| {
+            let (p, sites, settings) = ctx.open()?.read(|tx| {
                 let p = known_project(tx, &code)?;
-                Ok((p, tx.sites(&code)?))
+                Ok((p, tx.sites(&code)?, tx.settings(&code)?))
             })?;
             Ok(Report::default()
                 .table(projects_table(std::slice::from_ref(&p)))
-                .table(sites_table(&p.code, &sites)))
+                .table(sites_table(&p.code, &sites))
+                .table(super::settings::settings_table(&p.code, &settings, ctx.now)))
         }
+        ProjectCommand::Set(a) => super::settings::set(ctx, a),
     }
 }
 

@@ -104,3 +104,16 @@ pub fn encode_site(s: &Site) -> Vec<u8> {
     w.i64(s.registered_at.timestamp_micros());
     w.0
 }
+
+/// The canonical bytes of a project setting.
+pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("setting");
+    w.str(&s.project);
+    w.u64(s.seq);
+    w.str(s.name.name());
+    w.str(&s.value);
+    w.i64(s.recorded_at.timestamp_micros());
+    w.0
+}

@@ -9,6 +9,7 @@ pub mod entry;
 pub mod hash;
 pub mod period;
 pub mod project;
+pub mod setting;
 
 pub use entry::{Entry, EntryKind, Evidence, Reading, SealedEntry, Sign};
 pub use hash::Hash;

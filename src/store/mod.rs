@@ -10,8 +10,8 @@ use crate::ledger::{Hash, Project, SealedEntry, Site};
 use diesel::connection::SimpleConnection;
 use diesel::prelude::*;
 use diesel::sqlite::SqliteConnection;
-use rows::{EntryRow, ImportRow, ProjectRow, SiteRow};
-use schema::{entries, imports, projects, sites};
+use rows::{EntryRow, ImportRow, ProjectRow, SettingRow, SiteRow};
+use schema::{entries, imports, projects, settings, sites};
 
 pub use rows::ReadingRow;
 use std::path::{Path, PathBuf};
@@ -191,6 +191,28 @@ impl Tx<'_> {
         for chunk in rows.chunks(1000) {
             diesel::insert_into(entries::table)
                 .values(chunk)
+                .execute(self.conn)?;
+        }
+        Ok(())
+    }
+
+    /// A project's settings, in the order recorded.
+    pub fn settings(&mut self, project: &str) -> Result<Vec<crate::ledger::setting::Setting>> {
+        let rows: Vec<SettingRow> = settings::table
+            .filter(settings::project.eq(project))
+            .order(settings::seq)
+            .select(SettingRow::as_select())
+            .load(self.conn)?;
+        rows.iter()
+            .map(|r| r.to_setting().map_err(inconsistent))
+            .collect()
+    }
+
+    pub fn add_settings(&mut self, new: &[crate::ledger::setting::Setting]) -> Result<()> {
+        let rows: Vec<SettingRow> = new.iter().map(SettingRow::from_setting).collect();
+        for r in &rows {
+            diesel::insert_into(settings::table)
+                .values(r)
                 .execute(self.conn)?;
         }
         Ok(())

@@ -238,3 +238,48 @@ pub struct ReadingRow {
     pub grams: i64,
     pub raw: String,
 }
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = super::schema::settings, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct SettingRow {
+    pub project: String,
+    pub seq: i64,
+    pub name: String,
+    pub value: String,
+    pub recorded_at: NaiveDateTime,
+    pub row_hash: String,
+}
+
+impl SettingRow {
+    pub fn from_setting(s: &crate::ledger::setting::Setting) -> Self {
+        Self {
+            project: s.project.clone(),
+            seq: s.seq as i64,
+            name: s.name.name().into(),
+            value: s.value.clone(),
+            recorded_at: s.recorded_at.naive_utc(),
+            row_hash: leaf_hash(&crate::ledger::canonical::encode_setting(s)).to_hex(),
+        }
+    }
+
+    /// The setting, checked against the row's own hash.
+    pub fn to_setting(&self) -> Result<crate::ledger::setting::Setting, String> {
+        use crate::ledger::setting::{Setting, SettingName};
+        let s = Setting {
+            project: self.project.clone(),
+            seq: u64::try_from(self.seq)
+                .map_err(|_| format!("setting seq {} is negative", self.seq))?,
+            name: SettingName::from_name(&self.name)
+                .ok_or_else(|| format!("unknown setting {:?}", self.name))?,
+            value: self.value.clone(),
+            recorded_at: utc(self.recorded_at),
+        };
+        if leaf_hash(&crate::ledger::canonical::encode_setting(&s)).to_hex() != self.row_hash {
+            return Err(format!(
+                "setting {} of project {} differs from its row hash",
+                self.seq, self.project
+            ));
+        }
+        Ok(s)
+    }
+}

@@ -72,3 +72,14 @@ diesel::table! {
         raw -> Text,
     }
 }
+
+diesel::table! {
+    settings (project, seq) {
+        project -> Text,
+        seq -> BigInt,
+        name -> Text,
+        value -> Text,
+        recorded_at -> Timestamp,
+        row_hash -> Text,
+    }
+}

@@ -1,0 +1,263 @@
+//! A project as the ledger held it at a moment, and the tables that turn its mass balance into
+//! claims: the chain from stored to claimable, and the buffer pool with its reversals.
+
+use super::setup::known_project;
+use crate::accounting::balance::{BalanceLine, BalanceMethod, balance};
+use crate::accounting::buffer_pool::BufferPool;
+use crate::accounting::claims::{PoolEvent, rel_uncertainty, rules};
+use crate::accounting::conservative::DeductionRule;
+use crate::accounting::permanence::{Claim, ClaimRules, Durability};
+use crate::error::{Error, Result};
+use crate::ledger::correction::effective;
+use crate::ledger::period::{Bucket, Grouping};
+use crate::ledger::setting::Setting;
+use crate::ledger::{Entry, EntryKind, Project, SealedEntry, Site};
+use crate::quantity::fraction::parse_uncertainty;
+use crate::report::{Cell, Table, columns};
+use crate::store::Tx;
+use chrono::{DateTime, Utc};
+
+/// A project with what the ledger held at `as_of`: later entries, corrections, sites and
+/// settings are left out, so a past report can be reproduced exactly.
+pub struct ProjectView {
+    pub project: Project,
+    pub entries: Vec<SealedEntry>,
+    pub sites: Vec<Site>,
+    pub settings: Vec<Setting>,
+    pub as_of: DateTime<Utc>,
+}
+
+impl ProjectView {
+    pub fn load(tx: &mut Tx<'_>, code: &str, as_of: DateTime<Utc>) -> Result<ProjectView> {
+        let project = known_project(tx, code)?;
+        let mut entries = tx.entries(code)?;
+        // Entries are appended in time order, so what was held at `as_of` is a prefix.
+        entries.retain(|s| s.entry.recorded_at <= as_of);
+        let mut sites = tx.sites(code)?;
+        sites.retain(|s| s.registered_at <= as_of);
+        let mut settings = tx.settings(code)?;
+        settings.retain(|s| s.recorded_at <= as_of);
+        Ok(ProjectView {
+            project,
+            entries,
+            sites,
+            settings,
+            as_of,
+        })
+    }
+
+    pub fn effective(&self) -> impl Iterator<Item = &Entry> {
+        effective(&self.entries)
+    }
+
+    fn calibrations(&self) -> Vec<&Entry> {
+        self.effective()
+            .filter(|e| e.kind == EntryKind::Calibration)
+            .collect()
+    }
+
+    pub fn balance(&self, grouping: Grouping, method: BalanceMethod) -> Vec<BalanceLine> {
+        let cals = self.calibrations();
+        let rel_u = |e: &Entry| rel_uncertainty(e, &self.sites, &cals).unwrap_or(0.0);
+        balance(&self.project, self.effective(), grouping, method, &rel_u)
+    }
+
+    pub fn rules(&self, deduction: DeductionRule) -> ClaimRules {
+        rules(&self.settings, self.as_of, deduction)
+    }
+
+    /// How the uncertainty was combined, and which metered entries stated none.
+    pub fn uncertainty_note(&self) -> String {
+        let cals = self.calibrations();
+        let metered = self.effective().filter(|e| {
+            matches!(
+                e.kind,
+                EntryKind::Receipt
+                    | EntryKind::Redelivery
+                    | EntryKind::Injection
+                    | EntryKind::Production
+                    | EntryKind::Leakage
+                    | EntryKind::EquipmentLeak
+            )
+        });
+        let unstated = metered
+            .filter(|e| rel_uncertainty(e, &self.sites, &cals).is_none())
+            .count();
+        let rule = "± at 95 %: readings of one meter add linearly (a meter's error is systematic); meters and terms combine in quadrature (IPCC 2006 Vol. 1 Ch. 3, Approach 1).";
+        if unstated == 0 {
+            rule.to_string()
+        } else {
+            format!(
+                "{rule} {unstated} metered entries state no uncertainty (record --uncertainty, site --uncertainty or a calibration) and count as exact."
+            )
+        }
+    }
+}
+
+/// `--deduct-excess-over 5%`, or the whole uncertainty.
+pub fn deduction_rule(threshold: Option<&str>) -> Result<DeductionRule> {
+    match threshold {
+        None => Ok(DeductionRule::WholeUncertainty),
+        Some(t) => parse_uncertainty(t)
+            .map(|d| DeductionRule::AboveThreshold {
+                threshold: d.to_f64(),
+            })
+            .map_err(|e| Error::field("--deduct-excess-over", t, e)),
+    }
+}
+
+/// Which conservative deduction was applied, in words.
+fn rule_text(rule: DeductionRule) -> String {
+    match rule {
+        DeductionRule::WholeUncertainty => {
+            "each period's whole uncertainty deducted (one-sided)".into()
+        }
+        DeductionRule::AboveThreshold { threshold } => format!(
+            "only the share of each period's uncertainty above {:.2} % deducted (--deduct-excess-over)",
+            threshold * 100.0
+        ),
+    }
+}
+
+fn durability_text(d: Durability) -> String {
+    match d {
+        Durability::Retention {
+            annual_leak_fraction,
+            horizon_years,
+        } => {
+            if annual_leak_fraction > 0.0 {
+                format!(
+                    "retention (1 − r)^H with r = {} %/yr, H = {horizon_years} years",
+                    annual_leak_fraction * 100.0
+                )
+            } else {
+                "no retention model set: durable = conservative".to_string()
+            }
+        }
+        Durability::TonneYears {
+            years_held,
+            equivalence_years,
+        } => format!(
+            "temporary storage, tonne-years: held {years_held} years of an equivalence time of {equivalence_years} years (Moura-Costa & Wilson 2000)"
+        ),
+    }
+}
+
+/// stored → conservative → durable → buffer withheld → claimable, every discount its own column.
+pub fn claims_table(
+    project: &Project,
+    claims: &[(Bucket, Claim)],
+    rules: &ClaimRules,
+    by: &str,
+) -> Table {
+    let mut t = Table::new(
+        "claims",
+        format!("From stored to claimable by {by}, project {}", project.code),
+        columns(&[
+            ("Period", "period"),
+            ("Stored (t)", "stored_t"),
+            ("Uncertainty deducted (t)", "uncertainty_deduction_t"),
+            ("Conservative (t)", "conservative_t"),
+            ("Retention discount (t)", "durability_discount_t"),
+            ("Durable (t)", "durable_t"),
+            ("Buffer withheld (t)", "buffer_withheld_t"),
+            ("Claimable (t)", "claimable_t"),
+        ]),
+    );
+    let mut total = [crate::quantity::Mass::ZERO; 7];
+    for (b, c) in claims {
+        let v = [
+            c.stored,
+            c.uncertainty_deduction,
+            c.conservative,
+            c.durability_discount,
+            c.durable,
+            c.buffer_withheld,
+            c.claimable,
+        ];
+        for (t, x) in total.iter_mut().zip(v) {
+            *t += x;
+        }
+        let mut row = vec![Cell::text(b.to_string())];
+        row.extend(v.map(Cell::Tonnes));
+        t.push(row);
+    }
+    let mut row = vec![Cell::text("total")];
+    row.extend(total.map(Cell::Tonnes));
+    t.push(row);
+    t.note(format!(
+        "Conservative: {}. Durable: {}. Buffer: {:.2} % of durable withheld into the buffer pool.",
+        rule_text(rules.deduction),
+        durability_text(rules.durability),
+        rules.buffer_share * 100.0
+    ));
+    t.note("A period whose stored figure is zero or negative claims nothing.");
+    t
+}
+
+/// Contributions, reversals and what is left of the buffer pool.
+pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) -> Table {
+    let mut t = Table::new(
+        "buffer_pool",
+        format!("Buffer pool, project {}", project.code),
+        columns(&[
+            ("Event", "event"),
+            ("Buffer contributed (t)", "buffer_contributed_t"),
+            ("Claimable issued (t)", "claimable_issued_t"),
+            ("Reversal (t)", "reversal_t"),
+            ("Buffer cancelled (t)", "buffer_cancelled_t"),
+            ("Claimable cancelled (t)", "claimable_cancelled_t"),
+            ("Shortfall (t)", "shortfall_t"),
+        ]),
+    );
+    for ev in events {
+        t.push(match ev {
+            PoolEvent::Claim {
+                bucket,
+                buffer_withheld,
+                claimable,
+            } => vec![
+                Cell::text(format!("claims {bucket}")),
+                Cell::Tonnes(*buffer_withheld),
+                Cell::Tonnes(*claimable),
+                Cell::Empty,
+                Cell::Empty,
+                Cell::Empty,
+                Cell::Empty,
+            ],
+            PoolEvent::Reversal {
+                date,
+                seq,
+                reversal: r,
+            } => vec![
+                Cell::text(format!("reversal {date} (seq {seq})")),
+                Cell::Empty,
+                Cell::Empty,
+                Cell::Tonnes(r.loss),
+                Cell::Tonnes(r.buffer_cancelled),
+                Cell::Tonnes(r.claimable_cancelled),
+                Cell::Tonnes(r.shortfall),
+            ],
+        });
+    }
+    t.push(vec![
+        Cell::text("pool now"),
+        Cell::Tonnes(pool.contributed()),
+        Cell::Tonnes(pool.claimable_issued()),
+        Cell::Empty,
+        Cell::Tonnes(pool.cancelled()),
+        Cell::Tonnes(pool.claimable_cancelled()),
+        Cell::Tonnes(pool.shortfall()),
+    ]);
+    t.note(format!(
+        "Remaining in the pool: {} t. Each month's claim contributes its buffer at the month's end; a reversal cancels buffer tonnes contributed before it first, then claimable tonnes; what neither covers is a shortfall.",
+        crate::report::render::tonnes_text(pool.remaining())
+    ));
+    if pool.shortfall().is_positive() {
+        t.note(format!(
+            "SHORTFALL: reversals exceed the buffer pool and the claimable tonnes by {} t.",
+            crate::report::render::tonnes_text(pool.shortfall())
+        ));
+    }
+    t
+}
