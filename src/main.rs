@@ -32,7 +32,7 @@ fn main() -> ExitCode {
                 eprintln!("sinkbook: warning: {w}");
             }
             print!("{}", render(&report, format));
-            ExitCode::SUCCESS
+            ExitCode::from(report.exit_code)
         }
         Err(e) => {
             eprintln!("sinkbook: {e}");

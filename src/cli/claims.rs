@@ -17,8 +17,8 @@ use crate::report::{Cell, Table, columns};
 use crate::store::Tx;
 use chrono::{DateTime, Utc};
 
-/// A project with what the ledger held at `as_of`: later entries, corrections, sites and
-/// settings are left out, so a past report can be reproduced exactly.
+/// A project as the ledger holds it, or held it at `as_of`: with a date, later entries,
+/// corrections, sites and settings are left out, so a past report can be reproduced exactly.
 pub struct ProjectView {
     pub project: Project,
     pub entries: Vec<SealedEntry>,
@@ -28,15 +28,18 @@ pub struct ProjectView {
 }
 
 impl ProjectView {
-    pub fn load(tx: &mut Tx<'_>, code: &str, as_of: DateTime<Utc>) -> Result<ProjectView> {
+    pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result<ProjectView> {
         let project = known_project(tx, code)?;
         let mut entries = tx.entries(code)?;
-        // Entries are appended in time order, so what was held at `as_of` is a prefix.
-        entries.retain(|s| s.entry.recorded_at <= as_of);
         let mut sites = tx.sites(code)?;
-        sites.retain(|s| s.registered_at <= as_of);
         let mut settings = tx.settings(code)?;
-        settings.retain(|s| s.recorded_at <= as_of);
+        if let Some(t) = as_of {
+            entries.retain(|s| s.entry.recorded_at <= t);
+            sites.retain(|s| s.registered_at <= t);
+            settings.retain(|s| s.recorded_at <= t);
+        }
+        // Without a date, everything recorded counts, whatever the clock says now.
+        let as_of = as_of.unwrap_or(DateTime::<Utc>::MAX_UTC);
         Ok(ProjectView {
             project,
             entries,

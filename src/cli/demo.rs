@@ -22,6 +22,14 @@ const SAMPLES: &[(&str, &str)] = &[
         "kre.sinkbook",
         include_str!("../../sample-projects/kre.sinkbook"),
     ),
+    (
+        "tfs-monitoring-report-2026.csv",
+        include_str!("../../sample-projects/tfs-monitoring-report-2026.csv"),
+    ),
+    (
+        "kre-monitoring-report-2026.csv",
+        include_str!("../../sample-projects/kre-monitoring-report-2026.csv"),
+    ),
 ];
 
 /// What the demo prints once the ledger is built.
@@ -31,7 +39,18 @@ const TOUR: &[&[&str]] = &[
     &["meters", "TFS", "--year", "2026"],
     &["balance", "KRE", "--by", "quarter"],
     &["balance", "KRE", "--by", "year", "--method", "iso27916"],
+    &[
+        "reconcile",
+        "TFS",
+        "$SAMPLES/tfs-monitoring-report-2026.csv",
+    ],
+    &[
+        "reconcile",
+        "KRE",
+        "$SAMPLES/kre-monitoring-report-2026.csv",
+    ],
     &["verify"],
+    &["totals"],
 ];
 
 /// Splits a script into command lines: blank lines and `#` comments skipped.
@@ -71,7 +90,7 @@ fn build_and_report(db: &Path, now: DateTime<Utc>) -> Result<Report> {
     }
     let mut report = Report::default();
     for words in TOUR {
-        let words: Vec<String> = words.iter().map(|w| w.to_string()).collect();
+        let words: Vec<String> = words.iter().map(|w| w.replace("$SAMPLES", &dir)).collect();
         report.extend(run_line(&words, db, now)?);
     }
     Ok(report)

@@ -1,6 +1,7 @@
 //! The command line: parse with clap, call the core and the store, hand a report back.
 //! The clock is read once per command, by the caller, and passed in.
 
+mod chart;
 mod claims;
 mod convert;
 mod demo;
@@ -9,10 +10,12 @@ mod import;
 mod inputs;
 mod meters;
 mod potential;
+mod reconcile;
 mod record;
 mod reports;
 mod settings;
 mod setup;
+mod totals;
 mod verify;
 
 use crate::error::Result;
@@ -30,7 +33,7 @@ pub const DEFAULT_DB: &str = "sinkbook.db";
     name = "sinkbook",
     version,
     about = "An append-only, tamper-evident ledger of CO2 stored underground and in rock",
-    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered"
+    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered · 4 reconciliation material"
 )]
 pub struct Cli {
     /// The ledger file [default: sinkbook.db in the working directory]
@@ -66,6 +69,12 @@ pub enum Command {
     Import(import::ImportArgs),
     /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
     Meters(meters::MetersArgs),
+    /// Reconcile the ledger with an independent monitoring report; exit 4 when material
+    Reconcile(reconcile::ReconcileArgs),
+    /// Chart cumulative stored, conservative and durable tonnes against the permit (SVG)
+    Chart(chart::ChartArgs),
+    /// Totals across projects: stored, conservative, durable, buffer, claimable, reversed, headroom
+    Totals(totals::TotalsArgs),
     /// Recompute every hash and check the ledger's structure
     Verify(verify::VerifyArgs),
     /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
@@ -107,6 +116,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Balance(a) => reports::balance(&ctx, a),
         Command::Import(a) => import::import(&ctx, a),
         Command::Meters(a) => meters::meters(&ctx, a),
+        Command::Reconcile(a) => reconcile::reconcile(&ctx, a),
+        Command::Chart(a) => chart::chart(&ctx, a),
+        Command::Totals(a) => totals::totals(&ctx, a),
         Command::Verify(a) => verify::verify(&ctx, a),
         Command::Convert(a) => convert::convert(a),
         Command::Density(a) => density::density(a),

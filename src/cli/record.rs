@@ -56,7 +56,7 @@ pub struct QuantityArgs {
     #[arg(long, value_name = "GAS=X,…", help_heading = "Quantity")]
     pub impurities: Option<String>,
     /// Uncertainty (95 %) of this reading, e.g. 0.5% [default: the site's, or its latest calibration]
-    #[arg(long, help_heading = "Quantity")]
+    #[arg(long, help_heading = "Quantity", allow_hyphen_values = true)]
     pub uncertainty: Option<String>,
 }
 
@@ -240,7 +240,7 @@ pub struct CalibrationArgs {
     #[arg(long, value_name = "DATE")]
     pub date: String,
     /// The meter's uncertainty (95 %) found, e.g. 0.4%
-    #[arg(long)]
+    #[arg(long, allow_hyphen_values = true)]
     pub uncertainty: String,
     #[arg(long, value_name = "ID")]
     pub meter: Option<String>,

@@ -109,7 +109,7 @@ pub struct BalanceArgs {
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     let mut store = ctx.open()?;
-    let view = store.read(|tx| ProjectView::load(tx, &a.project, ctx.now))?;
+    let view = store.read(|tx| ProjectView::load(tx, &a.project, None))?;
     let grouping = match a.by {
         By::Month => Grouping::Month,
         By::Quarter => Grouping::Quarter,

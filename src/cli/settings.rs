@@ -14,19 +14,19 @@ use clap::Args;
 pub struct ProjectSet {
     pub code: String,
     /// Share of durable tonnes withheld into the buffer pool, e.g. 10%
-    #[arg(long)]
+    #[arg(long, allow_hyphen_values = true)]
     pub buffer: Option<String>,
     /// Retention model: constant annual leak fraction, e.g. 0.01%
-    #[arg(long, value_name = "FRACTION")]
+    #[arg(long, value_name = "FRACTION", allow_hyphen_values = true)]
     pub annual_leak: Option<String>,
     /// Retention model: horizon in years [default: 100]
-    #[arg(long, value_name = "YEARS")]
+    #[arg(long, value_name = "YEARS", allow_hyphen_values = true)]
     pub horizon: Option<String>,
     /// Temporary storage: years the CO2 is held (tonne-year equivalence)
-    #[arg(long, value_name = "YEARS")]
+    #[arg(long, value_name = "YEARS", allow_hyphen_values = true)]
     pub years_held: Option<String>,
     /// Tonne-year equivalence time [default: 55 years for a 100-year horizon, Moura-Costa & Wilson 2000]
-    #[arg(long, value_name = "YEARS")]
+    #[arg(long, value_name = "YEARS", allow_hyphen_values = true)]
     pub equivalence_years: Option<String>,
 }
 

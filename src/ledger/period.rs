@@ -52,7 +52,7 @@ pub fn epoch_days(d: NaiveDate) -> i32 {
 }
 
 /// How reports group periods.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
 pub enum Grouping {
     Month,
     Quarter,

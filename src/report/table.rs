@@ -103,6 +103,9 @@ pub struct Report {
     pub tables: Vec<Table>,
     /// Whether people get the cautions line at the end (every report that states figures).
     pub cautions: bool,
+    /// Exit code of a command that completed but found something scripts must act on
+    /// (4: a reconciliation found a material misstatement).
+    pub exit_code: u8,
 }
 
 impl Report {

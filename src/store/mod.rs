@@ -321,3 +321,33 @@ fn sql_text(sql: &mut String, s: &str) {
     }
     sql.push('\'');
 }
+
+/// The readings of one meter-day of one imported file.
+#[derive(Debug, Clone, PartialEq, Eq, QueryableByName)]
+pub struct ReadingTotal {
+    #[diesel(sql_type = diesel::sql_types::Text)]
+    pub file_sha256: String,
+    #[diesel(sql_type = diesel::sql_types::Text)]
+    pub meter: String,
+    #[diesel(sql_type = diesel::sql_types::Text)]
+    pub day: String,
+    #[diesel(sql_type = diesel::sql_types::BigInt)]
+    pub grams: i64,
+    #[diesel(sql_type = diesel::sql_types::BigInt)]
+    pub rows: i64,
+}
+
+impl Tx<'_> {
+    /// Σ grams and row count of the raw readings per file, meter and day, for recomputing the
+    /// entries they rolled up into.
+    pub fn reading_totals(&mut self, project: &str) -> Result<Vec<ReadingTotal>> {
+        Ok(diesel::sql_query(
+            "SELECT i.file_sha256 AS file_sha256, r.meter AS meter, r.day AS day, \
+             SUM(r.grams) AS grams, COUNT(*) AS rows \
+             FROM readings r JOIN imports i ON i.id = r.import_id \
+             WHERE i.project = ? GROUP BY i.file_sha256, r.meter, r.day",
+        )
+        .bind::<diesel::sql_types::Text, _>(project)
+        .load(self.conn)?)
+    }
+}

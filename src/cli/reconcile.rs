@@ -1,0 +1,354 @@
+//! `reconcile`: the ledger against an independent monitoring report, line by line, and per
+//! reporting year the misstatement against materiality. Exit 4 when it is material.
+
+use super::Context;
+use super::claims::ProjectView;
+use crate::accounting::balance::{BalanceLine, BalanceMethod};
+use crate::accounting::materiality::{
+    Figure, MaterialityPolicy, Presence, ReportedQuantity, ReportingPeriod, Verdict,
+    reconcile as reconcile_figures,
+};
+use crate::error::{Error, Result};
+use crate::import::csv_lines::Lines;
+use crate::ledger::period::Grouping;
+use crate::ledger::{EntryKind, SealedEntry};
+use crate::quantity::fraction::parse_uncertainty;
+use crate::quantity::{Decimal, Mass, MassReading, MassUnit};
+use crate::report::render::tonnes_text;
+use crate::report::{Cell, Report, Table, columns};
+use crate::store::ReadingTotal;
+use clap::Args;
+use std::collections::{BTreeSet, HashMap};
+use std::path::PathBuf;
+
+/// Exit code when a reporting year's misstatement is material.
+pub const MATERIAL: u8 = 4;
+
+#[derive(Debug, Args)]
+pub struct ReconcileArgs {
+    pub project: String,
+    /// CSV with columns period,quantity,value,unit (period 2026, 2026-Q1 or 2026-03; quantity
+    /// received, injected, produced, leakage, equipment-leak, stored, mineralized, weathering-net)
+    pub report: PathBuf,
+    /// Materiality threshold as a share of the year's stored total [default: 5%]
+    #[arg(long)]
+    pub materiality: Option<String>,
+    /// Threshold for the largest projects [default: 2%]
+    #[arg(long)]
+    pub large_materiality: Option<String>,
+    /// Annual stored total above which the large threshold applies [default: 500 kt]
+    #[arg(long, value_name = "MASS")]
+    pub large_above: Option<String>,
+    /// Which mass balance gives the ledger's figures
+    #[arg(long, value_enum, default_value_t = BalanceMethod::Rr)]
+    pub method: BalanceMethod,
+    /// First recompute every imported meter-day from its raw readings
+    #[arg(long)]
+    pub recompute: bool,
+}
+
+/// A report's figure: `1234.5 t`, `0 t`, `-3 kt` (a number and a mass unit).
+fn report_mass(line: u64, value: &str, unit: &str) -> Result<Mass> {
+    let bad = |why: String| Error::Refused(format!("report line {line}: {why}"));
+    let n = Decimal::parse(value).map_err(|e| bad(format!("value {value:?}: {e}")))?;
+    let u = MassUnit::from_symbol(unit)
+        .ok_or_else(|| bad(format!("unit {unit:?} is not a mass unit")))?;
+    n.checked_mul(u.grams_per_unit())
+        .and_then(Decimal::round_half_even)
+        .map(Mass::from_grams)
+        .ok_or_else(|| bad(format!("value {value:?}: too large")))
+}
+
+fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
+    let file_field =
+        |e: &dyn std::fmt::Display| Error::field("REPORT", &path.display().to_string(), e);
+    let file = std::fs::File::open(path).map_err(|e| file_field(&e))?;
+    let mut lines = Lines::new(std::io::BufReader::new(file));
+    let header: Vec<String> = match lines.next_record() {
+        Some(Ok(r)) => r.fields().iter().map(|f| f.trim().to_string()).collect(),
+        Some(Err(e)) => return Err(file_field(&e)),
+        None => {
+            return Err(file_field(
+                &"is empty: a header row period,quantity,value,unit is needed",
+            ));
+        }
+    };
+    let col = |name: &str| {
+        header.iter().position(|h| h == name).ok_or_else(|| {
+            file_field(&format!(
+                "the header has no column {name:?} (headers: {})",
+                header.join(", ")
+            ))
+        })
+    };
+    let (p, q, v, u) = (
+        col("period")?,
+        col("quantity")?,
+        col("value")?,
+        col("unit")?,
+    );
+    let mut figures = Vec::new();
+    while let Some(r) = lines.next_record() {
+        let r = r.map_err(|e| file_field(&e))?;
+        let f = |i: usize| r.field(i).trim();
+        let period: ReportingPeriod = f(p)
+            .parse()
+            .map_err(|e| Error::Refused(format!("report line {}: period: {e}", r.line)))?;
+        let quantity: ReportedQuantity = f(q)
+            .parse()
+            .map_err(|e| Error::Refused(format!("report line {}: quantity: {e}", r.line)))?;
+        figures.push(Figure {
+            period,
+            quantity,
+            mass: report_mass(r.line, f(v), f(u))?,
+        });
+    }
+    Ok(figures)
+}
+
+/// The ledger's figure for a quantity in a balance line, where the ledger keeps it.
+fn ledger_figure(l: &BalanceLine, q: ReportedQuantity) -> Option<Mass> {
+    let t = &l.terms;
+    Some(match q {
+        ReportedQuantity::Received => t.received(),
+        ReportedQuantity::Injected => t.injected,
+        ReportedQuantity::Produced => t.produced(),
+        ReportedQuantity::Leakage => t.surface_leakage,
+        ReportedQuantity::EquipmentLeak => t.leaks_injection_side + t.leaks_production_side,
+        ReportedQuantity::Stored => l.stored,
+        ReportedQuantity::Mineralized | ReportedQuantity::WeatheringNet => return None,
+    })
+}
+
+fn share(field: &str, text: Option<&str>, default: f64) -> Result<f64> {
+    text.map_or(Ok(default), |t| {
+        parse_uncertainty(t)
+            .map(|d| d.to_f64())
+            .map_err(|e| Error::field(field, t, e))
+    })
+}
+
+pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
+    let defaults = MaterialityPolicy::default();
+    let policy = MaterialityPolicy {
+        standard: share("--materiality", a.materiality.as_deref(), defaults.standard)?,
+        large: share(
+            "--large-materiality",
+            a.large_materiality.as_deref(),
+            defaults.large,
+        )?,
+        large_above: match &a.large_above {
+            None => defaults.large_above,
+            Some(t) => MassReading::parse(t)
+                .and_then(|m| m.to_mass())
+                .map_err(|e| Error::field("--large-above", t, e))?,
+        },
+    };
+    let report_figures = read_report(&a.report)?;
+    if report_figures.is_empty() {
+        return Err(Error::field(
+            "REPORT",
+            &a.report.display().to_string(),
+            "holds no figures",
+        ));
+    }
+    let (view, totals) = ctx.open()?.read(|tx| {
+        let v = ProjectView::load(tx, &a.project, None)?;
+        let totals = if a.recompute {
+            tx.reading_totals(&a.project)?
+        } else {
+            Vec::new()
+        };
+        Ok((v, totals))
+    })?;
+    let mut out = Report::default();
+    if a.recompute {
+        out = out.table(recompute_table(&a.project, &view.entries, &totals));
+    }
+    // The ledger's figures at each granularity and for each quantity the report uses, over the
+    // report's years, so a period the report leaves out shows as ledger-only.
+    let years: BTreeSet<i32> = report_figures.iter().map(|f| f.period.year()).collect();
+    let quantities: BTreeSet<ReportedQuantity> =
+        report_figures.iter().map(|f| f.quantity).collect();
+    let granularities: BTreeSet<Grouping> = report_figures
+        .iter()
+        .map(|f| match f.period {
+            ReportingPeriod::Year(_) => Grouping::Year,
+            ReportingPeriod::Quarter(..) => Grouping::Quarter,
+            ReportingPeriod::Month(..) => Grouping::Month,
+        })
+        .collect();
+    let mut ledger = Vec::new();
+    for g in granularities {
+        for l in view
+            .balance(g, a.method)
+            .iter()
+            .filter(|l| years.contains(&l.bucket.year))
+        {
+            let period: ReportingPeriod = l
+                .bucket
+                .to_string()
+                .parse()
+                .map_err(|e| Error::Inconsistent(format!("{e}")))?;
+            for q in &quantities {
+                if let Some(mass) = ledger_figure(l, *q) {
+                    ledger.push(Figure {
+                        period,
+                        quantity: *q,
+                        mass,
+                    });
+                }
+            }
+        }
+    }
+    let r = reconcile_figures(&ledger, &report_figures, &policy)
+        .map_err(|e| Error::field("REPORT", &a.report.display().to_string(), e))?;
+    let mut lines = Table::new(
+        "reconciliation",
+        format!(
+            "Ledger against {}, project {}",
+            a.report
+                .file_name()
+                .map_or(String::new(), |n| n.to_string_lossy().into_owned()),
+            a.project
+        ),
+        columns(&[
+            ("Period", "period"),
+            ("Quantity", "quantity"),
+            ("Ledger (t)", "ledger_t"),
+            ("Report (t)", "report_t"),
+            ("Difference (t)", "difference_t"),
+            ("Difference (%)", "difference_pct"),
+            ("Note", "note"),
+        ]),
+    );
+    for l in &r.lines {
+        let (ledger_cell, report_cell, note) = match l.presence {
+            Presence::Both { ledger, report } => (Cell::Tonnes(ledger), Cell::Tonnes(report), ""),
+            Presence::LedgerOnly(m) => (Cell::Tonnes(m), Cell::Empty, "not in the report"),
+            Presence::ReportOnly(m) => (
+                Cell::Empty,
+                Cell::Tonnes(m),
+                if ledger_figure_kept(l.quantity) {
+                    "not in the ledger"
+                } else {
+                    "this ledger keeps no such figure"
+                },
+            ),
+        };
+        lines.push(vec![
+            Cell::text(l.period.to_string()),
+            Cell::text(l.quantity.key()),
+            ledger_cell,
+            report_cell,
+            Cell::Tonnes(l.difference),
+            l.difference_pct.map_or(Cell::Empty, Cell::Percent),
+            Cell::text(note),
+        ]);
+    }
+    lines.note("Difference = ledger − report; its % is of the ledger figure.");
+    let mut verdicts = Table::new(
+        "materiality",
+        format!("Materiality by reporting year, project {}", a.project),
+        columns(&[
+            ("Year", "year"),
+            ("Stored, ledger (t)", "ledger_stored_t"),
+            ("Misstatement (t)", "misstatement_t"),
+            ("Threshold (%)", "threshold_pct"),
+            ("Threshold (t)", "threshold_t"),
+            ("Verdict", "verdict"),
+        ]),
+    );
+    let mut material = false;
+    for y in &r.years {
+        material |= y.verdict == Verdict::Material;
+        verdicts.push(vec![
+            Cell::text(y.year.to_string()),
+            Cell::Tonnes(y.ledger_total),
+            Cell::Tonnes(y.misstatement),
+            Cell::Percent(y.threshold_share * 100.0),
+            Cell::Tonnes(y.threshold),
+            Cell::text(match y.verdict {
+                Verdict::WithinMateriality => "within materiality",
+                Verdict::Material => "MATERIAL",
+            }),
+        ]);
+    }
+    verdicts.note(format!(
+        "Misstatement: the sum of |difference| over the year's stored lines at the finest period both sides give. Threshold: {:.1} % of the year's stored total, {:.1} % above {} t a year (Regulation (EU) 2018/2067 Art. 23).",
+        policy.standard * 100.0,
+        policy.large * 100.0,
+        tonnes_text(policy.large_above)
+    ));
+    out = out.table(lines).table(verdicts);
+    if material {
+        out.exit_code = MATERIAL;
+    }
+    Ok(out)
+}
+
+fn ledger_figure_kept(q: ReportedQuantity) -> bool {
+    !matches!(
+        q,
+        ReportedQuantity::Mineralized | ReportedQuantity::WeatheringNet
+    )
+}
+
+/// Every imported meter-day recomputed from its raw readings.
+fn recompute_table(project: &str, entries: &[SealedEntry], totals: &[ReadingTotal]) -> Table {
+    let by: HashMap<(&str, &str, &str), &ReadingTotal> = totals
+        .iter()
+        .map(|t| {
+            (
+                (t.file_sha256.as_str(), t.meter.as_str(), t.day.as_str()),
+                t,
+            )
+        })
+        .collect();
+    let mut t = Table::new(
+        "recompute",
+        format!("Imported entries recomputed from raw readings, project {project}"),
+        columns(&[
+            ("Seq", "seq"),
+            ("Meter", "meter"),
+            ("Day", "day"),
+            ("Entry (t)", "entry_t"),
+            ("Readings (t)", "readings_t"),
+            ("Rows", "rows"),
+            ("Result", "result"),
+        ]),
+    );
+    let mut checked = 0;
+    for s in entries {
+        let e = &s.entry;
+        let (Some(sha), Some(meter)) = (e.reading.get("file_sha256"), e.meter.as_deref()) else {
+            continue;
+        };
+        if e.kind == EntryKind::Survey || e.corrects.is_some() {
+            continue;
+        }
+        checked += 1;
+        let day = e.period.from.to_string();
+        match by.get(&(sha, meter, day.as_str())) {
+            Some(r) if r.grams == e.mass.grams() => {}
+            found => t.push(vec![
+                Cell::Int(e.seq as i64),
+                Cell::text(meter),
+                Cell::text(&day),
+                Cell::Tonnes(e.mass),
+                found.map_or(Cell::Empty, |r| Cell::Tonnes(Mass::from_grams(r.grams))),
+                found.map_or(Cell::Empty, |r| Cell::Int(r.rows)),
+                Cell::text(if found.is_some() {
+                    "differs from its readings"
+                } else {
+                    "no readings found"
+                }),
+            ]),
+        }
+    }
+    t.note(format!(
+        "{checked} imported meter-days recomputed from their raw readings; {} differ.",
+        t.rows.len()
+    ));
+    t
+}
