@@ -23,19 +23,24 @@ impl fmt::Display for FractionError {
     }
 }
 
+/// A share written as a plain decimal (`0.985`) or a percentage (`98.5%`), exactly.
+fn share(text: &str) -> Result<Decimal, FractionError> {
+    let t = text.trim();
+    match t.strip_suffix('%') {
+        Some(p) => Decimal::parse(p)
+            .map_err(FractionError::Number)?
+            .checked_mul(Decimal::parse("0.01").expect("valid"))
+            .ok_or(FractionError::Number(DecimalError::TooLong)),
+        None => Decimal::parse(t).map_err(FractionError::Number),
+    }
+}
+
 impl Fraction {
     pub const ONE: Fraction = Fraction(Decimal::from_int(1));
 
     /// Parses `0.985` or `98.5%`; the value must lie in (0, 1].
     pub fn parse(text: &str) -> Result<Self, FractionError> {
-        let t = text.trim();
-        let value = match t.strip_suffix('%') {
-            Some(p) => Decimal::parse(p)
-                .map_err(FractionError::Number)?
-                .checked_mul(Decimal::parse("0.01").expect("valid"))
-                .ok_or(FractionError::Number(DecimalError::TooLong))?,
-            None => Decimal::parse(t).map_err(FractionError::Number)?,
-        };
+        let value = share(text)?;
         if !value.is_positive() || value.cmp_value(Decimal::from_int(1)).is_gt() {
             return Err(FractionError::OutOfRange);
         }
@@ -88,14 +93,7 @@ mod tests {
 
 /// A relative uncertainty at 95 % as written (`0.5%` or `0.005`): at least 0, below 100 %.
 pub fn parse_uncertainty(text: &str) -> Result<Decimal, FractionError> {
-    let t = text.trim();
-    let value = match t.strip_suffix('%') {
-        Some(p) => Decimal::parse(p)
-            .map_err(FractionError::Number)?
-            .checked_mul(Decimal::parse("0.01").expect("valid"))
-            .ok_or(FractionError::Number(DecimalError::TooLong))?,
-        None => Decimal::parse(t).map_err(FractionError::Number)?,
-    };
+    let value = share(text)?;
     if value.to_f64() < 0.0 || value.cmp_value(Decimal::from_int(1)).is_ge() {
         return Err(FractionError::OutOfRange);
     }
