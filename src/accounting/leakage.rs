@@ -97,4 +97,14 @@ mod tests {
         assert!(LeakRate::parse("0 t/h").is_err());
         assert_eq!(LeakRate::parse("2.5t/h").unwrap().to_string(), "2.5 t/h");
     }
+
+    proptest::proptest! {
+        #[test]
+        fn never_panics(s in "\\PC{0,30}", days in 0u64..100_000) {
+            if let Ok(r) = LeakRate::parse(&s) {
+                let from = parse_date("2026-01-01").unwrap();
+                let _ = r.emitted(Period::new(from, from + chrono::Days::new(days)).unwrap());
+            }
+        }
+    }
 }

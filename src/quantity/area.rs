@@ -69,4 +69,13 @@ mod tests {
         assert!(Area::parse("12 furlong").is_err());
         assert!(Area::parse("12").is_err());
     }
+
+    proptest::proptest! {
+        #[test]
+        fn never_panics(s in "\\PC{0,30}") {
+            if let Ok(a) = Area::parse(&s) {
+                let _ = a.m2();
+            }
+        }
+    }
 }

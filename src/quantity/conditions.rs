@@ -136,4 +136,12 @@ mod tests {
             Err(ConditionError::UnknownUnit(_))
         ));
     }
+
+    proptest::proptest! {
+        #[test]
+        fn never_panics(s in "\\PC{0,30}") {
+            let _ = parse_temperature(&s);
+            let _ = parse_pressure(&s, atmosphere());
+        }
+    }
 }
