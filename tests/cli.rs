@@ -232,6 +232,17 @@ fn demo_builds_and_prints_its_tables() {
     let out = String::from_utf8(o.stdout).unwrap();
     let out = out.replace(&db.display().to_string(), "[DB]");
     insta::assert_snapshot!("demo", out);
+    // The sample projects' annual tables, pinned beside the quarterly ones the demo prints.
+    for project in ["TFS", "KRE"] {
+        let o = assert_cmd::Command::cargo_bin("sinkbook")
+            .unwrap()
+            .args(["balance", project, "--by", "year", "--db"])
+            .arg(&db)
+            .output()
+            .unwrap();
+        assert!(o.status.success());
+        insta::assert_snapshot!(format!("sample_{project}_year"), String::from_utf8(o.stdout).unwrap());
+    }
     // A second demo into the same file is refused: it builds fresh ledgers only.
     let again = assert_cmd::Command::cargo_bin("sinkbook")
         .unwrap()
