@@ -241,7 +241,10 @@ fn demo_builds_and_prints_its_tables() {
             .output()
             .unwrap();
         assert!(o.status.success());
-        insta::assert_snapshot!(format!("sample_{project}_year"), String::from_utf8(o.stdout).unwrap());
+        insta::assert_snapshot!(
+            format!("sample_{project}_year"),
+            String::from_utf8(o.stdout).unwrap()
+        );
     }
     // A second demo into the same file is refused: it builds fresh ledgers only.
     let again = assert_cmd::Command::cargo_bin("sinkbook")

@@ -58,6 +58,9 @@ struct Day {
     weighted_fraction: f64,
 }
 
+/// Rows handed from the parser thread at a time.
+const CHUNK: usize = 4_096;
+
 /// Bad rows listed in the one-line refusal before "and N more".
 const LISTED: usize = 20;
 
@@ -102,11 +105,37 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
                 Some(_) => Ok(()),
             }
         };
-        for_each_row(
-            &a.file,
-            &columns,
-            density,
-            |row| {
+        // Parsing runs on a second thread while this one writes: the file is converted and
+        // checked in chunks handed over a bounded channel, so memory stays flat.
+        let (sender, receiver) = std::sync::mpsc::sync_channel::<Vec<std::result::Result<MeterRow, RowError>>>(8);
+        let (file, columns, name) = (&a.file, &columns, &file_name);
+        std::thread::scope(|scope| -> Result<()> {
+            let parser = scope.spawn(move || {
+                let mut chunk = Vec::with_capacity(CHUNK);
+                let parsed = for_each_row(
+                    file,
+                    columns,
+                    density,
+                    |row| {
+                        chunk.push(row);
+                        if chunk.len() == CHUNK {
+                            sender.send(std::mem::take(&mut chunk)).map_err(|_| Error::Store("import stopped".into()))?;
+                        }
+                        Ok(())
+                    },
+                    |bytes| {
+                        if show_progress {
+                            eprint!("\rimporting {name}: {:>3} %", bytes * 100 / size.max(1));
+                        }
+                    },
+                );
+                if !chunk.is_empty() {
+                    let _ = sender.send(chunk);
+                }
+                parsed
+            });
+            let receiver = receiver;
+            for row in receiver.into_iter().flatten() {
                 let row = row.and_then(|r| match check_site(&r) {
                     Ok(()) => Ok(r),
                     Err(why) => Err(RowError { line: r.line, why }),
@@ -124,7 +153,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
                         };
                         if meters[i].0 != r.site {
                             bad.push(RowError { line: r.line, why: format!("meter {} is at site {} in earlier rows, here at site {}", r.meter, meters[i].0, r.site) });
-                            return Ok(());
+                            continue;
                         }
                         let d = meters[i].2.entry(r.day).or_default();
                         if d.rows == 0 {
@@ -156,14 +185,9 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
                         }
                     }
                 }
-                Ok(())
-            },
-            |bytes| {
-                if show_progress {
-                    eprint!("\rimporting {file_name}: {:>3} %", bytes * 100 / size.max(1));
-                }
-            },
-        )?;
+            }
+            parser.join().map_err(|_| Error::Store("the import's parser thread failed".into()))?
+        })?;
         if show_progress {
             eprintln!("\rimporting {file_name}: 100 %");
         }
