@@ -76,6 +76,18 @@ impl fmt::Display for GridFactor {
     }
 }
 
+/// CO2 from quarrying `rock_t` tonnes at the quarry's own factor (fuel and explosives per tonne),
+/// as the user gives it: there is no general default.
+pub fn quarrying_emission(rock_t: f64, kg_co2_per_t: f64) -> Result<Emission, LifecycleError> {
+    let rock_t = check("rock_t", rock_t, Rule::NonNegative)?;
+    let k = check("kg_co2_per_t", kg_co2_per_t, Rule::NonNegative)?;
+    let kg = rock_t * k;
+    Ok(Emission {
+        mass: grams("quarrying_g", kg * 1e3)?,
+        how: format!("quarrying: {rock_t} t × {k} kg CO2/t (given) = {kg:.3} kg CO2"),
+    })
+}
+
 /// Coefficient and exponent of the Strefler et al. (2018, Environ. Res. Lett. 13:034010)
 /// grinding fit, E (GJ/t) = 6.62·d^−1.16, d in µm.
 const STREFLER: (f64, f64) = (6.62, -1.16);
@@ -350,6 +362,17 @@ mod tests {
             Err(LifecycleError::Input(e)) => assert_eq!(e.field, "grid_kg_co2_per_gj"),
             other => panic!("{other:?}"),
         }
+    }
+
+    #[test]
+    fn quarrying() {
+        let q = quarrying_emission(1200.0, 2.5).unwrap_or_else(|e| panic!("{e}"));
+        assert_eq!(q.mass, Mass::from_grams(3_000_000));
+        assert_eq!(
+            q.how,
+            "quarrying: 1200 t × 2.5 kg CO2/t (given) = 3000.000 kg CO2"
+        );
+        assert!(quarrying_emission(-1.0, 2.5).is_err());
     }
 
     /// REFERENCES.md: US EPA Emission Factors for GHG Inventories, 2018 edition, through a

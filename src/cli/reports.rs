@@ -6,7 +6,7 @@ use crate::accounting::balance::{BalanceLine, BalanceMethod, balance as compute_
 use crate::error::Result;
 use crate::ledger::correction::{effective, superseded_by};
 use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind, Project};
+use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
@@ -111,6 +111,18 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
         By::Quarter => Grouping::Quarter,
         By::Year => Grouping::Year,
     };
+    match project.method {
+        Method::BasaltMineralization => {
+            return super::mineralization::balance(&project, &all, grouping);
+        }
+        Method::ExSituMineralization => {
+            return super::mineralization::carbonation_balance(&project, &all, grouping);
+        }
+        Method::EnhancedWeathering => {
+            return super::weathering::balance(ctx, &project, &all, grouping);
+        }
+        Method::SalineAquifer | Method::DepletedField | Method::Eor => {}
+    }
     let lines = compute_balance(&project, effective(&all), grouping, a.method);
     let by = format!("{:?}", a.by).to_lowercase();
     let mut t = match a.method {

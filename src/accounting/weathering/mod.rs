@@ -7,6 +7,8 @@
 //! separates the feedstock from the soil it is mixed into. [`removal`] turns a dissolved
 //! fraction into gross CO2 and its deductions. Background: docs/weathering.md.
 
+pub mod campaign;
+pub mod composition;
 pub mod removal;
 pub mod tau;
 pub mod three_end_member;
