@@ -22,6 +22,14 @@ const SAMPLES: &[(&str, &str)] = &[
         "kre.sinkbook",
         include_str!("../../sample-projects/kre.sinkbook"),
     ),
+    (
+        "crb.sinkbook",
+        include_str!("../../sample-projects/crb.sinkbook"),
+    ),
+    (
+        "evw.sinkbook",
+        include_str!("../../sample-projects/evw.sinkbook"),
+    ),
 ];
 
 /// What the demo prints once the ledger is built.
@@ -31,6 +39,10 @@ const TOUR: &[&[&str]] = &[
     &["meters", "TFS", "--year", "2026"],
     &["balance", "KRE", "--by", "quarter"],
     &["balance", "KRE", "--by", "year", "--method", "iso27916"],
+    &["mineralization", "CRB", "--by", "year"],
+    &["feedstock", "list", "EVW"],
+    &["weathering", "EVW"],
+    &["balance", "EVW", "--by", "year"],
     &["verify"],
 ];
 

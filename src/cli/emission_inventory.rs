@@ -66,49 +66,114 @@ pub struct InventoryArgs {
     #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
     pub stage: Option<Stage>,
     /// Quarrying at the quarry's factor, e.g. "2.5 kg/t" (with --rock-mass)
-    #[arg(long, value_name = "FACTOR", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "FACTOR",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub quarrying: Option<String>,
     /// Grinding energy (with --rock-mass, --grid-factor and --d80; Bond also --work-index, --feed-f80)
     #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
     pub grinding: Option<GrindingMethod>,
     /// Product size that 80 % passes, e.g. "50 um"
-    #[arg(long, value_name = "SIZE", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "SIZE",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub d80: Option<String>,
     /// Feed size that 80 % passes, for Bond's law, e.g. "12 mm"
-    #[arg(long, value_name = "SIZE", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "SIZE",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub feed_f80: Option<String>,
     /// Bond work index per metric tonne, e.g. "18 kWh/t"
-    #[arg(long, value_name = "ENERGY", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "ENERGY",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub work_index: Option<String>,
     /// Rock quarried or ground, e.g. "1200 t"
-    #[arg(long, value_name = "MASS", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "MASS",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub rock_mass: Option<String>,
     /// CO2 of the electricity used, e.g. "0.35 kg/kWh" (kg/kWh, g/kWh, kg/MWh, kg/GJ)
-    #[arg(long, value_name = "FACTOR", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "FACTOR",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub grid_factor: Option<String>,
     /// Transport by this mode (with --distance and --payload)
     #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
     pub transport: Option<TransportMode>,
     /// Distance carried, e.g. "85 km"
-    #[arg(long, value_name = "DISTANCE", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "DISTANCE",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub distance: Option<String>,
     /// Mass carried, e.g. "1200 t"
-    #[arg(long, value_name = "MASS", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "MASS",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub payload: Option<String>,
     /// A transport factor instead of the US EPA 2018 one, e.g. "0.095 kg/tkm" (name it with --factor-source)
-    #[arg(long, value_name = "FACTOR", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "FACTOR",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub transport_factor: Option<String>,
     /// Spreading: fuel burnt per hectare, e.g. "4 L/ha" (with --fuel-factor)
-    #[arg(long, value_name = "RATE", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "RATE",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub spreading_fuel: Option<String>,
     /// CO2 per litre of the fuel, e.g. "2.68 kg/L"
-    #[arg(long, value_name = "FACTOR", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "FACTOR",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub fuel_factor: Option<String>,
     /// Area spread [default: the field's registered area]
-    #[arg(long, value_name = "AREA", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "AREA",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub area: Option<String>,
     /// Where the factors given come from, recorded beside them
-    #[arg(long, value_name = "TEXT", help_heading = "Life-cycle inventory")]
+    #[arg(
+        long,
+        value_name = "TEXT",
+        help_heading = "Life-cycle inventory",
+        allow_hyphen_values = true
+    )]
     pub factor_source: Option<String>,
 }
 
@@ -158,11 +223,12 @@ fn lifecycle_refusal(e: LifecycleError, options: &[(&str, &str, &str)]) -> Error
     match e {
         LifecycleError::Input(e) => ri::refused(&e, options),
         LifecycleError::ProductNotFiner { .. } => {
-            let text = options
-                .iter()
-                .find(|(f, ..)| *f == "product_p80_um")
-                .map_or("", |o| o.2);
-            Error::field("--d80", text, e)
+            let text = |field| options.iter().find(|o| o.0 == field).map_or("", |o| o.2);
+            Error::field(
+                "--d80",
+                text("product_p80_um"),
+                format!("must be finer than --feed-f80 {:?}", text("feed_f80_um")),
+            )
         }
     }
 }

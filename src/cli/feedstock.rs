@@ -131,7 +131,7 @@ fn add(ctx: &Context, a: FeedstockAdd) -> Result<Report> {
                 "project",
                 &f.project,
                 format!(
-                    "is a {} project; feedstocks belong to enhanced-weathering projects",
+                    "has method {}; feedstocks belong to enhanced-weathering projects",
                     p.method
                 ),
             ));

@@ -60,7 +60,7 @@ pub fn route_project(
                 "project",
                 code,
                 format!(
-                    "is a {} project; `{command}` reads {method} projects",
+                    "has method {}; `{command}` reads {method} projects",
                     p.method
                 ),
             ));

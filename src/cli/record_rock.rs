@@ -155,7 +155,7 @@ fn context(
                 "project",
                 project,
                 format!(
-                    "is a {} project; {kind} entries belong to {method} projects",
+                    "has method {}; {kind} entries belong to {method} projects",
                     p.method
                 ),
             ));
@@ -168,7 +168,10 @@ fn context(
                 return Err(Error::field(
                     "--corrects",
                     &seq.to_string(),
-                    format!("is a {} entry, not a {kind} entry", t.kind),
+                    format!(
+                        "is a {} entry; --corrects names an earlier {kind} entry",
+                        t.kind
+                    ),
                 ));
             }
         }

@@ -27,19 +27,44 @@ use clap::Args;
 #[derive(Debug, Args, Default)]
 pub struct DeductionArgs {
     /// Share of cations released by strong acids (sulfuric, nitric), carrying no CO2 [default: 0]
-    #[arg(long, value_name = "SHARE", help_heading = "Deductions")]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
     pub strong_acid: Option<String>,
     /// Share of the rest held on exchange sites or in new clays [default: 0]
-    #[arg(long, value_name = "SHARE", help_heading = "Deductions")]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
     pub cation_retention: Option<String>,
     /// Share of the rest precipitated as soil carbonate, which keeps half its CO2 [default: 0]
-    #[arg(long, value_name = "SHARE", help_heading = "Deductions")]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
     pub secondary_carbonate: Option<String>,
     /// Mol CO2 the ocean keeps per mol of alkalinity it receives [default: 0.8]
-    #[arg(long, value_name = "EFFICIENCY", help_heading = "Deductions")]
+    #[arg(
+        long,
+        value_name = "EFFICIENCY",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
     pub ocean_efficiency: Option<String>,
     /// Where the values given come from (a monitoring plan, a measurement), shown beside them
-    #[arg(long, value_name = "TEXT", help_heading = "Deductions")]
+    #[arg(
+        long,
+        value_name = "TEXT",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
     pub deduction_source: Option<String>,
 }
 
