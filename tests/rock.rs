@@ -1314,6 +1314,12 @@ fn bad_weathering_requests() {
         &["weathering", "EVW"],
         r#"--method "three-end-member": field EV-F1 has no baseline soil sample"#,
     );
+    refused(
+        &l,
+        "EVW",
+        &["balance", "EVW"],
+        "balance reads soil campaigns by three-end-member with Ti: field EV-F1 has no baseline",
+    );
     core(&l, "EV-F1", "2025-03-20", &SOIL, true);
     refused(
         &l,

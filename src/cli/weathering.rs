@@ -184,13 +184,23 @@ fn default_settings() -> Settings {
     }
 }
 
-/// A campaign error told as a refusal of the option that chose what is missing.
+/// A campaign error told as a refusal of the option that chose what is missing (`balance`
+/// has no such options: it says what it read with).
 fn refusal(e: CampaignError, s: &Settings, a: Option<&WeatheringArgs>) -> Error {
-    let mobile = a.map_or("Ca,Mg,Na,K".to_string(), |a| a.mobile.clone());
+    let Some(a) = a else {
+        return match e {
+            CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
+            _ => Error::Refused(format!(
+                "balance reads soil campaigns by {} with {}: {e}",
+                s.method.name(),
+                s.immobile.symbol()
+            )),
+        };
+    };
     match &e {
         CampaignError::NoBaseline { .. } => Error::field("--method", s.method.name(), e),
-        CampaignError::MissingImmobile { .. } => Error::field("--immobile", s.immobile.symbol(), e),
-        CampaignError::MissingMobile { .. } => Error::field("--mobile", &mobile, e),
+        CampaignError::MissingImmobile { .. } => Error::field("--immobile", &a.immobile, e),
+        CampaignError::MissingMobile { .. } => Error::field("--mobile", &a.mobile, e),
         CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
     }
 }
