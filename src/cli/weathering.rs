@@ -292,16 +292,18 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
     let l = ledgered(ctx, &project, &live, a.site.as_deref())?;
     let lines = read(&l, &s).map_err(|e| refusal(e, &s, Some(&a)))?;
     let field_codes: Vec<&str> = l.fields.iter().map(|f| f.code.as_str()).collect();
-    let elsewhere: Mass = if a.site.is_some() {
-        Mass::ZERO
-    } else {
+    let in_scope = |site: &str| a.site.as_deref().is_none_or(|f| f == site);
+    let sum = |keep: &dyn Fn(&str) -> bool| -> Mass {
         l.emissions
             .iter()
-            .filter(|e| !field_codes.contains(&e.site))
+            .filter(|e| keep(e.site))
             .map(|e| e.mass)
             .sum()
     };
-    Ok(Report::default().table(campaign_table(&project, &lines, &s, elsewhere)))
+    let recorded = sum(&in_scope);
+    let elsewhere = sum(&|site| a.site.is_none() && !field_codes.contains(&site));
+    let table = campaign_table(&project, &lines, &s, (recorded, elsewhere));
+    Ok(Report::default().table(table))
 }
 
 fn method_note(s: &Settings) -> String {
@@ -331,7 +333,7 @@ fn campaign_table(
     project: &Project,
     lines: &[CampaignLine],
     s: &Settings,
-    elsewhere: Mass,
+    (recorded, elsewhere): (Mass, Mass),
 ) -> Table {
     let mut t = Table::new(
         "weathering",
@@ -394,26 +396,26 @@ fn campaign_table(
         }
         t.push(row);
     }
-    total_row(&mut t, lines, elsewhere);
+    total_row(&mut t, lines, recorded);
     t.note(method_note(s));
     t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
     t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
-    t.note("The all-fields row sums each field's latest campaign that gave a number, and adds emissions recorded elsewhere.");
+    t.note("The all-fields row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); its net is the cumulative net of `balance`.");
     parameter_notes(&mut t, &s.deductions);
     for f in findings {
         t.note(format!("Finding: {f}"));
     }
     if elsewhere.is_positive() {
         t.note(format!(
-            "Emissions recorded at sites other than fields ({} t) count only in the total row and the balance.",
+            "Emissions recorded at sites other than fields ({} t) count in the all-fields row and the balance.",
             crate::report::render::tonnes_text(elsewhere)
         ));
     }
     t
 }
 
-/// The project to date: each field's latest readable campaign, plus emissions elsewhere.
-fn total_row(t: &mut Table, lines: &[CampaignLine], elsewhere: Mass) {
+/// The project to date: each field's latest readable campaign, less every emission recorded.
+fn total_row(t: &mut Table, lines: &[CampaignLine], recorded: Mass) {
     let mut latest: Vec<&CampaignLine> = Vec::new();
     for l in lines.iter().rev() {
         if matches!(l.reading, Reading::Resolved(_)) && !latest.iter().any(|x| x.field == l.field) {
@@ -433,16 +435,16 @@ fn total_row(t: &mut Table, lines: &[CampaignLine], elsewhere: Mass) {
                 d[1],
                 d[2],
                 d[3],
-                l.emissions,
-                r.net,
+                Mass::ZERO,
+                r.removal.net,
             ];
             for (s, v) in sums.iter_mut().zip(row) {
                 *s += v;
             }
         }
     }
-    sums[6] += elsewhere;
-    sums[7] = sums[7] - elsewhere;
+    sums[6] = recorded;
+    sums[7] = sums[7] - recorded;
     let mut row = vec![
         Cell::text("all fields"),
         Cell::text("latest read"),
