@@ -773,7 +773,7 @@ fn weathering_table_and_balance_by_year() {
         grams(&y[0]["net_t"]) + grams(&y[1]["net_t"])
     );
     let total = rows.last().unwrap();
-    assert_eq!(total["field"], "all fields");
+    assert_eq!(total["field"], "total");
     assert_eq!(grams(&total["net_t"]), grams(&y[1]["cumulative_net_t"]));
     insta::assert_snapshot!("weathering_table", l.ok(&["weathering", "EVW"]));
     insta::assert_snapshot!(

@@ -400,14 +400,14 @@ fn campaign_table(
     t.note(method_note(s));
     t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
     t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
-    t.note("The all-fields row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); its net is the cumulative net of `balance`.");
+    t.note("The total row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); over every field its net is the cumulative net of `balance`.");
     parameter_notes(&mut t, &s.deductions);
     for f in findings {
         t.note(format!("Finding: {f}"));
     }
     if elsewhere.is_positive() {
         t.note(format!(
-            "Emissions recorded at sites other than fields ({} t) count in the all-fields row and the balance.",
+            "Emissions recorded at sites other than fields ({} t) count in the total row and the balance.",
             crate::report::render::tonnes_text(elsewhere)
         ));
     }
@@ -446,7 +446,7 @@ fn total_row(t: &mut Table, lines: &[CampaignLine], recorded: Mass) {
     sums[6] = recorded;
     sums[7] = sums[7] - recorded;
     let mut row = vec![
-        Cell::text("all fields"),
+        Cell::text("total"),
         Cell::text("latest read"),
         Cell::Empty,
         Cell::Empty,
