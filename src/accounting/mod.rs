@@ -2,11 +2,16 @@
 
 pub mod balance;
 pub mod buffer_pool;
+pub mod carbonation;
 pub mod claims;
 pub mod conservative;
+pub mod input;
 pub mod leakage;
+pub mod lifecycle;
 pub mod materiality;
 pub mod metering;
 pub mod permanence;
 pub mod permit;
+pub mod tracer;
 pub mod uncertainty;
+pub mod weathering;

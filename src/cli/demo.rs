@@ -30,6 +30,14 @@ const SAMPLES: &[(&str, &str)] = &[
         "kre-monitoring-report-2026.csv",
         include_str!("../../sample-projects/kre-monitoring-report-2026.csv"),
     ),
+    (
+        "crb.sinkbook",
+        include_str!("../../sample-projects/crb.sinkbook"),
+    ),
+    (
+        "evw.sinkbook",
+        include_str!("../../sample-projects/evw.sinkbook"),
+    ),
 ];
 
 /// What the demo prints once the ledger is built.
@@ -49,6 +57,10 @@ const TOUR: &[&[&str]] = &[
         "KRE",
         "$SAMPLES/kre-monitoring-report-2026.csv",
     ],
+    &["mineralization", "CRB", "--by", "year"],
+    &["feedstock", "list", "EVW"],
+    &["weathering", "EVW"],
+    &["balance", "EVW", "--by", "year"],
     &["verify"],
     &["totals"],
 ];

@@ -18,6 +18,13 @@ mod setup;
 mod totals;
 mod verify;
 
+mod emission_inventory;
+mod feedstock;
+mod mineralization;
+mod record_rock;
+mod rock_inputs;
+mod weathering;
+
 use crate::error::Result;
 use crate::report::{Format, Report};
 use crate::store::Store;
@@ -85,6 +92,13 @@ pub enum Command {
     Potential(potential::PotentialArgs),
     /// Build a fresh ledger from the sample projects and print its tables
     Demo,
+    /// Register and list the feedstocks (crushed rock) of an enhanced-weathering project
+    #[command(subcommand)]
+    Feedstock(feedstock::FeedstockCommand),
+    /// CO2 injected into basalt split by tracer campaigns into mineralized and still dissolved
+    Mineralization(mineralization::MineralizationArgs),
+    /// Per field and soil campaign: applied, dissolved fraction, gross CO2, deductions, emissions, net
+    Weathering(weathering::WeatheringArgs),
 }
 
 /// Everything a command needs besides its arguments.
@@ -124,6 +138,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Density(a) => density::density(a),
         Command::Potential(a) => potential::potential(a),
         Command::Demo => demo::demo(db.as_deref(), now),
+        Command::Feedstock(c) => feedstock::feedstock(&ctx, c),
+        Command::Mineralization(a) => mineralization::mineralization(&ctx, a),
+        Command::Weathering(a) => weathering::weathering(&ctx, a),
     }
 }
 

@@ -117,6 +117,14 @@ pub enum RecordCommand {
     Calibration(CalibrationArgs),
     /// A loss found after tonnes were claimed: cancels the buffer pool first, then claimable tonnes
     Reversal(ReversalArgs),
+    /// A tracer sample at a monitoring well: injectate share and DIC, giving the mineralized fraction
+    TracerSample(super::record_rock::TracerSampleArgs),
+    /// A batch of solid carbonated ex situ: dry mass fed, CO2 content before and after
+    Carbonation(super::record_rock::CarbonationArgs),
+    /// Feedstock spread on a field
+    Application(super::record_rock::ApplicationArgs),
+    /// A soil core of a field: depth, bulk density, base cations and an immobile element
+    SoilSample(super::record_rock::SoilSampleArgs),
 }
 
 /// Options every quantity record takes.
@@ -204,8 +212,11 @@ pub enum Category {
 pub struct EmissionArgs {
     #[command(flatten)]
     pub base: RecordArgs,
-    #[arg(long, value_enum, default_value_t = Category::Energy)]
-    pub category: Category,
+    /// [default: energy, or the life-cycle stage's]
+    #[arg(long, value_enum)]
+    pub category: Option<Category>,
+    #[command(flatten)]
+    pub inventory: Box<super::emission_inventory::InventoryArgs>,
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
@@ -305,15 +316,16 @@ const KIND_FIELDS: &[&str] = &[
     "category",
     "result",
     "backdated_to_survey",
+    "stage",
 ];
 
-fn period(from: &str, to: &str) -> Result<Period> {
+pub(super) fn period(from: &str, to: &str) -> Result<Period> {
     let f = inputs::date("--from", from)?;
     let t = inputs::date("--to", to)?;
     Period::new(f, t).map_err(|e| Error::field("--to", to, e))
 }
 
-fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str> {
+pub(super) fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str> {
     v.as_deref()
         .ok_or_else(|| Error::Refused(format!("{field} is required (ISO 8601 date)")))
 }
@@ -323,7 +335,7 @@ fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
 }
 
 /// An entry before its seq, key and time are set.
-fn draft(
+pub(super) fn draft(
     kind: EntryKind,
     b: &RecordArgs,
     reading: Reading,
@@ -353,7 +365,7 @@ fn draft(
     })
 }
 
-fn metered(
+pub(super) fn metered(
     kind: EntryKind,
     b: &RecordArgs,
     extra: &[(&str, String)],
@@ -413,8 +425,11 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
                 false,
             )
         }
+        RecordCommand::Emission(a) if a.inventory.is_given() => {
+            return super::emission_inventory::emission(ctx, a);
+        }
         RecordCommand::Emission(a) => {
-            let cat = format!("{:?}", a.category).to_lowercase();
+            let cat = format!("{:?}", a.category.unwrap_or(Category::Energy)).to_lowercase();
             (
                 metered(EntryKind::Emission, &a.base, &[("category", cat)], ctx)?,
                 a.base.key,
@@ -509,6 +524,10 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
                 false,
             )
         }
+        RecordCommand::TracerSample(a) => return super::record_rock::tracer_sample(ctx, a),
+        RecordCommand::Carbonation(a) => return super::record_rock::carbonation(ctx, a),
+        RecordCommand::Application(a) => return super::record_rock::application(ctx, a),
+        RecordCommand::SoilSample(a) => return super::record_rock::soil_sample(ctx, a),
     };
     commit(ctx, entry, key, over_permit)
 }
@@ -643,6 +662,16 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))
     })?;
     let (reading, mass) = if a.quantity.is_given() || a.quantity.co2_fraction.is_some() {
+        if super::record_rock::is_rock_record(target.kind) {
+            return Err(Error::field(
+                "seq",
+                &a.seq.to_string(),
+                format!(
+                    "is a {} entry, not a metered quantity: record it again with --corrects {} --reason …",
+                    target.kind, a.seq
+                ),
+            ));
+        }
         let q = restated(&a.quantity, &target.reading)?;
         let m = measure(&q.input())?;
         let mut reading = m.reading;
@@ -676,7 +705,7 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
 }
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
-fn commit(
+pub(super) fn commit(
     ctx: &Context,
     mut entry: Entry,
     key: Option<String>,

@@ -8,7 +8,7 @@ use crate::accounting::claims::{PoolEvent, buffer_pool, claims};
 use crate::error::Result;
 use crate::ledger::correction::superseded_by;
 use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind, Project};
+use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
@@ -115,6 +115,22 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
         By::Quarter => Grouping::Quarter,
         By::Year => Grouping::Year,
     };
+    match view.project.method {
+        Method::BasaltMineralization => {
+            return super::mineralization::balance(&view.project, &view.entries, grouping);
+        }
+        Method::ExSituMineralization => {
+            return super::mineralization::carbonation_balance(
+                &view.project,
+                &view.entries,
+                grouping,
+            );
+        }
+        Method::EnhancedWeathering => {
+            return super::weathering::balance(ctx, &view.project, &view.entries, grouping);
+        }
+        Method::SalineAquifer | Method::DepletedField | Method::Eor => {}
+    }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let project = &view.project;
     let lines = view.balance(grouping, a.method);

@@ -2,6 +2,7 @@
 //! docs/ledger-format.md specifies it field by field, so anyone can recompute a chain.
 
 use super::entry::Entry;
+use super::feedstock::Feedstock;
 use super::period::epoch_days;
 use super::project::{Project, Site};
 
@@ -115,5 +116,29 @@ pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
     w.str(s.name.name());
     w.str(&s.value);
     w.i64(s.recorded_at.timestamp_micros());
+    w.0
+}
+
+/// The canonical bytes of a feedstock's registration, whose hash the feedstocks table keeps.
+pub fn encode_feedstock(f: &Feedstock) -> Vec<u8> {
+    let pairs = |w: &mut Writer, list: &[(String, String)]| {
+        w.u32(u32::try_from(list.len()).expect("few constituents"));
+        for (name, value) in list {
+            w.str(name);
+            w.str(value);
+        }
+    };
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("feedstock");
+    w.str(&f.project);
+    w.str(&f.code);
+    pairs(&mut w, &f.oxides);
+    w.str(&f.oxide_unit);
+    pairs(&mut w, &f.elements);
+    w.str(&f.element_unit);
+    w.str(&f.density);
+    w.opt(f.d80.as_deref(), Writer::str);
+    w.i64(f.registered_at.timestamp_micros());
     w.0
 }

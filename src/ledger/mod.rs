@@ -6,6 +6,7 @@ pub mod canonical;
 pub mod chain;
 pub mod correction;
 pub mod entry;
+pub mod feedstock;
 pub mod hash;
 pub mod period;
 pub mod project;

@@ -2,6 +2,7 @@
 //! and applied on open, every command in one transaction.
 
 mod connection;
+mod feedstocks;
 mod rows;
 pub mod schema;
 

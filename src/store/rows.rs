@@ -283,3 +283,60 @@ impl SettingRow {
         Ok(s)
     }
 }
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = super::schema::feedstocks, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct FeedstockRow {
+    pub project: String,
+    pub code: String,
+    pub oxides: String,
+    pub oxide_unit: String,
+    pub elements: String,
+    pub element_unit: String,
+    pub density: String,
+    pub d80: Option<String>,
+    pub created_at: NaiveDateTime,
+    pub row_hash: String,
+}
+
+impl FeedstockRow {
+    pub fn from_feedstock(f: &crate::ledger::feedstock::Feedstock) -> Self {
+        Self {
+            project: f.project.clone(),
+            code: f.code.clone(),
+            oxides: serde_json::to_string(&f.oxides).expect("strings serialize"),
+            oxide_unit: f.oxide_unit.clone(),
+            elements: serde_json::to_string(&f.elements).expect("strings serialize"),
+            element_unit: f.element_unit.clone(),
+            density: f.density.clone(),
+            d80: f.d80.clone(),
+            created_at: f.registered_at.naive_utc(),
+            row_hash: leaf_hash(&crate::ledger::canonical::encode_feedstock(f)).to_hex(),
+        }
+    }
+
+    /// The feedstock, checked against the row's own hash.
+    pub fn to_feedstock(&self) -> Result<crate::ledger::feedstock::Feedstock, String> {
+        let pairs = |column: &str, text: &str| {
+            serde_json::from_str(text).map_err(|e| format!("{column} is not readable: {e}"))
+        };
+        let f = crate::ledger::feedstock::Feedstock {
+            project: self.project.clone(),
+            code: self.code.clone(),
+            oxides: pairs("oxides", &self.oxides)?,
+            oxide_unit: self.oxide_unit.clone(),
+            elements: pairs("elements", &self.elements)?,
+            element_unit: self.element_unit.clone(),
+            density: self.density.clone(),
+            d80: self.d80.clone(),
+            registered_at: utc(self.created_at),
+        };
+        if leaf_hash(&crate::ledger::canonical::encode_feedstock(&f)).to_hex() != self.row_hash {
+            return Err(format!(
+                "feedstock {} of project {} differs from its row hash",
+                self.code, self.project
+            ));
+        }
+        Ok(f)
+    }
+}

@@ -83,3 +83,18 @@ diesel::table! {
         row_hash -> Text,
     }
 }
+
+diesel::table! {
+    feedstocks (project, code) {
+        project -> Text,
+        code -> Text,
+        oxides -> Text,
+        oxide_unit -> Text,
+        elements -> Text,
+        element_unit -> Text,
+        density -> Text,
+        d80 -> Nullable<Text>,
+        created_at -> Timestamp,
+        row_hash -> Text,
+    }
+}

@@ -1,0 +1,619 @@
+//! `record tracer-sample | carbonation | application | soil-sample`: the field and laboratory
+//! records of the rock routes, and the same readings read back for the reports. The reading
+//! field names written here are the ones read back here, and nowhere else.
+
+use super::record::{RecordArgs, commit, draft};
+use super::rock_inputs::{self as ri, DENSITY, Measure};
+use super::setup::known_project;
+use super::{Context, inputs};
+use crate::accounting::carbonation::{Carbonation, uptake};
+use crate::accounting::tracer::{Mineralized, TracerError, TracerSample, mineralized_fraction};
+use crate::accounting::weathering::campaign::{Application, Core};
+use crate::accounting::weathering::composition::{SoilAnalysis, Unit};
+use crate::error::{Error, Result};
+use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site};
+use crate::quantity::area::Area;
+use crate::quantity::{Mass, MassReading};
+use crate::report::Report;
+use clap::Args;
+
+/// Options every rock-route record shares: its key, a note, and what it replaces.
+#[derive(Debug, Args)]
+pub struct EntryOptions {
+    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
+    #[arg(long)]
+    pub key: Option<String>,
+    #[arg(long, value_name = "TEXT")]
+    pub note: Option<String>,
+    /// Replace an earlier entry of the same kind (a re-analysis, a corrected transcription)
+    #[arg(long, value_name = "SEQ", requires = "reason")]
+    pub corrects: Option<u64>,
+    /// Why the entry named by --corrects is replaced
+    #[arg(long, value_name = "TEXT", requires = "corrects")]
+    pub reason: Option<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct TracerSampleArgs {
+    pub project: String,
+    /// The monitoring well sampled
+    #[arg(long)]
+    pub site: String,
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    /// X: the non-reactive tracer's concentration in the sample over that in the injectate, in (0, 1]
+    #[arg(long, value_name = "X")]
+    pub tracer_ratio: String,
+    /// Dissolved inorganic carbon (DIC) of the sample
+    #[arg(long, value_name = "C", allow_hyphen_values = true)]
+    pub dic_sample: String,
+    /// DIC of the formation water before injection
+    #[arg(long, value_name = "C", allow_hyphen_values = true)]
+    pub dic_background: String,
+    /// DIC of the injected water
+    #[arg(long, value_name = "C", allow_hyphen_values = true)]
+    pub dic_injectate: String,
+    /// Unit of the three DIC concentrations (mmol/kg, mmol/L, umol/kg, mol/kg, mg/L)
+    #[arg(long, default_value = "mmol/kg")]
+    pub unit: String,
+    #[command(flatten)]
+    pub entry: EntryOptions,
+}
+
+#[derive(Debug, Args)]
+pub struct CarbonationArgs {
+    pub project: String,
+    /// The plant where the solid was carbonated
+    #[arg(long)]
+    pub site: String,
+    /// Dry mass of solid fed, before carbonation (e.g. "1200 t")
+    #[arg(long, value_name = "MASS")]
+    pub mass: String,
+    /// CO2 mass fraction of the dry feed, e.g. 1.2% or 0.012
+    #[arg(long, value_name = "W", allow_hyphen_values = true)]
+    pub co2_before: String,
+    /// CO2 mass fraction of the dry carbonated product
+    #[arg(long, value_name = "W", allow_hyphen_values = true)]
+    pub co2_after: String,
+    /// First day of the batch or campaign (ISO 8601 date)
+    #[arg(long, value_name = "DATE")]
+    pub from: String,
+    /// Last day, included
+    #[arg(long, value_name = "DATE")]
+    pub to: String,
+    #[command(flatten)]
+    pub entry: EntryOptions,
+}
+
+#[derive(Debug, Args)]
+pub struct ApplicationArgs {
+    pub project: String,
+    /// The field spread (registered with an area)
+    #[arg(long)]
+    pub site: String,
+    /// The feedstock's code (see `feedstock list`)
+    #[arg(long)]
+    pub feedstock: String,
+    /// Dry mass of rock spread, e.g. "625 t"
+    #[arg(long, value_name = "MASS")]
+    pub mass: String,
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    #[command(flatten)]
+    pub entry: EntryOptions,
+}
+
+#[derive(Debug, Args)]
+pub struct SoilSampleArgs {
+    pub project: String,
+    /// The field cored
+    #[arg(long)]
+    pub site: String,
+    #[arg(long, value_name = "DATE")]
+    pub date: String,
+    /// Depth interval cored, e.g. "0-30 cm"
+    #[arg(long)]
+    pub depth: String,
+    /// Dry bulk density of the core, e.g. "1.3 t/m3"
+    #[arg(long, value_name = "DENSITY")]
+    pub bulk_density: String,
+    /// Element concentrations: base cations and an immobile element, e.g. Ca=0.1,Mg=0.08,Na=0.05,K=0.06,Ti=0.09
+    #[arg(long, value_name = "EL=C,…", allow_hyphen_values = true)]
+    pub conc: String,
+    /// Unit of --conc: mol/kg, mg/kg or wt%
+    #[arg(long, default_value = "mol/kg")]
+    pub unit: String,
+    /// The field's soil before any feedstock: what later cores are read against
+    #[arg(long)]
+    pub baseline: bool,
+    #[command(flatten)]
+    pub entry: EntryOptions,
+}
+
+/// The units a DIC may be reported in; the mass balance is a ratio, so any one unit will do
+/// as long as all three concentrations share it.
+const DIC_UNITS: &[&str] = &["mmol/kg", "mmol/L", "umol/kg", "µmol/kg", "mol/kg", "mg/L"];
+
+/// No soil is denser than its minerals; quartz, the densest common one, is 2.65 t/m³
+/// (common practice).
+const MAX_SOIL_DENSITY_KG_M3: f64 = 2650.0;
+
+/// Checks what the ledger holds for a record of `kind`: the project's method, the site, and
+/// the entry a correction replaces. Returns the project's site.
+fn context(
+    ctx: &Context,
+    project: &str,
+    site: &str,
+    kind: EntryKind,
+    method: Method,
+    corrects: Option<u64>,
+) -> Result<Site> {
+    ctx.open()?.read(|tx| {
+        let p = known_project(tx, project)?;
+        if p.method != method {
+            return Err(Error::field(
+                "project",
+                project,
+                format!(
+                    "has method {}; {kind} entries belong to {method} projects",
+                    p.method
+                ),
+            ));
+        }
+        if let Some(seq) = corrects {
+            let all = tx.entries(project)?;
+            let t = crate::ledger::correction::target(&all, seq)
+                .map_err(|e| Error::field("--corrects", &seq.to_string(), e))?;
+            if t.kind != kind {
+                return Err(Error::field(
+                    "--corrects",
+                    &seq.to_string(),
+                    format!(
+                        "is a {} entry; --corrects names an earlier {kind} entry",
+                        t.kind
+                    ),
+                ));
+            }
+        }
+        tx.site(project, site)?.ok_or_else(|| {
+            Error::field(
+                "--site",
+                site,
+                format!("is not a site of project {project}"),
+            )
+        })
+    })
+}
+
+/// The entry, drafted like any record, with its correction link.
+fn entry(
+    ctx: &Context,
+    kind: EntryKind,
+    (project, site): (&str, &str),
+    reading: Reading,
+    (mass, period): (Mass, Period),
+    o: &EntryOptions,
+) -> Result<Entry> {
+    let b = RecordArgs {
+        project: project.into(),
+        site: site.into(),
+        quantity: Default::default(),
+        from: None,
+        to: None,
+        key: o.key.clone(),
+        meter: None,
+        note: o.note.clone(),
+    };
+    let mut e = draft(kind, &b, reading, mass, period, ctx)?;
+    if let Some(r) = &o.reason {
+        inputs::text("--reason", r)?;
+    }
+    e.corrects = o.corrects;
+    e.reason = o.reason.clone();
+    Ok(e)
+}
+
+/// A tracer campaign's sample at one monitoring well; its mineralized fraction is computed now
+/// to refuse impossible input, and again by every report from the reading.
+pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
+    let kind = EntryKind::TracerSample;
+    let date = inputs::date("--date", &a.date)?;
+    let x = ri::number("--tracer-ratio", &a.tracer_ratio)?;
+    let dic = [
+        ("--dic-sample", &a.dic_sample),
+        ("--dic-background", &a.dic_background),
+        ("--dic-injectate", &a.dic_injectate),
+    ]
+    .map(|(option, text)| ri::number(option, text));
+    let [sample, background, injectate] = dic;
+    let (sample, background, injectate) = (sample?, background?, injectate?);
+    if !DIC_UNITS.contains(&a.unit.as_str()) {
+        return Err(Error::field(
+            "--unit",
+            &a.unit,
+            format!("is not a DIC unit (use {})", DIC_UNITS.join(", ")),
+        ));
+    }
+    let mut reading = Reading::default();
+    reading.push("tracer_ratio", x.to_string());
+    reading.push("dic_sample", sample.to_string());
+    reading.push("dic_background", background.to_string());
+    reading.push("dic_injectate", injectate.to_string());
+    reading.push("dic_unit", a.unit.clone());
+    let found = tracer_fraction(&reading).map_err(|e| tracer_refusal(&e, &a))?;
+    context(
+        ctx,
+        &a.project,
+        &a.site,
+        kind,
+        Method::BasaltMineralization,
+        a.entry.corrects,
+    )?;
+    let e = entry(
+        ctx,
+        kind,
+        (&a.project, &a.site),
+        reading,
+        (Mass::ZERO, Period::day(date)),
+        &a.entry,
+    )?;
+    let mut report = commit(ctx, e, a.entry.key.clone(), false)?;
+    match found {
+        Mineralized::Fraction { f, .. } => {
+            report.lines.push(format!("mineralized fraction {f:.4}"));
+        }
+        Mineralized::OutOfRange { f, why } => report.warnings.push(format!(
+            "mineralized fraction {f:.4} is outside [0, 1]: {why}; recorded as measured, reported as a finding"
+        )),
+    }
+    Ok(report)
+}
+
+fn tracer_refusal(e: &TracerError, a: &TracerSampleArgs) -> Error {
+    match e {
+        TracerError::Input(e) => ri::refused(
+            e,
+            &[
+                ("tracer_sample", "--tracer-ratio", &a.tracer_ratio),
+                (
+                    "tracer_sample/tracer_injectate",
+                    "--tracer-ratio",
+                    &a.tracer_ratio,
+                ),
+                ("dic_sample", "--dic-sample", &a.dic_sample),
+                ("dic_background", "--dic-background", &a.dic_background),
+                ("dic_injectate", "--dic-injectate", &a.dic_injectate),
+            ],
+        ),
+        other => Error::field("--tracer-ratio", &a.tracer_ratio, other),
+    }
+}
+
+fn field<'a>(e: &'a Reading, name: &str) -> std::result::Result<&'a str, String> {
+    e.get(name)
+        .ok_or_else(|| format!("reading has no {name} field"))
+}
+
+fn decimal(e: &Reading, name: &str) -> std::result::Result<f64, String> {
+    let v = field(e, name)?;
+    crate::quantity::Decimal::parse(v)
+        .map(|d| d.to_f64())
+        .map_err(|err| format!("{name} {v:?}: {err}"))
+}
+
+/// The mineralized fraction of a tracer-sample reading.
+pub fn tracer_fraction(r: &Reading) -> std::result::Result<Mineralized, TracerError> {
+    let number = |name| decimal(r, name).unwrap_or(f64::NAN);
+    mineralized_fraction(&TracerSample {
+        tracer_sample: number("tracer_ratio"),
+        tracer_injectate: 1.0,
+        dic_sample: number("dic_sample"),
+        dic_injectate: number("dic_injectate"),
+        dic_background: number("dic_background"),
+    })
+}
+
+/// A carbonation batch: the uptake is what the entry stores.
+pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
+    let kind = EntryKind::Carbonation;
+    let (fed, fed_g) = inputs::mass("--mass", &a.mass)?;
+    let before = ri::share("--co2-before", &a.co2_before)?;
+    let after = ri::share("--co2-after", &a.co2_after)?;
+    let period = Period::new(
+        inputs::date("--from", &a.from)?,
+        inputs::date("--to", &a.to)?,
+    )
+    .map_err(|e| Error::field("--to", &a.to, e))?;
+    let result = uptake(fed_g.tonnes(), before.to_f64(), after.to_f64()).map_err(|e| {
+        ri::refused(
+            &e,
+            &[
+                ("fed_t", "--mass", &a.mass),
+                ("w_before", "--co2-before", &a.co2_before),
+                ("w_after", "--co2-after", &a.co2_after),
+                ("uptake_g", "--mass", &a.mass),
+            ],
+        )
+    })?;
+    context(
+        ctx,
+        &a.project,
+        &a.site,
+        kind,
+        Method::ExSituMineralization,
+        a.entry.corrects,
+    )?;
+    let mut reading = Reading::default();
+    reading.push("fed_mass", fed.to_string());
+    reading.push("co2_before", before.to_string());
+    reading.push("co2_after", after.to_string());
+    reading.push("basis", "dry");
+    reading.push(
+        "method",
+        "uptake = M(w_after − w_before)/(1 − w_after), CO2-free solid conserved",
+    );
+    let (mass, finding) = match result {
+        Carbonation::Uptake { co2, .. } => (co2, None),
+        Carbonation::NoUptake { released, .. } => (
+            Mass::ZERO,
+            Some(format!(
+                "no uptake: the solid lost {} t CO2; nothing counted as stored",
+                crate::report::render::tonnes_text(released)
+            )),
+        ),
+    };
+    if let Some(f) = &finding {
+        reading.push("finding", f.clone());
+    }
+    let e = entry(
+        ctx,
+        kind,
+        (&a.project, &a.site),
+        reading,
+        (mass, period),
+        &a.entry,
+    )?;
+    let mut report = commit(ctx, e, a.entry.key.clone(), false)?;
+    if let Some(f) = finding {
+        report.warnings.push(f);
+    }
+    Ok(report)
+}
+
+/// The dry feed, product and uptake of a carbonation reading (product in t).
+pub fn carbonation_of(e: &Entry) -> Result<(f64, f64)> {
+    let r = &e.reading;
+    let read = || -> std::result::Result<(f64, f64), String> {
+        let fed = MassReading::parse(field(r, "fed_mass")?).map_err(|e| e.to_string())?;
+        let fed_t = fed.to_mass().map_err(|e| e.to_string())?.tonnes();
+        let product_t =
+            fed_t * (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
+        Ok((fed_t, product_t))
+    };
+    read().map_err(|w| stored(e, w))
+}
+
+fn stored(e: &Entry, what: String) -> Error {
+    Error::Inconsistent(format!(
+        "project {} seq {}: stored {} reading: {what}",
+        e.project, e.seq, e.kind
+    ))
+}
+
+/// A field's area in m², or a refusal naming the field.
+pub fn field_area(site: &Site) -> Result<f64> {
+    let area = site.area.as_deref().ok_or_else(|| {
+        Error::field(
+            "--site",
+            &site.code,
+            "has no area: register the field with --area (e.g. \"12.5 ha\")",
+        )
+    })?;
+    Area::parse(area)
+        .map(|a| a.m2())
+        .map_err(|e| Error::field("--site", &site.code, e))
+}
+
+/// Feedstock spread on a field: no CO2 of its own (0 g); the rock's mass is in the reading.
+pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
+    let kind = EntryKind::Application;
+    let date = inputs::date("--date", &a.date)?;
+    let (rock, rock_g) = inputs::mass("--mass", &a.mass)?;
+    let site = context(
+        ctx,
+        &a.project,
+        &a.site,
+        kind,
+        Method::EnhancedWeathering,
+        a.entry.corrects,
+    )?;
+    let area = if site.kind == crate::ledger::SiteKind::Field {
+        Some(field_area(&site)?)
+    } else {
+        None
+    };
+    ctx.open()?.read(|tx| {
+        tx.feedstock(&a.project, &a.feedstock)?.ok_or_else(|| {
+            Error::field(
+                "--feedstock",
+                &a.feedstock,
+                format!(
+                    "is not a feedstock of project {} (see `sinkbook feedstock list {}`)",
+                    a.project, a.project
+                ),
+            )
+        })?;
+        let cores = effective_of(tx, &a.project, EntryKind::SoilSample)?;
+        if let Some(b) = cores
+            .iter()
+            .filter(|e| e.site == a.site && e.reading.get("baseline").is_some())
+            .find(|e| e.period.from >= date)
+        {
+            return Err(Error::field(
+                "--date",
+                &a.date,
+                format!(
+                    "field {} has a baseline soil sample of {} (seq {}); a baseline is soil before any feedstock",
+                    a.site, b.period.from, b.seq
+                ),
+            ));
+        }
+        Ok(())
+    })?;
+    let mut reading = Reading::default();
+    reading.push("feedstock", a.feedstock.clone());
+    reading.push("mass", rock.to_string());
+    if let Some(m2) = area {
+        reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
+    }
+    let e = entry(
+        ctx,
+        kind,
+        (&a.project, &a.site),
+        reading,
+        (Mass::ZERO, Period::day(date)),
+        &a.entry,
+    )?;
+    commit(ctx, e, a.entry.key.clone(), false)
+}
+
+fn effective_of(
+    tx: &mut crate::store::Tx<'_>,
+    project: &str,
+    kind: EntryKind,
+) -> Result<Vec<Entry>> {
+    let all = tx.entries(project)?;
+    Ok(crate::ledger::correction::effective(&all)
+        .filter(|e| e.kind == kind)
+        .cloned()
+        .collect())
+}
+
+/// An application as the weathering accounts read it.
+pub fn application_of(e: &Entry) -> Result<Application> {
+    let r = &e.reading;
+    let read = || -> std::result::Result<Application, String> {
+        let m = MassReading::parse(field(r, "mass")?).map_err(|e| e.to_string())?;
+        Ok(Application {
+            field: e.site.clone(),
+            date: e.period.from,
+            feedstock: field(r, "feedstock")?.to_string(),
+            rock_g: m.to_mass().map_err(|e| e.to_string())?.grams(),
+        })
+    };
+    read().map_err(|w| stored(e, w))
+}
+
+fn conc_unit(text: &str) -> std::result::Result<Unit, String> {
+    Unit::from_name(text)
+        .ok_or_else(|| "is not a concentration unit (use mol/kg, mg/kg or wt%)".into())
+}
+
+fn soil_density(option: &str, text: &str) -> Result<Measure> {
+    let m = ri::measure(option, text, DENSITY, true)?;
+    if m.base > MAX_SOIL_DENSITY_KG_M3 {
+        return Err(Error::field(
+            option,
+            text,
+            "must be at most 2.65 t/m3, the density of quartz: no soil is denser",
+        ));
+    }
+    Ok(m)
+}
+
+/// A soil core: its depth, bulk density and elements, checked; a baseline may not follow feedstock.
+pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
+    let kind = EntryKind::SoilSample;
+    let date = inputs::date("--date", &a.date)?;
+    let (depth, _) = ri::depth("--depth", &a.depth)?;
+    let rho = soil_density("--bulk-density", &a.bulk_density)?;
+    let unit = conc_unit(&a.unit).map_err(|e| Error::field("--unit", &a.unit, e))?;
+    let conc = ri::pairs("--conc", &a.conc)?;
+    let (conc_text, values) = (ri::pair_texts(&conc), ri::pair_numbers(&conc));
+    SoilAnalysis::new(&values, unit).map_err(|e| Error::field("--conc", &a.conc, e))?;
+    context(
+        ctx,
+        &a.project,
+        &a.site,
+        kind,
+        Method::EnhancedWeathering,
+        a.entry.corrects,
+    )?;
+    if a.baseline {
+        ctx.open()?.read(|tx| {
+            let spread = effective_of(tx, &a.project, EntryKind::Application)?;
+            match spread
+                .iter()
+                .filter(|e| e.site == a.site && e.period.from <= date)
+                .min_by_key(|e| e.period.from)
+            {
+                Some(first) => Err(Error::field(
+                    "--baseline",
+                    &a.date,
+                    format!(
+                        "field {} received feedstock on {} (seq {}); a baseline is soil before any feedstock",
+                        a.site, first.period.from, first.seq
+                    ),
+                )),
+                None => Ok(()),
+            }
+        })?;
+    }
+    let mut reading = Reading::default();
+    reading.push("depth", depth);
+    reading.push("bulk_density", rho.to_string());
+    reading.push("conc_unit", unit.name());
+    for (n, v) in conc_text {
+        reading.push(&n, v);
+    }
+    if a.baseline {
+        reading.push("baseline", "yes");
+    }
+    let e = entry(
+        ctx,
+        kind,
+        (&a.project, &a.site),
+        reading,
+        (Mass::ZERO, Period::day(date)),
+        &a.entry,
+    )?;
+    commit(ctx, e, a.entry.key.clone(), false)
+}
+
+/// A soil core as the weathering accounts read it.
+pub fn core_of(e: &Entry) -> Result<Core> {
+    let r = &e.reading;
+    let read = || -> std::result::Result<Core, String> {
+        let refused = |e: Error| e.to_string();
+        let (_, depth) = ri::depth("depth", field(r, "depth")?).map_err(refused)?;
+        let rho = soil_density("bulk_density", field(r, "bulk_density")?).map_err(refused)?;
+        let unit = conc_unit(field(r, "conc_unit")?)?;
+        let values: Vec<(String, f64)> = crate::accounting::weathering::composition::SOIL_ELEMENTS
+            .iter()
+            .filter(|s| r.get(s).is_some())
+            .map(|s| decimal(r, s).map(|v| (s.to_string(), v)))
+            .collect::<std::result::Result<_, _>>()?;
+        Ok(Core {
+            seq: e.seq,
+            field: e.site.clone(),
+            date: e.period.from,
+            depth,
+            bulk_density: rho.base,
+            analysis: SoilAnalysis::new(&values, unit).map_err(|e| e.to_string())?,
+            baseline: r.get("baseline").is_some(),
+        })
+    };
+    read().map_err(|w| stored(e, w))
+}
+
+/// Whether entries of this kind are recorded here (not by a meter): `correct` cannot restate
+/// their readings from quantity options; they are recorded again with `--corrects`.
+pub fn is_rock_record(kind: EntryKind) -> bool {
+    matches!(
+        kind,
+        EntryKind::TracerSample
+            | EntryKind::Carbonation
+            | EntryKind::Application
+            | EntryKind::SoilSample
+    )
+}

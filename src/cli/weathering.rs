@@ -1,0 +1,527 @@
+//! `weathering`: per field and soil campaign, the feedstock applied, its potential, the
+//! dissolved fraction read from the cores, gross CO2, each deduction, emissions and net; and
+//! the same rolled up by period for `balance` of an enhanced-weathering project.
+
+use super::Context;
+use super::feedstock::analysed;
+use super::mineralization::route_project;
+use super::record_rock::{application_of, core_of};
+use super::rock_inputs as ri;
+use crate::accounting::weathering::campaign::{
+    CampaignError, CampaignLine, DissolutionMethod, Emission, Field, Inputs, Reading, Settings,
+    campaigns, rollup,
+};
+use crate::accounting::weathering::composition::Immobile;
+use crate::accounting::weathering::removal::{Cation, Deduction, Deductions};
+use crate::accounting::weathering::three_end_member::Resolution;
+use crate::error::{Error, Result};
+use crate::ledger::correction::effective;
+use crate::ledger::period::Grouping;
+use crate::ledger::{Entry, EntryKind, Method, Project, SealedEntry, SiteKind};
+use crate::quantity::Mass;
+use crate::quantity::area::Area;
+use crate::report::{Cell, Report, Table, columns};
+use clap::Args;
+
+/// The deduction parameters of net removal; each left out keeps its default and source.
+#[derive(Debug, Args, Default)]
+pub struct DeductionArgs {
+    /// Share of cations released by strong acids (sulfuric, nitric), carrying no CO2 [default: 0]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
+    pub strong_acid: Option<String>,
+    /// Share of the rest held on exchange sites or in new clays [default: 0]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
+    pub cation_retention: Option<String>,
+    /// Share of the rest precipitated as soil carbonate, which keeps half its CO2 [default: 0]
+    #[arg(
+        long,
+        value_name = "SHARE",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
+    pub secondary_carbonate: Option<String>,
+    /// Mol CO2 the ocean keeps per mol of alkalinity it receives [default: 0.8]
+    #[arg(
+        long,
+        value_name = "EFFICIENCY",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
+    pub ocean_efficiency: Option<String>,
+    /// Where the values given come from (a monitoring plan, a measurement), shown beside them
+    #[arg(
+        long,
+        value_name = "TEXT",
+        help_heading = "Deductions",
+        allow_hyphen_values = true
+    )]
+    pub deduction_source: Option<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct WeatheringArgs {
+    pub project: String,
+    /// Only this field
+    #[arg(long)]
+    pub site: Option<String>,
+    /// How the dissolved fraction is read from the soil cores
+    #[arg(long, value_enum, default_value_t = DissolutionMethod::ThreeEndMember)]
+    pub method: DissolutionMethod,
+    /// The immobile element of the mass balance: Ti or Zr
+    #[arg(long, default_value = "Ti")]
+    pub immobile: String,
+    /// The base cations measured (summed by charge) and credited
+    #[arg(long, default_value = "Ca,Mg,Na,K")]
+    pub mobile: String,
+    /// Smallest relative difference between feedstock and soil in the immobile element that is
+    /// read as a number (three-end-member)
+    #[arg(long, value_name = "RATIO", default_value = "0.25")]
+    pub min_immobile_contrast: String,
+    #[command(flatten)]
+    pub deductions: DeductionArgs,
+}
+
+fn settings(a: &WeatheringArgs) -> Result<Settings> {
+    let immobile = Immobile::from_symbol(&a.immobile)
+        .ok_or_else(|| Error::field("--immobile", &a.immobile, "use Ti or Zr"))?;
+    let mut mobile = Vec::new();
+    for part in a.mobile.split(',').map(str::trim) {
+        let c = Cation::ALL
+            .into_iter()
+            .find(|c| c.symbol() == part)
+            .ok_or_else(|| {
+                Error::field(
+                    "--mobile",
+                    &a.mobile,
+                    format!("{part:?} is not Ca, Mg, Na or K"),
+                )
+            })?;
+        if mobile.contains(&c) {
+            return Err(Error::field(
+                "--mobile",
+                &a.mobile,
+                format!("{part} is given twice"),
+            ));
+        }
+        mobile.push(c);
+    }
+    let contrast = ri::number("--min-immobile-contrast", &a.min_immobile_contrast)?.to_f64();
+    if contrast < 0.0 {
+        return Err(Error::field(
+            "--min-immobile-contrast",
+            &a.min_immobile_contrast,
+            "must be at least 0",
+        ));
+    }
+    Ok(Settings {
+        method: a.method,
+        immobile,
+        mobile,
+        resolution: Resolution {
+            min_immobile_contrast: contrast,
+            ..Resolution::DEFAULT
+        },
+        deductions: deductions(&a.deductions)?,
+    })
+}
+
+fn deductions(a: &DeductionArgs) -> Result<Deductions> {
+    let mut d = Deductions::default();
+    let given = [
+        (Deduction::StrongAcid, "--strong-acid", &a.strong_acid),
+        (
+            Deduction::CationRetention,
+            "--cation-retention",
+            &a.cation_retention,
+        ),
+        (
+            Deduction::SecondaryCarbonate,
+            "--secondary-carbonate",
+            &a.secondary_carbonate,
+        ),
+        (
+            Deduction::OceanReequilibration,
+            "--ocean-efficiency",
+            &a.ocean_efficiency,
+        ),
+    ];
+    if let Some(s) = &a.deduction_source {
+        super::inputs::text("--deduction-source", s)?;
+    }
+    for (deduction, option, text) in given {
+        if let Some(text) = text {
+            let v = ri::share(option, text)?;
+            let source = match &a.deduction_source {
+                Some(s) => format!("{s}; given as {option} {text}"),
+                None => format!("given as {option} {text}"),
+            };
+            d = d
+                .set(deduction, v.to_f64(), source)
+                .map_err(|e| Error::field(option, text, e))?;
+        }
+    }
+    Ok(d)
+}
+
+/// The settings `balance` reads with: every default.
+fn default_settings() -> Settings {
+    Settings {
+        method: DissolutionMethod::ThreeEndMember,
+        immobile: Immobile::Ti,
+        mobile: Cation::ALL.to_vec(),
+        resolution: Resolution::DEFAULT,
+        deductions: Deductions::default(),
+    }
+}
+
+/// A campaign error told as a refusal of the option that chose what is missing (`balance`
+/// has no such options: it says what it read with).
+fn refusal(e: CampaignError, s: &Settings, a: Option<&WeatheringArgs>) -> Error {
+    let Some(a) = a else {
+        return match e {
+            CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
+            _ => Error::Refused(format!(
+                "balance reads soil campaigns by {} with {}: {e}",
+                s.method.name(),
+                s.immobile.symbol()
+            )),
+        };
+    };
+    match &e {
+        CampaignError::NoBaseline { .. } => Error::field("--method", s.method.name(), e),
+        CampaignError::MissingImmobile { .. } => Error::field("--immobile", &a.immobile, e),
+        CampaignError::MissingMobile { .. } => Error::field("--mobile", &a.mobile, e),
+        CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
+    }
+}
+
+/// What the ledger holds for the weathering accounts of a project.
+struct Ledgered<'a> {
+    fields: Vec<Field>,
+    feedstocks: Vec<crate::accounting::weathering::campaign::Feedstock>,
+    applications: Vec<crate::accounting::weathering::campaign::Application>,
+    cores: Vec<crate::accounting::weathering::campaign::Core>,
+    emissions: Vec<Emission<'a>>,
+}
+
+fn ledgered<'a>(
+    ctx: &Context,
+    project: &Project,
+    live: &[&'a Entry],
+    only: Option<&str>,
+) -> Result<Ledgered<'a>> {
+    let (sites, feedstocks) = ctx
+        .open()?
+        .read(|tx| Ok((tx.sites(&project.code)?, tx.feedstocks(&project.code)?)))?;
+    if let Some(f) = only
+        && !sites
+            .iter()
+            .any(|s| s.code == f && s.kind == SiteKind::Field)
+    {
+        return Err(Error::field(
+            "--site",
+            f,
+            format!("is not a field of project {}", project.code),
+        ));
+    }
+    let wanted = |site: &str| only.is_none_or(|f| f == site);
+    let fields = sites
+        .iter()
+        .filter(|s| s.kind == SiteKind::Field && wanted(&s.code))
+        .map(|s| Field {
+            code: s.code.clone(),
+            area_m2: s
+                .area
+                .as_deref()
+                .and_then(|a| Area::parse(a).ok())
+                .map(|a| a.m2()),
+        })
+        .collect();
+    let of = |kind: EntryKind| {
+        live.iter()
+            .filter(move |e| e.kind == kind && wanted(&e.site))
+    };
+    Ok(Ledgered {
+        fields,
+        feedstocks: feedstocks.iter().map(analysed).collect::<Result<_>>()?,
+        applications: of(EntryKind::Application)
+            .map(|e| application_of(e))
+            .collect::<Result<_>>()?,
+        cores: of(EntryKind::SoilSample)
+            .map(|e| core_of(e))
+            .collect::<Result<_>>()?,
+        emissions: live
+            .iter()
+            .filter(|e| e.kind == EntryKind::Emission)
+            .map(|e| Emission {
+                site: &e.site,
+                period: e.period,
+                mass: e.mass,
+            })
+            .collect(),
+    })
+}
+
+fn read(l: &Ledgered<'_>, s: &Settings) -> std::result::Result<Vec<CampaignLine>, CampaignError> {
+    campaigns(
+        &Inputs {
+            fields: &l.fields,
+            feedstocks: &l.feedstocks,
+            applications: &l.applications,
+            cores: &l.cores,
+            emissions: &l.emissions,
+        },
+        s,
+    )
+}
+
+pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
+    let s = settings(&a)?;
+    let (project, all) = route_project(ctx, &a.project, Method::EnhancedWeathering, "weathering")?;
+    let live: Vec<&Entry> = effective(&all).collect();
+    let l = ledgered(ctx, &project, &live, a.site.as_deref())?;
+    let lines = read(&l, &s).map_err(|e| refusal(e, &s, Some(&a)))?;
+    let field_codes: Vec<&str> = l.fields.iter().map(|f| f.code.as_str()).collect();
+    let in_scope = |site: &str| a.site.as_deref().is_none_or(|f| f == site);
+    let sum = |keep: &dyn Fn(&str) -> bool| -> Mass {
+        l.emissions
+            .iter()
+            .filter(|e| keep(e.site))
+            .map(|e| e.mass)
+            .sum()
+    };
+    let recorded = sum(&in_scope);
+    let elsewhere = sum(&|site| a.site.is_none() && !field_codes.contains(&site));
+    let table = campaign_table(&project, &lines, &s, (recorded, elsewhere));
+    Ok(Report::default().table(table))
+}
+
+fn method_note(s: &Settings) -> String {
+    let mobile: Vec<&str> = s.mobile.iter().map(|c| c.symbol()).collect();
+    let what = match s.method {
+        DissolutionMethod::ThreeEndMember => format!(
+            "three-end-member mass balance of baseline soil, fresh and weathered feedstock (Suhrhoff et al. 2025, Environ. Sci. Technol., doi 10.1021/acs.est.5c08303, eq. S13a–e); inconclusive below a relative {} contrast of {}",
+            s.immobile.symbol(),
+            s.resolution.min_immobile_contrast
+        ),
+        DissolutionMethod::Tau => "−τ of the core against the mixture at application, the baseline soil with the feedstock applied (Brimhall & Dietrich 1987; Anderson, Dietrich & Brimhall 2002): τ on the bulk mixture understates dissolution (docs/weathering.md)".to_string(),
+    };
+    format!(
+        "Dissolved fraction by {what}; immobile element {}, mobile Σ z·({}) in mol(+)/kg.",
+        s.immobile.symbol(),
+        mobile.join(", ")
+    )
+}
+
+fn parameter_notes(t: &mut Table, d: &Deductions) {
+    for line in d.to_string().lines() {
+        t.note(format!("Parameter: {line}."));
+    }
+}
+
+fn campaign_table(
+    project: &Project,
+    lines: &[CampaignLine],
+    s: &Settings,
+    (recorded, elsewhere): (Mass, Mass),
+) -> Table {
+    let mut t = Table::new(
+        "weathering",
+        format!(
+            "Enhanced weathering by field and soil campaign ({}), project {}",
+            s.method.name(),
+            project.code
+        ),
+        columns(&[
+            ("Field", "field"),
+            ("Sampled", "sampled"),
+            ("", "baseline"),
+            ("Cores (seq)", "cores"),
+            ("Feedstock", "feedstock"),
+            ("Applied (t)", "applied_t"),
+            ("Rate (t/ha)", "rate_t_per_ha"),
+            ("Found (t/ha)", "found_t_per_ha"),
+            ("Potential (t)", "potential_t"),
+            ("Dissolved", "dissolved_fraction"),
+            ("Gross (t)", "gross_t"),
+            ("Strong acid (t)", "strong_acid_t"),
+            ("Cation retention (t)", "cation_retention_t"),
+            ("Secondary carbonate (t)", "secondary_carbonate_t"),
+            ("Ocean re-equilibration (t)", "ocean_reequilibration_t"),
+            ("Emissions (t)", "emissions_t"),
+            ("Net (t)", "net_t"),
+            ("", "finding"),
+        ]),
+    );
+    let mut findings = Vec::new();
+    for l in lines {
+        let cores: Vec<String> = l.cores.iter().map(u64::to_string).collect();
+        let mut row = vec![
+            Cell::text(&l.field),
+            Cell::text(l.date.to_string()),
+            Cell::opt_text(l.baseline.map(|d| d.to_string())),
+            Cell::text(cores.join("+")),
+            Cell::opt_text(l.feedstock.clone()),
+            Cell::Number(l.applied_t(), 1),
+            l.rate_t_per_ha.map_or(Cell::Empty, |r| Cell::Number(r, 1)),
+        ];
+        match &l.reading {
+            Reading::Resolved(r) => {
+                row.extend([
+                    r.found_t_per_ha.map_or(Cell::Empty, |f| Cell::Number(f, 1)),
+                    Cell::Tonnes(l.potential),
+                    Cell::Number(r.dissolved_fraction, 4),
+                    Cell::Tonnes(r.gross.total),
+                ]);
+                row.extend(r.removal.deducted.map(|(_, m)| Cell::Tonnes(m)));
+                row.extend([Cell::Tonnes(l.emissions), Cell::Tonnes(r.net), Cell::Empty]);
+            }
+            Reading::Finding(why) => {
+                let short = why.split(':').next().unwrap_or(why).to_string();
+                findings.push(format!("{} {}: {why}", l.field, l.date));
+                row.extend([Cell::Empty, Cell::Tonnes(l.potential), Cell::text(short)]);
+                row.extend(std::iter::repeat_n(Cell::Empty, 5));
+                row.extend([Cell::Tonnes(l.emissions), Cell::Empty, Cell::text(why)]);
+            }
+        }
+        t.push(row);
+    }
+    total_row(&mut t, lines, recorded);
+    t.note(method_note(s));
+    t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
+    t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
+    t.note("The total row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); over every field its net is the cumulative net of `balance`.");
+    parameter_notes(&mut t, &s.deductions);
+    for f in findings {
+        t.note(format!("Finding: {f}"));
+    }
+    if elsewhere.is_positive() {
+        t.note(format!(
+            "Emissions recorded at sites other than fields ({} t) count in the total row and the balance.",
+            crate::report::render::tonnes_text(elsewhere)
+        ));
+    }
+    t
+}
+
+/// The project to date: each field's latest readable campaign, less every emission recorded.
+fn total_row(t: &mut Table, lines: &[CampaignLine], recorded: Mass) {
+    let mut latest: Vec<&CampaignLine> = Vec::new();
+    for l in lines.iter().rev() {
+        if matches!(l.reading, Reading::Resolved(_)) && !latest.iter().any(|x| x.field == l.field) {
+            latest.push(l);
+        }
+    }
+    let mut sums = [Mass::ZERO; 8];
+    let mut applied_g = 0i64;
+    for l in &latest {
+        if let Reading::Resolved(r) = &l.reading {
+            applied_g += l.applied_g;
+            let d = r.removal.deducted.map(|(_, m)| m);
+            let row = [
+                l.potential,
+                r.gross.total,
+                d[0],
+                d[1],
+                d[2],
+                d[3],
+                Mass::ZERO,
+                r.removal.net,
+            ];
+            for (s, v) in sums.iter_mut().zip(row) {
+                *s += v;
+            }
+        }
+    }
+    sums[6] = recorded;
+    sums[7] = sums[7] - recorded;
+    let mut row = vec![
+        Cell::text("total"),
+        Cell::text("latest read"),
+        Cell::Empty,
+        Cell::Empty,
+        Cell::Empty,
+        Cell::Number(applied_g as f64 / 1e6, 1),
+        Cell::Empty,
+        Cell::Empty,
+        Cell::Tonnes(sums[0]),
+        Cell::Empty,
+    ];
+    row.extend(sums[1..].iter().map(|&m| Cell::Tonnes(m)));
+    row.push(Cell::Empty);
+    t.push(row);
+}
+
+/// `balance` of an enhanced-weathering project: by period, every default setting.
+pub fn balance(
+    ctx: &Context,
+    project: &Project,
+    all: &[SealedEntry],
+    grouping: Grouping,
+) -> Result<Report> {
+    let s = default_settings();
+    let live: Vec<&Entry> = effective(all).collect();
+    let l = ledgered(ctx, project, &live, None)?;
+    let lines = read(&l, &s).map_err(|e| refusal(e, &s, None))?;
+    let roll = rollup(&lines, &l.applications, &l.emissions, grouping);
+    let by = super::mineralization::grouping_name(grouping);
+    let mut t = Table::new(
+        "balance",
+        format!("Enhanced weathering by {by}, project {}", project.code),
+        columns(&[
+            ("Period", "period"),
+            ("Applied (t)", "applied_t"),
+            ("Gross (t)", "gross_t"),
+            ("Strong acid (t)", "strong_acid_t"),
+            ("Cation retention (t)", "cation_retention_t"),
+            ("Secondary carbonate (t)", "secondary_carbonate_t"),
+            ("Ocean re-equilibration (t)", "ocean_reequilibration_t"),
+            ("Removal (t)", "removal_t"),
+            ("Emissions (t)", "emissions_t"),
+            ("Net (t)", "net_t"),
+            ("Cumulative net (t)", "cumulative_net_t"),
+        ]),
+    );
+    for r in &roll {
+        let mut row = vec![
+            Cell::text(r.bucket.to_string()),
+            Cell::Number(r.applied_g as f64 / 1e6, 1),
+            Cell::Tonnes(r.gross),
+        ];
+        row.extend(r.deducted.map(|(_, m)| Cell::Tonnes(m)));
+        row.extend([
+            Cell::Tonnes(r.removal),
+            Cell::Tonnes(r.emissions),
+            Cell::Tonnes(r.net),
+            Cell::Tonnes(r.cumulative_net),
+        ]);
+        t.push(row);
+    }
+    t.note("Each soil campaign restates its field's removal to date; the change since the field's previous campaign (gross, each deduction, removal = gross − deductions) is credited to the campaign's period. A campaign that gives no number changes nothing.");
+    t.note(
+        "Emissions: every emission entry of the project, split by days. Net = removal − emissions.",
+    );
+    t.note(method_note(&s));
+    parameter_notes(&mut t, &s.deductions);
+    let unread = lines
+        .iter()
+        .filter(|l| matches!(l.reading, Reading::Finding(_)))
+        .count();
+    if unread > 0 {
+        t.note(format!(
+            "{unread} campaign(s) gave no number: see `sinkbook weathering {}`.",
+            project.code
+        ));
+    }
+    Ok(Report::default().table(t))
+}
