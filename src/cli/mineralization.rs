@@ -411,6 +411,18 @@ fn period_table(
     Ok(t)
 }
 
+/// The carbonation uptake by period: what the regulator's totals count as stored for an
+/// ex-situ project.
+pub fn uptake_by_period(all: &[SealedEntry], grouping: Grouping) -> Vec<(Bucket, Mass)> {
+    let mut by: BTreeMap<Bucket, Mass> = BTreeMap::new();
+    for e in effective(all).filter(|e| e.kind == EntryKind::Carbonation) {
+        for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
+            *by.entry(b).or_default() += Mass::from_grams(g);
+        }
+    }
+    by.into_iter().collect()
+}
+
 /// `balance` of an ex-situ mineralization project: the uptake of each carbonation batch is
 /// stored, by period, with the project's emissions beside it and net of them.
 pub fn carbonation_balance(

@@ -4,9 +4,11 @@
 
 use super::Context;
 use super::claims::{ProjectView, deduction_rule};
-use crate::accounting::balance::{BalanceLine, BalanceMethod};
-use crate::accounting::claims::{PoolEvent, buffer_pool, claims};
+use crate::accounting::balance::{BalanceLine, BalanceMethod, Terms};
+use crate::accounting::claims::{PoolEvent, buffer_pool, period_claim};
+use crate::accounting::uncertainty::Estimate;
 use crate::error::{Error, Result};
+use crate::ledger::period::Bucket;
 use crate::ledger::period::Grouping;
 use crate::ledger::{EntryKind, Method};
 use crate::quantity::Mass;
@@ -150,23 +152,24 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let mut all = Figures::default();
     for v in &views {
         let rules = v.rules(deduction);
-        let lines: Vec<BalanceLine> = v.balance(Grouping::Year, BalanceMethod::Rr);
-        let year_claims = claims(&lines, &rules);
-        let (pool, events) = buffer_pool(
-            &claims(&v.balance(Grouping::Month, BalanceMethod::Rr), &rules),
-            v.effective(),
-        );
+        let years = stored_by_period(ctx, v, Grouping::Year)?;
+        let monthly: Vec<_> = stored_by_period(ctx, v, Grouping::Month)?
+            .iter()
+            .map(|(b, u, _)| (*b, period_claim(u, &rules)))
+            .collect();
+        let (pool, events) = buffer_pool(&monthly, v.effective());
         let mut project_total = Figures::default();
-        for (l, (_, c)) in lines.iter().zip(&year_claims) {
+        for (bucket, u, terms) in &years {
+            let c = period_claim(u, &rules);
             let reversed: Mass = v
                 .effective()
-                .filter(|e| e.kind == EntryKind::Reversal && e.period.from.year() == l.bucket.year)
+                .filter(|e| e.kind == EntryKind::Reversal && e.period.from.year() == bucket.year)
                 .map(|e| e.mass)
                 .sum();
             let f = Figures {
-                received: l.terms.received(),
-                injected: l.terms.injected,
-                stored: l.stored,
+                received: terms.received(),
+                injected: terms.injected,
+                stored: u.value(),
                 conservative: c.conservative,
                 durable: c.durable,
                 buffer: c.buffer_withheld,
@@ -175,7 +178,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             };
             project_total.add(&f);
             if by_year {
-                let mut row = project_cells(v, Some(l.bucket.year));
+                let mut row = project_cells(v, Some(bucket.year));
                 row.extend(f.cells());
                 row.push(Cell::Empty);
                 t.push(row);
@@ -210,11 +213,44 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     row.extend(all.cells());
     row.push(Cell::Empty);
     t.push(row);
-    t.note("Stored by the 40 CFR 98.443 mass balance; conservative, durable, buffer and claimable as each project's settings in force set them.");
+    t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the carbonation uptake for ex-situ projects, the weathering removal (gross − deductions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
     if !by_year {
         t.note("Per project, buffer and claimable are net of what reversals cancelled (buffer first, then claimable).");
     }
     Ok(Report::default().table(t))
+}
+
+/// Each period's stored figure with its uncertainty, and the mass-balance terms: the geological
+/// mass balance, or for the rock routes their own figure — carbonation uptake, weathering removal
+/// (gross − deductions, default settings) — which state no uncertainty.
+fn stored_by_period(
+    ctx: &Context,
+    v: &ProjectView,
+    g: Grouping,
+) -> Result<Vec<(Bucket, Estimate, Terms)>> {
+    let route = match v.project.method {
+        Method::EnhancedWeathering => Some(super::weathering::removal_by_period(
+            ctx, &v.project, &v.entries, g,
+        )?),
+        Method::ExSituMineralization => {
+            Some(super::mineralization::uptake_by_period(&v.entries, g))
+        }
+        Method::SalineAquifer
+        | Method::DepletedField
+        | Method::Eor
+        | Method::BasaltMineralization => None,
+    };
+    Ok(match route {
+        Some(by) => by
+            .into_iter()
+            .map(|(b, m)| (b, Estimate::absolute(m, Mass::ZERO), Terms::default()))
+            .collect(),
+        None => v
+            .balance(g, BalanceMethod::Rr)
+            .into_iter()
+            .map(|l: BalanceLine| (l.bucket, l.uncertainty, l.terms))
+            .collect(),
+    })
 }
 
 fn project_cells(v: &ProjectView, year: Option<i32>) -> Vec<Cell> {
