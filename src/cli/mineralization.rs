@@ -235,6 +235,18 @@ fn campaigns_table(project: &Project, campaigns: &[CampaignRead<'_>]) -> Table {
     t
 }
 
+/// A period before anything was injected or sampled.
+fn nothing_yet(b: Bucket) -> PeriodMineralization<NaiveDate> {
+    PeriodMineralization {
+        end: b.last_day(),
+        injected: Mass::ZERO,
+        mineralized: Mass::ZERO,
+        still_dissolved: Mass::ZERO,
+        not_yet_sampled: Mass::ZERO,
+        campaign: None,
+    }
+}
+
 /// Injected CO2 per period split into mineralized, still dissolved and not yet sampled, beside
 /// the stored mass (RR-12 form).
 fn period_table(
@@ -270,17 +282,7 @@ fn period_table(
     let mut by: BTreeMap<Bucket, (PeriodMineralization<NaiveDate>, Option<Campaign<NaiveDate>>)> =
         BTreeMap::new();
     for ((b, _), s) in pieces.iter().zip(&split) {
-        let slot = by.entry(*b).or_insert((
-            PeriodMineralization {
-                end: b.last_day(),
-                injected: Mass::ZERO,
-                mineralized: Mass::ZERO,
-                still_dissolved: Mass::ZERO,
-                not_yet_sampled: Mass::ZERO,
-                campaign: None,
-            },
-            None,
-        ));
+        let slot = by.entry(*b).or_insert((nothing_yet(*b), None));
         slot.0.injected += s.injected;
         slot.0.mineralized += s.mineralized;
         slot.0.still_dissolved += s.still_dissolved;
@@ -327,17 +329,7 @@ fn period_table(
     buckets.dedup();
     let mut total = [Mass::ZERO; 6];
     for b in buckets {
-        let (m, campaign) = by.get(&b).copied().unwrap_or((
-            PeriodMineralization {
-                end: b.last_day(),
-                injected: Mass::ZERO,
-                mineralized: Mass::ZERO,
-                still_dissolved: Mass::ZERO,
-                not_yet_sampled: Mass::ZERO,
-                campaign: None,
-            },
-            None,
-        ));
+        let (m, campaign) = by.get(&b).copied().unwrap_or((nothing_yet(b), None));
         let (leaks, kept) = stored.get(&b).copied().unwrap_or_default();
         let read = campaign.and_then(|c| campaigns.iter().find(|r| r.date == c.date));
         let stats = read.and_then(|r| r.stats);
