@@ -472,3 +472,81 @@ fn bad_settings_and_reversals_are_refused() {
         assert!(r.err.contains(needle), "{args:?}: {}", r.err);
     }
 }
+
+#[test]
+fn a_weathering_project_reconciles_its_net_removal() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("demo.db");
+    let run = |args: &[&str]| {
+        assert_cmd::Command::cargo_bin("sinkbook")
+            .unwrap()
+            .env("SINKBOOK_NOW", common::NOW)
+            .arg("--db")
+            .arg(&db)
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    assert!(run(&["demo"]).status.success());
+    let b: Value = serde_json::from_slice(
+        &run(&["--format", "json", "balance", "EVW", "--by", "year"]).stdout,
+    )
+    .unwrap();
+    let net_2026 = b
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|r| r["period"] == "2026")
+        .unwrap()["net_t"]
+        .as_f64()
+        .unwrap();
+    // A report 1 % under the ledger's 2026 net removal: within materiality.
+    let report = dir.path().join("evw.csv");
+    std::fs::write(
+        &report,
+        format!(
+            "period,quantity,value,unit\n2026,weathering-net,{:.3},t\n",
+            net_2026 * 0.99
+        ),
+    )
+    .unwrap();
+    let o = run(&[
+        "--format",
+        "json",
+        "reconcile",
+        "EVW",
+        report.to_str().unwrap(),
+    ]);
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let r: Value = serde_json::from_slice(&o.stdout).unwrap();
+    let line = &r["reconciliation"][0];
+    assert_eq!(line["quantity"], "weathering-net");
+    assert_eq!(line["ledger_t"], net_2026);
+    assert!((line["difference_pct"].as_f64().unwrap() - 1.0).abs() < 0.01);
+    // The year is judged on the net removal the report gives: 1 % misstated, within 5 %.
+    let y = &r["materiality"][0];
+    assert!(
+        (y["misstatement_t"].as_f64().unwrap() - net_2026 * 0.01).abs() < 1e-3,
+        "{y}"
+    );
+    // 10 % under: material, exit 4.
+    std::fs::write(
+        &report,
+        format!(
+            "period,quantity,value,unit\n2026,weathering-net,{:.3},t\n",
+            net_2026 * 0.9
+        ),
+    )
+    .unwrap();
+    assert_eq!(
+        run(&["reconcile", "EVW", report.to_str().unwrap()])
+            .status
+            .code(),
+        Some(4)
+    );
+}

@@ -433,16 +433,29 @@ fn verdicts(
     lines: &[ReconciledLine],
     policy: &MaterialityPolicy,
 ) -> Result<Vec<YearVerdict>, MaterialityError> {
+    // A year is judged on its stored lines; a weathering or mineralization project that reports
+    // its net removal or mineralized tonnes instead is judged on those (one headline quantity a
+    // year, so no tonne counts twice).
+    const HEADLINE: [ReportedQuantity; 3] = [
+        ReportedQuantity::Stored,
+        ReportedQuantity::WeatheringNet,
+        ReportedQuantity::Mineralized,
+    ];
     let mut by_year: BTreeMap<i32, Vec<&ReconciledLine>> = BTreeMap::new();
-    for l in lines
-        .iter()
-        .filter(|l| l.quantity == ReportedQuantity::Stored)
-    {
+    for l in lines.iter().filter(|l| HEADLINE.contains(&l.quantity)) {
         by_year.entry(l.period.year()).or_default().push(l);
     }
     by_year
         .into_iter()
-        .map(|(year, stored)| year_verdict(year, &stored, policy))
+        .map(|(year, all)| {
+            let q = HEADLINE
+                .iter()
+                .find(|q| all.iter().any(|l| l.quantity == **q))
+                .expect("lines of a headline quantity");
+            let chosen: Vec<&ReconciledLine> =
+                all.into_iter().filter(|l| l.quantity == *q).collect();
+            year_verdict(year, &chosen, policy)
+        })
         .collect()
 }
 

@@ -229,9 +229,12 @@ fn stored_by_period(
     g: Grouping,
 ) -> Result<Vec<(Bucket, Estimate, Terms)>> {
     let route = match v.project.method {
-        Method::EnhancedWeathering => Some(super::weathering::removal_by_period(
-            ctx, &v.project, &v.entries, g,
-        )?),
+        Method::EnhancedWeathering => Some(
+            super::weathering::removal_by_period(ctx, &v.project, &v.entries, g)?
+                .into_iter()
+                .map(|(b, removal, _)| (b, removal))
+                .collect(),
+        ),
         Method::ExSituMineralization => {
             Some(super::mineralization::uptake_by_period(&v.entries, g))
         }

@@ -462,21 +462,22 @@ fn total_row(t: &mut Table, lines: &[CampaignLine], recorded: Mass) {
     t.push(row);
 }
 
-/// Removal (gross − deductions) by period with every default setting, as `balance` credits it:
-/// what the regulator's totals count as stored for the project.
+/// Removal (gross − deductions) and net (removal − emissions) by period with every default
+/// setting, as `balance` credits them: the totals count the removal as stored, a reconciliation
+/// compares the net.
 pub fn removal_by_period(
     ctx: &Context,
     project: &Project,
     all: &[SealedEntry],
     grouping: Grouping,
-) -> Result<Vec<(crate::ledger::period::Bucket, Mass)>> {
+) -> Result<Vec<(crate::ledger::period::Bucket, Mass, Mass)>> {
     let s = default_settings();
     let live: Vec<&Entry> = effective(all).collect();
     let l = ledgered(ctx, project, &live, None)?;
     let lines = read(&l, &s).map_err(|e| refusal(e, &s, None))?;
     Ok(rollup(&lines, &l.applications, &l.emissions, grouping)
         .iter()
-        .map(|r| (r.bucket, r.removal))
+        .map(|r| (r.bucket, r.removal, r.net))
         .collect())
 }
 
