@@ -550,3 +550,56 @@ fn a_weathering_project_reconciles_its_net_removal() {
         Some(4)
     );
 }
+
+#[test]
+fn a_basalt_project_reconciles_its_mineralized_tonnes() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("demo.db");
+    let run = |args: &[&str]| {
+        assert_cmd::Command::cargo_bin("sinkbook")
+            .unwrap()
+            .env("SINKBOOK_NOW", common::NOW)
+            .arg("--db")
+            .arg(&db)
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    assert!(run(&["demo"]).status.success());
+    let m: Value = serde_json::from_slice(
+        &run(&["--format", "json", "mineralization", "CRB", "--by", "year"]).stdout,
+    )
+    .unwrap();
+    let y2025 = m["mineralization"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|r| r["period"] == "2025")
+        .unwrap()["mineralized_t"]
+        .as_f64()
+        .unwrap();
+    let report = dir.path().join("crb.csv");
+    // The same figure as the mineralization table: no difference, the year judged on it.
+    std::fs::write(
+        &report,
+        format!("period,quantity,value,unit\n2025,mineralized,{y2025:.6},t\n"),
+    )
+    .unwrap();
+    let o = run(&[
+        "--format",
+        "json",
+        "reconcile",
+        "CRB",
+        report.to_str().unwrap(),
+    ]);
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let r: Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(r["reconciliation"][0]["ledger_t"], y2025);
+    assert_eq!(r["reconciliation"][0]["difference_t"], 0.0);
+    assert_eq!(r["materiality"][0]["ledger_stored_t"], y2025);
+}

@@ -247,14 +247,15 @@ fn nothing_yet(b: Bucket) -> PeriodMineralization<NaiveDate> {
     }
 }
 
-/// Injected CO2 per period split into mineralized, still dissolved and not yet sampled, beside
-/// the stored mass (RR-12 form).
-fn period_table(
-    project: &Project,
+type PeriodSplit = BTreeMap<Bucket, (PeriodMineralization<NaiveDate>, Option<Campaign<NaiveDate>>)>;
+
+/// Injected CO2 per period split by the campaigns into mineralized, still dissolved and not yet
+/// sampled, with the campaign that applied.
+fn split_by_period(
     live: &[&Entry],
     campaigns: &[CampaignRead<'_>],
     grouping: Grouping,
-) -> Result<Table> {
+) -> Result<PeriodSplit> {
     let mut pieces: Vec<(Bucket, Injection<NaiveDate>)> = Vec::new();
     for e in live.iter().filter(|e| e.kind == EntryKind::Injection) {
         for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
@@ -289,6 +290,31 @@ fn period_table(
         slot.0.not_yet_sampled += s.not_yet_sampled;
         slot.1 = slot.1.or(s.campaign);
     }
+    Ok(by)
+}
+
+/// The mineralized CO2 by period, for reconciling a basalt project with a monitoring report.
+pub fn mineralized_by_period(
+    all: &[SealedEntry],
+    grouping: Grouping,
+) -> Result<Vec<(Bucket, Mass)>> {
+    let live: Vec<&Entry> = effective(all).collect();
+    let split = split_by_period(&live, &campaigns(&live), grouping)?;
+    Ok(split
+        .into_iter()
+        .map(|(b, (m, _))| (b, m.mineralized))
+        .collect())
+}
+
+/// Injected CO2 per period split into mineralized, still dissolved and not yet sampled, beside
+/// the stored mass (RR-12 form).
+fn period_table(
+    project: &Project,
+    live: &[&Entry],
+    campaigns: &[CampaignRead<'_>],
+    grouping: Grouping,
+) -> Result<Table> {
+    let by = split_by_period(live, campaigns, grouping)?;
     let stored: BTreeMap<Bucket, (Mass, Mass)> = geological(
         project,
         live.iter().copied(),

@@ -180,7 +180,24 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         .collect();
     let mut ledger = Vec::new();
     let weathering = view.project.method == crate::ledger::Method::EnhancedWeathering;
+    let basalt = view.project.method == crate::ledger::Method::BasaltMineralization;
     for g in granularities {
+        if basalt && quantities.contains(&ReportedQuantity::Mineralized) {
+            for (b, mineralized) in super::mineralization::mineralized_by_period(&view.entries, g)?
+            {
+                if years.contains(&b.year) {
+                    let period: ReportingPeriod = b
+                        .to_string()
+                        .parse()
+                        .map_err(|e| Error::Inconsistent(format!("{e}")))?;
+                    ledger.push(Figure {
+                        period,
+                        quantity: ReportedQuantity::Mineralized,
+                        mass: mineralized,
+                    });
+                }
+            }
+        }
         if weathering && quantities.contains(&ReportedQuantity::WeatheringNet) {
             for (b, _, net) in
                 super::weathering::removal_by_period(ctx, &view.project, &view.entries, g)?
@@ -247,7 +264,7 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
             Presence::ReportOnly(m) => (
                 Cell::Empty,
                 Cell::Tonnes(m),
-                if ledger_figure_kept(l.quantity, weathering) {
+                if ledger_figure_kept(l.quantity, view.project.method) {
                     "not in the ledger"
                 } else {
                     "this ledger keeps no such figure"
@@ -305,12 +322,13 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     Ok(out)
 }
 
-/// Whether the ledger keeps a figure for the quantity at all (the mineralized share of a basalt
-/// project is not compared yet; the weathering net is, for weathering projects).
-fn ledger_figure_kept(q: ReportedQuantity, weathering: bool) -> bool {
+/// Whether the ledger keeps a figure for the quantity: the mineralized tonnes for basalt
+/// projects, the weathering net for weathering projects, the mass-balance terms for all.
+fn ledger_figure_kept(q: ReportedQuantity, method: crate::ledger::Method) -> bool {
+    use crate::ledger::Method;
     match q {
-        ReportedQuantity::Mineralized => false,
-        ReportedQuantity::WeatheringNet => weathering,
+        ReportedQuantity::Mineralized => method == Method::BasaltMineralization,
+        ReportedQuantity::WeatheringNet => method == Method::EnhancedWeathering,
         _ => true,
     }
 }
