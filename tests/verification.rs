@@ -473,21 +473,36 @@ fn bad_settings_and_reversals_are_refused() {
     }
 }
 
-#[test]
-fn a_weathering_project_reconciles_its_net_removal() {
-    let dir = tempfile::tempdir().unwrap();
-    let db = dir.path().join("demo.db");
-    let run = |args: &[&str]| {
+/// A ledger built by `demo` from the sample projects, with the clock pinned.
+struct Demo {
+    dir: tempfile::TempDir,
+}
+
+impl Demo {
+    fn new() -> Demo {
+        let d = Demo {
+            dir: tempfile::tempdir().unwrap(),
+        };
+        assert!(d.run(&["demo"]).status.success());
+        d
+    }
+
+    fn run(&self, args: &[&str]) -> std::process::Output {
         assert_cmd::Command::cargo_bin("sinkbook")
             .unwrap()
             .env("SINKBOOK_NOW", common::NOW)
             .arg("--db")
-            .arg(&db)
+            .arg(self.dir.path().join("demo.db"))
             .args(args)
             .output()
             .unwrap()
-    };
-    assert!(run(&["demo"]).status.success());
+    }
+}
+
+#[test]
+fn a_weathering_project_reconciles_its_net_removal() {
+    let demo = Demo::new();
+    let (dir, run) = (&demo.dir, |args: &[&str]| demo.run(args));
     let b: Value = serde_json::from_slice(
         &run(&["--format", "json", "balance", "EVW", "--by", "year"]).stdout,
     )
@@ -553,19 +568,8 @@ fn a_weathering_project_reconciles_its_net_removal() {
 
 #[test]
 fn a_basalt_project_reconciles_its_mineralized_tonnes() {
-    let dir = tempfile::tempdir().unwrap();
-    let db = dir.path().join("demo.db");
-    let run = |args: &[&str]| {
-        assert_cmd::Command::cargo_bin("sinkbook")
-            .unwrap()
-            .env("SINKBOOK_NOW", common::NOW)
-            .arg("--db")
-            .arg(&db)
-            .args(args)
-            .output()
-            .unwrap()
-    };
-    assert!(run(&["demo"]).status.success());
+    let demo = Demo::new();
+    let (dir, run) = (&demo.dir, |args: &[&str]| demo.run(args));
     let m: Value = serde_json::from_slice(
         &run(&["--format", "json", "mineralization", "CRB", "--by", "year"]).stdout,
     )
