@@ -8,6 +8,7 @@ pub mod correction;
 pub mod entry;
 pub mod feedstock;
 pub mod hash;
+pub mod merkle;
 pub mod period;
 pub mod project;
 pub mod setting;
