@@ -412,7 +412,7 @@ mod tests {
                 assert_eq!(s.finish().unwrap(), consistency_proof(&l[..n as usize], m));
             }
         }
-        let mut short = RangeHashes::new(vec![0..3]);
+        let mut short = RangeHashes::new(vec![0..3, 3..4]);
         short.push(l[0]);
         assert_eq!(short.finish(), None);
     }
