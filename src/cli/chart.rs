@@ -5,6 +5,7 @@ use super::Context;
 use super::claims::{ProjectView, deduction_rule};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::claims::claims;
+use crate::accounting::conservative::DeductionRule;
 use crate::error::{Error, Result};
 use crate::ledger::period::{Bucket, Grouping};
 use crate::quantity::Mass;
@@ -66,6 +67,44 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
             .map(|p| ProjectView::load(tx, &p.code, None))
             .collect(),
     })?;
+    let chart = line_chart(&views, grouping, deduction, a.totals);
+    let svg = chart
+        .to_svg()
+        .map_err(|e| Error::Refused(format!("chart: {e}")))?;
+    std::fs::write(&a.out, &svg)
+        .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
+    let mut t = Table::new(
+        "chart",
+        "Chart written",
+        columns(&[
+            ("File", "file"),
+            ("Series", "series"),
+            ("Periods", "periods"),
+        ]),
+    );
+    t.push(vec![
+        crate::report::Cell::text(a.out.display().to_string()),
+        crate::report::Cell::text(
+            chart
+                .series
+                .iter()
+                .map(|s| s.0.as_str())
+                .collect::<Vec<_>>()
+                .join(", "),
+        ),
+        crate::report::Cell::Int(chart.periods.len() as i64),
+    ]);
+    Ok(Report::default().table(t))
+}
+
+/// Cumulative stored, conservative and durable tonnes of one project against its permit, or
+/// each project's cumulative stored tonnes (`totals`).
+pub fn line_chart(
+    views: &[ProjectView],
+    grouping: Grouping,
+    deduction: DeductionRule,
+    totals: bool,
+) -> LineChart {
     let lines: Vec<_> = views
         .iter()
         .map(|v| v.balance(grouping, BalanceMethod::Rr))
@@ -78,7 +117,7 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
         .into_iter()
         .collect();
     let labels: Vec<String> = periods.iter().map(ToString::to_string).collect();
-    let chart = if a.totals {
+    if totals {
         LineChart {
             title: "Cumulative stored CO2 by project".into(),
             periods: labels,
@@ -115,32 +154,5 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
             ],
             capacity: v.project.permit_capacity,
         }
-    };
-    let svg = chart
-        .to_svg()
-        .map_err(|e| Error::Refused(format!("chart: {e}")))?;
-    std::fs::write(&a.out, &svg)
-        .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
-    let mut t = Table::new(
-        "chart",
-        "Chart written",
-        columns(&[
-            ("File", "file"),
-            ("Series", "series"),
-            ("Periods", "periods"),
-        ]),
-    );
-    t.push(vec![
-        crate::report::Cell::text(a.out.display().to_string()),
-        crate::report::Cell::text(
-            chart
-                .series
-                .iter()
-                .map(|s| s.0.as_str())
-                .collect::<Vec<_>>()
-                .join(", "),
-        ),
-        crate::report::Cell::Int(chart.periods.len() as i64),
-    ]);
-    Ok(Report::default().table(t))
+    }
 }

@@ -12,6 +12,7 @@ mod meters;
 mod potential;
 mod reconcile;
 mod record;
+mod report;
 mod reports;
 mod settings;
 mod setup;
@@ -82,6 +83,8 @@ pub enum Command {
     Chart(chart::ChartArgs),
     /// Totals across projects: stored, conservative, durable, buffer, claimable, reversed, headroom
     Totals(totals::TotalsArgs),
+    /// A project's year as one printable HTML page: balance, meters, leakage, claims, seal
+    Report(report::ReportArgs),
     /// Recompute every hash and check the ledger's structure
     Verify(verify::VerifyArgs),
     /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
@@ -133,6 +136,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Reconcile(a) => reconcile::reconcile(&ctx, a),
         Command::Chart(a) => chart::chart(&ctx, a),
         Command::Totals(a) => totals::totals(&ctx, a),
+        Command::Report(a) => report::report(&ctx, a),
         Command::Verify(a) => verify::verify(&ctx, a),
         Command::Convert(a) => convert::convert(a),
         Command::Density(a) => density::density(a),

@@ -333,7 +333,7 @@ impl YAxis {
 
 /// Escapes text for XML content and attributes; characters XML 1.0 cannot hold at all become
 /// U+FFFD, so no name can break the document.
-fn escape(text: &str) -> String {
+pub(super) fn escape(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
     for c in text.chars() {
         match c {

@@ -1,6 +1,7 @@
 //! Everything formatted for people or programs: the only module that renders.
 
 pub mod chart;
+pub mod html;
 pub mod render;
 pub mod table;
 

@@ -62,7 +62,7 @@ pub fn tonnes_text(m: crate::quantity::Mass) -> String {
     )
 }
 
-fn human_cell(c: &Cell) -> String {
+pub(super) fn human_cell(c: &Cell) -> String {
     match c {
         Cell::Text(s) => s.clone(),
         Cell::Int(i) => thousands(&i.to_string()),

@@ -29,6 +29,15 @@ impl Ledger {
         l
     }
 
+    /// A ledger built by `demo` from the sample projects (all four, TFS's 2026 complete).
+    pub fn demo() -> Ledger {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("demo.db");
+        let l = Ledger { dir, path };
+        l.ok(&["demo"]);
+        l
+    }
+
     /// A ledger with project TFS (permit 2.5 Mt), injection wells TF-I1, TF-I2, monitoring well TF-M1.
     pub fn with_tfs() -> Ledger {
         let l = Ledger::new();

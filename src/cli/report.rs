@@ -1,0 +1,237 @@
+//! `report`: a project's year as one printable HTML page, put together from the tables the
+//! other commands print (project, balance, leakage, claims, buffer pool, meters) — the page
+//! states no figure of its own.
+
+use super::Context;
+use super::chart::line_chart;
+use super::claims::{ProjectView, deduction_rule};
+use super::meters::{MetersArgs, meters};
+use super::reports::{BalanceArgs, By, balance};
+use super::setup::{ProjectCommand, project};
+use crate::accounting::balance::BalanceMethod;
+use crate::error::{Error, Result};
+use crate::ledger::Method;
+use crate::ledger::period::Grouping;
+use crate::report::html::{Page, Section, page};
+use crate::report::{Cell, Report, Table, columns};
+use clap::Args;
+use std::path::PathBuf;
+
+#[derive(Debug, Args)]
+pub struct ReportArgs {
+    pub project: String,
+    /// The reporting year
+    #[arg(long)]
+    pub year: i32,
+    /// The HTML file to write
+    #[arg(long)]
+    pub out: PathBuf,
+}
+
+/// Keeps the rows of a table whose period falls in `year` (a table without a period column is
+/// kept whole). An all-periods total no longer adds up to the rows kept, so it goes too.
+fn within_year(mut t: Table, year: i32) -> Table {
+    let Some(col) = t.columns.iter().position(|c| c.key == "period") else {
+        return t;
+    };
+    let year = year.to_string();
+    let before = t.rows.len();
+    let in_year = |r: &Vec<Cell>| matches!(&r[col], Cell::Text(p) if p.contains(&year));
+    let total = |r: &Vec<Cell>| matches!(&r[col], Cell::Text(p) if p == "total");
+    let dropped = t.rows.iter().filter(|r| !in_year(r) && !total(r)).count();
+    t.rows.retain(|r| in_year(r) || (dropped == 0 && total(r)));
+    if dropped > 0 {
+        t.note(format!(
+            "Rows of other years left out ({} of {before}), with the all-periods total.",
+            before - t.rows.len()
+        ));
+    }
+    t
+}
+
+/// Some columns of a table, as a table of their own (same cells, same labels).
+fn pick(t: &Table, id: &'static str, title: String, keys: &[&str]) -> Table {
+    let idx: Vec<usize> = keys
+        .iter()
+        .filter_map(|k| t.columns.iter().position(|c| c.key == *k))
+        .collect();
+    let mut out = Table::new(
+        id,
+        title,
+        idx.iter().map(|&i| t.columns[i].clone()).collect(),
+    );
+    for r in &t.rows {
+        out.push(idx.iter().map(|&i| r[i].clone()).collect());
+    }
+    out
+}
+
+fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Report> {
+    balance(
+        ctx,
+        BalanceArgs {
+            project: code.to_string(),
+            by: By::Quarter,
+            method,
+            deduct_excess_over: None,
+        },
+    )
+}
+
+/// The sections of the page, in reading order.
+fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectView) -> Result<Vec<Section>> {
+    let code = &view.project.code;
+    let registration = project(ctx, ProjectCommand::Show { code: code.clone() })?;
+    let mut first = Section::new("project", "Project and permit");
+    first.tables = registration.tables;
+
+    let mut bal = Section::new("balance", "Mass balance by quarter").text(
+        "Every term of the balance, the figures the balance command prints by quarter, and the cumulative tonnes against the permit.",
+    );
+    let mut leakage = Section::new("leakage", "Leakage events and how each was quantified");
+    let mut claims = Section::new("claims", "From stored to claimable");
+    let mut pool = Section::new("buffer-pool", "Buffer pool");
+    let mut uncertainty = Section::new("uncertainty", "Uncertainty");
+    let mut reports = vec![balance_report(ctx, code, BalanceMethod::Rr)?];
+    if view.project.method == Method::Eor {
+        reports.push(balance_report(ctx, code, BalanceMethod::Iso27916)?);
+    }
+    for (n, r) in reports.into_iter().enumerate() {
+        for t in r.tables.into_iter().map(|t| within_year(t, a.year)) {
+            match t.id {
+                "leakage" if n == 0 => leakage.tables.push(t),
+                "claims" if n == 0 => claims.tables.push(t),
+                "buffer_pool" if n == 0 => pool.tables.push(t),
+                "balance" => {
+                    if t.columns.iter().any(|c| c.key == "stored_u_t") {
+                        let title = format!("Uncertainty of the stored figure, {}", t.title);
+                        uncertainty.tables.push(pick(
+                            &t,
+                            "uncertainty",
+                            title,
+                            &["period", "stored_t", "stored_u_t", "stored_u_pct"],
+                        ));
+                    }
+                    bal.tables.push(t);
+                }
+                _ if n == 0 => bal.tables.push(t),
+                _ => {}
+            }
+        }
+    }
+    if leakage.tables.is_empty() {
+        leakage = leakage.text(format!(
+            "No surface leakage is recorded for project {code} in {}.",
+            a.year
+        ));
+    }
+    if pool.tables.is_empty() {
+        pool = pool.text("No buffer share is set and no reversal recorded: the pool is empty.");
+    }
+    uncertainty = uncertainty.text(view.uncertainty_note());
+    let chart = line_chart(
+        std::slice::from_ref(view),
+        Grouping::Quarter,
+        deduction_rule(None)?,
+        false,
+    );
+    bal.figure = Some(
+        chart
+            .to_svg()
+            .map_err(|e| Error::Refused(format!("report chart: {e}")))?,
+    );
+
+    let mut metering = Section::new("meters", "Meters by quarter");
+    metering.tables = meters(
+        ctx,
+        MetersArgs {
+            project: code.clone(),
+            year: a.year,
+        },
+    )?
+    .tables;
+
+    let reconciliations = Section::new("reconciliations", "Reconciliations").text(
+        "The ledger keeps no reconciliations: the reconcile command compares the ledger with a monitoring report and records nothing, so none can be shown here.",
+    );
+    let late = Section::new("late-adjustments", "Late adjustments")
+        .text("This ledger holds no seal, so no entry is a late adjustment to a sealed period.");
+    let seal = Section::new("seal", "Seal and signed statements")
+        .text(format!("Not sealed: {} {} carries no seal.", code, a.year));
+    Ok(vec![
+        first,
+        bal,
+        metering,
+        leakage,
+        uncertainty,
+        claims,
+        pool,
+        reconciliations,
+        late,
+        seal,
+    ])
+}
+
+pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
+    if !(1900..=9999).contains(&a.year) {
+        return Err(Error::field(
+            "--year",
+            &a.year.to_string(),
+            "is not a plausible reporting year",
+        ));
+    }
+    let (view, tip) = ctx.open()?.read(|tx| {
+        let view = ProjectView::load(tx, &a.project, None)?;
+        let tip = tx.chain_tip(&a.project)?;
+        Ok((view, tip))
+    })?;
+    let p = &view.project;
+    let page_doc = Page {
+        title: format!("Annual report {}, project {} ({})", a.year, p.code, p.name),
+        facts: vec![
+            ("Project".into(), format!("{} — {}", p.code, p.name)),
+            ("Operator".into(), p.operator.clone()),
+            ("Method".into(), p.method.name().into()),
+            (
+                "Permit".into(),
+                p.permit_ref
+                    .clone()
+                    .unwrap_or_else(|| "none registered".into()),
+            ),
+            ("Reporting year".into(), a.year.to_string()),
+            (
+                "Written".into(),
+                ctx.now.format("%Y-%m-%d %H:%M UTC").to_string(),
+            ),
+            ("Entries in the chain".into(), tip.0.to_string()),
+            ("Chain head".into(), tip.1.to_hex()),
+        ],
+        sections: sections(ctx, &a, &view)?,
+    };
+    let html = page(&page_doc);
+    std::fs::write(&a.out, &html)
+        .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
+    let mut t = Table::new(
+        "report",
+        "Report written",
+        columns(&[
+            ("File", "file"),
+            ("Sections", "sections"),
+            ("Tables", "tables"),
+            ("Bytes", "bytes"),
+        ]),
+    );
+    t.push(vec![
+        Cell::text(a.out.display().to_string()),
+        Cell::Int(page_doc.sections.len() as i64),
+        Cell::Int(
+            page_doc
+                .sections
+                .iter()
+                .map(|s| s.tables.len())
+                .sum::<usize>() as i64,
+        ),
+        Cell::Int(html.len() as i64),
+    ]);
+    Ok(Report::default().table(t))
+}
