@@ -39,3 +39,16 @@ impl fmt::Display for Error {
 }
 
 impl std::error::Error for Error {}
+
+impl From<crate::accounting::project_view::ViewError> for Error {
+    fn from(e: crate::accounting::project_view::ViewError) -> Self {
+        use crate::accounting::project_view::ViewError;
+        match e {
+            e if e.is_inconsistency() => Error::Inconsistent(e.to_string()),
+            ViewError::Campaign(e) => Error::Refused(format!(
+                "the project's figures read soil campaigns by three-end-member with Ti: {e}"
+            )),
+            e => Error::Refused(e.to_string()),
+        }
+    }
+}

@@ -1321,7 +1321,7 @@ fn bad_weathering_requests() {
         &l,
         "EVW",
         &["balance", "EVW"],
-        "balance reads soil campaigns by three-end-member with Ti: field EV-F1 has no baseline",
+        "the project's figures read soil campaigns by three-end-member with Ti: field EV-F1 has no baseline",
     );
     core(&l, "EV-F1", "2025-03-20", &SOIL, true);
     refused(

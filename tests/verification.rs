@@ -3,7 +3,7 @@
 //! date, and the SVG chart.
 
 mod common;
-use common::Ledger;
+use common::{Demo, Ledger};
 use serde_json::Value;
 
 fn json(l: &Ledger, args: &[&str]) -> Value {
@@ -470,32 +470,6 @@ fn bad_settings_and_reversals_are_refused() {
         assert_eq!(r.code, 1, "{args:?}: {}", r.err);
         assert_eq!(r.err.trim_end().lines().count(), 1);
         assert!(r.err.contains(needle), "{args:?}: {}", r.err);
-    }
-}
-
-/// A ledger built by `demo` from the sample projects, with the clock pinned.
-struct Demo {
-    dir: tempfile::TempDir,
-}
-
-impl Demo {
-    fn new() -> Demo {
-        let d = Demo {
-            dir: tempfile::tempdir().unwrap(),
-        };
-        assert!(d.run(&["demo"]).status.success());
-        d
-    }
-
-    fn run(&self, args: &[&str]) -> std::process::Output {
-        assert_cmd::Command::cargo_bin("sinkbook")
-            .unwrap()
-            .env("SINKBOOK_NOW", common::NOW)
-            .arg("--db")
-            .arg(self.dir.path().join("demo.db"))
-            .args(args)
-            .output()
-            .unwrap()
     }
 }
 

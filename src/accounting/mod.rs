@@ -12,6 +12,7 @@ pub mod materiality;
 pub mod metering;
 pub mod permanence;
 pub mod permit;
+pub mod project_view;
 pub mod tracer;
 pub mod uncertainty;
 pub mod weathering;

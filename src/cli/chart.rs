@@ -2,13 +2,12 @@
 //! capacity, or each project's cumulative stored tonnes for the regulator's view, as SVG.
 
 use super::Context;
-use super::claims::{ProjectView, deduction_rule};
-use crate::accounting::balance::BalanceMethod;
-use crate::accounting::claims::claims;
+use super::claims::deduction_rule;
+use super::view::load;
 use crate::accounting::conservative::DeductionRule;
+use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::period::{Bucket, Grouping};
-use crate::quantity::Mass;
 use crate::report::chart::LineChart;
 use crate::report::{Report, Table, columns};
 use clap::{Args, ValueEnum};
@@ -40,18 +39,6 @@ pub struct ChartArgs {
     pub deduct_excess_over: Option<String>,
 }
 
-/// Running sums of a series, aligned to `periods` (a period a project lacks keeps its sum).
-fn cumulative(periods: &[Bucket], values: &[(Bucket, Mass)]) -> Vec<Mass> {
-    let mut sum = Mass::ZERO;
-    periods
-        .iter()
-        .map(|p| {
-            sum += values.iter().filter(|(b, _)| b == p).map(|(_, m)| *m).sum();
-            sum
-        })
-        .collect()
-}
-
 pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
     let grouping = match a.by {
         ChartBy::Month => Grouping::Month,
@@ -60,14 +47,14 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
     };
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let views = ctx.open()?.read(|tx| match &a.project {
-        Some(code) => Ok(vec![ProjectView::load(tx, code, None)?]),
+        Some(code) => Ok(vec![load(tx, code, None)?]),
         None => tx
             .projects()?
             .iter()
-            .map(|p| ProjectView::load(tx, &p.code, None))
+            .map(|p| load(tx, &p.code, None))
             .collect(),
     })?;
-    let chart = line_chart(&views, grouping, deduction, a.totals);
+    let chart = line_chart(&views, grouping, deduction, a.totals)?;
     let svg = chart
         .to_svg()
         .map_err(|e| Error::Refused(format!("chart: {e}")))?;
@@ -94,65 +81,67 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
         ),
         crate::report::Cell::Int(chart.periods.len() as i64),
     ]);
-    Ok(Report::default().table(t))
+    Ok(Report::default().table(t).table(values_table(&chart)))
 }
 
 /// Cumulative stored, conservative and durable tonnes of one project against its permit, or
 /// each project's cumulative stored tonnes (`totals`).
 pub fn line_chart(
-    views: &[ProjectView],
+    views: &[ProjectFigures],
     grouping: Grouping,
     deduction: DeductionRule,
     totals: bool,
-) -> LineChart {
-    let lines: Vec<_> = views
-        .iter()
-        .map(|v| v.balance(grouping, BalanceMethod::Rr))
-        .collect();
-    let periods: Vec<Bucket> = lines
-        .iter()
-        .flatten()
-        .map(|l| l.bucket)
-        .collect::<BTreeSet<_>>()
-        .into_iter()
-        .collect();
+) -> Result<LineChart> {
+    let mut periods = BTreeSet::new();
+    for v in views {
+        periods.extend(v.periods(grouping)?);
+    }
+    let periods: Vec<Bucket> = periods.into_iter().collect();
     let labels: Vec<String> = periods.iter().map(ToString::to_string).collect();
-    if totals {
+    Ok(if totals {
         LineChart {
             title: "Cumulative stored CO2 by project".into(),
             periods: labels,
             series: views
                 .iter()
-                .zip(&lines)
-                .map(|(v, ls)| {
-                    let stored: Vec<(Bucket, Mass)> =
-                        ls.iter().map(|l| (l.bucket, l.stored)).collect();
-                    (v.project.code.clone(), cumulative(&periods, &stored))
-                })
-                .collect(),
+                .map(|v| v.stored_series(grouping, &periods))
+                .collect::<std::result::Result<_, _>>()?,
             capacity: None,
         }
     } else {
-        let (v, ls) = (&views[0], &lines[0]);
-        let c = claims(ls, &v.rules(deduction));
-        let pick = |f: &dyn Fn(&crate::accounting::permanence::Claim) -> Mass| -> Vec<Mass> {
-            cumulative(
-                &periods,
-                &c.iter().map(|(b, cl)| (*b, f(cl))).collect::<Vec<_>>(),
-            )
-        };
+        let v = &views[0];
         LineChart {
             title: format!(
                 "Cumulative CO2, project {} ({})",
-                v.project.code, v.project.name
+                v.project().code,
+                v.project().name
             ),
             periods: labels,
-            series: vec![
-                ("stored".into(), pick(&|c| c.stored)),
-                ("conservative".into(), pick(&|c| c.conservative)),
-                ("durable".into(), pick(&|c| c.durable)),
-            ],
-            capacity: v.project.permit_capacity,
+            series: v.claim_series(grouping, &periods, deduction)?,
+            capacity: v.project().permit_capacity,
+        }
+    })
+}
+
+/// The values plotted, period by period, so a program can read what the picture shows.
+fn values_table(chart: &LineChart) -> Table {
+    let mut t = Table::new(
+        "chart_values",
+        "Cumulative tonnes plotted",
+        columns(&[
+            ("Period", "period"),
+            ("Series", "series"),
+            ("Cumulative (t)", "cumulative_t"),
+        ]),
+    );
+    for (name, values) in &chart.series {
+        for (period, v) in chart.periods.iter().zip(values) {
+            t.push(vec![
+                crate::report::Cell::text(period),
+                crate::report::Cell::text(name),
+                crate::report::Cell::Tonnes(*v),
+            ]);
         }
     }
+    t
 }

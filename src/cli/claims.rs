@@ -1,99 +1,27 @@
-//! A project as the ledger held it at a moment, and the tables that turn its mass balance into
+//! The tables that turn a project's stored figures into
 //! claims: the chain from stored to claimable, and the buffer pool with its reversals.
 
-use super::setup::known_project;
-use crate::accounting::balance::{BalanceLine, BalanceMethod, balance};
 use crate::accounting::buffer_pool::BufferPool;
-use crate::accounting::claims::{PoolEvent, rel_uncertainty, rules};
+use crate::accounting::claims::PoolEvent;
 use crate::accounting::conservative::DeductionRule;
 use crate::accounting::permanence::{Claim, ClaimRules, Durability};
+use crate::accounting::project_view::{ProjectFigures, claim_figures, claims_total};
 use crate::error::{Error, Result};
-use crate::ledger::correction::effective;
-use crate::ledger::period::{Bucket, Grouping};
-use crate::ledger::setting::Setting;
-use crate::ledger::{Entry, EntryKind, Project, SealedEntry, Site};
+use crate::ledger::Project;
+use crate::ledger::period::Bucket;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::{Cell, Table, columns};
-use crate::store::Tx;
-use chrono::{DateTime, Utc};
 
-/// A project as the ledger holds it, or held it at `as_of`: with a date, later entries,
-/// corrections, sites and settings are left out, so a past report can be reproduced exactly.
-pub struct ProjectView {
-    pub project: Project,
-    pub entries: Vec<SealedEntry>,
-    pub sites: Vec<Site>,
-    pub settings: Vec<Setting>,
-    pub as_of: DateTime<Utc>,
-}
-
-impl ProjectView {
-    pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result<ProjectView> {
-        let project = known_project(tx, code)?;
-        let mut entries = tx.entries(code)?;
-        let mut sites = tx.sites(code)?;
-        let mut settings = tx.settings(code)?;
-        if let Some(t) = as_of {
-            entries.retain(|s| s.entry.recorded_at <= t);
-            sites.retain(|s| s.registered_at <= t);
-            settings.retain(|s| s.recorded_at <= t);
-        }
-        // Without a date, everything recorded counts, whatever the clock says now.
-        let as_of = as_of.unwrap_or(DateTime::<Utc>::MAX_UTC);
-        Ok(ProjectView {
-            project,
-            entries,
-            sites,
-            settings,
-            as_of,
-        })
-    }
-
-    pub fn effective(&self) -> impl Iterator<Item = &Entry> {
-        effective(&self.entries)
-    }
-
-    fn calibrations(&self) -> Vec<&Entry> {
-        self.effective()
-            .filter(|e| e.kind == EntryKind::Calibration)
-            .collect()
-    }
-
-    pub fn balance(&self, grouping: Grouping, method: BalanceMethod) -> Vec<BalanceLine> {
-        let cals = self.calibrations();
-        let rel_u = |e: &Entry| rel_uncertainty(e, &self.sites, &cals).unwrap_or(0.0);
-        balance(&self.project, self.effective(), grouping, method, &rel_u)
-    }
-
-    pub fn rules(&self, deduction: DeductionRule) -> ClaimRules {
-        rules(&self.settings, self.as_of, deduction)
-    }
-
-    /// How the uncertainty was combined, and which metered entries stated none.
-    pub fn uncertainty_note(&self) -> String {
-        let cals = self.calibrations();
-        let metered = self.effective().filter(|e| {
-            matches!(
-                e.kind,
-                EntryKind::Receipt
-                    | EntryKind::Redelivery
-                    | EntryKind::Injection
-                    | EntryKind::Production
-                    | EntryKind::Leakage
-                    | EntryKind::EquipmentLeak
-            )
-        });
-        let unstated = metered
-            .filter(|e| rel_uncertainty(e, &self.sites, &cals).is_none())
-            .count();
-        let rule = "± at 95 %: readings of one meter add linearly (a meter's error is systematic); meters and terms combine in quadrature (IPCC 2006 Vol. 1 Ch. 3, Approach 1).";
-        if unstated == 0 {
-            rule.to_string()
-        } else {
-            format!(
-                "{rule} {unstated} metered entries state no uncertainty (record --uncertainty, site --uncertainty or a calibration) and count as exact."
-            )
-        }
+/// How the uncertainty was combined, and which metered entries stated none.
+pub fn uncertainty_note(figures: &ProjectFigures) -> String {
+    let unstated = figures.unstated_uncertainties();
+    let rule = "± at 95 %: readings of one meter add linearly (a meter's error is systematic); meters and terms combine in quadrature (IPCC 2006 Vol. 1 Ch. 3, Approach 1).";
+    if unstated == 0 {
+        rule.to_string()
+    } else {
+        format!(
+            "{rule} {unstated} metered entries state no uncertainty (record --uncertainty, site --uncertainty or a calibration) and count as exact."
+        )
     }
 }
 
@@ -167,26 +95,13 @@ pub fn claims_table(
             ("Claimable (t)", "claimable_t"),
         ]),
     );
-    let mut total = [crate::quantity::Mass::ZERO; 7];
     for (b, c) in claims {
-        let v = [
-            c.stored,
-            c.uncertainty_deduction,
-            c.conservative,
-            c.durability_discount,
-            c.durable,
-            c.buffer_withheld,
-            c.claimable,
-        ];
-        for (t, x) in total.iter_mut().zip(v) {
-            *t += x;
-        }
         let mut row = vec![Cell::text(b.to_string())];
-        row.extend(v.map(Cell::Tonnes));
+        row.extend(claim_figures(c).map(Cell::Tonnes));
         t.push(row);
     }
     let mut row = vec![Cell::text("total")];
-    row.extend(total.map(Cell::Tonnes));
+    row.extend(claims_total(claims).map(Cell::Tonnes));
     t.push(row);
     t.note(format!(
         "Conservative: {}. Durable: {}. Buffer: {:.2} % of durable withheld into the buffer pool.",

@@ -153,38 +153,8 @@ fn add(ctx: &Context, a: FeedstockAdd) -> Result<Report> {
 
 /// A registered feedstock's analysis in numbers; stored text that no longer reads is an
 /// inconsistency of the ledger.
-pub fn analysed(f: &Feedstock) -> Result<Analysed> {
-    let bad = |what: String| {
-        Error::Inconsistent(format!(
-            "feedstock {} of project {}: {what}",
-            f.code, f.project
-        ))
-    };
-    let numbers = |list: &[(String, String)]| -> Result<Vec<(String, f64)>> {
-        list.iter()
-            .map(|(n, v)| {
-                crate::quantity::Decimal::parse(v)
-                    .map(|d| (n.clone(), d.to_f64()))
-                    .map_err(|e| bad(format!("{n} {v:?}: {e}")))
-            })
-            .collect()
-    };
-    let unit = |u: &str| Unit::from_name(u).ok_or_else(|| bad(format!("unknown unit {u:?}")));
-    let analysis = FeedstockAnalysis::new(
-        &numbers(&f.oxides)?,
-        unit(&f.oxide_unit)?,
-        &numbers(&f.elements)?,
-        unit(&f.element_unit)?,
-    )
-    .map_err(|e| bad(e.to_string()))?;
-    let density = ri::measure("density", &f.density, DENSITY, true)
-        .map_err(|e| bad(e.to_string()))?
-        .base;
-    Ok(Analysed {
-        code: f.code.clone(),
-        analysis,
-        density,
-    })
+fn analysed(f: &Feedstock) -> Result<Analysed> {
+    Ok(crate::accounting::project_view::evidence::analysed(f)?)
 }
 
 fn list_table(project: &str, list: &[Feedstock], analysed: &[Analysed]) -> Table {

@@ -18,6 +18,7 @@ mod settings;
 mod setup;
 mod totals;
 mod verify;
+mod view;
 
 mod emission_inventory;
 mod feedstock;

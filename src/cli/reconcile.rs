@@ -2,16 +2,17 @@
 //! reporting year the misstatement against materiality. Exit 4 when it is material.
 
 use super::Context;
-use super::claims::ProjectView;
-use crate::accounting::balance::{BalanceLine, BalanceMethod};
+use super::view::load;
+use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
     Figure, MaterialityPolicy, Presence, ReportedQuantity, ReportingPeriod, Verdict,
     reconcile as reconcile_figures,
 };
+use crate::accounting::project_view::ledger_keeps;
 use crate::error::{Error, Result};
 use crate::import::csv_lines::Lines;
 use crate::ledger::period::Grouping;
-use crate::ledger::{EntryKind, SealedEntry};
+use crate::ledger::{Entry, EntryKind};
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::{Decimal, Mass, MassReading, MassUnit};
 use crate::report::render::tonnes_text;
@@ -106,20 +107,6 @@ fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
     Ok(figures)
 }
 
-/// The ledger's figure for a quantity in a balance line, where the ledger keeps it.
-fn ledger_figure(l: &BalanceLine, q: ReportedQuantity) -> Option<Mass> {
-    let t = &l.terms;
-    Some(match q {
-        ReportedQuantity::Received => t.received(),
-        ReportedQuantity::Injected => t.injected,
-        ReportedQuantity::Produced => t.produced(),
-        ReportedQuantity::Leakage => t.surface_leakage,
-        ReportedQuantity::EquipmentLeak => t.leaks_injection_side + t.leaks_production_side,
-        ReportedQuantity::Stored => l.stored,
-        ReportedQuantity::Mineralized | ReportedQuantity::WeatheringNet => return None,
-    })
-}
-
 fn share(field: &str, text: Option<&str>, default: f64) -> Result<f64> {
     text.map_or(Ok(default), |t| {
         parse_uncertainty(t)
@@ -153,17 +140,23 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         ));
     }
     let (view, totals) = ctx.open()?.read(|tx| {
-        let v = ProjectView::load(tx, &a.project, None)?;
-        let totals = if a.recompute {
-            tx.reading_totals(&a.project)?
+        let v = load(tx, &a.project, None)?;
+        let recomputed = if a.recompute {
+            let totals = tx.reading_totals(&a.project)?;
+            let all = tx.entries(&a.project)?;
+            Some(recompute_table(
+                &a.project,
+                all.iter().map(|s| &s.entry),
+                &totals,
+            ))
         } else {
-            Vec::new()
+            None
         };
-        Ok((v, totals))
+        Ok((v, recomputed))
     })?;
     let mut out = Report::default();
-    if a.recompute {
-        out = out.table(recompute_table(&a.project, &view.entries, &totals));
+    if let Some(t) = totals {
+        out = out.table(t);
     }
     // The ledger's figures at each granularity and for each quantity the report uses, over the
     // report's years, so a period the report leaves out shows as ledger-only.
@@ -179,62 +172,8 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         })
         .collect();
     let mut ledger = Vec::new();
-    let weathering = view.project.method == crate::ledger::Method::EnhancedWeathering;
-    let basalt = view.project.method == crate::ledger::Method::BasaltMineralization;
     for g in granularities {
-        if basalt && quantities.contains(&ReportedQuantity::Mineralized) {
-            for (b, mineralized) in super::mineralization::mineralized_by_period(&view.entries, g)?
-            {
-                if years.contains(&b.year) {
-                    let period: ReportingPeriod = b
-                        .to_string()
-                        .parse()
-                        .map_err(|e| Error::Inconsistent(format!("{e}")))?;
-                    ledger.push(Figure {
-                        period,
-                        quantity: ReportedQuantity::Mineralized,
-                        mass: mineralized,
-                    });
-                }
-            }
-        }
-        if weathering && quantities.contains(&ReportedQuantity::WeatheringNet) {
-            for (b, _, net) in
-                super::weathering::removal_by_period(ctx, &view.project, &view.entries, g)?
-            {
-                if years.contains(&b.year) {
-                    let period: ReportingPeriod = b
-                        .to_string()
-                        .parse()
-                        .map_err(|e| Error::Inconsistent(format!("{e}")))?;
-                    ledger.push(Figure {
-                        period,
-                        quantity: ReportedQuantity::WeatheringNet,
-                        mass: net,
-                    });
-                }
-            }
-        }
-        for l in view
-            .balance(g, a.method)
-            .iter()
-            .filter(|l| years.contains(&l.bucket.year))
-        {
-            let period: ReportingPeriod = l
-                .bucket
-                .to_string()
-                .parse()
-                .map_err(|e| Error::Inconsistent(format!("{e}")))?;
-            for q in &quantities {
-                if let Some(mass) = ledger_figure(l, *q) {
-                    ledger.push(Figure {
-                        period,
-                        quantity: *q,
-                        mass,
-                    });
-                }
-            }
-        }
+        ledger.extend(view.reported(g, a.method, &quantities, &years)?);
     }
     let r = reconcile_figures(&ledger, &report_figures, &policy)
         .map_err(|e| Error::field("REPORT", &a.report.display().to_string(), e))?;
@@ -264,7 +203,7 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
             Presence::ReportOnly(m) => (
                 Cell::Empty,
                 Cell::Tonnes(m),
-                if ledger_figure_kept(l.quantity, view.project.method) {
+                if ledger_keeps(l.quantity, view.project().method) {
                     "not in the ledger"
                 } else {
                     "this ledger keeps no such figure"
@@ -322,19 +261,12 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     Ok(out)
 }
 
-/// Whether the ledger keeps a figure for the quantity: the mineralized tonnes for basalt
-/// projects, the weathering net for weathering projects, the mass-balance terms for all.
-fn ledger_figure_kept(q: ReportedQuantity, method: crate::ledger::Method) -> bool {
-    use crate::ledger::Method;
-    match q {
-        ReportedQuantity::Mineralized => method == Method::BasaltMineralization,
-        ReportedQuantity::WeatheringNet => method == Method::EnhancedWeathering,
-        _ => true,
-    }
-}
-
 /// Every imported meter-day recomputed from its raw readings.
-fn recompute_table(project: &str, entries: &[SealedEntry], totals: &[ReadingTotal]) -> Table {
+fn recompute_table<'a>(
+    project: &str,
+    entries: impl Iterator<Item = &'a Entry>,
+    totals: &[ReadingTotal],
+) -> Table {
     let by: HashMap<(&str, &str, &str), &ReadingTotal> = totals
         .iter()
         .map(|t| {
@@ -358,8 +290,7 @@ fn recompute_table(project: &str, entries: &[SealedEntry], totals: &[ReadingTota
         ]),
     );
     let mut checked = 0;
-    for s in entries {
-        let e = &s.entry;
+    for e in entries {
         let (Some(sha), Some(meter)) = (e.reading.get("file_sha256"), e.meter.as_deref()) else {
             continue;
         };

@@ -7,13 +7,13 @@ use super::rock_inputs::{self as ri, DENSITY, Measure};
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::{Carbonation, uptake};
-use crate::accounting::tracer::{Mineralized, TracerError, TracerSample, mineralized_fraction};
-use crate::accounting::weathering::campaign::{Application, Core};
+use crate::accounting::project_view::evidence;
+use crate::accounting::tracer::{Mineralized, TracerError, mineralized_fraction};
 use crate::accounting::weathering::composition::{SoilAnalysis, Unit};
 use crate::error::{Error, Result};
 use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site};
+use crate::quantity::Mass;
 use crate::quantity::area::Area;
-use crate::quantity::{Mass, MassReading};
 use crate::report::Report;
 use clap::Args;
 
@@ -240,7 +240,8 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     reading.push("dic_background", background.to_string());
     reading.push("dic_injectate", injectate.to_string());
     reading.push("dic_unit", a.unit.clone());
-    let found = tracer_fraction(&reading).map_err(|e| tracer_refusal(&e, &a))?;
+    let sample = evidence::tracer_sample(&reading).map_err(Error::Refused)?;
+    let found = mineralized_fraction(&sample).map_err(|e| tracer_refusal(&e, &a))?;
     context(
         ctx,
         &a.project,
@@ -287,30 +288,6 @@ fn tracer_refusal(e: &TracerError, a: &TracerSampleArgs) -> Error {
         ),
         other => Error::field("--tracer-ratio", &a.tracer_ratio, other),
     }
-}
-
-fn field<'a>(e: &'a Reading, name: &str) -> std::result::Result<&'a str, String> {
-    e.get(name)
-        .ok_or_else(|| format!("reading has no {name} field"))
-}
-
-fn decimal(e: &Reading, name: &str) -> std::result::Result<f64, String> {
-    let v = field(e, name)?;
-    crate::quantity::Decimal::parse(v)
-        .map(|d| d.to_f64())
-        .map_err(|err| format!("{name} {v:?}: {err}"))
-}
-
-/// The mineralized fraction of a tracer-sample reading.
-pub fn tracer_fraction(r: &Reading) -> std::result::Result<Mineralized, TracerError> {
-    let number = |name| decimal(r, name).unwrap_or(f64::NAN);
-    mineralized_fraction(&TracerSample {
-        tracer_sample: number("tracer_ratio"),
-        tracer_injectate: 1.0,
-        dic_sample: number("dic_sample"),
-        dic_injectate: number("dic_injectate"),
-        dic_background: number("dic_background"),
-    })
 }
 
 /// A carbonation batch: the uptake is what the entry stores.
@@ -378,26 +355,6 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
         report.warnings.push(f);
     }
     Ok(report)
-}
-
-/// The dry feed, product and uptake of a carbonation reading (product in t).
-pub fn carbonation_of(e: &Entry) -> Result<(f64, f64)> {
-    let r = &e.reading;
-    let read = || -> std::result::Result<(f64, f64), String> {
-        let fed = MassReading::parse(field(r, "fed_mass")?).map_err(|e| e.to_string())?;
-        let fed_t = fed.to_mass().map_err(|e| e.to_string())?.tonnes();
-        let product_t =
-            fed_t * (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
-        Ok((fed_t, product_t))
-    };
-    read().map_err(|w| stored(e, w))
-}
-
-fn stored(e: &Entry, what: String) -> Error {
-    Error::Inconsistent(format!(
-        "project {} seq {}: stored {} reading: {what}",
-        e.project, e.seq, e.kind
-    ))
 }
 
 /// A field's area in m², or a refusal naming the field.
@@ -489,21 +446,6 @@ fn effective_of(
         .collect())
 }
 
-/// An application as the weathering accounts read it.
-pub fn application_of(e: &Entry) -> Result<Application> {
-    let r = &e.reading;
-    let read = || -> std::result::Result<Application, String> {
-        let m = MassReading::parse(field(r, "mass")?).map_err(|e| e.to_string())?;
-        Ok(Application {
-            field: e.site.clone(),
-            date: e.period.from,
-            feedstock: field(r, "feedstock")?.to_string(),
-            rock_g: m.to_mass().map_err(|e| e.to_string())?.grams(),
-        })
-    };
-    read().map_err(|w| stored(e, w))
-}
-
 fn conc_unit(text: &str) -> std::result::Result<Unit, String> {
     Unit::from_name(text)
         .ok_or_else(|| "is not a concentration unit (use mol/kg, mg/kg or wt%)".into())
@@ -578,32 +520,6 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
         &a.entry,
     )?;
     commit(ctx, e, a.entry.key.clone(), false)
-}
-
-/// A soil core as the weathering accounts read it.
-pub fn core_of(e: &Entry) -> Result<Core> {
-    let r = &e.reading;
-    let read = || -> std::result::Result<Core, String> {
-        let refused = |e: Error| e.to_string();
-        let (_, depth) = ri::depth("depth", field(r, "depth")?).map_err(refused)?;
-        let rho = soil_density("bulk_density", field(r, "bulk_density")?).map_err(refused)?;
-        let unit = conc_unit(field(r, "conc_unit")?)?;
-        let values: Vec<(String, f64)> = crate::accounting::weathering::composition::SOIL_ELEMENTS
-            .iter()
-            .filter(|s| r.get(s).is_some())
-            .map(|s| decimal(r, s).map(|v| (s.to_string(), v)))
-            .collect::<std::result::Result<_, _>>()?;
-        Ok(Core {
-            seq: e.seq,
-            field: e.site.clone(),
-            date: e.period.from,
-            depth,
-            bulk_density: rho.base,
-            analysis: SoilAnalysis::new(&values, unit).map_err(|e| e.to_string())?,
-            baseline: r.get("baseline").is_some(),
-        })
-    };
-    read().map_err(|w| stored(e, w))
 }
 
 /// Whether entries of this kind are recorded here (not by a meter): `correct` cannot restate

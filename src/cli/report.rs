@@ -4,11 +4,12 @@
 
 use super::Context;
 use super::chart::line_chart;
-use super::claims::{ProjectView, deduction_rule};
+use super::claims::{deduction_rule, uncertainty_note};
 use super::meters::{MetersArgs, meters};
 use super::reports::{BalanceArgs, By, balance};
 use super::setup::{ProjectCommand, project};
 use crate::accounting::balance::BalanceMethod;
+use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::period::Grouping;
@@ -79,8 +80,8 @@ fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Re
 }
 
 /// The sections of the page, in reading order.
-fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectView) -> Result<Vec<Section>> {
-    let code = &view.project.code;
+fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectFigures) -> Result<Vec<Section>> {
+    let code = &view.project().code;
     let registration = project(ctx, ProjectCommand::Show { code: code.clone() })?;
     let mut first = Section::new("project", "Project and permit");
     first.tables = registration.tables;
@@ -93,7 +94,7 @@ fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectView) -> Result<Vec<Sec
     let mut pool = Section::new("buffer-pool", "Buffer pool");
     let mut uncertainty = Section::new("uncertainty", "Uncertainty");
     let mut reports = vec![balance_report(ctx, code, BalanceMethod::Rr)?];
-    if view.project.method == Method::Eor {
+    if view.project().method == Method::Eor {
         reports.push(balance_report(ctx, code, BalanceMethod::Iso27916)?);
     }
     for (n, r) in reports.into_iter().enumerate() {
@@ -128,13 +129,13 @@ fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectView) -> Result<Vec<Sec
     if pool.tables.is_empty() {
         pool = pool.text("No buffer share is set and no reversal recorded: the pool is empty.");
     }
-    uncertainty = uncertainty.text(view.uncertainty_note());
+    uncertainty = uncertainty.text(uncertainty_note(view));
     let chart = line_chart(
         std::slice::from_ref(view),
         Grouping::Quarter,
         deduction_rule(None)?,
         false,
-    );
+    )?;
     bal.figure = Some(
         chart
             .to_svg()
@@ -181,11 +182,11 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
         ));
     }
     let (view, tip) = ctx.open()?.read(|tx| {
-        let view = ProjectView::load(tx, &a.project, None)?;
+        let view = super::view::load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
         Ok((view, tip))
     })?;
-    let p = &view.project;
+    let p = view.project();
     let page_doc = Page {
         title: format!("Annual report {}, project {} ({})", a.year, p.code, p.name),
         facts: vec![

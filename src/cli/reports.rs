@@ -1,10 +1,11 @@
 //! `entries` and `balance`: what the ledger holds, and what it adds up to.
 
 use super::Context;
-use super::claims::{ProjectView, claims_table, deduction_rule, pool_table};
+use super::claims::{claims_table, deduction_rule, pool_table, uncertainty_note};
 use super::setup::known_project;
+use super::view::load;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
-use crate::accounting::claims::{PoolEvent, buffer_pool, claims};
+use crate::accounting::claims::{PoolEvent, period_claim};
 use crate::error::Result;
 use crate::ledger::correction::superseded_by;
 use crate::ledger::period::Grouping;
@@ -108,51 +109,42 @@ pub struct BalanceArgs {
 }
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
-    let mut store = ctx.open()?;
-    let view = store.read(|tx| ProjectView::load(tx, &a.project, None))?;
-    let grouping = match a.by {
-        By::Month => Grouping::Month,
-        By::Quarter => Grouping::Quarter,
-        By::Year => Grouping::Year,
-    };
-    match view.project.method {
+    let figures = ctx.open()?.read(|tx| load(tx, &a.project, None))?;
+    let grouping = Grouping::from(a.by);
+    match figures.project().method {
         Method::BasaltMineralization => {
-            return super::mineralization::balance(&view.project, &view.entries, grouping);
+            return super::mineralization::balance(&figures, grouping);
         }
         Method::ExSituMineralization => {
-            return super::mineralization::carbonation_balance(
-                &view.project,
-                &view.entries,
-                grouping,
-            );
+            return super::mineralization::carbonation_balance(&figures, grouping);
         }
         Method::EnhancedWeathering => {
-            return super::weathering::balance(ctx, &view.project, &view.entries, grouping);
+            return super::weathering::balance(&figures, grouping);
         }
         Method::SalineAquifer | Method::DepletedField | Method::Eor => {}
     }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
-    let project = &view.project;
-    let lines = view.balance(grouping, a.method);
+    let project = figures.project();
+    let lines = figures.geological(grouping, a.method);
     let by = format!("{:?}", a.by).to_lowercase();
     let mut t = match a.method {
         BalanceMethod::Rr => rr_table(project, &lines, &by),
         BalanceMethod::Iso27916 => iso_table(project, &lines, &by),
     };
-    permit_notes(&mut t, project, &lines, view.effective());
+    permit_notes(&mut t, project, &lines, figures.entries());
     t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
-    t.note(view.uncertainty_note());
+    t.note(uncertainty_note(&figures));
     let mut report = Report::default().table(t);
-    if let Some(l) = leakage_table(project, view.effective()) {
+    if let Some(l) = leakage_table(project, figures.entries()) {
         report = report.table(l);
     }
-    let rules = view.rules(deduction);
-    let period_claims = claims(&lines, &rules);
+    let rules = figures.rules(deduction);
+    let period_claims: Vec<_> = lines
+        .iter()
+        .map(|l| (l.bucket, period_claim(&l.uncertainty, &rules)))
+        .collect();
     report = report.table(claims_table(project, &period_claims, &rules, &by));
-    // The pool's timeline is monthly whatever the table's grouping, so a reversal meets the
-    // same pool in every report.
-    let monthly = claims(&view.balance(Grouping::Month, a.method), &rules);
-    let (pool, events) = buffer_pool(&monthly, view.effective());
+    let (pool, events) = figures.pool_by(a.method, deduction)?;
     if rules.buffer_share > 0.0 || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
         report = report.table(pool_table(project, &pool, &events));
     }

@@ -3,64 +3,13 @@
 //! the value. Numbers are kept as their exact decimals so a reading records what was typed.
 
 use crate::accounting::input::InputError;
-use crate::accounting::weathering::campaign::Depth;
 use crate::error::{Error, Result};
 use crate::quantity::Decimal;
-use crate::quantity::mass::split_number_unit;
-use std::fmt;
-
-/// A number with its unit: the decimal and unit as recorded, and the value in the base unit of
-/// its [`Units`] table.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Measure {
-    pub number: Decimal,
-    pub unit: &'static str,
-    pub base: f64,
-}
-
-impl fmt::Display for Measure {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{} {}", self.number, self.unit)
-    }
-}
-
-/// Accepted spellings, the unit recorded for each, and its factor to the table's base unit.
-pub type Units = &'static [(&'static str, &'static str, f64)];
-
-/// Base kg/m³.
-pub const DENSITY: Units = &[
-    ("t/m3", "t/m3", 1000.0),
-    ("t/m³", "t/m3", 1000.0),
-    ("kg/m3", "kg/m3", 1.0),
-    ("kg/m³", "kg/m3", 1.0),
-    ("g/cm3", "g/cm3", 1000.0),
-    ("g/cm³", "g/cm3", 1000.0),
-];
-/// Particle sizes, base µm.
-pub const SIZE: Units = &[("um", "um", 1.0), ("µm", "um", 1.0), ("mm", "mm", 1000.0)];
-/// Distances, base km; the international mile is exactly 1.609344 km.
-pub const DISTANCE: Units = &[("km", "km", 1.0), ("m", "m", 1e-3), ("mi", "mi", 1.609344)];
-/// Electricity, base kg CO2 per kWh (1 GJ = 1000/3.6 kWh exactly).
-pub const GRID: Units = &[
-    ("kg/kWh", "kg/kWh", 1.0),
-    ("g/kWh", "g/kWh", 1e-3),
-    ("kg/MWh", "kg/MWh", 1e-3),
-    ("kg/GJ", "kg/GJ", 3.6e-3),
-];
-/// Fuel burnt per area, base L/ha.
-pub const FUEL_RATE: Units = &[("L/ha", "L/ha", 1.0), ("l/ha", "L/ha", 1.0)];
-/// CO2 per litre of fuel, base kg/L.
-pub const FUEL_FACTOR: Units = &[("kg/L", "kg/L", 1.0), ("kg/l", "kg/L", 1.0)];
-/// CO2 or energy per tonne of rock: base kg/t, or kWh/t for a work index.
-pub const PER_TONNE: Units = &[("kg/t", "kg/t", 1.0), ("g/t", "g/t", 1e-3)];
-pub const WORK_INDEX: Units = &[("kWh/t", "kWh/t", 1.0)];
-/// Transport, base kg CO2 per tonne-km.
-pub const PER_TONNE_KM: Units = &[
-    ("kg/tkm", "kg/tkm", 1.0),
-    ("kg/t.km", "kg/tkm", 1.0),
-    ("kg/t·km", "kg/tkm", 1.0),
-    ("g/tkm", "g/tkm", 1e-3),
-];
+pub use crate::quantity::measure::{
+    DENSITY, DISTANCE, Depth, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE,
+    Units, WORK_INDEX,
+};
+use crate::quantity::measure::{parse_depth, parse_measure};
 
 /// An exact decimal.
 pub fn number(option: &str, text: &str) -> Result<Decimal> {
@@ -69,37 +18,7 @@ pub fn number(option: &str, text: &str) -> Result<Decimal> {
 
 /// A number with one of `units`, at least 0 (`positive` demands more than 0).
 pub fn measure(option: &str, text: &str, units: Units, positive: bool) -> Result<Measure> {
-    let (n, u) = split_number_unit(text);
-    let choices = || {
-        let mut names: Vec<&str> = units.iter().map(|u| u.1).collect();
-        names.dedup();
-        names.join(", ")
-    };
-    if u.is_empty() {
-        return Err(Error::field(
-            option,
-            text,
-            format!("a unit is needed ({})", choices()),
-        ));
-    }
-    let &(_, unit, factor) = units.iter().find(|(s, ..)| *s == u).ok_or_else(|| {
-        Error::field(
-            option,
-            text,
-            format!("unknown unit {u:?} (use {})", choices()),
-        )
-    })?;
-    let number = number(option, n)?;
-    let v = number.to_f64();
-    if v < 0.0 || (positive && !number.is_positive()) {
-        let bound = if positive { "greater than" } else { "at least" };
-        return Err(Error::field(option, text, format!("must be {bound} zero")));
-    }
-    Ok(Measure {
-        number,
-        unit,
-        base: v * factor,
-    })
+    parse_measure(text, units, positive).map_err(|why| Error::field(option, text, why))
 }
 
 /// A share as `12.5%` or `0.125`, from 0 to 1.
@@ -155,35 +74,7 @@ pub fn pair_numbers(pairs: &[(String, Decimal)]) -> Vec<(String, f64)> {
 
 /// A depth interval below the surface, `0-30 cm` or `0-0.3 m`, as recorded and in metres.
 pub fn depth(option: &str, text: &str) -> Result<(String, Depth)> {
-    let (range, unit) = split_number_unit(text);
-    let factor = match unit {
-        "cm" => 0.01,
-        "m" => 1.0,
-        _ => {
-            return Err(Error::field(
-                option,
-                text,
-                "write TOP-BOTTOM cm (or m), e.g. 0-30 cm",
-            ));
-        }
-    };
-    let (top, bottom) = range
-        .split_once(['-', '–'])
-        .ok_or_else(|| Error::field(option, text, "write TOP-BOTTOM cm (or m), e.g. 0-30 cm"))?;
-    let top = number(option, top)?;
-    let bottom = number(option, bottom)?;
-    if top.to_f64() < 0.0 || bottom.cmp_value(top).is_le() {
-        return Err(Error::field(
-            option,
-            text,
-            "the bottom must lie below the top, both at or below the surface",
-        ));
-    }
-    let depth = Depth {
-        top_m: top.to_f64() * factor,
-        bottom_m: bottom.to_f64() * factor,
-    };
-    Ok((format!("{top}-{bottom} {unit}"), depth))
+    parse_depth(text).map_err(|why| Error::field(option, text, why))
 }
 
 /// A refusal by a pure check, told in the option's words: `options` maps the check's field

@@ -3,17 +3,13 @@
 //! as the ledger held it at the end of any date.
 
 use super::Context;
-use super::claims::{ProjectView, deduction_rule};
-use crate::accounting::balance::{BalanceLine, BalanceMethod, Terms};
-use crate::accounting::claims::{PoolEvent, buffer_pool, period_claim};
-use crate::accounting::uncertainty::Estimate;
+use super::claims::deduction_rule;
+use super::view::load;
+use crate::accounting::project_view::{ProjectFigures, TotalsLine};
 use crate::error::{Error, Result};
-use crate::ledger::period::Bucket;
-use crate::ledger::period::Grouping;
-use crate::ledger::{EntryKind, Method};
-use crate::quantity::Mass;
+use crate::ledger::Method;
 use crate::report::{Cell, Report, Table, columns};
-use chrono::{DateTime, Datelike, NaiveDate, Utc};
+use chrono::{DateTime, NaiveDate, Utc};
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -50,47 +46,6 @@ pub fn end_of(d: NaiveDate) -> DateTime<Utc> {
         .and_utc()
 }
 
-/// The figures of one line of the totals.
-#[derive(Default, Clone, Copy)]
-struct Figures {
-    received: Mass,
-    injected: Mass,
-    stored: Mass,
-    conservative: Mass,
-    durable: Mass,
-    buffer: Mass,
-    claimable: Mass,
-    reversed: Mass,
-}
-
-impl Figures {
-    fn add(&mut self, o: &Figures) {
-        self.received += o.received;
-        self.injected += o.injected;
-        self.stored += o.stored;
-        self.conservative += o.conservative;
-        self.durable += o.durable;
-        self.buffer += o.buffer;
-        self.claimable += o.claimable;
-        self.reversed += o.reversed;
-    }
-
-    fn cells(&self) -> Vec<Cell> {
-        [
-            self.received,
-            self.injected,
-            self.stored,
-            self.conservative,
-            self.durable,
-            self.buffer,
-            self.claimable,
-            self.reversed,
-        ]
-        .map(Cell::Tonnes)
-        .to_vec()
-    }
-}
-
 pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let as_of = a
         .as_of
@@ -117,7 +72,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
                     .as_ref()
                     .is_none_or(|r| Some(r) == p.permit_ref.as_ref());
             if wanted {
-                views.push(ProjectView::load(tx, &p.code, as_of)?);
+                views.push(load(tx, &p.code, as_of)?);
             }
         }
         Ok(views)
@@ -149,59 +104,23 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             ("Permit headroom (t)", "headroom_t"),
         ]),
     );
-    let mut all = Figures::default();
+    let mut all = TotalsLine::default();
     for v in &views {
-        let rules = v.rules(deduction);
-        let years = stored_by_period(ctx, v, Grouping::Year)?;
-        let monthly: Vec<_> = stored_by_period(ctx, v, Grouping::Month)?
-            .iter()
-            .map(|(b, u, _)| (*b, period_claim(u, &rules)))
-            .collect();
-        let (pool, events) = buffer_pool(&monthly, v.effective());
-        let mut project_total = Figures::default();
-        for (bucket, u, terms) in &years {
-            let c = period_claim(u, &rules);
-            let reversed: Mass = v
-                .effective()
-                .filter(|e| e.kind == EntryKind::Reversal && e.period.from.year() == bucket.year)
-                .map(|e| e.mass)
-                .sum();
-            let f = Figures {
-                received: terms.received(),
-                injected: terms.injected,
-                stored: u.value(),
-                conservative: c.conservative,
-                durable: c.durable,
-                buffer: c.buffer_withheld,
-                claimable: c.claimable,
-                reversed,
-            };
-            project_total.add(&f);
-            if by_year {
-                let mut row = project_cells(v, Some(bucket.year));
-                row.extend(f.cells());
+        let totals = v.totals(deduction)?;
+        if by_year {
+            for (year, line) in &totals.years {
+                let mut row = project_cells(v, Some(*year));
+                row.extend(cells(line));
                 row.push(Cell::Empty);
                 t.push(row);
             }
-        }
-        // What reversals cancelled comes off the pool and the claimable tonnes.
-        let cancelled_claimable: Mass = events
-            .iter()
-            .filter_map(|e| match e {
-                PoolEvent::Reversal { reversal, .. } => Some(reversal.claimable_cancelled),
-                PoolEvent::Claim { .. } => None,
-            })
-            .sum();
-        project_total.buffer = project_total.buffer - pool.cancelled();
-        project_total.claimable = project_total.claimable - cancelled_claimable;
-        all.add(&project_total);
-        if !by_year {
+        } else {
             let mut row = project_cells(v, None);
-            row.extend(project_total.cells());
-            let headroom = v.project.permit_capacity.map(|c| c - project_total.stored);
-            row.push(headroom.map_or(Cell::Empty, Cell::Tonnes));
+            row.extend(cells(&totals.total));
+            row.push(totals.headroom.map_or(Cell::Empty, Cell::Tonnes));
             t.push(row);
         }
+        all.add(&totals.total);
     }
     let mut row = vec![
         Cell::text("all"),
@@ -210,58 +129,26 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         Cell::Empty,
         Cell::Empty,
     ];
-    row.extend(all.cells());
+    row.extend(cells(&all));
     row.push(Cell::Empty);
     t.push(row);
-    t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the carbonation uptake for ex-situ projects, the weathering removal (gross − deductions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
+    t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the net of the carbonation uptake less the project's emissions for ex-situ projects, the weathering net (removal − emissions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
     if !by_year {
         t.note("Per project, buffer and claimable are net of what reversals cancelled (buffer first, then claimable).");
     }
     Ok(Report::default().table(t))
 }
 
-/// Each period's stored figure with its uncertainty, and the mass-balance terms: the geological
-/// mass balance, or for the rock routes their own figure — carbonation uptake, weathering removal
-/// (gross − deductions, default settings) — which state no uncertainty.
-fn stored_by_period(
-    ctx: &Context,
-    v: &ProjectView,
-    g: Grouping,
-) -> Result<Vec<(Bucket, Estimate, Terms)>> {
-    let route = match v.project.method {
-        Method::EnhancedWeathering => Some(
-            super::weathering::removal_by_period(ctx, &v.project, &v.entries, g)?
-                .into_iter()
-                .map(|(b, removal, _)| (b, removal))
-                .collect(),
-        ),
-        Method::ExSituMineralization => {
-            Some(super::mineralization::uptake_by_period(&v.entries, g))
-        }
-        Method::SalineAquifer
-        | Method::DepletedField
-        | Method::Eor
-        | Method::BasaltMineralization => None,
-    };
-    Ok(match route {
-        Some(by) => by
-            .into_iter()
-            .map(|(b, m)| (b, Estimate::absolute(m, Mass::ZERO), Terms::default()))
-            .collect(),
-        None => v
-            .balance(g, BalanceMethod::Rr)
-            .into_iter()
-            .map(|l: BalanceLine| (l.bucket, l.uncertainty, l.terms))
-            .collect(),
-    })
+fn cells(l: &TotalsLine) -> Vec<Cell> {
+    l.figures().map(Cell::Tonnes).to_vec()
 }
 
-fn project_cells(v: &ProjectView, year: Option<i32>) -> Vec<Cell> {
+fn project_cells(v: &ProjectFigures, year: Option<i32>) -> Vec<Cell> {
     vec![
-        Cell::text(&v.project.code),
+        Cell::text(&v.project().code),
         year.map_or(Cell::Empty, |y| Cell::text(y.to_string())),
-        Cell::text(v.project.method.name()),
-        Cell::text(&v.project.operator),
-        Cell::opt_text(v.project.permit_ref.as_deref()),
+        Cell::text(v.project().method.name()),
+        Cell::text(&v.project().operator),
+        Cell::opt_text(v.project().permit_ref.as_deref()),
     ]
 }

@@ -3,23 +3,20 @@
 //! the same rolled up by period for `balance` of an enhanced-weathering project.
 
 use super::Context;
-use super::feedstock::analysed;
 use super::mineralization::route_project;
-use super::record_rock::{application_of, core_of};
 use super::rock_inputs as ri;
+use crate::accounting::project_view::{
+    CampaignTotal, EmissionsInScope, ProjectFigures, ViewError, campaign_total, default_settings,
+};
 use crate::accounting::weathering::campaign::{
-    CampaignError, CampaignLine, DissolutionMethod, Emission, Field, Inputs, Reading, Settings,
-    campaigns, rollup,
+    CampaignError, CampaignLine, DissolutionMethod, Reading, Settings,
 };
 use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions};
 use crate::accounting::weathering::three_end_member::Resolution;
 use crate::error::{Error, Result};
-use crate::ledger::correction::effective;
 use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind, Method, Project, SealedEntry, SiteKind};
-use crate::quantity::Mass;
-use crate::quantity::area::Area;
+use crate::ledger::{Method, Project, SiteKind};
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
@@ -173,136 +170,39 @@ fn deductions(a: &DeductionArgs) -> Result<Deductions> {
     Ok(d)
 }
 
-/// The settings `balance` reads with: every default.
-fn default_settings() -> Settings {
-    Settings {
-        method: DissolutionMethod::ThreeEndMember,
-        immobile: Immobile::Ti,
-        mobile: Cation::ALL.to_vec(),
-        resolution: Resolution::DEFAULT,
-        deductions: Deductions::default(),
-    }
-}
-
-/// A campaign error told as a refusal of the option that chose what is missing (`balance`
-/// has no such options: it says what it read with).
-fn refusal(e: CampaignError, s: &Settings, a: Option<&WeatheringArgs>) -> Error {
-    let Some(a) = a else {
-        return match e {
-            CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
-            _ => Error::Refused(format!(
-                "balance reads soil campaigns by {} with {}: {e}",
-                s.method.name(),
-                s.immobile.symbol()
-            )),
-        };
+/// A campaign error told as a refusal of the option that chose what is missing.
+fn refusal(e: ViewError, s: &Settings, a: &WeatheringArgs) -> Error {
+    let ViewError::Campaign(c) = &e else {
+        return e.into();
     };
-    match &e {
-        CampaignError::NoBaseline { .. } => Error::field("--method", s.method.name(), e),
-        CampaignError::MissingImmobile { .. } => Error::field("--immobile", &a.immobile, e),
-        CampaignError::MissingMobile { .. } => Error::field("--mobile", &a.mobile, e),
-        CampaignError::UnknownFeedstock { .. } => Error::Inconsistent(e.to_string()),
+    match c {
+        CampaignError::NoBaseline { .. } => Error::field("--method", s.method.name(), c),
+        CampaignError::MissingImmobile { .. } => Error::field("--immobile", &a.immobile, c),
+        CampaignError::MissingMobile { .. } => Error::field("--mobile", &a.mobile, c),
+        CampaignError::UnknownFeedstock { .. } => e.into(),
     }
 }
 
-/// What the ledger holds for the weathering accounts of a project.
-struct Ledgered<'a> {
-    fields: Vec<Field>,
-    feedstocks: Vec<crate::accounting::weathering::campaign::Feedstock>,
-    applications: Vec<crate::accounting::weathering::campaign::Application>,
-    cores: Vec<crate::accounting::weathering::campaign::Core>,
-    emissions: Vec<Emission<'a>>,
-}
-
-fn ledgered<'a>(
-    ctx: &Context,
-    project: &Project,
-    live: &[&'a Entry],
-    only: Option<&str>,
-) -> Result<Ledgered<'a>> {
-    let (sites, feedstocks) = ctx
-        .open()?
-        .read(|tx| Ok((tx.sites(&project.code)?, tx.feedstocks(&project.code)?)))?;
-    if let Some(f) = only
-        && !sites
+pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
+    let s = settings(&a)?;
+    let figures = route_project(ctx, &a.project, Method::EnhancedWeathering, "weathering")?;
+    if let Some(f) = a.site.as_deref()
+        && !figures
+            .sites()
             .iter()
             .any(|s| s.code == f && s.kind == SiteKind::Field)
     {
         return Err(Error::field(
             "--site",
             f,
-            format!("is not a field of project {}", project.code),
+            format!("is not a field of project {}", a.project),
         ));
     }
-    let wanted = |site: &str| only.is_none_or(|f| f == site);
-    let fields = sites
-        .iter()
-        .filter(|s| s.kind == SiteKind::Field && wanted(&s.code))
-        .map(|s| Field {
-            code: s.code.clone(),
-            area_m2: s
-                .area
-                .as_deref()
-                .and_then(|a| Area::parse(a).ok())
-                .map(|a| a.m2()),
-        })
-        .collect();
-    let of = |kind: EntryKind| {
-        live.iter()
-            .filter(move |e| e.kind == kind && wanted(&e.site))
-    };
-    Ok(Ledgered {
-        fields,
-        feedstocks: feedstocks.iter().map(analysed).collect::<Result<_>>()?,
-        applications: of(EntryKind::Application)
-            .map(|e| application_of(e))
-            .collect::<Result<_>>()?,
-        cores: of(EntryKind::SoilSample)
-            .map(|e| core_of(e))
-            .collect::<Result<_>>()?,
-        emissions: live
-            .iter()
-            .filter(|e| e.kind == EntryKind::Emission)
-            .map(|e| Emission {
-                site: &e.site,
-                period: e.period,
-                mass: e.mass,
-            })
-            .collect(),
-    })
-}
-
-fn read(l: &Ledgered<'_>, s: &Settings) -> std::result::Result<Vec<CampaignLine>, CampaignError> {
-    campaigns(
-        &Inputs {
-            fields: &l.fields,
-            feedstocks: &l.feedstocks,
-            applications: &l.applications,
-            cores: &l.cores,
-            emissions: &l.emissions,
-        },
-        s,
-    )
-}
-
-pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
-    let s = settings(&a)?;
-    let (project, all) = route_project(ctx, &a.project, Method::EnhancedWeathering, "weathering")?;
-    let live: Vec<&Entry> = effective(&all).collect();
-    let l = ledgered(ctx, &project, &live, a.site.as_deref())?;
-    let lines = read(&l, &s).map_err(|e| refusal(e, &s, Some(&a)))?;
-    let field_codes: Vec<&str> = l.fields.iter().map(|f| f.code.as_str()).collect();
-    let in_scope = |site: &str| a.site.as_deref().is_none_or(|f| f == site);
-    let sum = |keep: &dyn Fn(&str) -> bool| -> Mass {
-        l.emissions
-            .iter()
-            .filter(|e| keep(e.site))
-            .map(|e| e.mass)
-            .sum()
-    };
-    let recorded = sum(&in_scope);
-    let elsewhere = sum(&|site| a.site.is_none() && !field_codes.contains(&site));
-    let table = campaign_table(&project, &lines, &s, (recorded, elsewhere));
+    let lines = figures
+        .weathering_campaigns(&s, a.site.as_deref())
+        .map_err(|e| refusal(e, &s, &a))?;
+    let emissions = figures.emissions_in_scope(a.site.as_deref());
+    let table = campaign_table(figures.project(), &lines, &s, emissions);
     Ok(Report::default().table(table))
 }
 
@@ -333,7 +233,7 @@ fn campaign_table(
     project: &Project,
     lines: &[CampaignLine],
     s: &Settings,
-    (recorded, elsewhere): (Mass, Mass),
+    emissions: EmissionsInScope,
 ) -> Table {
     let mut t = Table::new(
         "weathering",
@@ -396,7 +296,7 @@ fn campaign_table(
         }
         t.push(row);
     }
-    total_row(&mut t, lines, recorded);
+    total_row(&mut t, &campaign_total(lines, emissions.recorded));
     t.note(method_note(s));
     t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
     t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
@@ -405,94 +305,44 @@ fn campaign_table(
     for f in findings {
         t.note(format!("Finding: {f}"));
     }
-    if elsewhere.is_positive() {
+    if emissions.elsewhere.is_positive() {
         t.note(format!(
             "Emissions recorded at sites other than fields ({} t) count in the total row and the balance.",
-            crate::report::render::tonnes_text(elsewhere)
+            crate::report::render::tonnes_text(emissions.elsewhere)
         ));
     }
     t
 }
 
 /// The project to date: each field's latest readable campaign, less every emission recorded.
-fn total_row(t: &mut Table, lines: &[CampaignLine], recorded: Mass) {
-    let mut latest: Vec<&CampaignLine> = Vec::new();
-    for l in lines.iter().rev() {
-        if matches!(l.reading, Reading::Resolved(_)) && !latest.iter().any(|x| x.field == l.field) {
-            latest.push(l);
-        }
-    }
-    let mut sums = [Mass::ZERO; 8];
-    let mut applied_g = 0i64;
-    for l in &latest {
-        if let Reading::Resolved(r) = &l.reading {
-            applied_g += l.applied_g;
-            let d = r.removal.deducted.map(|(_, m)| m);
-            let row = [
-                l.potential,
-                r.gross.total,
-                d[0],
-                d[1],
-                d[2],
-                d[3],
-                Mass::ZERO,
-                r.removal.net,
-            ];
-            for (s, v) in sums.iter_mut().zip(row) {
-                *s += v;
-            }
-        }
-    }
-    sums[6] = recorded;
-    sums[7] = sums[7] - recorded;
+fn total_row(t: &mut Table, total: &CampaignTotal) {
     let mut row = vec![
         Cell::text("total"),
         Cell::text("latest read"),
         Cell::Empty,
         Cell::Empty,
         Cell::Empty,
-        Cell::Number(applied_g as f64 / 1e6, 1),
+        Cell::Number(total.applied_g as f64 / 1e6, 1),
         Cell::Empty,
         Cell::Empty,
-        Cell::Tonnes(sums[0]),
+        Cell::Tonnes(total.potential),
         Cell::Empty,
+        Cell::Tonnes(total.gross),
     ];
-    row.extend(sums[1..].iter().map(|&m| Cell::Tonnes(m)));
-    row.push(Cell::Empty);
+    row.extend(total.deducted.map(Cell::Tonnes));
+    row.extend([
+        Cell::Tonnes(total.emissions),
+        Cell::Tonnes(total.net),
+        Cell::Empty,
+    ]);
     t.push(row);
 }
 
-/// Removal (gross − deductions) and net (removal − emissions) by period with every default
-/// setting, as `balance` credits them: the totals count the removal as stored, a reconciliation
-/// compares the net.
-pub fn removal_by_period(
-    ctx: &Context,
-    project: &Project,
-    all: &[SealedEntry],
-    grouping: Grouping,
-) -> Result<Vec<(crate::ledger::period::Bucket, Mass, Mass)>> {
-    let s = default_settings();
-    let live: Vec<&Entry> = effective(all).collect();
-    let l = ledgered(ctx, project, &live, None)?;
-    let lines = read(&l, &s).map_err(|e| refusal(e, &s, None))?;
-    Ok(rollup(&lines, &l.applications, &l.emissions, grouping)
-        .iter()
-        .map(|r| (r.bucket, r.removal, r.net))
-        .collect())
-}
-
 /// `balance` of an enhanced-weathering project: by period, every default setting.
-pub fn balance(
-    ctx: &Context,
-    project: &Project,
-    all: &[SealedEntry],
-    grouping: Grouping,
-) -> Result<Report> {
+pub fn balance(figures: &ProjectFigures, grouping: Grouping) -> Result<Report> {
     let s = default_settings();
-    let live: Vec<&Entry> = effective(all).collect();
-    let l = ledgered(ctx, project, &live, None)?;
-    let lines = read(&l, &s).map_err(|e| refusal(e, &s, None))?;
-    let roll = rollup(&lines, &l.applications, &l.emissions, grouping);
+    let project = figures.project();
+    let (roll, unread) = figures.weathering_rollup(grouping)?;
     let by = super::mineralization::grouping_name(grouping);
     let mut t = Table::new(
         "balance",
@@ -532,10 +382,6 @@ pub fn balance(
     );
     t.note(method_note(&s));
     parameter_notes(&mut t, &s.deductions);
-    let unread = lines
-        .iter()
-        .filter(|l| matches!(l.reading, Reading::Finding(_)))
-        .count();
     if unread > 0 {
         t.note(format!(
             "{unread} campaign(s) gave no number: see `sinkbook weathering {}`.",

@@ -5,6 +5,7 @@ pub mod conditions;
 pub mod decimal;
 pub mod fraction;
 pub mod mass;
+pub mod measure;
 pub mod volume;
 
 pub use decimal::Decimal;

@@ -117,3 +117,42 @@ impl Ledger {
         ])
     }
 }
+
+/// A ledger built by `demo` from the sample projects, with the clock pinned.
+pub struct Demo {
+    pub dir: tempfile::TempDir,
+}
+
+impl Demo {
+    pub fn new() -> Demo {
+        let d = Demo {
+            dir: tempfile::tempdir().unwrap(),
+        };
+        assert!(d.run(&["demo"]).status.success());
+        d
+    }
+
+    pub fn run(&self, args: &[&str]) -> std::process::Output {
+        Command::cargo_bin("sinkbook")
+            .unwrap()
+            .env("SINKBOOK_NOW", NOW)
+            .arg("--db")
+            .arg(self.dir.path().join("demo.db"))
+            .args(args)
+            .output()
+            .unwrap()
+    }
+
+    /// Runs with `--format json` (exit 0 or 4) and parses what it printed.
+    pub fn json(&self, args: &[&str]) -> serde_json::Value {
+        let mut all = vec!["--format", "json"];
+        all.extend_from_slice(args);
+        let o = self.run(&all);
+        assert!(
+            matches!(o.status.code(), Some(0 | 4)),
+            "sinkbook {args:?}: {}",
+            String::from_utf8_lossy(&o.stderr)
+        );
+        serde_json::from_slice(&o.stdout).unwrap()
+    }
+}

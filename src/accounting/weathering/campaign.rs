@@ -15,6 +15,7 @@ use crate::accounting::input::grams;
 use crate::ledger::Period;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::quantity::Mass;
+pub use crate::quantity::measure::Depth;
 use chrono::NaiveDate;
 use std::collections::BTreeMap;
 use std::fmt;
@@ -73,19 +74,6 @@ pub struct Application {
     pub feedstock: String,
     /// Dry mass of rock, exact grams.
     pub rock_g: i64,
-}
-
-/// The depth interval a core was taken over, metres below the surface.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Depth {
-    pub top_m: f64,
-    pub bottom_m: f64,
-}
-
-impl Depth {
-    pub fn thickness_m(self) -> f64 {
-        self.bottom_m - self.top_m
-    }
 }
 
 /// One soil core as recorded.

@@ -1,0 +1,160 @@
+//! The rock routes' stored readings decoded back into model inputs: tracer samples, carbonation
+//! batches, applications, soil cores and feedstock analyses. The field names read here are the
+//! ones `record` writes; a value that no longer decodes is an inconsistency of the ledger.
+
+use super::ViewError;
+use crate::accounting::tracer::TracerSample;
+use crate::accounting::weathering::campaign::{Application, Core, Feedstock as Analysed};
+use crate::accounting::weathering::composition::{
+    FeedstockAnalysis, SOIL_ELEMENTS, SoilAnalysis, Unit,
+};
+use crate::ledger::feedstock::Feedstock;
+use crate::ledger::{Entry, Reading};
+use crate::quantity::measure::{DENSITY, parse_depth, parse_measure};
+use crate::quantity::{Decimal, MassReading};
+
+type Decoded<T> = Result<T, String>;
+
+fn field<'a>(r: &'a Reading, name: &str) -> Decoded<&'a str> {
+    r.get(name)
+        .ok_or_else(|| format!("reading has no {name} field"))
+}
+
+fn decimal(r: &Reading, name: &str) -> Decoded<f64> {
+    let v = field(r, name)?;
+    Decimal::parse(v)
+        .map(|d| d.to_f64())
+        .map_err(|err| format!("{name} {v:?}: {err}"))
+}
+
+fn grams(r: &Reading, name: &str) -> Decoded<i64> {
+    let m = MassReading::parse(field(r, name)?).map_err(|e| e.to_string())?;
+    Ok(m.to_mass().map_err(|e| e.to_string())?.grams())
+}
+
+fn undecodable(e: &Entry, what: String) -> ViewError {
+    ViewError::Undecodable {
+        project: e.project.clone(),
+        seq: e.seq,
+        kind: e.kind,
+        what,
+    }
+}
+
+/// The sample a tracer-sample reading records (the injectate's tracer is the unit of X).
+pub fn tracer_sample(r: &Reading) -> Decoded<TracerSample> {
+    Ok(TracerSample {
+        tracer_sample: decimal(r, "tracer_ratio")?,
+        tracer_injectate: 1.0,
+        dic_sample: decimal(r, "dic_sample")?,
+        dic_injectate: decimal(r, "dic_injectate")?,
+        dic_background: decimal(r, "dic_background")?,
+    })
+}
+
+/// A tracer-sample entry's sample.
+pub fn tracer_of(e: &Entry) -> Result<TracerSample, ViewError> {
+    tracer_sample(&e.reading).map_err(|w| undecodable(e, w))
+}
+
+/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Batch {
+    pub fed_g: i64,
+    pub product_g: i64,
+}
+
+/// The dry feed and product of a carbonation reading: the CO2-free solid is conserved, so the
+/// product weighs M(1 − w_before)/(1 − w_after).
+pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
+    let r = &e.reading;
+    let read = || -> Decoded<Batch> {
+        let fed_g = grams(r, "fed_mass")?;
+        let ratio = (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
+        let product = (fed_g as f64 * ratio).round_ties_even();
+        if !product.is_finite() || product.abs() >= i64::MAX as f64 {
+            return Err(format!("product of {fed_g} g fed is out of range"));
+        }
+        Ok(Batch {
+            fed_g,
+            product_g: product as i64,
+        })
+    };
+    read().map_err(|w| undecodable(e, w))
+}
+
+/// An application as the weathering accounts read it.
+pub fn application_of(e: &Entry) -> Result<Application, ViewError> {
+    let r = &e.reading;
+    let read = || -> Decoded<Application> {
+        Ok(Application {
+            field: e.site.clone(),
+            date: e.period.from,
+            feedstock: field(r, "feedstock")?.to_string(),
+            rock_g: grams(r, "mass")?,
+        })
+    };
+    read().map_err(|w| undecodable(e, w))
+}
+
+/// A soil core as the weathering accounts read it.
+pub fn core_of(e: &Entry) -> Result<Core, ViewError> {
+    let r = &e.reading;
+    let read = || -> Decoded<Core> {
+        let (_, depth) = parse_depth(field(r, "depth")?).map_err(|w| format!("depth: {w}"))?;
+        let rho = parse_measure(field(r, "bulk_density")?, DENSITY, true)
+            .map_err(|w| format!("bulk_density: {w}"))?;
+        let unit_text = field(r, "conc_unit")?;
+        let unit = Unit::from_name(unit_text)
+            .ok_or_else(|| format!("conc_unit {unit_text:?} is not a concentration unit"))?;
+        let values: Vec<(String, f64)> = SOIL_ELEMENTS
+            .iter()
+            .filter(|s| r.get(s).is_some())
+            .map(|s| decimal(r, s).map(|v| (s.to_string(), v)))
+            .collect::<Decoded<_>>()?;
+        Ok(Core {
+            seq: e.seq,
+            field: e.site.clone(),
+            date: e.period.from,
+            depth,
+            bulk_density: rho.base,
+            analysis: SoilAnalysis::new(&values, unit).map_err(|e| e.to_string())?,
+            baseline: r.get("baseline").is_some(),
+        })
+    };
+    read().map_err(|w| undecodable(e, w))
+}
+
+/// A registered feedstock's analysis in numbers.
+pub fn analysed(f: &Feedstock) -> Result<Analysed, ViewError> {
+    let bad = |what: String| ViewError::Feedstock {
+        project: f.project.clone(),
+        code: f.code.clone(),
+        what,
+    };
+    let numbers = |list: &[(String, String)]| -> Result<Vec<(String, f64)>, ViewError> {
+        list.iter()
+            .map(|(n, v)| {
+                Decimal::parse(v)
+                    .map(|d| (n.clone(), d.to_f64()))
+                    .map_err(|e| bad(format!("{n} {v:?}: {e}")))
+            })
+            .collect()
+    };
+    let unit = |u: &str| Unit::from_name(u).ok_or_else(|| bad(format!("unknown unit {u:?}")));
+    let analysis = FeedstockAnalysis::new(
+        &numbers(&f.oxides)?,
+        unit(&f.oxide_unit)?,
+        &numbers(&f.elements)?,
+        unit(&f.element_unit)?,
+    )
+    .map_err(|e| bad(e.to_string()))?;
+    let density = parse_measure(&f.density, DENSITY, true)
+        .map_err(|e| bad(format!("density: {e}")))?
+        .base;
+    Ok(Analysed {
+        code: f.code.clone(),
+        analysis,
+        density,
+    })
+}

@@ -1,0 +1,236 @@
+//! One place that decides what a project stores, period by period, by its method: geological
+//! (40 CFR 98.443 or ISO 27916), basalt (injected and kept, split into mineralized), ex-situ
+//! (carbonation uptake net of the project's emissions), weathering (net removal). `balance`,
+//! `totals`, `reconcile`, `chart` and the claims all read their figures here.
+//!
+//! The view is a fold: the caller feeds a project's effective entries (those no correction
+//! replaces) one at a time in seq order with [`ProjectView::add`], each decoded once, then asks
+//! [`ProjectView::finish`] for the figures.
+
+mod basalt;
+mod error;
+pub mod evidence;
+mod ex_situ;
+mod geological;
+mod reported;
+mod series;
+mod totals;
+mod weathering;
+
+pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, mineralization_total};
+pub use error::ViewError;
+pub use ex_situ::CarbonationLine;
+pub use reported::{ledger_keeps, reporting_period};
+pub use series::{Series, cumulative};
+pub use totals::{ProjectTotals, TotalsLine};
+pub use weathering::{CampaignTotal, EmissionsInScope, campaign_total, default_settings};
+
+use super::balance::BalanceMethod;
+use super::buffer_pool::BufferPool;
+use super::claims::{PoolEvent, buffer_pool, period_claim, rules};
+use super::conservative::DeductionRule;
+use super::permanence::{Claim, ClaimRules};
+use super::uncertainty::Estimate;
+use super::weathering::campaign::{Application, Core, Feedstock};
+use crate::ledger::feedstock::Feedstock as Registered;
+use crate::ledger::period::{Bucket, Grouping};
+use crate::ledger::setting::Setting;
+use crate::ledger::{Entry, EntryKind, Method, Project, Site};
+use crate::quantity::Mass;
+use chrono::{DateTime, Utc};
+use evidence::Batch;
+
+/// What the view is built from besides the entries: the registrations and settings in force.
+pub struct Registrations {
+    pub project: Project,
+    pub sites: Vec<Site>,
+    pub settings: Vec<Setting>,
+    pub feedstocks: Vec<Registered>,
+    /// The knowledge time the view stands at: settings recorded later are not in force.
+    pub as_of: DateTime<Utc>,
+}
+
+/// A project's figures, fed entry by entry.
+pub struct ProjectView {
+    project: Project,
+    sites: Vec<Site>,
+    settings: Vec<Setting>,
+    as_of: DateTime<Utc>,
+    feedstocks: Vec<Feedstock>,
+    /// Effective entries in seq order, for the geological balance and the tables that list them.
+    entries: Vec<Entry>,
+    samples: Vec<SampleRead>,
+    batches: Vec<(usize, Batch)>,
+    applications: Vec<Application>,
+    cores: Vec<Core>,
+}
+
+impl ProjectView {
+    pub fn new(r: Registrations) -> Result<ProjectView, ViewError> {
+        let feedstocks = r
+            .feedstocks
+            .iter()
+            .map(evidence::analysed)
+            .collect::<Result<_, _>>()?;
+        Ok(ProjectView {
+            project: r.project,
+            sites: r.sites,
+            settings: r.settings,
+            as_of: r.as_of,
+            feedstocks,
+            entries: Vec::new(),
+            samples: Vec::new(),
+            batches: Vec::new(),
+            applications: Vec::new(),
+            cores: Vec::new(),
+        })
+    }
+
+    /// Takes one effective entry; its reading is decoded now, once.
+    pub fn add(&mut self, e: &Entry) -> Result<(), ViewError> {
+        match e.kind {
+            EntryKind::TracerSample => self.samples.push(SampleRead::of(e)?),
+            EntryKind::Carbonation => {
+                let b = evidence::batch_of(e)?;
+                self.batches.push((self.entries.len(), b));
+            }
+            EntryKind::Application => self.applications.push(evidence::application_of(e)?),
+            EntryKind::SoilSample => self.cores.push(evidence::core_of(e)?),
+            _ => {}
+        }
+        self.entries.push(e.clone());
+        Ok(())
+    }
+
+    pub fn finish(self) -> ProjectFigures {
+        let campaigns = basalt::campaigns(&self.samples);
+        ProjectFigures {
+            view: self,
+            campaigns,
+        }
+    }
+}
+
+/// What a project stores, asked period by period.
+pub struct ProjectFigures {
+    view: ProjectView,
+    campaigns: Vec<CampaignRead>,
+}
+
+impl ProjectFigures {
+    pub fn project(&self) -> &Project {
+        &self.view.project
+    }
+
+    pub fn sites(&self) -> &[Site] {
+        &self.view.sites
+    }
+
+    /// The effective entries, in seq order.
+    pub fn entries(&self) -> impl Iterator<Item = &Entry> {
+        self.view.entries.iter()
+    }
+
+    /// The claim rules in force at the view's date.
+    pub fn rules(&self, deduction: DeductionRule) -> ClaimRules {
+        rules(&self.view.settings, self.view.as_of, deduction)
+    }
+
+    /// Each period's stored figure, with its uncertainty (95 %), as the project's method
+    /// counts it: what claims start from, what `totals` adds up and what `chart` plots.
+    pub fn stored(&self, grouping: Grouping) -> Result<Vec<(Bucket, Estimate)>, ViewError> {
+        let exact = |m: Mass| Estimate::absolute(m, Mass::ZERO);
+        Ok(match self.view.project.method {
+            Method::SalineAquifer
+            | Method::DepletedField
+            | Method::Eor
+            | Method::BasaltMineralization => self
+                .geological(grouping, BalanceMethod::Rr)
+                .into_iter()
+                .map(|l| (l.bucket, l.uncertainty))
+                .collect(),
+            Method::ExSituMineralization => self
+                .carbonation(grouping)
+                .into_iter()
+                .map(|l| (l.bucket, exact(l.net)))
+                .collect(),
+            Method::EnhancedWeathering => self
+                .weathering_rollup(grouping)?
+                .0
+                .into_iter()
+                .map(|l| (l.bucket, exact(l.net)))
+                .collect(),
+        })
+    }
+
+    /// Each period's claim, from stored to claimable.
+    pub fn claims(
+        &self,
+        grouping: Grouping,
+        deduction: DeductionRule,
+    ) -> Result<Vec<(Bucket, Claim)>, ViewError> {
+        let rules = self.rules(deduction);
+        Ok(self
+            .stored(grouping)?
+            .iter()
+            .map(|(b, u)| (*b, period_claim(u, &rules)))
+            .collect())
+    }
+
+    /// The buffer pool: each month's claim contributes its buffer at the month's end, so a
+    /// reversal meets the same pool whatever a table's grouping.
+    pub fn pool(
+        &self,
+        deduction: DeductionRule,
+    ) -> Result<(BufferPool, Vec<PoolEvent>), ViewError> {
+        self.pool_by(BalanceMethod::Rr, deduction)
+    }
+
+    /// The buffer pool with a geological project's claims made by `method`'s mass balance.
+    pub fn pool_by(
+        &self,
+        method: BalanceMethod,
+        deduction: DeductionRule,
+    ) -> Result<(BufferPool, Vec<PoolEvent>), ViewError> {
+        let monthly = match self.view.project.method {
+            Method::SalineAquifer | Method::DepletedField | Method::Eor => {
+                let rules = self.rules(deduction);
+                self.geological(Grouping::Month, method)
+                    .iter()
+                    .map(|l| (l.bucket, period_claim(&l.uncertainty, &rules)))
+                    .collect()
+            }
+            _ => self.claims(Grouping::Month, deduction)?,
+        };
+        Ok(buffer_pool(&monthly, self.entries()))
+    }
+
+    /// Every reversal recorded, as (date, mass).
+    fn reversals(&self) -> impl Iterator<Item = &Entry> {
+        self.entries().filter(|e| e.kind == EntryKind::Reversal)
+    }
+}
+
+/// The figures of a claim, stored to claimable, in the order the claims table shows them.
+pub fn claim_figures(c: &Claim) -> [Mass; 7] {
+    [
+        c.stored,
+        c.uncertainty_deduction,
+        c.conservative,
+        c.durability_discount,
+        c.durable,
+        c.buffer_withheld,
+        c.claimable,
+    ]
+}
+
+/// The claims' figures summed over their periods.
+pub fn claims_total(claims: &[(Bucket, Claim)]) -> [Mass; 7] {
+    let mut total = [Mass::ZERO; 7];
+    for (_, c) in claims {
+        for (t, x) in total.iter_mut().zip(claim_figures(c)) {
+            *t += x;
+        }
+    }
+    total
+}

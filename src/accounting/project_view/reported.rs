@@ -1,0 +1,91 @@
+//! The ledger's side of a reconciliation: each quantity a monitoring report may give, by period,
+//! as the view counts it.
+
+use super::{ProjectFigures, ViewError};
+use crate::accounting::balance::BalanceMethod;
+use crate::accounting::materiality::{Figure, ReportedQuantity, ReportingPeriod};
+use crate::ledger::Method;
+use crate::ledger::period::{Bucket, Grouping};
+use std::collections::BTreeSet;
+
+/// Whether the ledger keeps a figure for the quantity: the mineralized tonnes for basalt
+/// projects, the weathering net for weathering projects, the mass-balance terms for all.
+pub fn ledger_keeps(q: ReportedQuantity, method: Method) -> bool {
+    match q {
+        ReportedQuantity::Mineralized => method == Method::BasaltMineralization,
+        ReportedQuantity::WeatheringNet => method == Method::EnhancedWeathering,
+        _ => true,
+    }
+}
+
+/// The reporting period a bucket is.
+pub fn reporting_period(b: Bucket) -> ReportingPeriod {
+    match b.grouping_rank {
+        0 => ReportingPeriod::Month(b.year, b.part as u8),
+        1 => ReportingPeriod::Quarter(b.year, b.part as u8),
+        _ => ReportingPeriod::Year(b.year),
+    }
+}
+
+fn geological_route(m: Method) -> bool {
+    matches!(
+        m,
+        Method::SalineAquifer | Method::DepletedField | Method::Eor | Method::BasaltMineralization
+    )
+}
+
+impl ProjectFigures {
+    /// The ledger's figures for `quantities` by `grouping` over `years`; "stored" is what the
+    /// route stores (the mass balance by `method`, or the rock route's net).
+    pub fn reported(
+        &self,
+        grouping: Grouping,
+        method: BalanceMethod,
+        quantities: &BTreeSet<ReportedQuantity>,
+        years: &BTreeSet<i32>,
+    ) -> Result<Vec<Figure>, ViewError> {
+        let route = self.project().method;
+        let mut out = Vec::new();
+        let mut push = |b: Bucket, quantity, mass| {
+            if years.contains(&b.year) {
+                out.push(Figure {
+                    period: reporting_period(b),
+                    quantity,
+                    mass,
+                });
+            }
+        };
+        use ReportedQuantity as Q;
+        if route == Method::BasaltMineralization && quantities.contains(&Q::Mineralized) {
+            for l in self.mineralization(grouping)? {
+                push(l.bucket, Q::Mineralized, l.split.mineralized);
+            }
+        }
+        if route == Method::EnhancedWeathering && quantities.contains(&Q::WeatheringNet) {
+            for l in self.weathering_rollup(grouping)?.0 {
+                push(l.bucket, Q::WeatheringNet, l.net);
+            }
+        }
+        if !geological_route(route) && quantities.contains(&Q::Stored) {
+            for (b, u) in self.stored(grouping)? {
+                push(b, Q::Stored, u.value());
+            }
+        }
+        for l in self.geological(grouping, method) {
+            let t = &l.terms;
+            for q in quantities {
+                let mass = match q {
+                    Q::Received => t.received(),
+                    Q::Injected => t.injected,
+                    Q::Produced => t.produced(),
+                    Q::Leakage => t.surface_leakage,
+                    Q::EquipmentLeak => t.leaks_injection_side + t.leaks_production_side,
+                    Q::Stored if geological_route(route) => l.stored,
+                    Q::Stored | Q::Mineralized | Q::WeatheringNet => continue,
+                };
+                push(l.bucket, *q, mass);
+            }
+        }
+        Ok(out)
+    }
+}

@@ -1,0 +1,36 @@
+//! A project's entries fed to the pure view inside the command's transaction: the one place a
+//! command turns stored rows into the figures every report reads.
+
+use super::setup::known_project;
+use crate::accounting::project_view::{ProjectFigures, ProjectView, Registrations};
+use crate::error::Result;
+use crate::ledger::correction::effective;
+use crate::store::Tx;
+use chrono::{DateTime, Utc};
+
+/// A project as the ledger holds it, or held it at `as_of`: with a date, later entries,
+/// corrections, sites, settings and feedstocks are left out, so a past report can be
+/// reproduced exactly. Without one, everything recorded counts, whatever the clock says.
+pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result<ProjectFigures> {
+    let project = known_project(tx, code)?;
+    let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
+    let mut sites = tx.sites(code)?;
+    sites.retain(|s| held(s.registered_at));
+    let mut settings = tx.settings(code)?;
+    settings.retain(|s| held(s.recorded_at));
+    let mut feedstocks = tx.feedstocks(code)?;
+    feedstocks.retain(|f| held(f.registered_at));
+    let mut view = ProjectView::new(Registrations {
+        project,
+        sites,
+        settings,
+        feedstocks,
+        as_of: as_of.unwrap_or(DateTime::<Utc>::MAX_UTC),
+    })?;
+    let mut entries = tx.entries(code)?;
+    entries.retain(|s| held(s.entry.recorded_at));
+    for e in effective(&entries) {
+        view.add(e)?;
+    }
+    Ok(view.finish())
+}
