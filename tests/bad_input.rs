@@ -262,3 +262,37 @@ fn usage_errors_exit_2() {
     assert_eq!(l.run(&["balance", "TFS", "--by", "week"]).code, 2);
     assert_eq!(l.run(&["frobnicate"]).code, 2);
 }
+
+#[test]
+fn masses_beyond_the_ledger_are_refused_never_wrapped() {
+    let l = Ledger::with_tfs();
+    // 9,000,000 Mt is 9 × 10^18 g: three of them would leave i64 grams (9.22 × 10^18). Each is
+    // refused at parse, above the ledger's limit of 10^18 g (1,000,000 Mt).
+    for key in ["a", "b", "c"] {
+        let mut args = inject(&["--mass", "9000000 Mt", "--key"]);
+        args.push(key);
+        refused(
+            &l,
+            &args,
+            "--mass \"9000000 Mt\": is above the largest mass",
+        );
+    }
+    // Three readings of 300,000 Mt are kept exactly: 900,000 Mt = 9 × 10^17 g.
+    for key in ["d", "e", "f"] {
+        let mut args = inject(&["--mass", "300000 Mt", "--over-permit", "--key"]);
+        args.push(key);
+        l.ok(&args);
+    }
+    let b: serde_json::Value =
+        serde_json::from_str(&l.ok(&["--format", "json", "balance", "TFS", "--by", "year"]))
+            .unwrap();
+    assert_eq!(b["balance"][0]["injected_t"], 900_000_000_000.0);
+    // A fourth would take the project's entries to 1.2 × 10^18 g, beyond the limit: refused.
+    let mut args = inject(&["--mass", "300000 Mt", "--over-permit", "--key"]);
+    args.push("g");
+    refused(
+        &l,
+        &args,
+        "would sum to more than the largest mass the ledger keeps",
+    );
+}

@@ -5,7 +5,7 @@
 use crate::chem::gas_mix::{Balance, StreamComposition};
 use crate::error::{Error, Result};
 use crate::ledger::Reading;
-use crate::quantity::mass::round_half_even_f64;
+use crate::quantity::mass::{MassError, grams_of_f64};
 use crate::quantity::volume::{DensityMethod, StandardVolume};
 use crate::quantity::{Fraction, Mass, MassReading};
 
@@ -126,11 +126,13 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
                     }
                     r.push("co2_mass_fraction", format!("{w:.9}"));
                     r.push("conversions", CONVERSIONS);
-                    Some(round_half_even_f64(exact.to_f64() * w))
+                    grams_of_f64(exact.to_f64() * w)
                 }
             }
-            .ok_or_else(|| Error::field("--mass", text, "too large for the ledger"))?;
-            Ok(Measured { reading: r, mass: Mass::from_grams(grams) })
+            .map(Mass::from_grams)
+            .filter(|m| m.within_limit())
+            .ok_or_else(|| Error::field("--mass", text, MassError::TooLarge))?;
+            Ok(Measured { reading: r, mass: grams })
         }
         (None, Some(text)) => {
             let v = StandardVolume::parse(text).map_err(|e| Error::field("--volume", text, e))?;
@@ -153,11 +155,11 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("co2_fraction", f.to_string());
             r.push("co2_basis", "mol");
             r.push("conversions", CONVERSIONS);
-            let grams = vm.kg * 1000.0 * f.to_f64();
-            if !grams.is_finite() || grams >= 9.0e18 {
-                return Err(Error::field("--volume", text, "too large for the ledger"));
-            }
-            Ok(Measured { reading: r, mass: Mass::from_grams(round_half_even_f64(grams)) })
+            let mass = grams_of_f64(vm.kg * 1000.0 * f.to_f64())
+                .map(Mass::from_grams)
+                .filter(|m| m.within_limit())
+                .ok_or_else(|| Error::field("--volume", text, MassError::TooLarge))?;
+            Ok(Measured { reading: r, mass })
         }
     }
 }

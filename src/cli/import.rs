@@ -7,7 +7,7 @@ use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::hash_file;
 use crate::import::meter_csv::{ColumnMap, MeterRow, RowError, for_each_row};
-use crate::ledger::append::{AppendError, Appended, append};
+use crate::ledger::append::{Appended, append};
 use crate::ledger::correction::effective;
 use crate::ledger::{Entry, EntryKind, Evidence, Period, Reading, Site};
 use crate::quantity::Mass;
@@ -259,7 +259,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             let s = match append(entry, &sites[site], (seq, head), None) {
                 Ok(Appended::New(s)) => s,
                 Ok(Appended::Existing(_)) => unreachable!("append without a key holder never finds one"),
-                Err(e @ AppendError::WrongSiteKind { .. }) | Err(e @ AppendError::KeyTaken { .. }) => return Err(Error::field("FILE", &file_name, e)),
+                Err(e) => return Err(Error::field("FILE", &file_name, e)),
             };
             seq += 1;
             head = s.chain;

@@ -6,7 +6,7 @@ use crate::accounting::leakage;
 use crate::accounting::metering::{Basis, MeterInput, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
-use crate::ledger::append::{AppendError, Appended, append, content_key};
+use crate::ledger::append::{AppendError, Appended, append, content_key, within_limit};
 use crate::ledger::correction::{self, effective};
 use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
@@ -730,11 +730,16 @@ pub(super) fn commit(
             correction::target(&all, target)
                 .map_err(|e| Error::field("seq", &target.to_string(), e))?;
         }
+        within_limit(all.iter().map(|s| &s.entry), std::slice::from_ref(&entry)).map_err(|e| {
+            let mass = entry.mass.to_string();
+            Error::field("--mass", entry.reading.get("mass").unwrap_or(&mass), e)
+        })?;
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
         let outcome = append(entry.clone(), &site, tip, holder).map_err(|e| match e {
             AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
             AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
+            AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
         })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {

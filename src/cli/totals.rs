@@ -120,7 +120,11 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             row.push(totals.headroom.map_or(Cell::Empty, Cell::Tonnes));
             t.push(row);
         }
-        all.add(&totals.total);
+        all = all.checked_add(&totals.total).ok_or_else(|| {
+            Error::Refused(
+                "the totals across these projects leave the range of whole grams the ledger counts in (9.2 million Mt); narrow them with --operator, --method or --permit".into(),
+            )
+        })?;
     }
     let mut row = vec![
         Cell::text("all"),

@@ -6,6 +6,7 @@ use super::chain::seal;
 use super::entry::{Entry, SealedEntry};
 use super::hash::Hash;
 use super::project::Site;
+use crate::quantity::Mass;
 use chrono::DateTime;
 
 /// What an append came to.
@@ -29,6 +30,8 @@ pub enum AppendError {
     },
     /// The key is held by an entry with different content.
     KeyTaken { key: String, seq: u64 },
+    /// The project's entries would sum, in magnitude, beyond [`Mass::LIMIT`].
+    BeyondLimit { project: String },
 }
 
 impl std::fmt::Display for AppendError {
@@ -47,8 +50,31 @@ impl std::fmt::Display for AppendError {
                 f,
                 "key {key:?} already holds seq {seq} with a different reading; nothing written (use `correct` to change it)"
             ),
+            Self::BeyondLimit { project } => write!(
+                f,
+                "project {project}'s entries would sum to more than the largest mass the ledger keeps (1,000,000 Mt, 10^18 g); nothing written"
+            ),
         }
     }
+}
+
+/// Refuses new entries that would take the project's entries, summed in magnitude, beyond
+/// [`Mass::LIMIT`]: then no sum a report forms can leave the range of whole grams.
+pub fn within_limit<'a>(
+    existing: impl Iterator<Item = &'a Entry>,
+    new: &'a [Entry],
+) -> Result<(), AppendError> {
+    let limit = i128::from(Mass::LIMIT.grams());
+    let mut total: i128 = 0;
+    for e in existing.chain(new) {
+        total += i128::from(e.mass.grams()).abs();
+        if total > limit {
+            return Err(AppendError::BeyondLimit {
+                project: e.project.clone(),
+            });
+        }
+    }
+    Ok(())
 }
 
 /// A key derived from what the entry says, so that re-running the same command is harmless.

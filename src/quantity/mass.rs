@@ -14,6 +14,11 @@ pub struct Mass(i64);
 impl Mass {
     pub const ZERO: Mass = Mass(0);
 
+    /// The largest magnitude the ledger keeps for a reading or for a project's entries summed:
+    /// 10^18 g, a million megatonnes — far beyond any storage site, and nine times inside the
+    /// i64 range, so every sum a report forms over one project, and over several, stays exact.
+    pub const LIMIT: Mass = Mass(1_000_000_000_000_000_000);
+
     pub const fn from_grams(g: i64) -> Self {
         Self(g)
     }
@@ -40,9 +45,31 @@ impl Mass {
     pub fn checked_add(self, other: Self) -> Option<Self> {
         self.0.checked_add(other.0).map(Self)
     }
+
+    pub fn checked_sub(self, other: Self) -> Option<Self> {
+        self.0.checked_sub(other.0).map(Self)
+    }
+
+    /// [`Mass::scale`], or None when the result would not be a whole number of grams in range.
+    pub fn checked_scale(self, ratio: f64) -> Option<Self> {
+        grams_of_f64(self.0 as f64 * ratio).map(Self)
+    }
+
+    /// Whether the magnitude is within [`Mass::LIMIT`].
+    pub fn within_limit(self) -> bool {
+        self.0.unsigned_abs() <= Self::LIMIT.0.unsigned_abs()
+    }
 }
 
-/// Rounds an f64 to the nearest integer, ties to even; saturates at the i64 range.
+/// Whole grams from an f64, half to even, or None when it is not finite or leaves the i64
+/// range (no silent saturation).
+pub fn grams_of_f64(x: f64) -> Option<i64> {
+    let r = x.round_ties_even();
+    (r.is_finite() && r.abs() < 9_223_372_036_854_775_808.0).then_some(r as i64)
+}
+
+/// Rounds an f64 to the nearest integer, ties to even; saturates at the i64 range (for
+/// figures already bounded by the ledger's limit: a share of a mass, a metered reading).
 pub fn round_half_even_f64(x: f64) -> i64 {
     x.round_ties_even() as i64
 }
@@ -181,7 +208,9 @@ impl fmt::Display for MassError {
             Self::NoUnit => write!(f, "a unit is needed ({MASS_UNITS_HELP})"),
             Self::UnknownUnit(u) => write!(f, "unknown unit {u:?} (use {MASS_UNITS_HELP})"),
             Self::NotPositive => f.write_str("must be greater than zero"),
-            Self::TooLarge => f.write_str("too large for the ledger"),
+            Self::TooLarge => {
+                f.write_str("is above the largest mass the ledger keeps (1,000,000 Mt, 10^18 g)")
+            }
         }
     }
 }
@@ -221,6 +250,7 @@ impl MassReading {
         self.grams_exact()?
             .round_half_even()
             .map(Mass::from_grams)
+            .filter(|m| m.within_limit())
             .ok_or(MassError::TooLarge)
     }
 }
@@ -315,10 +345,17 @@ mod tests {
 
     proptest::proptest! {
         #[test]
-        fn parse_display_round_trip(g in 1i64..i64::MAX / 2) {
+        fn parse_display_round_trip(g in 1i64..=Mass::LIMIT.grams()) {
             let m = Mass::from_grams(g);
             let back = MassReading::parse(&m.to_string()).unwrap().to_mass().unwrap();
             proptest::prop_assert_eq!(back, m);
+        }
+
+        #[test]
+        fn beyond_the_limit_is_refused(g in Mass::LIMIT.grams() + 1..i64::MAX) {
+            let m = Mass::from_grams(g);
+            let r = MassReading::parse(&m.to_string()).unwrap().to_mass();
+            proptest::prop_assert_eq!(r, Err(MassError::TooLarge));
         }
 
         #[test]

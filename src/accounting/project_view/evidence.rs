@@ -10,6 +10,7 @@ use crate::accounting::weathering::composition::{
 };
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::{Entry, Reading};
+use crate::quantity::mass::grams_of_f64;
 use crate::quantity::measure::{DENSITY, parse_depth, parse_measure};
 use crate::quantity::{Decimal, MassReading};
 
@@ -71,14 +72,9 @@ pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
     let read = || -> Decoded<Batch> {
         let fed_g = grams(r, "fed_mass")?;
         let ratio = (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
-        let product = (fed_g as f64 * ratio).round_ties_even();
-        if !product.is_finite() || product.abs() >= i64::MAX as f64 {
-            return Err(format!("product of {fed_g} g fed is out of range"));
-        }
-        Ok(Batch {
-            fed_g,
-            product_g: product as i64,
-        })
+        let product_g = grams_of_f64(fed_g as f64 * ratio)
+            .ok_or_else(|| format!("product of {fed_g} g fed is out of range"))?;
+        Ok(Batch { fed_g, product_g })
     };
     read().map_err(|w| undecodable(e, w))
 }

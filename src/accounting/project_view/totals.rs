@@ -35,6 +35,36 @@ impl TotalsLine {
         self.reversed += o.reversed;
     }
 
+    /// Adds another project's line, or None when a sum would leave the range of whole grams
+    /// (each project stays within [`Mass::LIMIT`], a ledger of many such projects need not).
+    pub fn checked_add(&self, o: &TotalsLine) -> Option<TotalsLine> {
+        let [a, b] = [self.figures(), o.figures()];
+        let mut s = [Mass::ZERO; 8];
+        for i in 0..8 {
+            s[i] = a[i].checked_add(b[i])?;
+        }
+        let [
+            received,
+            injected,
+            stored,
+            conservative,
+            durable,
+            buffer,
+            claimable,
+            reversed,
+        ] = s;
+        Some(TotalsLine {
+            received,
+            injected,
+            stored,
+            conservative,
+            durable,
+            buffer,
+            claimable,
+            reversed,
+        })
+    }
+
     pub fn figures(&self) -> [Mass; 8] {
         [
             self.received,
