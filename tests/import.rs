@@ -1,5 +1,6 @@
-//! Meter import: file edge cases, all-or-nothing, idempotency, traceability to raw rows, and an
-//! import killed mid-way leaving the ledger exactly as before.
+//! Meter import: file edge cases, all-or-nothing, idempotency, a meter-day counted once,
+//! readings traced back to the kept file, and an import stopped mid-way by the planner's fault
+//! point leaving the ledger exactly as before.
 
 mod common;
 use common::Ledger;
@@ -89,21 +90,61 @@ fn the_same_file_twice_writes_nothing_the_second_time() {
     assert!(again.contains("was already imported into TFS"), "{again}");
     assert!(again.contains("nothing written"));
     assert_eq!(l.count("TFS"), 2);
-    // A different export covering the same meter-day goes in, with a warning about double counting.
-    let g = write(
-        &l,
-        "b.csv",
-        b"timestamp,site,quantity,unit,co2_fraction\n2026-03-02,TF-I1,101,t,1\n",
-    );
+    // The same file with one blank line more is another SHA-256, but its meter-days are counted
+    // already: refused, nothing written, the earlier entries named.
+    let mut more = std::fs::read(&f).unwrap();
+    more.extend_from_slice(b"\n");
+    let g = write(&l, "a-again.csv", &more);
     let r = l.run(&["import", "TFS", &g]);
-    assert_eq!(r.code, 0);
+    assert_eq!(r.code, 1, "{}", r.err);
     assert!(
-        r.err.contains("meter TF-I1 on 2026-03-02 is also in seq 1"),
+        r.err.contains("2 meter-days are already counted in the ledger, nothing written")
+            && r.err.contains("meter TF-I1 on 2026-03-01 is seq 0 (from a.csv); meter TF-I1 on 2026-03-02 is seq 1 (from a.csv)"),
         "{}",
         r.err
     );
+    assert_eq!(l.count("TFS"), 2);
 }
 
+#[test]
+fn a_re_export_replaces_its_meter_days_only_when_asked() {
+    let l = Ledger::with_tfs();
+    let feb = write(&l, "feb.csv", b"timestamp,site,quantity,unit,co2_fraction\n2026-02-01,TF-I1,100,t,1\n2026-02-02,TF-I1,100,t,1\n");
+    l.ok(&["import", "TFS", &feb]);
+    // The re-export revises 2 February and adds 3 February.
+    let resent = write(&l, "feb-resent.csv", b"timestamp,site,quantity,unit,co2_fraction\n2026-02-02,TF-I1,120,t,1\n2026-02-03,TF-I1,90,t,1\n");
+    let r = l.run(&["import", "TFS", &resent]);
+    assert_eq!(r.code, 1);
+    assert!(
+        r.err
+            .contains("meter TF-I1 on 2026-02-02 is seq 1 (from feb.csv)"),
+        "{}",
+        r.err
+    );
+    assert_eq!(l.count("TFS"), 2);
+    let out = l.ok(&["import", "TFS", &resent, "--replace"]);
+    assert!(
+        out.contains("2 readings → 2 entries (1 replacing earlier meter-days)"),
+        "{out}"
+    );
+    let e = entries(&l);
+    assert_eq!(e[2]["corrects"], 1);
+    let sha = l.ok(&["--format", "json", "entries", "TFS"]);
+    assert!(
+        e[2]["reason"]
+            .as_str()
+            .unwrap()
+            .starts_with("replaced by the meter export feb-resent.csv (SHA-256 "),
+        "{sha}"
+    );
+    assert_eq!(e[3]["corrects"], Value::Null);
+    // February counts 100 + 120 + 90 t: the replaced 100 t of 2 February no longer counts.
+    let b: Value =
+        serde_json::from_str(&l.ok(&["--format", "json", "balance", "TFS", "--by", "month"]))
+            .unwrap();
+    assert!(b.to_string().contains("310"), "{b}");
+    assert_eq!(l.run(&["verify"]).code, 0);
+}
 #[test]
 fn columns_map_other_header_names() {
     let l = Ledger::with_tfs();
@@ -160,39 +201,33 @@ fn refused_rows_name_the_line_and_reason() {
 }
 
 #[test]
-fn killed_mid_import_leaves_the_ledger_as_before() {
+fn an_import_stopped_by_the_fault_point_leaves_the_ledger_as_before() {
     let l = Ledger::with_tfs();
     l.inject("TF-I1", "10 t", "2026-01-01", "2026-01-01", "before");
     let before = l.ok(&["--format", "json", "entries", "TFS"]);
-    let mut csv = String::with_capacity(30_000_000);
-    csv.push_str("timestamp,site,quantity,unit,co2_fraction,meter\n");
-    for i in 0..600_000u64 {
-        let day = 1 + (i / 2_000) % 28;
+    let mut csv = String::from("timestamp,site,quantity,unit,co2_fraction,meter\n");
+    for i in 0..3_000u64 {
+        let day = 1 + i / 200;
         csv.push_str(&format!(
-            "2026-04-{day:02}T00:00:00Z,TF-I1,{}.5,kg,0.99,FM-101\n",
+            "2026-04-{day:02}T00:{:02}:{:02}Z,TF-I1,{}.5,kg,0.99,FM-101\n",
+            i / 60 % 60,
+            i % 60,
             i % 900
         ));
     }
     let f = write(&l, "big.csv", csv.as_bytes());
-    let mut child = std::process::Command::new(assert_cmd::cargo::cargo_bin("sinkbook"))
+    let r = std::process::Command::new(assert_cmd::cargo::cargo_bin("sinkbook"))
         .env("SINKBOOK_NOW", common::NOW)
+        .env("SINKBOOK_FAULT_AFTER_ROWS", "2000")
         .arg("--db")
         .arg(&l.path)
         .args(["import", "TFS", &f])
-        .stdout(std::process::Stdio::null())
-        .stderr(std::process::Stdio::null())
-        .spawn()
+        .output()
         .unwrap();
-    std::thread::sleep(std::time::Duration::from_millis(700));
-    let finished_first = child.try_wait().unwrap().is_some();
-    child.kill().ok();
-    child.wait().unwrap();
-    if finished_first {
-        eprintln!(
-            "notice: the import finished within 700 ms on this machine; the kill came too late to test"
-        );
-        return;
-    }
+    assert!(
+        !r.status.success() && r.status.code().is_none(),
+        "the fault point did not stop the import: {r:?}"
+    );
     assert_eq!(
         l.ok(&["--format", "json", "entries", "TFS"]),
         before,
@@ -201,5 +236,114 @@ fn killed_mid_import_leaves_the_ledger_as_before() {
     assert_eq!(l.run(&["verify"]).code, 0);
     // And the same file imports whole afterwards.
     l.ok(&["import", "TFS", &f]);
-    assert_eq!(l.count("TFS"), 1 + 28);
+    assert_eq!(l.count("TFS"), 1 + 15);
+}
+
+#[test]
+fn a_row_given_twice_is_refused_or_listed() {
+    let l = Ledger::with_tfs();
+    let f = write(&l, "twice.csv", b"timestamp,site,quantity,unit,co2_fraction,meter\n2026-05-01T06:00:00Z,TF-I1,10,t,1,FM-101\n2026-05-01T07:00:00Z,TF-I1,10,t,1,FM-101\n2026-05-01T06:00:00Z,TF-I1,10,t,1,FM-101\n");
+    let r = l.run(&["import", "TFS", &f]);
+    assert_eq!(r.code, 1);
+    assert!(
+        r.err.contains(
+            "line 4: a second reading of meter FM-101 at the same time as an earlier row"
+        ),
+        "{}",
+        r.err
+    );
+    let r = l.run(&["import", "TFS", &f, "--skip-bad"]);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert!(
+        r.err.contains("warning: skipped line 4: a second reading"),
+        "{}",
+        r.err
+    );
+    assert_eq!(entries(&l)[0]["co2_g"], 20_000_000i64);
+}
+
+#[test]
+fn an_open_quote_is_counted_with_every_line_it_swallows() {
+    let l = Ledger::with_tfs();
+    let mut csv = String::from(
+        "timestamp,site,quantity,unit,co2_fraction\n2026-06-01,TF-I1,10,t,1\n2026-06-02,TF-I1,\"10,t,1\n",
+    );
+    for d in 3..=30 {
+        csv.push_str(&format!("2026-06-{d:02},TF-I1,10,t,1\n"));
+    }
+    let f = write(&l, "quote.csv", csv.as_bytes());
+    let r = l.run(&["import", "TFS", &f]);
+    assert_eq!(r.code, 1);
+    assert!(
+        r.err.contains("1 bad row taking 29 lines")
+            && r.err
+                .contains("lines 3–31: a quoted field runs over 29 lines"),
+        "{}",
+        r.err
+    );
+    let out = l.ok(&["import", "TFS", &f, "--skip-bad"]);
+    assert!(
+        out.contains("1 readings → 1 entries, 1 bad rows skipped (29 lines)"),
+        "{out}"
+    );
+}
+
+#[test]
+fn readings_are_read_back_from_the_kept_file_and_a_changed_byte_is_caught() {
+    let l = Ledger::with_tfs();
+    let f = write(&l, "may.csv", b"timestamp,site,quantity,unit,co2_fraction,meter\n2026-05-01T06:00:00Z,TF-I2,310,t,0.99,FM-201\n2026-05-01T18:00:00Z,TF-I2,290,t,0.99,FM-201\n2026-05-02T06:00:00Z,TF-I2,305,t,0.99,FM-201\n");
+    l.ok(&["import", "TFS", &f]);
+    let out = l.ok(&[
+        "readings",
+        "TFS",
+        "--meter",
+        "FM-201",
+        "--day",
+        "2026-05-01",
+    ]);
+    assert!(
+        out.contains("2026-05-01T18:00:00Z") && out.contains("may.csv"),
+        "{out}"
+    );
+    assert!(!out.contains("2026-05-02T06"), "{out}");
+    let rec = l.ok(&[
+        "reconcile",
+        "TFS",
+        &write(
+            &l,
+            "r.csv",
+            b"period,quantity,value,unit\n2026,injected,1,t\n",
+        ),
+        "--recompute",
+    ]);
+    assert!(
+        rec.contains("2 imported meter-days recomputed from their raw readings; 0 differ"),
+        "{rec}"
+    );
+    // Change one byte of the kept file (triggers dropped, as an attacker would).
+    let conn = sqlite(&l);
+    conn(&[
+        "DROP TRIGGER import_evidence_append_only_update;",
+        "UPDATE import_evidence SET bytes = CAST(replace(CAST(bytes AS TEXT), '290', '390') AS BLOB);",
+    ]);
+    let r = l.run(&["verify"]);
+    assert_eq!(r.code, 3, "{}", r.err);
+    assert!(
+        r.err
+            .contains("project TFS import 1 (may.csv): its kept bytes"),
+        "{}",
+        r.err
+    );
+}
+
+/// Runs SQL on the ledger file with the sqlite3 shell.
+fn sqlite(l: &Ledger) -> impl Fn(&[&str]) + '_ {
+    move |sql: &[&str]| {
+        let o = std::process::Command::new("sqlite3")
+            .arg(&l.path)
+            .arg(sql.join(" "))
+            .output()
+            .expect("the sqlite3 shell is needed for this test");
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    }
 }

@@ -7,7 +7,7 @@ use crate::error::{Error, Result};
 use crate::ledger::Reading;
 use crate::quantity::mass::{MassError, grams_of_f64};
 use crate::quantity::volume::{DensityMethod, StandardVolume};
-use crate::quantity::{Fraction, Mass, MassReading};
+use crate::quantity::{Decimal, Fraction, Mass, MassReading};
 
 /// What a CO2 fraction is a fraction of.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
@@ -118,7 +118,7 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("co2_basis", basis.name());
             let exact = m.grams_exact().map_err(|e| Error::field("--mass", text, e))?;
             let grams = match basis {
-                Basis::Mass => exact.checked_mul(f.value()).and_then(|g| g.round_half_even()),
+                Basis::Mass => co2_of_stream_mass(exact, f).map(Mass::grams),
                 Basis::Mol => {
                     let w = mass_fraction_from_mol(f, input.impurities)?;
                     if let Some(i) = input.impurities {
@@ -155,13 +155,29 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("co2_fraction", f.to_string());
             r.push("co2_basis", "mol");
             r.push("conversions", CONVERSIONS);
-            let mass = grams_of_f64(vm.kg * 1000.0 * f.to_f64())
-                .map(Mass::from_grams)
-                .filter(|m| m.within_limit())
+            let mass = co2_of_stream_kg(vm.kg, f)
                 .ok_or_else(|| Error::field("--volume", text, MassError::TooLarge))?;
             Ok(Measured { reading: r, mass })
         }
     }
+}
+
+/// CO2 in a metered stream mass given exactly in grams, at a CO2 mass fraction: exact, rounded
+/// half to even once. None when it leaves the ledger's range.
+pub fn co2_of_stream_mass(stream_grams: Decimal, mass_fraction: Fraction) -> Option<Mass> {
+    stream_grams
+        .checked_mul(mass_fraction.value())
+        .and_then(Decimal::round_half_even)
+        .map(Mass::from_grams)
+        .filter(|m| m.within_limit())
+}
+
+/// CO2 in a stream of `stream_kg` kilograms (a standard volume times its density) at a CO2
+/// volume fraction, rounded half to even once. None when it leaves the ledger's range.
+pub fn co2_of_stream_kg(stream_kg: f64, volume_fraction: Fraction) -> Option<Mass> {
+    grams_of_f64(stream_kg * 1000.0 * volume_fraction.to_f64())
+        .map(Mass::from_grams)
+        .filter(|m| m.within_limit())
 }
 
 #[cfg(test)]

@@ -1,23 +1,26 @@
-//! `import`: a meter export in, raw readings kept, one entry per meter per day, all or nothing.
+//! `import`: a meter export in, its bytes kept as evidence, one entry per meter per day, all
+//! or nothing. The planner in `import/` does the reading; this file takes the arguments, writes
+//! the plan and shows the summary.
 
 use super::Context;
 use super::record::DensityArg;
 use super::setup::known_project;
 use crate::accounting::permit;
 use crate::error::{Error, Result};
-use crate::import::hash_file;
-use crate::import::meter_csv::{ColumnMap, MeterRow, RowError, for_each_row};
+use crate::import::meter_csv::ColumnMap;
+use crate::import::meter_day::Source;
+use crate::import::overlap::{self, Covered};
+use crate::import::plan::{Options, Plan};
+use crate::import::plan_file;
 use crate::ledger::append::{Appended, append};
-use crate::ledger::correction::effective;
-use crate::ledger::{Entry, EntryKind, Evidence, Period, Reading, Site};
+use crate::ledger::{EntryKind, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
 use crate::report::{Cell, Report, Table, columns};
-use crate::store::{NewImport, ReadingRow};
+use crate::store::{NewImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
 use std::collections::{BTreeMap, HashMap};
-use std::io::IsTerminal;
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -40,28 +43,13 @@ pub struct ImportArgs {
     /// Record even though the file takes the project past its permit
     #[arg(long)]
     pub over_permit: bool,
+    /// The file replaces an earlier export: each meter-day already counted is recorded as a
+    /// correction of the entry that counts it
+    #[arg(long)]
+    pub replace: bool,
 }
 
-/// A meter's day, rolled up from its rows.
-#[derive(Default)]
-struct Day {
-    grams: i64,
-    rows: u64,
-    first_line: u64,
-    last_line: u64,
-    mass_rows: u64,
-    volume_rows: u64,
-    /// Grams of stream read by mass meters, and standard m³ read by volumetric ones.
-    mass_read: f64,
-    volume_read: f64,
-    /// Σ read × CO2 fraction, for the day's weighted mean concentration.
-    weighted_fraction: f64,
-}
-
-/// Rows handed from the parser thread at a time.
-const CHUNK: usize = 4_096;
-
-/// Bad rows listed in the one-line refusal before "and N more".
+/// Bad rows or overlaps listed in the one-line refusal before "and N more".
 const LISTED: usize = 20;
 
 pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
@@ -75,245 +63,169 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
-    let (sha, size) = hash_file(&a.file)?;
-    let show_progress = std::io::stderr().is_terminal() && size > 16 << 20;
+    let size = std::fs::metadata(&a.file)
+        .map_err(|e| Error::field("FILE", &a.file.display().to_string(), e))?
+        .len();
+    crate::store::room_for_import(&ctx.db, size)?;
     ctx.open()?.write(|tx| {
         let project = known_project(tx, &a.project)?;
-        if let Some(prev) = tx.import_of(&a.project, sha)? {
-            return Ok(Report::default().line(format!(
-                "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
-                sha.head(),
-                a.project,
-                prev.imported_at.format("%Y-%m-%d %H:%M:%S UTC"),
-                prev.id,
-                prev.rows
-            )));
-        }
         let sites: HashMap<String, Site> = tx.sites(&a.project)?.into_iter().map(|s| (s.code.clone(), s)).collect();
         let import_id = tx.next_import_id()?;
-        let key_prefix = format!("import-{}", &sha.to_hex()[..16]);
-        // Per meter (looked up by reference, so a row costs no key copies): its site and days.
-        let mut meter_index: HashMap<String, usize> = HashMap::new();
-        let mut meters: Vec<(String, String, BTreeMap<NaiveDate, Day>)> = Vec::new();
-        let mut batch: Vec<ReadingRow> = Vec::with_capacity(20_000);
-        let mut bad: Vec<RowError> = Vec::new();
-        let mut accepted = 0i64;
-        let check_site = |r: &MeterRow| -> std::result::Result<(), String> {
-            match sites.get(&r.site) {
-                None => Err(format!("site {:?} is not a site of project {}", r.site, a.project)),
-                Some(s) if !kind.site_kinds().contains(&s.kind) => Err(format!("site {} is a {}; {kind} entries are recorded at sites of kind {}", s.code, s.kind, kind.site_kinds().iter().map(|k| k.name()).collect::<Vec<_>>().join(" or "))),
-                Some(_) => Ok(()),
-            }
-        };
-        // Parsing runs on a second thread while this one writes: the file is converted and
-        // checked in chunks handed over a bounded channel, so memory stays flat.
-        let (sender, receiver) = std::sync::mpsc::sync_channel::<Vec<std::result::Result<MeterRow, RowError>>>(8);
-        let (file, columns, name) = (&a.file, &columns, &file_name);
-        std::thread::scope(|scope| -> Result<()> {
-            let parser = scope.spawn(move || {
-                let mut chunk = Vec::with_capacity(CHUNK);
-                let parsed = for_each_row(
-                    file,
-                    columns,
-                    density,
-                    |row| {
-                        chunk.push(row);
-                        if chunk.len() == CHUNK {
-                            sender.send(std::mem::take(&mut chunk)).map_err(|_| Error::Store("import stopped".into()))?;
-                        }
-                        Ok(())
-                    },
-                    |bytes| {
-                        if show_progress {
-                            eprint!("\rimporting {name}: {:>3} %", bytes * 100 / size.max(1));
-                        }
-                    },
-                );
-                if !chunk.is_empty() {
-                    let _ = sender.send(chunk);
-                }
-                parsed
-            });
-            let receiver = receiver;
-            for row in receiver.into_iter().flatten() {
-                let row = row.and_then(|r| match check_site(&r) {
-                    Ok(()) => Ok(r),
-                    Err(why) => Err(RowError { line: r.line, why }),
-                });
-                match row {
-                    Err(e) => bad.push(e),
-                    Ok(r) => {
-                        let i = match meter_index.get(r.meter.as_str()) {
-                            Some(&i) => i,
-                            None => {
-                                meter_index.insert(r.meter.clone(), meters.len());
-                                meters.push((r.site.clone(), r.meter.clone(), BTreeMap::new()));
-                                meters.len() - 1
-                            }
-                        };
-                        if meters[i].0 != r.site {
-                            bad.push(RowError { line: r.line, why: format!("meter {} is at site {} in earlier rows, here at site {}", r.meter, meters[i].0, r.site) });
-                            continue;
-                        }
-                        let d = meters[i].2.entry(r.day).or_default();
-                        if d.rows == 0 {
-                            d.first_line = r.line;
-                        }
-                        d.last_line = r.line;
-                        d.rows += 1;
-                        d.grams = d.grams.checked_add(r.grams).ok_or_else(|| Error::field("FILE", &file_name, "totals too large for the ledger"))?;
-                        if r.volumetric {
-                            d.volume_rows += 1;
-                            d.volume_read += r.read;
-                        } else {
-                            d.mass_rows += 1;
-                            d.mass_read += r.read;
-                        }
-                        d.weighted_fraction += r.read * r.fraction;
-                        accepted += 1;
-                        batch.push(ReadingRow {
-                            import_id,
-                            line: r.line as i64,
-                            meter: r.meter,
-                            day: r.day.to_string(),
-                            grams: r.grams,
-                            raw: r.raw,
-                        });
-                        if batch.len() == batch.capacity() {
-                            tx.add_readings(import_id, &batch)?;
-                            batch.clear();
-                        }
-                    }
-                }
-            }
-            parser.join().map_err(|_| Error::Store("the import's parser thread failed".into()))?
+        let opts = Options { file_name: &file_name, project: &a.project, kind, columns: &columns, density, sites: &sites, watch: None };
+        // The file is read once, inside a savepoint: its bytes are kept as they are read, and
+        // dropped again if they turn out to be a file imported before.
+        let planned = tx.savepoint(|tx| {
+            let progress = super::progress::bytes(&file_name, size);
+            let mut part = 0;
+            let plan = plan_file(&a.file, &opts, |bytes| {
+                tx.add_evidence(import_id, part, bytes)?;
+                part += 1;
+                progress.inc(bytes.len() as u64);
+                Ok(())
+            })?;
+            progress.finish_and_clear();
+            let earlier = tx.import_of(&a.project, plan.sha256)?;
+            let keep = earlier.is_none();
+            Ok(((plan, earlier), keep))
         })?;
-        if show_progress {
-            eprintln!("\rimporting {file_name}: 100 %");
-        }
-        if !bad.is_empty() && !a.skip_bad {
-            let listed: Vec<String> = bad.iter().take(LISTED).map(ToString::to_string).collect();
-            let more = if bad.len() > LISTED { format!("; and {} more", bad.len() - LISTED) } else { String::new() };
-            return Err(Error::Refused(format!(
-                "{file_name}: {} bad row{}, nothing written (fix them, or import the rest with --skip-bad): {}{more}",
-                bad.len(),
-                if bad.len() == 1 { "" } else { "s" },
-                listed.join("; ")
-            )));
-        }
-        if accepted == 0 {
-            return Err(Error::field("FILE", &file_name, format!("has no readings to import ({} bad rows skipped); nothing written", bad.len())));
-        }
-        tx.add_readings(import_id, &batch)?;
-
-        // One entry per meter per day, in day order, each naming the file and its lines.
-        let existing = tx.entries(&a.project)?;
-        let (mut seq, mut head) = tx.chain_tip(&a.project)?;
-        let mut days: Vec<(NaiveDate, &str, &str, &Day)> = meters
-            .iter()
-            .flat_map(|(site, meter, ds)| ds.iter().map(move |(day, d)| (*day, site.as_str(), meter.as_str(), d)))
-            .collect();
-        days.sort_by_key(|&(day, site, meter, _)| (day, site, meter));
-        let mut sealed = Vec::with_capacity(days.len());
-        for &(day, site, meter, d) in &days {
-            let mut reading = Reading::default();
-            reading.push("source", "meter import");
-            reading.push("file", file_name.clone());
-            reading.push("file_sha256", sha.to_hex());
-            reading.push("lines", format!("{}-{}", d.first_line, d.last_line));
-            reading.push("readings", d.rows.to_string());
-            let meter_type = match (d.mass_rows, d.volume_rows) {
-                (_, 0) => "mass",
-                (0, _) => "volumetric",
-                _ => "mixed",
-            };
-            reading.push("meter_type", meter_type);
-            if d.mass_rows > 0 {
-                reading.push("mass", Mass::from_grams(d.mass_read.round_ties_even() as i64).to_string());
-            }
-            if d.volume_rows > 0 {
-                reading.push("volume_m3", format!("{:.6}", d.volume_read));
-            }
-            let read = d.mass_read + d.volume_read;
-            if read > 0.0 && meter_type != "mixed" {
-                reading.push("co2_fraction_mean", format!("{:.6}", d.weighted_fraction / read));
-            }
-            reading.push("density_method", density.name());
-            let entry = Entry {
-                project: a.project.clone(),
-                seq: 0,
-                kind,
-                site: site.to_string(),
-                period: Period::day(day),
-                reading,
-                mass: Mass::from_grams(d.grams),
-                sign: kind.sign(),
-                recorded_at: ctx.now,
-                key: format!("{key_prefix}-{meter}-{day}"),
-                meter: Some(meter.to_string()),
-                note: None,
-                corrects: None,
-                reason: None,
-                evidence: Some(Evidence { file_name: file_name.clone(), sha256: sha }),
-            };
-            let s = match append(entry, &sites[site], (seq, head), None) {
-                Ok(Appended::New(s)) => s,
-                Ok(Appended::Existing(_)) => unreachable!("append without a key holder never finds one"),
-                Err(e) => return Err(Error::field("FILE", &file_name, e)),
-            };
-            seq += 1;
-            head = s.chain;
-            sealed.push(s);
-        }
-        let new: Vec<Entry> = sealed.iter().map(|s| s.entry.clone()).collect();
-        let mut warnings = if kind == EntryKind::Injection || kind == EntryKind::Production || kind == EntryKind::EquipmentLeak {
-            permit::check(&project, &existing, &new, a.over_permit)?
+        let plan = match planned {
+            (plan, Some(prev)) => return Ok(Report::default().line(format!(
+                "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
+                plan.sha256.head(), a.project, prev.imported_at.format("%Y-%m-%d %H:%M:%S UTC"), prev.id, prev.rows
+            ))),
+            (plan, None) => plan,
+        };
+        refuse_bad_rows(&file_name, &plan, a.skip_bad)?;
+        let source = Source { project: &a.project, kind, file_name: &file_name, sha256: plan.sha256, density, recorded_at: ctx.now };
+        let covered = covered_days(tx, &a.project, kind, &plan)?;
+        let new = overlap::entries(&plan.days, &source, &covered, a.replace).map_err(|o| {
+            Error::Refused(format!(
+                "{file_name}: {} meter-day{} already counted in the ledger, nothing written (a meter-day counts once: if this file replaces the earlier export, import it with --replace): {}",
+                o.len(),
+                if o.len() == 1 { " is" } else { "s are" },
+                listed(&o)
+            ))
+        })?;
+        let mut warnings = if matches!(kind, EntryKind::Injection | EntryKind::Production | EntryKind::EquipmentLeak) {
+            permit::check(&project, &tx.entries(&a.project)?, &new, a.over_permit)?
         } else {
             Vec::new()
         };
-        warnings.extend(overlaps(&existing, &new));
-        warnings.extend(bad.iter().map(|b| format!("skipped {b}")));
+        let mut tip = tx.chain_tip(&a.project)?;
+        let mut sealed = Vec::with_capacity(new.len());
+        for e in new {
+            let site = &sites[&e.site];
+            match append(e, site, tip, None).map_err(|e| Error::field("FILE", &file_name, e))? {
+                Appended::New(s) | Appended::Existing(s) => {
+                    tip = (tip.0 + 1, s.chain);
+                    sealed.push(s);
+                }
+            }
+        }
         tx.append(&sealed)?;
         tx.add_import(&NewImport {
             id: import_id,
             project: &a.project,
             file_name: &file_name,
-            sha256: sha,
+            sha256: plan.sha256,
+            bytes: plan.bytes,
             kind: kind.name(),
-            rows: accepted,
+            columns: a.columns.as_deref().unwrap_or(""),
+            density: density.name(),
+            rows: i64::try_from(plan.accepted).unwrap_or(i64::MAX),
             at: ctx.now,
         })?;
+        warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
+        let replaced = sealed.iter().filter(|s| s.entry.corrects.is_some()).count();
         let mut report = Report::default()
-            .line(format!(
-                "imported {file_name} (SHA-256 {}) into {} as import {import_id}: {accepted} readings → {} entries{}",
-                sha.head(),
-                a.project,
-                sealed.len(),
-                if bad.is_empty() { String::new() } else { format!(", {} bad rows skipped", bad.len()) }
-            ))
+            .line(summary_line(&file_name, &a.project, import_id, &plan, sealed.len(), replaced))
             .table(summary_table(&a.project, &sealed));
         report.warnings = warnings;
         Ok(report)
     })
 }
 
-/// Meter-days that an earlier entry already covers: a re-sent export would count twice.
-fn overlaps(existing: &[crate::ledger::SealedEntry], new: &[Entry]) -> Vec<String> {
-    let seen: HashMap<(EntryKind, Option<&str>, NaiveDate), u64> = effective(existing)
-        .filter(|e| e.period.from == e.period.to)
-        .map(|e| ((e.kind, e.meter.as_deref(), e.period.from), e.seq))
-        .collect();
-    new.iter()
-        .filter_map(|e| {
-            seen.get(&(e.kind, e.meter.as_deref(), e.period.from)).map(|seq| {
-                format!(
-                    "meter {} on {} is also in seq {seq}; if this file replaces that export, correct seq {seq}",
-                    e.meter.as_deref().unwrap_or(""),
-                    e.period.from
-                )
-            })
-        })
-        .collect()
+fn listed<T: ToString>(items: &[T]) -> String {
+    let shown: Vec<String> = items.iter().take(LISTED).map(ToString::to_string).collect();
+    let more = if items.len() > LISTED {
+        format!("; and {} more", items.len() - LISTED)
+    } else {
+        String::new()
+    };
+    format!("{}{more}", shown.join("; "))
+}
+
+/// Bad rows refuse the file unless `--skip-bad`; a file with nothing good is refused anyway.
+fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
+    let n = plan.bad.len();
+    let lines = plan.bad_lines();
+    let took = if lines as usize > n {
+        format!(" taking {lines} lines")
+    } else {
+        String::new()
+    };
+    if n > 0 && !skip_bad {
+        return Err(Error::Refused(format!(
+            "{file_name}: {n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
+            if n == 1 { "" } else { "s" },
+            listed(&plan.bad)
+        )));
+    }
+    if plan.accepted == 0 {
+        return Err(Error::field(
+            "FILE",
+            file_name,
+            format!("has no readings to import ({n} bad rows skipped{took}); nothing written"),
+        ));
+    }
+    Ok(())
+}
+
+/// The meter-days of the plan's span that the ledger already counts, for this kind of entry.
+fn covered_days(tx: &mut Tx<'_>, project: &str, kind: EntryKind, plan: &Plan) -> Result<Covered> {
+    let (Some(first), Some(last)) = (
+        plan.days.iter().map(|d| d.day).min(),
+        plan.days.iter().map(|d| d.day).max(),
+    ) else {
+        return Ok(Covered::new());
+    };
+    let mut covered = Covered::new();
+    for c in tx.covered_days(project, kind.name(), first, last)? {
+        let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
+            Error::Inconsistent(format!(
+                "project {project} seq {}: period_from {:?} is not a date",
+                c.seq, c.day
+            ))
+        })?;
+        covered.insert((c.meter, day), (c.seq as u64, c.evidence_name));
+    }
+    Ok(covered)
+}
+
+fn summary_line(
+    file_name: &str,
+    project: &str,
+    import_id: i64,
+    plan: &Plan,
+    entries: usize,
+    replaced: usize,
+) -> String {
+    let mut s = format!(
+        "imported {file_name} (SHA-256 {}) into {project} as import {import_id}: {} readings → {entries} entries",
+        plan.sha256.head(),
+        plan.accepted,
+    );
+    if replaced > 0 {
+        s.push_str(&format!(" ({replaced} replacing earlier meter-days)"));
+    }
+    if !plan.bad.is_empty() {
+        let lines = plan.bad_lines();
+        s.push_str(&format!(", {} bad rows skipped", plan.bad.len()));
+        if lines as usize > plan.bad.len() {
+            s.push_str(&format!(" ({lines} lines)"));
+        }
+    }
+    s
 }
 
 /// One meter's share of an import.
@@ -327,7 +239,7 @@ struct MeterSummary {
 }
 
 /// Per meter: days, readings and CO2 of the import.
-fn summary_table(project: &str, sealed: &[crate::ledger::SealedEntry]) -> Table {
+fn summary_table(project: &str, sealed: &[SealedEntry]) -> Table {
     let mut by: BTreeMap<(String, String), MeterSummary> = BTreeMap::new();
     for s in sealed {
         let e = &s.entry;
@@ -377,6 +289,6 @@ fn summary_table(project: &str, sealed: &[crate::ledger::SealedEntry]) -> Table 
             Cell::text(format!("{}–{}", m.seqs.0, m.seqs.1)),
         ]);
     }
-    t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The raw readings are kept with the file's SHA-256 and line numbers.");
+    t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
     t
 }

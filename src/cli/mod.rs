@@ -6,10 +6,12 @@ mod claims;
 mod convert;
 mod demo;
 mod density;
+mod evidence;
 mod import;
 mod inputs;
 mod meters;
 mod potential;
+mod progress;
 mod reconcile;
 mod record;
 mod report;
@@ -74,8 +76,10 @@ pub enum Command {
     Entries(reports::EntriesArgs),
     /// Injected and stored tonnes by period, cumulative, and permit use
     Balance(reports::BalanceArgs),
-    /// Import a meter export (CSV): raw readings kept, one entry per meter per day
+    /// Import a meter export (CSV): its bytes kept as evidence, one entry per meter per day
     Import(import::ImportArgs),
+    /// The imported readings behind one meter-day, re-read from the kept files
+    Readings(evidence::ReadingsArgs),
     /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
     Meters(meters::MetersArgs),
     /// Reconcile the ledger with an independent monitoring report; exit 4 when material
@@ -133,6 +137,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Entries(a) => reports::entries(&ctx, a),
         Command::Balance(a) => reports::balance(&ctx, a),
         Command::Import(a) => import::import(&ctx, a),
+        Command::Readings(a) => evidence::readings(&ctx, a),
         Command::Meters(a) => meters::meters(&ctx, a),
         Command::Reconcile(a) => reconcile::reconcile(&ctx, a),
         Command::Chart(a) => chart::chart(&ctx, a),

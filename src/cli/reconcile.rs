@@ -2,6 +2,7 @@
 //! reporting year the misstatement against materiality. Exit 4 when it is material.
 
 use super::Context;
+use super::evidence::ReadingTotal;
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
@@ -10,14 +11,13 @@ use crate::accounting::materiality::{
 };
 use crate::accounting::project_view::ledger_keeps;
 use crate::error::{Error, Result};
-use crate::import::csv_lines::Lines;
+use crate::import::csv_records::Records;
 use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::{Decimal, Mass, MassReading, MassUnit};
 use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
-use crate::store::ReadingTotal;
 use clap::Args;
 use std::collections::{BTreeSet, HashMap};
 use std::path::PathBuf;
@@ -64,7 +64,7 @@ fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
     let file_field =
         |e: &dyn std::fmt::Display| Error::field("REPORT", &path.display().to_string(), e);
     let file = std::fs::File::open(path).map_err(|e| file_field(&e))?;
-    let mut lines = Lines::new(std::io::BufReader::new(file));
+    let mut lines = Records::new(file);
     let header: Vec<String> = match lines.next_record() {
         Some(Ok(r)) => r.fields().iter().map(|f| f.trim().to_string()).collect(),
         Some(Err(e)) => return Err(file_field(&e)),
@@ -91,7 +91,7 @@ fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
     let mut figures = Vec::new();
     while let Some(r) = lines.next_record() {
         let r = r.map_err(|e| file_field(&e))?;
-        let f = |i: usize| r.field(i).trim();
+        let f = |i: usize| r.field(i).unwrap_or("\u{fffd}").trim();
         let period: ReportingPeriod = f(p)
             .parse()
             .map_err(|e| Error::Refused(format!("report line {}: period: {e}", r.line)))?;
@@ -142,7 +142,7 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     let (view, totals) = ctx.open()?.read(|tx| {
         let v = load(tx, &a.project, None)?;
         let recomputed = if a.recompute {
-            let totals = tx.reading_totals(&a.project)?;
+            let totals = super::evidence::reading_totals(tx, &a.project)?;
             let all = tx.entries(&a.project)?;
             Some(recompute_table(
                 &a.project,

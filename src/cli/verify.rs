@@ -56,6 +56,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             let sites = tx.sites(&p.code)?;
             tx.settings(&p.code)?;
             tx.feedstocks(&p.code)?;
+            super::evidence::check(tx, &p.code)?;
             let entries = tx.entries(&p.code)?;
             let c = check(&p.code, &entries).map_err(|f| Error::Inconsistent(f.to_string()))?;
             for s in &entries {
@@ -88,7 +89,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         }
         Ok(())
     })?;
-    t.note("Checked: SQLite integrity_check; every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered.");
+    t.note("Checked: SQLite integrity_check; every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it.");
     if expected.is_some() {
         t.note("The published chain head given with --expect-head is still held by the chain.");
     }

@@ -1,17 +1,15 @@
 //! Meter exports as CSV: a header row naming the columns, one reading per row. Each row is
-//! validated and converted to grams of CO2 on its own; a bad row is reported with its line.
+//! validated and converted to grams of CO2 on its own; a bad row is reported with its lines.
 
-use crate::accounting::metering::Basis;
+use super::csv_records::Record;
+use crate::accounting::metering::{Basis, co2_of_stream_kg, co2_of_stream_mass};
 use crate::error::{Error, Result};
 use crate::quantity::mass::round_half_even_f64;
 use crate::quantity::volume::{DensityMethod, StandardVolume};
-use crate::quantity::{Decimal, Fraction, MassUnit};
+use crate::quantity::{Decimal, Fraction, Mass, MassUnit};
 use chrono::{DateTime, NaiveDate};
 use std::collections::HashMap;
 use std::fmt;
-use std::path::Path;
-
-use super::csv_lines::{CsvError, Lines};
 
 /// The columns sinkbook reads, by their default header names.
 const REQUIRED: [&str; 5] = ["timestamp", "site", "quantity", "unit", "co2_fraction"];
@@ -59,36 +57,65 @@ impl ColumnMap {
     }
 }
 
-/// A row refused, with its line in the file.
+/// A row refused, with the lines it took in the file.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct RowError {
     pub line: u64,
+    pub last_line: u64,
     pub why: String,
+}
+
+impl RowError {
+    pub fn at(line: u64, why: impl Into<String>) -> Self {
+        RowError {
+            line,
+            last_line: line,
+            why: why.into(),
+        }
+    }
+
+    /// Lines of the file the refused row took.
+    pub fn lines(&self) -> u64 {
+        self.last_line - self.line + 1
+    }
 }
 
 impl fmt::Display for RowError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "line {}: {}", self.line, self.why)
+        if self.last_line > self.line {
+            write!(f, "lines {}–{}: {}", self.line, self.last_line, self.why)
+        } else {
+            write!(f, "line {}: {}", self.line, self.why)
+        }
     }
 }
 
-/// One accepted reading: where it came from and the grams of CO2 it comes to.
+/// What a meter read before the CO2 fraction, in whole units so a day's sum is exact.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Metered {
+    /// Grams of stream, from a mass meter.
+    StreamGrams(i64),
+    /// Cubic centimetres of gas at the unit's reference conditions, from a volumetric meter.
+    VolumeCm3(i64),
+}
+
+/// One accepted reading: where it came from and the grams of CO2 it comes to. Borrows its
+/// names from the record it was read from.
 #[derive(Debug, Clone, PartialEq)]
-pub struct MeterRow {
+pub struct MeterRow<'a> {
     pub line: u64,
-    /// The row as written in the file.
-    pub raw: String,
     /// The meter's own day: the date of the timestamp in the offset it was written with.
     pub day: NaiveDate,
-    pub site: String,
-    pub meter: String,
+    /// The instant read, in nanoseconds since 1970 (UTC), to find a reading given twice.
+    pub instant: i64,
+    pub site: &'a str,
+    pub meter: &'a str,
     pub basis: Basis,
-    pub volumetric: bool,
-    /// What the meter read before the CO2 fraction: grams of stream (mass meters) or standard m³.
-    pub read: f64,
-    /// The CO2 fraction as a number, to weight a day's mean concentration.
-    pub fraction: f64,
-    pub grams: i64,
+    pub metered: Metered,
+    /// The metered quantity × CO2 fraction × 10⁶, in the units of `metered`: the weight of
+    /// the row in its day's mean concentration.
+    pub weighted_fraction: i128,
+    pub co2: Mass,
 }
 
 /// How one unit of a column's unit text becomes CO2: exact grams for a mass, kg from a density
@@ -99,12 +126,20 @@ enum UnitFactor {
     Volume { kg_per_unit: f64, m3_per_unit: f64 },
 }
 
-struct Converter {
+/// Turns the fields of a row into a reading, caching each unit's factor.
+pub struct Converter {
     density: DensityMethod,
     units: HashMap<String, std::result::Result<UnitFactor, String>>,
 }
 
 impl Converter {
+    pub fn new(density: DensityMethod) -> Self {
+        Converter {
+            density,
+            units: HashMap::new(),
+        }
+    }
+
     fn factor(&mut self, unit: &str) -> std::result::Result<UnitFactor, String> {
         if let Some(f) = self.units.get(unit) {
             return f.clone();
@@ -126,15 +161,95 @@ impl Converter {
             })
             .clone()
     }
+
+    /// Converts one row's fields (timestamp, site, quantity, unit, co2_fraction, basis, meter).
+    pub fn row<'a>(
+        &mut self,
+        line: u64,
+        fields: [&'a str; 7],
+    ) -> std::result::Result<MeterRow<'a>, String> {
+        let [taken_at, site, quantity, unit, co2_fraction, basis, meter] = fields;
+        if fields.iter().any(|f| f.contains('\0')) {
+            return Err("the row holds a NUL character".into());
+        }
+        let (day, instant) = taken(taken_at)?;
+        if site.is_empty() {
+            return Err("site is empty".into());
+        }
+        let q = Decimal::parse(quantity).map_err(|e| format!("quantity {quantity:?}: {e}"))?;
+        if q.to_f64() < 0.0 {
+            return Err(format!("quantity {quantity:?}: must not be negative"));
+        }
+        let f = Fraction::parse(co2_fraction)
+            .map_err(|e| format!("co2_fraction {co2_fraction:?}: {e}"))?;
+        let factor = self.factor(unit)?;
+        let basis = row_basis(basis, unit, matches!(factor, UnitFactor::Volume { .. }))?;
+        let too_large = || format!("quantity {quantity:?}: too large");
+        let (metered, weight, co2) = match factor {
+            UnitFactor::Mass(g) => {
+                let stream = q.checked_mul(g).ok_or_else(too_large)?;
+                let grams = stream.round_half_even().ok_or_else(too_large)?;
+                let co2 = co2_of_stream_mass(stream, f).ok_or_else(too_large)?;
+                (Metered::StreamGrams(grams), stream.to_f64(), co2)
+            }
+            UnitFactor::Volume {
+                kg_per_unit,
+                m3_per_unit,
+            } => {
+                let cm3 = whole(q.to_f64() * m3_per_unit * 1e6).ok_or_else(too_large)?;
+                let co2 = co2_of_stream_kg(q.to_f64() * kg_per_unit, f).ok_or_else(too_large)?;
+                (Metered::VolumeCm3(cm3), cm3 as f64, co2)
+            }
+        };
+        Ok(MeterRow {
+            line,
+            day,
+            instant,
+            site,
+            meter: if meter.is_empty() { site } else { meter },
+            basis,
+            metered,
+            weighted_fraction: (weight * f.to_f64() * 1e6).round_ties_even() as i128,
+            co2,
+        })
+    }
 }
 
-/// A timestamp with its offset (RFC 3339, `T` or space) or a bare date; the meter's day.
-fn day_of(text: &str) -> std::result::Result<NaiveDate, String> {
+/// A whole number from a converted quantity, when it is within the ledger's range.
+fn whole(x: f64) -> Option<i64> {
+    (x.is_finite() && x.abs() < 9.0e18).then(|| round_half_even_f64(x))
+}
+
+/// The basis column against the unit: mass units take mass fractions, volumes mole fractions.
+fn row_basis(basis: &str, unit: &str, volumetric: bool) -> std::result::Result<Basis, String> {
+    match (basis, volumetric) {
+        ("" | "mass", false) => Ok(Basis::Mass),
+        ("" | "mol", true) => Ok(Basis::Mol),
+        ("mol", false) => Err(format!(
+            "basis \"mol\" with mass unit {unit:?}: a mass reading needs its CO2 mass fraction (or record it with --impurities)"
+        )),
+        ("mass", true) => Err(format!(
+            "basis \"mass\" with volume unit {unit:?}: a volumetric reading's CO2 fraction is by volume (mol)"
+        )),
+        (other, _) => Err(format!("basis {other:?}: use mass or mol")),
+    }
+}
+
+/// A timestamp with its offset (RFC 3339, `T` or space) or a bare date: the meter's day and
+/// the instant (a bare date is its midnight UTC).
+fn taken(text: &str) -> std::result::Result<(NaiveDate, i64), String> {
+    let out_of_range = || format!("timestamp {text:?} is outside 1677–2262");
     if let Ok(t) = DateTime::parse_from_rfc3339(text) {
-        return Ok(t.date_naive());
+        let nanos = t.timestamp_nanos_opt().ok_or_else(out_of_range)?;
+        return Ok((t.date_naive(), nanos));
     }
     if let Ok(d) = NaiveDate::parse_from_str(text, "%Y-%m-%d") {
-        return Ok(d);
+        let nanos = d
+            .and_time(chrono::NaiveTime::MIN)
+            .and_utc()
+            .timestamp_nanos_opt()
+            .ok_or_else(out_of_range)?;
+        return Ok((d, nanos));
     }
     if chrono::NaiveDateTime::parse_from_str(text, "%Y-%m-%dT%H:%M:%S").is_ok()
         || chrono::NaiveDateTime::parse_from_str(text, "%Y-%m-%d %H:%M:%S").is_ok()
@@ -148,161 +263,51 @@ fn day_of(text: &str) -> std::result::Result<NaiveDate, String> {
     ))
 }
 
-fn convert(
-    line: u64,
-    raw: &str,
-    fields: [&str; 7],
-    conv: &mut Converter,
-) -> std::result::Result<MeterRow, String> {
-    let [taken_at, site, quantity, unit, co2_fraction, basis, meter] = fields;
-    if raw.contains('\0') {
-        return Err("the row holds a NUL character".into());
-    }
-    let day = day_of(taken_at)?;
-    if site.is_empty() {
-        return Err("site is empty".into());
-    }
-    let q = Decimal::parse(quantity).map_err(|e| format!("quantity {quantity:?}: {e}"))?;
-    if q.to_f64() < 0.0 {
-        return Err(format!("quantity {quantity:?}: must not be negative"));
-    }
-    let f =
-        Fraction::parse(co2_fraction).map_err(|e| format!("co2_fraction {co2_fraction:?}: {e}"))?;
-    let factor = conv.factor(unit)?;
-    let volumetric = matches!(factor, UnitFactor::Volume { .. });
-    let basis = match (basis, volumetric) {
-        ("", false) | ("mass", false) => Basis::Mass,
-        ("", true) | ("mol", true) => Basis::Mol,
-        ("mol", false) => {
-            return Err(format!(
-                "basis \"mol\" with mass unit {unit:?}: a mass reading needs its CO2 mass fraction (or record it with --impurities)"
-            ));
-        }
-        ("mass", true) => {
-            return Err(format!(
-                "basis \"mass\" with volume unit {unit:?}: a volumetric reading's CO2 fraction is by volume (mol)"
-            ));
-        }
-        (other, _) => return Err(format!("basis {other:?}: use mass or mol")),
-    };
-    let read = match factor {
-        UnitFactor::Mass(g) => q.checked_mul(g).map_or(f64::INFINITY, Decimal::to_f64),
-        UnitFactor::Volume { m3_per_unit, .. } => q.to_f64() * m3_per_unit,
-    };
-    let grams = match factor {
-        UnitFactor::Mass(g) => q
-            .checked_mul(g)
-            .and_then(|x| x.checked_mul(f.value()))
-            .and_then(Decimal::round_half_even)
-            .ok_or_else(|| format!("quantity {quantity:?}: too large"))?,
-        UnitFactor::Volume { kg_per_unit, .. } => {
-            let g = q.to_f64() * kg_per_unit * 1000.0 * f.to_f64();
-            if !g.is_finite() || g > 9.0e18 {
-                return Err(format!("quantity {quantity:?}: too large"));
-            }
-            round_half_even_f64(g)
-        }
-    };
-    Ok(MeterRow {
-        line,
-        raw: raw.to_string(),
-        day,
-        site: site.to_string(),
-        meter: if meter.is_empty() {
-            site.to_string()
-        } else {
-            meter.to_string()
-        },
-        basis,
-        volumetric,
-        read,
-        fraction: f.to_f64(),
-        grams,
-    })
-}
+/// Where each of sinkbook's columns sits in a file, from its header row.
+#[derive(Debug, Clone, Copy)]
+pub struct Layout([usize; 7]);
 
-/// Streams the rows of `path` to `each`, in file order; `progress` gets the bytes read so far.
-/// A row that cannot be read or converted is passed as a RowError; a file whose header lacks a
-/// column is refused as a whole.
-pub fn for_each_row(
-    path: &Path,
-    columns: &ColumnMap,
-    density: DensityMethod,
-    mut each: impl FnMut(std::result::Result<MeterRow, RowError>) -> Result<()>,
-    mut progress: impl FnMut(u64),
-) -> Result<()> {
-    let file_field = |e: &dyn fmt::Display| Error::field("FILE", &path.display().to_string(), e);
-    let file = std::fs::File::open(path).map_err(|e| file_field(&e))?;
-    let mut lines = Lines::new(std::io::BufReader::with_capacity(1 << 16, file));
-    let headers: Vec<String> = match lines.next_record() {
-        None => return Err(file_field(&"is empty: a header row is needed")),
-        Some(Err(e)) => return Err(file_field(&e)),
-        Some(Ok(r)) => r.fields().iter().map(|h| h.trim().to_string()).collect(),
-    };
-    let find = |ours: &str| headers.iter().position(|h| *h == columns.0[ours]);
-    let mut index = [0usize; 7];
-    for (i, col) in REQUIRED.iter().enumerate() {
-        index[i] = find(col).ok_or_else(|| {
-            file_field(&format!(
-                "the header has no column {:?} for {col} (headers: {}; map others with --columns {col}=NAME)",
-                columns.0[*col],
-                headers.join(", ")
-            ))
-        })?;
-    }
-    for (i, col) in OPTIONAL.iter().enumerate() {
-        index[5 + i] = find(col).unwrap_or(usize::MAX);
-    }
-    let mut conv = Converter {
-        density,
-        units: HashMap::new(),
-    };
-    let mut n = 0u64;
-    while let Some(record) = lines.next_record() {
-        let record = match record {
-            Ok(r) => r,
-            Err(CsvError::Io(e)) => return Err(file_field(&e)),
-            Err(
-                e @ (CsvError::Encoding { line }
-                | CsvError::UnclosedQuote { line }
-                | CsvError::AfterQuote { line }),
-            ) => {
-                each(Err(RowError {
-                    line,
-                    why: format!("unreadable CSV: {e}"),
-                }))?;
-                continue;
-            }
-        };
-        let get = |i: usize| record.field(i).trim();
-        let fields = index.map(get);
-        each(
-            convert(record.line, &record.raw, fields, &mut conv).map_err(|why| RowError {
-                line: record.line,
-                why,
-            }),
-        )?;
-        n += 1;
-        if n.is_multiple_of(65_536) {
-            progress(lines.bytes);
+impl Layout {
+    /// Finds the columns in `headers`; a required one missing refuses the file.
+    pub fn find(headers: &[String], columns: &ColumnMap) -> std::result::Result<Layout, String> {
+        let headers: Vec<&str> = headers.iter().map(|h| h.trim()).collect();
+        let find = |ours: &str| headers.iter().position(|h| *h == columns.0[ours]);
+        let mut index = [usize::MAX; 7];
+        for (i, col) in REQUIRED.iter().enumerate() {
+            index[i] = find(col).ok_or_else(|| {
+                format!(
+                    "the header has no column {:?} for {col} (headers: {}; map others with --columns {col}=NAME)",
+                    columns.0[*col],
+                    headers.join(", ")
+                )
+            })?;
         }
+        for (i, col) in OPTIONAL.iter().enumerate() {
+            index[5 + i] = find(col).unwrap_or(usize::MAX);
+        }
+        Ok(Layout(index))
     }
-    Ok(())
+
+    /// The row's fields in sinkbook's order, trimmed; a field that is not UTF-8 refuses it.
+    pub fn fields<'r>(&self, r: &'r Record) -> std::result::Result<[&'r str; 7], String> {
+        let mut out = [""; 7];
+        for (slot, &i) in out.iter_mut().zip(&self.0) {
+            *slot = r.field(i).ok_or("the row is not UTF-8 text")?.trim();
+        }
+        Ok(out)
+    }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    fn conv() -> Converter {
-        Converter {
-            density: DensityMethod::Eos,
-            units: HashMap::new(),
-        }
+    fn row(fields: [&str; 7]) -> std::result::Result<MeterRow<'_>, String> {
+        Converter::new(DensityMethod::Eos).row(2, fields)
     }
 
-    fn row(fields: [&str; 7]) -> std::result::Result<MeterRow, String> {
-        convert(2, "", fields, &mut conv())
+    fn day(text: &str) -> std::result::Result<NaiveDate, String> {
+        taken(text).map(|(d, _)| d)
     }
 
     #[test]
@@ -317,7 +322,9 @@ mod tests {
             "FM-101",
         ])
         .unwrap();
-        assert_eq!(r.grams, 1_231_742_500);
+        assert_eq!(r.co2.grams(), 1_231_742_500);
+        assert_eq!(r.metered, Metered::StreamGrams(1_250_500_000));
+        assert_eq!(r.weighted_fraction, 1_231_742_500_000_000);
         assert_eq!(r.day, NaiveDate::from_ymd_opt(2026, 1, 5).unwrap());
         assert_eq!(r.basis, Basis::Mass);
     }
@@ -325,23 +332,27 @@ mod tests {
     #[test]
     fn days_follow_the_written_offset() {
         assert_eq!(
-            day_of("2026-01-05T23:30:00-05:00").unwrap(),
+            day("2026-01-05T23:30:00-05:00").unwrap(),
             NaiveDate::from_ymd_opt(2026, 1, 5).unwrap()
         );
         assert_eq!(
-            day_of("2026-01-05 23:30:00Z").unwrap(),
+            day("2026-01-05 23:30:00Z").unwrap(),
             NaiveDate::from_ymd_opt(2026, 1, 5).unwrap()
         );
         assert_eq!(
-            day_of("2026-01-05").unwrap(),
+            day("2026-01-05").unwrap(),
             NaiveDate::from_ymd_opt(2026, 1, 5).unwrap()
         );
         assert!(
-            day_of("2026-01-05T06:00:00")
+            day("2026-01-05T06:00:00")
                 .unwrap_err()
                 .contains("no UTC offset")
         );
-        assert!(day_of("05/01/2026").is_err());
+        assert!(day("05/01/2026").is_err());
+        assert_eq!(
+            taken("2026-01-05T01:00:00+01:00").unwrap().1,
+            taken("2026-01-05").unwrap().1
+        );
     }
 
     #[test]
@@ -387,20 +398,14 @@ mod tests {
 
     #[test]
     fn volume_rows_use_the_density_once_per_unit() {
-        let mut c = Converter {
-            density: DensityMethod::Regulatory,
-            units: HashMap::new(),
-        };
-        let r = convert(
-            3,
-            "",
-            ["2026-01-05", "W", "100", "Mscf", "0.99", "", ""],
-            &mut c,
-        )
-        .unwrap();
+        let mut c = Converter::new(DensityMethod::Regulatory);
+        let r = c
+            .row(3, ["2026-01-05", "W", "100", "Mscf", "0.99", "", ""])
+            .unwrap();
         let expected = 100.0 * 1000.0 * 0.028316846592 * 1.8682 * 1000.0 * 0.99;
-        assert_eq!(r.grams, round_half_even_f64(expected));
-        assert!(r.volumetric);
+        assert_eq!(r.co2.grams(), round_half_even_f64(expected));
+        // 100 Mscf = 2831.6846592 m³ exactly, in cm³.
+        assert_eq!(r.metered, Metered::VolumeCm3(2_831_684_659));
         assert_eq!(c.units.len(), 1);
     }
 

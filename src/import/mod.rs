@@ -1,30 +1,45 @@
-//! Reading user files: the only module that opens them. Meter exports in CSV, streamed.
+//! Reading user files: the only module that opens them. Meter exports in CSV, streamed: the
+//! planner reads a file once, hashing and parsing together, and hands its bytes on to be kept
+//! verbatim as the import's evidence.
 
-pub mod csv_lines;
+pub mod csv_records;
+pub mod evidence;
 pub mod meter_csv;
+pub mod meter_day;
+pub mod overlap;
+pub mod plan;
 
 use crate::error::{Error, Result};
-use crate::ledger::Hash;
-use sha2::{Digest, Sha256};
-use std::io::Read;
+use plan::{Options, Plan};
 use std::path::Path;
 
-/// SHA-256 and size of a file, read in blocks so memory stays flat whatever its size.
-pub fn hash_file(path: &Path) -> Result<(Hash, u64)> {
-    let mut f = std::fs::File::open(path)
+/// Evidence parts in flight between the planner and the writer.
+const PARTS_IN_FLIGHT: usize = 4;
+
+/// Plans the import of the file at `path` on a second thread while this one keeps its bytes:
+/// `keep` gets each evidence part in order (on the calling thread, so it may write to the
+/// ledger). Memory holds a few parts and the meter-days, whatever the file's size.
+pub fn plan_file(
+    path: &Path,
+    opts: &Options<'_>,
+    mut keep: impl FnMut(&[u8]) -> Result<()>,
+) -> Result<Plan> {
+    let file = std::fs::File::open(path)
         .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?;
-    let mut h = Sha256::new();
-    let mut buf = vec![0u8; 1 << 16];
-    let mut size = 0u64;
-    loop {
-        let n = f
-            .read(&mut buf)
-            .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?;
-        if n == 0 {
-            break;
+    let (sender, receiver) = std::sync::mpsc::sync_channel::<Vec<u8>>(PARTS_IN_FLIGHT);
+    std::thread::scope(|scope| {
+        let planner = scope.spawn(move || plan::plan(file, opts, |part| sender.send(part).is_ok()));
+        let mut kept = Ok(());
+        for part in receiver {
+            if let Err(e) = keep(&part) {
+                kept = Err(e);
+                break;
+            }
         }
-        size += n as u64;
-        h.update(&buf[..n]);
-    }
-    Ok((Hash(h.finalize().into()), size))
+        // Dropping the receiver (on a failed write) stops the planner at its next part.
+        let planned = planner
+            .join()
+            .map_err(|_| Error::Store("the import's planner thread failed".into()))?;
+        kept.and(planned)
+    })
 }

@@ -3,21 +3,21 @@
 
 mod connection;
 mod feedstocks;
+mod imports;
 mod rows;
 pub mod schema;
 
 use crate::error::{Error, Result};
 use crate::ledger::{Hash, Project, SealedEntry, Site};
-use diesel::connection::SimpleConnection;
 use diesel::prelude::*;
 use diesel::sqlite::SqliteConnection;
-use rows::{EntryRow, ImportRow, ProjectRow, SettingRow, SiteRow};
-use schema::{entries, imports, projects, settings, sites};
+use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
+use schema::{entries, projects, settings, sites};
 
-pub use rows::ReadingRow;
 use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
+pub use imports::{CoveredDay, ImportSummary, NewImport, StoredImport, room_for_import};
 
 impl From<diesel::result::Error> for Error {
     fn from(e: diesel::result::Error) -> Self {
@@ -217,138 +217,5 @@ impl Tx<'_> {
                 .execute(self.conn)?;
         }
         Ok(())
-    }
-
-    /// The import of this file into this project, if it was imported before.
-    pub fn import_of(&mut self, project: &str, sha256: Hash) -> Result<Option<ImportSummary>> {
-        let row: Option<ImportRow> = imports::table
-            .filter(
-                imports::project
-                    .eq(project)
-                    .and(imports::file_sha256.eq(sha256.to_hex())),
-            )
-            .select(ImportRow::as_select())
-            .first(self.conn)
-            .optional()?;
-        Ok(row.map(|r| ImportSummary {
-            id: r.id,
-            file_name: r.file_name,
-            rows: r.row_count,
-            imported_at: r.imported_at.and_utc(),
-        }))
-    }
-
-    /// The id the next import takes.
-    pub fn next_import_id(&mut self) -> Result<i64> {
-        let max: Option<i64> = imports::table
-            .select(diesel::dsl::max(imports::id))
-            .first(self.conn)?;
-        Ok(max.unwrap_or(0) + 1)
-    }
-
-    /// Appends raw readings, 5 000 rows a statement. The values are written into the statement
-    /// as SQL literals (integers formatted here, text quoted with every `'` doubled; NUL refused
-    /// upstream): binding each field of a million rows through the query builder one by one costs
-    /// several times SQLite's own insert work.
-    pub fn add_readings(&mut self, import_id: i64, rows: &[ReadingRow]) -> Result<()> {
-        use std::fmt::Write;
-        for chunk in rows.chunks(5_000) {
-            let mut sql = String::with_capacity(64 + chunk.len() * 110);
-            sql.push_str("INSERT INTO readings (import_id, line, meter, day, grams, raw) VALUES ");
-            for (i, r) in chunk.iter().enumerate() {
-                if i > 0 {
-                    sql.push(',');
-                }
-                let _ = write!(sql, "({import_id},{},", r.line);
-                sql_text(&mut sql, &r.meter);
-                sql.push(',');
-                sql_text(&mut sql, &r.day);
-                let _ = write!(sql, ",{},", r.grams);
-                sql_text(&mut sql, &r.raw);
-                sql.push(')');
-            }
-            self.conn.batch_execute(&sql)?;
-        }
-        Ok(())
-    }
-
-    /// Records that a file was imported (after its readings and entries, in the same transaction).
-    pub fn add_import(&mut self, import: &NewImport<'_>) -> Result<()> {
-        diesel::insert_into(imports::table)
-            .values(ImportRow {
-                id: import.id,
-                project: import.project.into(),
-                file_name: import.file_name.into(),
-                file_sha256: import.sha256.to_hex(),
-                kind: import.kind.into(),
-                row_count: import.rows,
-                imported_at: import.at.naive_utc(),
-            })
-            .execute(self.conn)?;
-        Ok(())
-    }
-}
-
-/// An import to record: which file went into which project, as what, when.
-pub struct NewImport<'a> {
-    pub id: i64,
-    pub project: &'a str,
-    pub file_name: &'a str,
-    pub sha256: Hash,
-    pub kind: &'a str,
-    pub rows: i64,
-    pub at: chrono::DateTime<chrono::Utc>,
-}
-
-/// A file imported earlier.
-#[derive(Debug, Clone)]
-pub struct ImportSummary {
-    pub id: i64,
-    pub file_name: String,
-    pub rows: i64,
-    pub imported_at: chrono::DateTime<chrono::Utc>,
-}
-
-/// Appends `s` as an SQL string literal.
-fn sql_text(sql: &mut String, s: &str) {
-    sql.push('\'');
-    let mut parts = s.split('\'');
-    if let Some(first) = parts.next() {
-        sql.push_str(first);
-    }
-    for p in parts {
-        sql.push_str("''");
-        sql.push_str(p);
-    }
-    sql.push('\'');
-}
-
-/// The readings of one meter-day of one imported file.
-#[derive(Debug, Clone, PartialEq, Eq, QueryableByName)]
-pub struct ReadingTotal {
-    #[diesel(sql_type = diesel::sql_types::Text)]
-    pub file_sha256: String,
-    #[diesel(sql_type = diesel::sql_types::Text)]
-    pub meter: String,
-    #[diesel(sql_type = diesel::sql_types::Text)]
-    pub day: String,
-    #[diesel(sql_type = diesel::sql_types::BigInt)]
-    pub grams: i64,
-    #[diesel(sql_type = diesel::sql_types::BigInt)]
-    pub rows: i64,
-}
-
-impl Tx<'_> {
-    /// Σ grams and row count of the raw readings per file, meter and day, for recomputing the
-    /// entries they rolled up into.
-    pub fn reading_totals(&mut self, project: &str) -> Result<Vec<ReadingTotal>> {
-        Ok(diesel::sql_query(
-            "SELECT i.file_sha256 AS file_sha256, r.meter AS meter, r.day AS day, \
-             SUM(r.grams) AS grams, COUNT(*) AS rows \
-             FROM readings r JOIN imports i ON i.id = r.import_id \
-             WHERE i.project = ? GROUP BY i.file_sha256, r.meter, r.day",
-        )
-        .bind::<diesel::sql_types::Text, _>(project)
-        .load(self.conn)?)
     }
 }

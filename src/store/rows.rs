@@ -225,18 +225,9 @@ pub struct ImportRow {
     pub kind: String,
     pub row_count: i64,
     pub imported_at: NaiveDateTime,
-}
-
-/// One raw meter reading as imported: the line as written and the grams read from it.
-#[derive(Debug, Clone, Queryable, Selectable)]
-#[diesel(table_name = super::schema::readings, check_for_backend(diesel::sqlite::Sqlite))]
-pub struct ReadingRow {
-    pub import_id: i64,
-    pub line: i64,
-    pub meter: String,
-    pub day: String,
-    pub grams: i64,
-    pub raw: String,
+    pub columns_map: String,
+    pub density: String,
+    pub byte_count: i64,
 }
 
 #[derive(Queryable, Selectable, Insertable)]

@@ -59,17 +59,17 @@ diesel::table! {
         kind -> Text,
         row_count -> BigInt,
         imported_at -> Timestamp,
+        columns_map -> Text,
+        density -> Text,
+        byte_count -> BigInt,
     }
 }
 
 diesel::table! {
-    readings (import_id, line) {
+    import_evidence (import_id, part) {
         import_id -> BigInt,
-        line -> BigInt,
-        meter -> Text,
-        day -> Text,
-        grams -> BigInt,
-        raw -> Text,
+        part -> BigInt,
+        bytes -> Binary,
     }
 }
 
