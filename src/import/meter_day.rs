@@ -54,7 +54,7 @@ impl MeterDay {
 
     /// Adds a row; None when a sum would leave the ledger's range.
     pub fn add(&mut self, r: &MeterRow<'_>) -> Option<()> {
-        self.co2 = Mass::from_grams(self.co2.grams().checked_add(r.co2.grams())?);
+        self.co2 = self.co2.checked_add(r.co2).filter(|m| m.within_limit())?;
         match r.metered {
             Metered::StreamGrams(g) => {
                 self.mass_rows += 1;
