@@ -1,8 +1,10 @@
 //! Independent check of the Span–Wagner density against CoolProp (a thermophysical property
 //! library that implements the same equation), over states across the whole range: gas, liquid,
 //! supercritical, near the critical point, at high pressure and on both sides of the saturation
-//! line. Needs python3 with CoolProp (`pip install CoolProp`); without it the test says so and
-//! passes.
+//! line. Needs python3 with CoolProp (`pip install CoolProp`); without it the test fails under
+//! `CI=true` and says it was skipped elsewhere.
+
+mod common;
 
 use std::io::Write;
 use std::process::{Command, Stdio};
@@ -121,9 +123,7 @@ fn coolprop(requests: &[Request]) -> Option<Vec<Result<(f64, f64), String>>> {
 fn densities_agree_with_coolprop() {
     let requests = grid();
     let Some(answers) = coolprop(&requests) else {
-        println!(
-            "skipped: CoolProp not available (python3 with `pip install CoolProp` runs this check)"
-        );
+        common::tool_missing("python3 with CoolProp (pip install CoolProp==8.0.0)");
         return;
     };
     let (mut compared, mut both_refused) = (0, 0);

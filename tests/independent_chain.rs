@@ -16,7 +16,7 @@ fn python_available() -> bool {
 #[test]
 fn python_recomputes_every_leaf_and_chain_hash() {
     if !python_available() {
-        eprintln!("skipped: python3 not available, the independent chain check did not run");
+        common::tool_missing("python3 (the independent chain recomputation)");
         return;
     }
     let l = Ledger::with_tfs();

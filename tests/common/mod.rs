@@ -7,6 +7,16 @@ use std::path::PathBuf;
 
 pub const NOW: &str = "2026-12-01T09:00:00Z";
 
+/// A reference check whose tool is missing: with `CI=true` a failure that names the tool and
+/// how to install it (a check that did not run must not pass); elsewhere a printed skip.
+pub fn tool_missing(what: &str) {
+    assert!(
+        std::env::var("CI").is_err(),
+        "{what} is missing, so this reference check did not run (.ci/run installs it)"
+    );
+    eprintln!("skipped: {what} is missing, so this reference check did not run");
+}
+
 pub struct Ledger {
     pub dir: tempfile::TempDir,
     pub path: PathBuf,
