@@ -3,7 +3,9 @@
 //! reading records every input, every factor with its source or edition, and the working.
 
 use super::Context;
-use super::record::{Category, EmissionArgs, RecordArgs, commit, draft, metered, period, required};
+use super::record::{
+    Category, EmissionArgs, RecordArgs, commit, commit_with, draft, metered, period, required,
+};
 use super::rock_inputs::{
     self as ri, DISTANCE, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE,
     WORK_INDEX,
@@ -16,6 +18,7 @@ use crate::error::{Error, Result};
 use crate::ledger::{EntryKind, Reading, SiteKind};
 use crate::quantity::area::Area;
 use crate::report::Report;
+use crate::store::Tx;
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -281,19 +284,20 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
             stage.name()
         )));
     }
-    let period = period(required(&b.from, "--from")?, required(&b.to, "--to")?)?;
-    let mut reading = Reading::default();
-    reading.push("stage", stage.name());
-    let computed = match stage {
-        Stage::Quarrying => quarrying(i, &mut reading)?,
-        Stage::Grinding => grinding(i, &mut reading)?,
-        Stage::Transport => transport(i, &mut reading)?,
-        Stage::Spreading => spreading(ctx, b, i, &mut reading)?,
-    };
-    reading.push("how", computed.how);
-    reading.push("category", category);
-    let e = draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)?;
-    commit(ctx, e, b.key.clone(), false)
+    commit_with(ctx, b.key.clone(), false, |tx| {
+        let period = period(required(&b.from, "--from")?, required(&b.to, "--to")?)?;
+        let mut reading = Reading::default();
+        reading.push("stage", stage.name());
+        let computed = match stage {
+            Stage::Quarrying => quarrying(i, &mut reading)?,
+            Stage::Grinding => grinding(i, &mut reading)?,
+            Stage::Transport => transport(i, &mut reading)?,
+            Stage::Spreading => spreading(tx, b, i, &mut reading)?,
+        };
+        reading.push("how", computed.how);
+        reading.push("category", category);
+        draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)
+    })
 }
 
 fn quarrying(i: &InventoryArgs, reading: &mut Reading) -> Result<Emission> {
@@ -409,7 +413,7 @@ fn transport(i: &InventoryArgs, reading: &mut Reading) -> Result<Emission> {
 }
 
 fn spreading(
-    ctx: &Context,
+    tx: &mut Tx<'_>,
     b: &RecordArgs,
     i: &InventoryArgs,
     reading: &mut Reading,
@@ -422,10 +426,8 @@ fn spreading(
     let area = match &i.area {
         Some(t) => Area::parse(t).map_err(|e| Error::field("--area", t, e))?,
         None => {
-            let site = ctx.open()?.read(|tx| {
-                super::setup::known_project(tx, &b.project)?;
-                tx.site(&b.project, &b.site)
-            })?;
+            super::setup::known_project(tx, &b.project)?;
+            let site = tx.site(&b.project, &b.site)?;
             let text = site
                 .filter(|s| s.kind == SiteKind::Field)
                 .and_then(|s| s.area)

@@ -654,13 +654,19 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     optional_text("--key", &a.key)?;
     optional_text("--meter", &a.meter)?;
     optional_text("--note", &a.note)?;
-    let target = ctx.open()?.read(|tx| {
+    let (key, over_permit) = (a.key.clone(), a.over_permit);
+    commit_with(ctx, key, over_permit, |tx| {
         known_project(tx, &a.project)?;
         let all = tx.entries(&a.project)?;
-        correction::target(&all, a.seq)
+        let target = correction::target(&all, a.seq)
             .cloned()
-            .map_err(|e| Error::field("seq", &a.seq.to_string(), e))
-    })?;
+            .map_err(|e| Error::field("seq", &a.seq.to_string(), e))?;
+        corrected(ctx, a, target)
+    })
+}
+
+/// The correction of `target` the options describe.
+fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
     let (reading, mass) = if a.quantity.is_given() || a.quantity.co2_fraction.is_some() {
         if super::record_rock::is_rock_record(target.kind) {
             return Err(Error::field(
@@ -686,7 +692,7 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     };
     let from = a.from.unwrap_or_else(|| target.period.from.to_string());
     let to = a.to.unwrap_or_else(|| target.period.to.to_string());
-    let entry = Entry {
+    Ok(Entry {
         seq: 0,
         site: a.site.unwrap_or(target.site.clone()),
         period: period(&from, &to)?,
@@ -700,22 +706,33 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
         reason: Some(a.reason),
         evidence: None,
         ..target
-    };
-    commit(ctx, entry, a.key, a.over_permit)
+    })
 }
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
 pub(super) fn commit(
     ctx: &Context,
-    mut entry: Entry,
+    entry: Entry,
     key: Option<String>,
     over_permit: bool,
 ) -> Result<Report> {
-    if over_permit {
-        entry.reading.push("over_permit", "acknowledged");
-    }
-    entry.key = key.unwrap_or_else(|| content_key(&entry));
+    commit_with(ctx, key, over_permit, |_| Ok(entry))
+}
+
+/// Drafts the entry with `make` and appends it in one write transaction, so whatever `make`
+/// reads (the entry a correction replaces, a field's area, a baseline) is what the append sees.
+pub(super) fn commit_with(
+    ctx: &Context,
+    key: Option<String>,
+    over_permit: bool,
+    make: impl FnOnce(&mut Tx<'_>) -> Result<Entry>,
+) -> Result<Report> {
     let (outcome, warnings) = ctx.open()?.write(|tx| {
+        let mut entry = make(tx)?;
+        if over_permit {
+            entry.reading.push("over_permit", "acknowledged");
+        }
+        entry.key = key.unwrap_or_else(|| content_key(&entry));
         let project = known_project(tx, &entry.project)?;
         let site = tx.site(&entry.project, &entry.site)?.ok_or_else(|| {
             Error::field(

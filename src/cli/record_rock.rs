@@ -2,7 +2,7 @@
 //! records of the rock routes, and the same readings read back for the reports. The reading
 //! field names written here are the ones read back here, and nowhere else.
 
-use super::record::{RecordArgs, commit, draft};
+use super::record::{RecordArgs, commit_with, draft};
 use super::rock_inputs::{self as ri, DENSITY, Measure};
 use super::setup::known_project;
 use super::{Context, inputs};
@@ -15,6 +15,8 @@ use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
 use crate::report::Report;
+use crate::store::Tx;
+use chrono::NaiveDate;
 use clap::Args;
 
 /// Options every rock-route record shares: its key, a note, and what it replaces.
@@ -141,14 +143,14 @@ const MAX_SOIL_DENSITY_KG_M3: f64 = 2650.0;
 /// Checks what the ledger holds for a record of `kind`: the project's method, the site, and
 /// the entry a correction replaces. Returns the project's site.
 fn context(
-    ctx: &Context,
+    tx: &mut Tx<'_>,
     project: &str,
     site: &str,
     kind: EntryKind,
     method: Method,
     corrects: Option<u64>,
 ) -> Result<Site> {
-    ctx.open()?.read(|tx| {
+    {
         let p = known_project(tx, project)?;
         if p.method != method {
             return Err(Error::field(
@@ -182,7 +184,7 @@ fn context(
                 format!("is not a site of project {project}"),
             )
         })
-    })
+    }
 }
 
 /// The entry, drafted like any record, with its correction link.
@@ -242,23 +244,24 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     reading.push("dic_unit", a.unit.clone());
     let sample = evidence::tracer_sample(&reading).map_err(Error::Refused)?;
     let found = mineralized_fraction(&sample).map_err(|e| tracer_refusal(&e, &a))?;
-    context(
-        ctx,
-        &a.project,
-        &a.site,
-        kind,
-        Method::BasaltMineralization,
-        a.entry.corrects,
-    )?;
-    let e = entry(
-        ctx,
-        kind,
-        (&a.project, &a.site),
-        reading,
-        (Mass::ZERO, Period::day(date)),
-        &a.entry,
-    )?;
-    let mut report = commit(ctx, e, a.entry.key.clone(), false)?;
+    let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
+        context(
+            tx,
+            &a.project,
+            &a.site,
+            kind,
+            Method::BasaltMineralization,
+            a.entry.corrects,
+        )?;
+        entry(
+            ctx,
+            kind,
+            (&a.project, &a.site),
+            reading,
+            (Mass::ZERO, Period::day(date)),
+            &a.entry,
+        )
+    })?;
     match found {
         Mineralized::Fraction { f, .. } => {
             report.lines.push(format!("mineralized fraction {f:.4}"));
@@ -312,14 +315,6 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
             ],
         )
     })?;
-    context(
-        ctx,
-        &a.project,
-        &a.site,
-        kind,
-        Method::ExSituMineralization,
-        a.entry.corrects,
-    )?;
     let mut reading = Reading::default();
     reading.push("fed_mass", fed.to_string());
     reading.push("co2_before", before.to_string());
@@ -342,15 +337,24 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     if let Some(f) = &finding {
         reading.push("finding", f.clone());
     }
-    let e = entry(
-        ctx,
-        kind,
-        (&a.project, &a.site),
-        reading,
-        (mass, period),
-        &a.entry,
-    )?;
-    let mut report = commit(ctx, e, a.entry.key.clone(), false)?;
+    let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
+        context(
+            tx,
+            &a.project,
+            &a.site,
+            kind,
+            Method::ExSituMineralization,
+            a.entry.corrects,
+        )?;
+        entry(
+            ctx,
+            kind,
+            (&a.project, &a.site),
+            reading,
+            (mass, period),
+            &a.entry,
+        )
+    })?;
     if let Some(f) = finding {
         report.warnings.push(f);
     }
@@ -376,62 +380,87 @@ pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
     let kind = EntryKind::Application;
     let date = inputs::date("--date", &a.date)?;
     let (rock, rock_g) = inputs::mass("--mass", &a.mass)?;
-    let site = context(
-        ctx,
-        &a.project,
-        &a.site,
-        kind,
-        Method::EnhancedWeathering,
-        a.entry.corrects,
-    )?;
-    let area = if site.kind == crate::ledger::SiteKind::Field {
-        Some(field_area(&site)?)
-    } else {
-        None
-    };
-    ctx.open()?.read(|tx| {
-        tx.feedstock(&a.project, &a.feedstock)?.ok_or_else(|| {
-            Error::field(
-                "--feedstock",
-                &a.feedstock,
-                format!(
-                    "is not a feedstock of project {} (see `sinkbook feedstock list {}`)",
-                    a.project, a.project
-                ),
-            )
-        })?;
-        let cores = effective_of(tx, &a.project, EntryKind::SoilSample)?;
-        if let Some(b) = cores
-            .iter()
-            .filter(|e| e.site == a.site && e.reading.get("baseline").is_some())
-            .find(|e| e.period.from >= date)
-        {
-            return Err(Error::field(
-                "--date",
-                &a.date,
-                format!(
-                    "field {} has a baseline soil sample of {} (seq {}); a baseline is soil before any feedstock",
-                    a.site, b.period.from, b.seq
-                ),
-            ));
+    commit_with(ctx, a.entry.key.clone(), false, |tx| {
+        let site = context(
+            tx,
+            &a.project,
+            &a.site,
+            kind,
+            Method::EnhancedWeathering,
+            a.entry.corrects,
+        )?;
+        let area = if site.kind == crate::ledger::SiteKind::Field {
+            Some(field_area(&site)?)
+        } else {
+            None
+        };
+        spreadable(tx, &a, date)?;
+        let mut reading = Reading::default();
+        reading.push("feedstock", a.feedstock.clone());
+        reading.push("mass", rock.to_string());
+        if let Some(m2) = area {
+            reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
         }
-        Ok(())
+        entry(
+            ctx,
+            kind,
+            (&a.project, &a.site),
+            reading,
+            (Mass::ZERO, Period::day(date)),
+            &a.entry,
+        )
+    })
+}
+
+/// The feedstock is registered and no baseline core of the field is dated on or after the
+/// spreading.
+fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<()> {
+    tx.feedstock(&a.project, &a.feedstock)?.ok_or_else(|| {
+        Error::field(
+            "--feedstock",
+            &a.feedstock,
+            format!(
+                "is not a feedstock of project {} (see `sinkbook feedstock list {}`)",
+                a.project, a.project
+            ),
+        )
     })?;
-    let mut reading = Reading::default();
-    reading.push("feedstock", a.feedstock.clone());
-    reading.push("mass", rock.to_string());
-    if let Some(m2) = area {
-        reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
+    let cores = effective_of(tx, &a.project, EntryKind::SoilSample)?;
+    if let Some(b) = cores
+        .iter()
+        .filter(|e| e.site == a.site && e.reading.get("baseline").is_some())
+        .find(|e| e.period.from >= date)
+    {
+        return Err(Error::field(
+            "--date",
+            &a.date,
+            format!(
+                "field {} has a baseline soil sample of {} (seq {}); a baseline is soil before any feedstock",
+                a.site, b.period.from, b.seq
+            ),
+        ));
     }
-    let e = entry(
-        ctx,
-        kind,
-        (&a.project, &a.site),
-        reading,
-        (Mass::ZERO, Period::day(date)),
-        &a.entry,
-    )?;
-    commit(ctx, e, a.entry.key.clone(), false)
+    Ok(())
+}
+
+/// No feedstock was spread on the field on or before a baseline core's date.
+fn before_any_feedstock(tx: &mut Tx<'_>, a: &SoilSampleArgs, date: NaiveDate) -> Result<()> {
+    let spread = effective_of(tx, &a.project, EntryKind::Application)?;
+    match spread
+        .iter()
+        .filter(|e| e.site == a.site && e.period.from <= date)
+        .min_by_key(|e| e.period.from)
+    {
+        Some(first) => Err(Error::field(
+            "--baseline",
+            &a.date,
+            format!(
+                "field {} received feedstock on {} (seq {}); a baseline is soil before any feedstock",
+                a.site, first.period.from, first.seq
+            ),
+        )),
+        None => Ok(()),
+    }
 }
 
 fn effective_of(
@@ -473,53 +502,37 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
     let conc = ri::pairs("--conc", &a.conc)?;
     let (conc_text, values) = (ri::pair_texts(&conc), ri::pair_numbers(&conc));
     SoilAnalysis::new(&values, unit).map_err(|e| Error::field("--conc", &a.conc, e))?;
-    context(
-        ctx,
-        &a.project,
-        &a.site,
-        kind,
-        Method::EnhancedWeathering,
-        a.entry.corrects,
-    )?;
-    if a.baseline {
-        ctx.open()?.read(|tx| {
-            let spread = effective_of(tx, &a.project, EntryKind::Application)?;
-            match spread
-                .iter()
-                .filter(|e| e.site == a.site && e.period.from <= date)
-                .min_by_key(|e| e.period.from)
-            {
-                Some(first) => Err(Error::field(
-                    "--baseline",
-                    &a.date,
-                    format!(
-                        "field {} received feedstock on {} (seq {}); a baseline is soil before any feedstock",
-                        a.site, first.period.from, first.seq
-                    ),
-                )),
-                None => Ok(()),
-            }
-        })?;
-    }
-    let mut reading = Reading::default();
-    reading.push("depth", depth);
-    reading.push("bulk_density", rho.to_string());
-    reading.push("conc_unit", unit.name());
-    for (n, v) in conc_text {
-        reading.push(&n, v);
-    }
-    if a.baseline {
-        reading.push("baseline", "yes");
-    }
-    let e = entry(
-        ctx,
-        kind,
-        (&a.project, &a.site),
-        reading,
-        (Mass::ZERO, Period::day(date)),
-        &a.entry,
-    )?;
-    commit(ctx, e, a.entry.key.clone(), false)
+    commit_with(ctx, a.entry.key.clone(), false, |tx| {
+        context(
+            tx,
+            &a.project,
+            &a.site,
+            kind,
+            Method::EnhancedWeathering,
+            a.entry.corrects,
+        )?;
+        if a.baseline {
+            before_any_feedstock(tx, &a, date)?;
+        }
+        let mut reading = Reading::default();
+        reading.push("depth", depth);
+        reading.push("bulk_density", rho.to_string());
+        reading.push("conc_unit", unit.name());
+        for (n, v) in conc_text {
+            reading.push(&n, v);
+        }
+        if a.baseline {
+            reading.push("baseline", "yes");
+        }
+        entry(
+            ctx,
+            kind,
+            (&a.project, &a.site),
+            reading,
+            (Mass::ZERO, Period::day(date)),
+            &a.entry,
+        )
+    })
 }
 
 /// Whether entries of this kind are recorded here (not by a meter): `correct` cannot restate
