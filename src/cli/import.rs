@@ -17,7 +17,7 @@ use crate::ledger::{EntryKind, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
 use crate::report::{Cell, Report, Table, columns};
-use crate::store::{NewImport, Tx};
+use crate::store::{BYTES_PER_ENTRY, NewImport, Tx, disk_error, room_for};
 use chrono::NaiveDate;
 use clap::Args;
 use std::collections::{BTreeMap, HashMap};
@@ -66,7 +66,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
     let size = std::fs::metadata(&a.file)
         .map_err(|e| Error::field("FILE", &a.file.display().to_string(), e))?
         .len();
-    crate::store::room_for_import(&ctx.db, size)?;
+    room_for(&ctx.db, size, "the file, kept as its evidence")?;
     ctx.open()?.write(|tx| {
         let project = known_project(tx, &a.project)?;
         let sites: HashMap<String, Site> = tx.sites(&a.project)?.into_iter().map(|s| (s.code.clone(), s)).collect();
@@ -96,6 +96,8 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             (plan, None) => plan,
         };
         refuse_bad_rows(&file_name, &plan, a.skip_bad)?;
+        let entry_bytes = (plan.days.len() as u64).saturating_mul(BYTES_PER_ENTRY);
+        room_for(&ctx.db, plan.bytes / 2 + entry_bytes, &format!("{} entries, and the evidence copied into the ledger file", plan.days.len()))?;
         let source = Source { project: &a.project, kind, file_name: &file_name, sha256: plan.sha256, density, recorded_at: ctx.now };
         let covered = covered_days(tx, &a.project, kind, &plan)?;
         let new = overlap::entries(&plan.days, &source, &covered, a.replace).map_err(|o| {
@@ -143,6 +145,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         report.warnings = warnings;
         Ok(report)
     })
+    .map_err(disk_error)
 }
 
 fn listed<T: ToString>(items: &[T]) -> String {

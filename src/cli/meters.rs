@@ -4,11 +4,13 @@
 use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
+use crate::import::overlap::hand_corrections;
 use crate::ledger::correction::effective;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::{Mass, MassReading};
 use crate::report::{Cell, Report, Table, columns};
+use chrono::Datelike;
 use clap::Args;
 use std::collections::BTreeMap;
 
@@ -155,5 +157,11 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         ]);
     }
     t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it. Entries spanning quarters are split by days.");
-    Ok(Report::default().table(t))
+    let mut report = Report::default().table(t);
+    report.warnings = hand_corrections(&all, effective(&all))
+        .into_iter()
+        .filter(|h| h.day.year() == a.year)
+        .map(|h| h.to_string())
+        .collect();
+    Ok(report)
 }

@@ -2,7 +2,7 @@
 //! the file is to replace the earlier export, becomes a correction of the entry it replaces.
 
 use super::meter_day::{MeterDay, Source};
-use crate::ledger::Entry;
+use crate::ledger::{Entry, SealedEntry};
 use chrono::NaiveDate;
 use std::collections::HashMap;
 
@@ -74,6 +74,61 @@ pub fn entries(
             e
         })
         .collect())
+}
+
+/// An effective entry recorded by hand over an imported meter-day: it no longer equals the
+/// readings of the file behind the line.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct HandCorrection {
+    pub seq: u64,
+    pub meter: String,
+    pub day: NaiveDate,
+    /// The imported entry the line started from, and its file.
+    pub imported_seq: u64,
+    pub file: String,
+}
+
+impl std::fmt::Display for HandCorrection {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(
+            f,
+            "meter {} on {}: seq {} is a correction by hand of imported seq {}, so it no longer equals the readings of {}",
+            self.meter, self.day, self.seq, self.imported_seq, self.file
+        )
+    }
+}
+
+/// The effective entries that correct an imported meter-day by hand (without a file).
+pub fn hand_corrections<'a>(
+    entries: &'a [SealedEntry],
+    effective: impl Iterator<Item = &'a Entry>,
+) -> Vec<HandCorrection> {
+    let by_seq = |seq: u64| {
+        usize::try_from(seq)
+            .ok()
+            .and_then(|i| entries.get(i))
+            .map(|s| &s.entry)
+    };
+    effective
+        .filter(|e| e.evidence.is_none() && e.corrects.is_some())
+        .filter_map(|e| {
+            // Walk the line back to the first entry that came from a file.
+            let mut at = e.corrects.and_then(by_seq);
+            while let Some(t) = at {
+                if let Some(ev) = &t.evidence {
+                    return Some(HandCorrection {
+                        seq: e.seq,
+                        meter: e.meter.clone().unwrap_or_default(),
+                        day: e.period.from,
+                        imported_seq: t.seq,
+                        file: ev.file_name.clone(),
+                    });
+                }
+                at = t.corrects.and_then(by_seq);
+            }
+            None
+        })
+        .collect()
 }
 
 #[cfg(test)]

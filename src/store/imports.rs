@@ -252,10 +252,13 @@ impl std::io::Read for EvidenceBytes<'_, '_> {
     }
 }
 
-/// Refuses to start an import the disk cannot hold: the file's bytes are kept as evidence and
-/// its entries added, about twice its size, and a transaction's pages sit in the write-ahead
-/// log before they reach the ledger, so about four times the file must be free.
-pub fn room_for_import(db: &std::path::Path, file_bytes: u64) -> Result<()> {
+/// Bytes of ledger per entry an import adds: the row with its reading, and its two indexes.
+pub const BYTES_PER_ENTRY: u64 = 1024;
+
+/// Refuses to go on when the disk beside the ledger cannot hold `bytes` more, twice over: a
+/// transaction's pages are written to the write-ahead log first and copied into the ledger
+/// file afterwards. `what` says what the bytes are.
+pub fn room_for(db: &std::path::Path, bytes: u64, what: &str) -> Result<()> {
     let dir = match db.parent() {
         Some(d) if !d.as_os_str().is_empty() => d,
         _ => std::path::Path::new("."),
@@ -265,17 +268,30 @@ pub fn room_for_import(db: &std::path::Path, file_bytes: u64) -> Result<()> {
         return Ok(());
     };
     let free = fs.f_bavail.saturating_mul(fs.f_frsize);
-    let needed = file_bytes.saturating_mul(4);
+    let needed = bytes.saturating_mul(2);
     if free < needed {
+        let mb = |b: u64| format!("{:.1} MB", b as f64 / 1e6);
         return Err(Error::Refused(format!(
-            "the import needs about {} MB free beside the ledger ({} MB of file, kept as evidence with its entries, once in the write-ahead log and once in the ledger); {} has {} MB free; nothing written",
-            needed.div_ceil(1 << 20),
-            file_bytes.div_ceil(1 << 20),
+            "the import needs about {} free beside the ledger ({what}: {}, once in the write-ahead log and once in the ledger file); {} has {} free; nothing written",
+            mb(needed),
+            mb(bytes),
             dir.display(),
-            free >> 20
+            mb(free)
         )));
     }
     Ok(())
+}
+
+/// A write that failed for want of disk, said plainly; other errors pass unchanged.
+pub fn disk_error(e: Error) -> Error {
+    match &e {
+        Error::Store(m) if m.contains("disk is full") || m.contains("disk I/O error") => {
+            Error::Store(format!(
+                "could not write the ledger file ({m}): the disk is full or the file is larger than this process may write; nothing was written, the ledger is as it was"
+            ))
+        }
+        _ => e,
+    }
 }
 
 impl Tx<'_> {
@@ -290,5 +306,37 @@ impl Tx<'_> {
             )
             .count()
             .get_result(self.conn)?)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn room_is_checked_against_the_disk_beside_the_ledger() {
+        let dir = tempfile::tempdir().unwrap();
+        let db = dir.path().join("ledger.db");
+        assert!(room_for(&db, 1, "a byte").is_ok());
+        let e = room_for(&db, u64::MAX / 4, "more than any disk").unwrap_err();
+        assert!(
+            e.to_string().contains("more than any disk")
+                && e.to_string().contains("nothing written"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn disk_errors_are_said_plainly() {
+        let e = disk_error(Error::Store(
+            "ledger database error: database or disk is full".into(),
+        ));
+        assert!(
+            e.to_string()
+                .contains("the disk is full or the file is larger"),
+            "{e}"
+        );
+        let other = Error::Store("ledger database error: database is locked".into());
+        assert_eq!(disk_error(other.clone()), other);
     }
 }

@@ -17,7 +17,9 @@ use schema::{entries, projects, settings, sites};
 use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
-pub use imports::{CoveredDay, ImportSummary, NewImport, StoredImport, room_for_import};
+pub use imports::{
+    BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
+};
 
 impl From<diesel::result::Error> for Error {
     fn from(e: diesel::result::Error) -> Self {
