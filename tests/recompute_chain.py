@@ -1,7 +1,9 @@
 #!/usr/bin/env python3
 """Recomputes a sinkbook chain from `sinkbook --format json entries PROJECT`, following
 docs/ledger-format.md only (canonical encoding v1), with Python's own hashlib. It shares no code
-with sinkbook. Prints one line per entry: seq, leaf hex, chain hex; exits 1 on the first mismatch."""
+with sinkbook. Prints one line per entry: seq, leaf hex, chain hex; then, for every seal, `seal`,
+its seq, tree size and the RFC 6962 tree head recomputed from the leaves before it. Exits 1 on
+the first mismatch."""
 import datetime
 import hashlib
 import json
@@ -12,7 +14,7 @@ KINDS = {
     name: i
     for i, name in enumerate(
         "injection receipt redelivery production leakage equipment-leak emission survey "
-        "tracer-sample carbonation application soil-sample reversal calibration".split()
+        "tracer-sample carbonation application soil-sample reversal calibration seal".split()
     )
 }
 SIGNS = {"adds": 0, "deducts": 1, "neutral": 2}
@@ -52,15 +54,37 @@ def encode(project, e):
     return b
 
 
+def mth(leaves):
+    """RFC 6962 §2.1 Merkle tree head: split at the largest power of two below n."""
+    if not leaves:
+        return hashlib.sha256(b"").digest()
+    if len(leaves) == 1:
+        return leaves[0]
+    k = 1
+    while k * 2 < len(leaves):
+        k *= 2
+    return hashlib.sha256(b"\x01" + mth(leaves[:k]) + mth(leaves[k:])).digest()
+
+
 def main():
     project = sys.argv[1]
     chain = bytes(32)
+    leaves = []
+    seals = []
     for e in json.load(sys.stdin):
         leaf = hashlib.sha256(b"\x00" + encode(project, e)).digest()
         chain = hashlib.sha256(chain + leaf).digest()
         print(e["seq"], leaf.hex(), chain.hex())
         if leaf.hex() != e["leaf_hash"] or chain.hex() != e["chain_hash"]:
             print(f"mismatch at seq {e['seq']}", file=sys.stderr)
+            return 1
+        if e["kind"] == "seal":
+            seals.append((e["seq"], dict(e["reading"]), mth(leaves)))
+        leaves.append(leaf)
+    for seq, reading, root in seals:
+        print("seal", seq, reading["tree_size"], root.hex())
+        if int(reading["tree_size"]) != seq or reading["root"] != root.hex():
+            print(f"seal at seq {seq}: tree head differs", file=sys.stderr)
             return 1
     return 0
 

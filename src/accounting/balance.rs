@@ -103,7 +103,8 @@ impl Terms {
             | EntryKind::Application
             | EntryKind::SoilSample
             | EntryKind::Reversal
-            | EntryKind::Calibration => return,
+            | EntryKind::Calibration
+            | EntryKind::Seal => return,
         };
         *slot += g;
     }

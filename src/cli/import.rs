@@ -12,7 +12,7 @@ use crate::import::meter_day::Source;
 use crate::import::overlap::{self, Covered};
 use crate::import::plan::{Options, Plan};
 use crate::import::plan_file;
-use crate::ledger::append::{Appended, append};
+use crate::ledger::append::{Appended, SealRule, append};
 use crate::ledger::{EntryKind, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
@@ -114,10 +114,14 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             Vec::new()
         };
         let mut tip = tx.chain_tip(&a.project)?;
+        let seals = tx.seals(&a.project)?;
+        let all = if seals.is_empty() || new.iter().all(|e| e.corrects.is_none()) { Vec::new() } else { tx.entries(&a.project)? };
         let mut sealed = Vec::with_capacity(new.len());
         for e in new {
             let site = &sites[&e.site];
-            match append(e, site, tip, None).map_err(|e| Error::field("FILE", &file_name, e))? {
+            let replaced = e.corrects.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
+            let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
+            match append(e, site, tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
                 Appended::New(s) | Appended::Existing(s) => {
                     tip = (tip.0 + 1, s.chain);
                     sealed.push(s);

@@ -16,6 +16,7 @@ mod reconcile;
 mod record;
 mod report;
 mod reports;
+mod seal;
 mod settings;
 mod setup;
 mod totals;
@@ -53,6 +54,10 @@ pub struct Cli {
     /// Tables for people, or JSON / CSV with unit-carrying field names for programs
     #[arg(long, global = true, value_enum, default_value_t = Format::Table)]
     pub format: Format,
+    /// Record an entry, correction or setting dated inside a sealed period as a late adjustment
+    /// dated now, naming the sealed period (the sealed figures stay as sealed)
+    #[arg(long, global = true)]
+    pub late: bool,
     #[command(subcommand)]
     pub command: Command,
 }
@@ -107,12 +112,16 @@ pub enum Command {
     Mineralization(mineralization::MineralizationArgs),
     /// Per field and soil campaign: applied, dissolved fraction, gross CO2, deductions, emissions, net
     Weathering(weathering::WeatheringArgs),
+    /// Close a reporting period: record the tree head over every entry and the period's figures
+    Seal(seal::SealArgs),
 }
 
 /// Everything a command needs besides its arguments.
 pub struct Context {
     pub db: PathBuf,
     pub now: DateTime<Utc>,
+    /// `--late`: admit what falls in a sealed period as a late adjustment.
+    pub late: bool,
 }
 
 impl Context {
@@ -127,6 +136,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     let ctx = Context {
         db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)),
         now,
+        late: cli.late,
     };
     match cli.command {
         Command::Init => setup::init(&ctx),
@@ -151,6 +161,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Feedstock(c) => feedstock::feedstock(&ctx, c),
         Command::Mineralization(a) => mineralization::mineralization(&ctx, a),
         Command::Weathering(a) => weathering::weathering(&ctx, a),
+        Command::Seal(a) => seal::seal(&ctx, a),
     }
 }
 

@@ -6,8 +6,9 @@ use crate::accounting::leakage;
 use crate::accounting::metering::{Basis, MeterInput, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
-use crate::ledger::append::{AppendError, Appended, append, content_key, within_limit};
+use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
 use crate::ledger::correction::{self, effective};
+use crate::ledger::seal::{Replaced, late_replaces};
 use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
@@ -742,21 +743,29 @@ pub(super) fn commit_with(
             )
         })?;
         let all = tx.entries(&entry.project)?;
-        if let Some(target) = entry.corrects {
+        let replaced = match entry.corrects {
             // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
-            correction::target(&all, target)
-                .map_err(|e| Error::field("seq", &target.to_string(), e))?;
-        }
+            Some(target) => Some(replaced(&all, target)?),
+            None => None,
+        };
+        let seals = tx.seals(&entry.project)?;
+        let rule = SealRule {
+            seals: &seals,
+            late: ctx.late,
+            today: ctx.now.date_naive(),
+            replaced,
+        };
         within_limit(all.iter().map(|s| &s.entry), std::slice::from_ref(&entry)).map_err(|e| {
             let mass = entry.mass.to_string();
             Error::field("--mass", entry.reading.get("mass").unwrap_or(&mass), e)
         })?;
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
-        let outcome = append(entry.clone(), &site, tip, holder).map_err(|e| match e {
+        let outcome = append(entry.clone(), &site, tip, holder, rule).map_err(|e| match e {
             AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
             AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
             AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
+            AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
         })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {
@@ -787,6 +796,31 @@ pub(super) fn commit_with(
     };
     report.warnings = warnings;
     Ok(report)
+}
+
+/// What a correction of `target` replaces: the latest entry of its line, and what it counts
+/// for now — its grams plus the late differences recorded against it since its period was sealed.
+pub(super) fn replaced(all: &[SealedEntry], target: u64) -> Result<Replaced> {
+    let t =
+        correction::target(all, target).map_err(|e| Error::field("seq", &target.to_string(), e))?;
+    if let Some(first) = late_replaces(t) {
+        return Err(Error::field(
+            "seq",
+            &target.to_string(),
+            format!(
+                "is a late difference against seq {first}; correct seq {first} again with --late"
+            ),
+        ));
+    }
+    let counted = all
+        .iter()
+        .filter(|s| late_replaces(&s.entry) == Some(target))
+        .fold(t.mass, |m, s| m + s.entry.mass);
+    Ok(Replaced {
+        seq: target,
+        period: t.period,
+        counted,
+    })
 }
 
 fn recorded_table(s: &SealedEntry) -> Table {

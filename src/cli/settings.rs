@@ -4,6 +4,7 @@
 use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
+use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::{Setting, SettingName, in_force};
 use crate::quantity::Decimal;
 use crate::quantity::fraction::parse_uncertainty;
@@ -73,6 +74,9 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
     }
     let all = ctx.open()?.write(|tx| {
         known_project(tx, &a.code)?;
+        let seals = tx.seals(&a.code)?;
+        admit_setting(&seals, ctx.now.date_naive(), ctx.late)
+            .map_err(|e| Error::field("project set", &a.code, e))?;
         let mut all = tx.settings(&a.code)?;
         let next = all.len() as u64;
         let new: Vec<Setting> = values

@@ -6,8 +6,9 @@ use super::chain::seal;
 use super::entry::{Entry, SealedEntry};
 use super::hash::Hash;
 use super::project::Site;
+use super::seal::{Replaced, Seal, SealRefusal, admit};
 use crate::quantity::Mass;
-use chrono::DateTime;
+use chrono::{DateTime, NaiveDate};
 
 /// What an append came to.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -32,6 +33,18 @@ pub enum AppendError {
     KeyTaken { key: String, seq: u64 },
     /// The project's entries would sum, in magnitude, beyond [`Mass::LIMIT`].
     BeyondLimit { project: String },
+    /// The entry is dated in a sealed period.
+    Sealed(SealRefusal),
+}
+
+/// What the project's seals say about a new entry: the seals, whether it may go in late, the
+/// day it would then be dated, and what a correction replaces.
+#[derive(Debug, Clone, Copy)]
+pub struct SealRule<'a> {
+    pub seals: &'a [Seal],
+    pub late: bool,
+    pub today: NaiveDate,
+    pub replaced: Option<Replaced>,
 }
 
 impl std::fmt::Display for AppendError {
@@ -54,6 +67,7 @@ impl std::fmt::Display for AppendError {
                 f,
                 "project {project}'s entries would sum to more than the largest mass the ledger keeps (1,000,000 Mt, 10^18 g); nothing written"
             ),
+            Self::Sealed(r) => r.fmt(f),
         }
     }
 }
@@ -88,13 +102,15 @@ pub fn content_key(e: &Entry) -> String {
     format!("auto-{}", &Hash::of(&encode(&neutral)).to_hex()[..20])
 }
 
-/// Checks `entry` (its seq is set here) and seals it onto the tip `(next_seq, head)`, unless
-/// `holder` — the entry that already holds its key — records the same thing.
+/// Checks `entry` (its seq is set here) against its site and the project's seals, and seals it
+/// onto the tip `(next_seq, head)`, unless `holder` — the entry that already holds its key —
+/// records the same thing. Every entry but a seal comes in this way.
 pub fn append(
-    mut entry: Entry,
+    entry: Entry,
     site: &Site,
     tip: (u64, Hash),
     holder: Option<SealedEntry>,
+    rule: SealRule<'_>,
 ) -> Result<Appended, AppendError> {
     let allowed = entry.kind.site_kinds();
     if !allowed.contains(&site.kind) {
@@ -109,6 +125,8 @@ pub fn append(
                 .join(" or "),
         });
     }
+    let mut entry = admit(rule.seals, entry, rule.replaced, rule.late, rule.today)
+        .map_err(AppendError::Sealed)?;
     if let Some(h) = holder {
         if h.entry.same_content(&entry) {
             return Ok(Appended::Existing(h));

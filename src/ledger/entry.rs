@@ -24,6 +24,7 @@ named_enum! {
         SoilSample => "soil-sample",
         Reversal => "reversal",
         Calibration => "calibration",
+        Seal => "seal",
     }
 }
 
@@ -47,7 +48,8 @@ impl EntryKind {
             | Self::TracerSample
             | Self::Application
             | Self::SoilSample
-            | Self::Calibration => Sign::Neutral,
+            | Self::Calibration
+            | Self::Seal => Sign::Neutral,
         }
     }
 
@@ -66,6 +68,8 @@ impl EntryKind {
             Self::Leakage | Self::Emission | Self::Survey | Self::Reversal | Self::Calibration => {
                 &[InjectionWell, ProductionWell, MonitoringWell, Field, Plant]
             }
+            // A seal closes a period of the whole project and stands at no site.
+            Self::Seal => &[],
         }
     }
 }

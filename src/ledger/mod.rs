@@ -11,6 +11,8 @@ pub mod hash;
 pub mod merkle;
 pub mod period;
 pub mod project;
+pub mod seal;
+pub mod seal_check;
 pub mod setting;
 
 pub use entry::{Entry, EntryKind, Evidence, Reading, SealedEntry, Sign};

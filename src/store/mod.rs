@@ -157,6 +157,34 @@ impl Tx<'_> {
             .collect()
     }
 
+    /// A project's seal entries in seq order: one per sealed period, so few.
+    pub fn seal_entries(&mut self, project: &str) -> Result<Vec<SealedEntry>> {
+        let rows: Vec<EntryRow> = entries::table
+            .filter(entries::project.eq(project).and(entries::kind.eq("seal")))
+            .order(entries::seq)
+            .select(EntryRow::as_select())
+            .load(self.conn)?;
+        rows.iter()
+            .map(|r| {
+                r.to_sealed().map_err(|what| {
+                    inconsistent(format!("project {project} seq {}: {what}", r.seq))
+                })
+            })
+            .collect()
+    }
+
+    /// A project's seals, read back from their entries.
+    pub fn seals(&mut self, project: &str) -> Result<Vec<crate::ledger::seal::Seal>> {
+        self.seal_entries(project)?
+            .iter()
+            .map(|s| {
+                crate::ledger::seal::Seal::from_entry(&s.entry).map_err(|what| {
+                    inconsistent(format!("project {project} seq {}: {what}", s.entry.seq))
+                })
+            })
+            .collect()
+    }
+
     /// The entry holding an idempotency key, if any.
     pub fn entry_by_key(&mut self, project: &str, key: &str) -> Result<Option<SealedEntry>> {
         let row: Option<EntryRow> = entries::table

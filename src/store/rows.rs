@@ -45,7 +45,8 @@ pub struct EntryRow {
     pub project: String,
     pub seq: i64,
     pub kind: String,
-    pub site: String,
+    /// NULL for seals, which stand at no site.
+    pub site: Option<String>,
     pub period_from: String,
     pub period_to: String,
     pub reading: String,
@@ -150,7 +151,7 @@ impl EntryRow {
             project: e.project.clone(),
             seq: e.seq as i64,
             kind: e.kind.name().into(),
-            site: e.site.clone(),
+            site: (e.kind != EntryKind::Seal).then(|| e.site.clone()),
             period_from: e.period.from.to_string(),
             period_to: e.period.to.to_string(),
             reading: serde_json::to_string(&e.reading.0).expect("strings serialize"),
@@ -187,7 +188,7 @@ impl EntryRow {
             seq: u64::try_from(self.seq).map_err(|_| format!("seq {} is negative", self.seq))?,
             kind: EntryKind::from_name(&self.kind)
                 .ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
-            site: self.site.clone(),
+            site: self.site.clone().unwrap_or_default(),
             period: Period { from, to },
             reading: Reading(
                 serde_json::from_str(&self.reading)

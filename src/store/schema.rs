@@ -31,7 +31,7 @@ diesel::table! {
         project -> Text,
         seq -> BigInt,
         kind -> Text,
-        site -> Text,
+        site -> Nullable<Text>,
         period_from -> Text,
         period_to -> Text,
         reading -> Text,
@@ -95,6 +95,23 @@ diesel::table! {
         density -> Text,
         d80 -> Nullable<Text>,
         created_at -> Timestamp,
+        row_hash -> Text,
+    }
+}
+
+diesel::table! {
+    signatures (project, seq) {
+        project -> Text,
+        seq -> BigInt,
+        seal_seq -> BigInt,
+        period -> Text,
+        tree_size -> BigInt,
+        root -> Text,
+        role -> Text,
+        statement -> Text,
+        signed_at -> Timestamp,
+        public_key -> Text,
+        signature -> Text,
         row_hash -> Text,
     }
 }

@@ -77,9 +77,14 @@ impl Ledger {
     }
 
     pub fn run(&self, args: &[&str]) -> Run {
+        self.run_at(NOW, args)
+    }
+
+    /// Runs with the clock at `now` (RFC 3339).
+    pub fn run_at(&self, now: &str, args: &[&str]) -> Run {
         let o = Command::cargo_bin("sinkbook")
             .unwrap()
-            .env("SINKBOOK_NOW", NOW)
+            .env("SINKBOOK_NOW", now)
             .env_remove("SINKBOOK_DB")
             .arg("--db")
             .arg(&self.path)

@@ -1,0 +1,116 @@
+//! `seal`: close a reporting period with the RFC 6962 tree head over every entry of the project
+//! before it, and the period's stored, conservative and claimable figures as reported.
+
+use super::Context;
+use super::view::load;
+use crate::accounting::conservative::DeductionRule;
+use crate::accounting::project_view::ProjectFigures;
+use crate::error::{Error, Result};
+use crate::ledger::chain;
+use crate::ledger::merkle::TreeBuilder;
+use crate::ledger::period::Grouping;
+use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
+use crate::ledger::{Period, SealedEntry};
+use crate::report::{Cell, Report, Table, columns};
+use clap::Args;
+
+#[derive(Debug, Args)]
+pub struct SealArgs {
+    pub project: String,
+    /// The reporting period to close: a year (2026), a quarter (2026-Q1) or a month (2026-03)
+    #[arg(long, value_name = "PERIOD")]
+    pub period: String,
+}
+
+/// How a period label groups: a year, a quarter or a month.
+fn grouping(label: &str) -> Grouping {
+    match label.len() {
+        4 => Grouping::Year,
+        7 if label.as_bytes()[5] == b'Q' => Grouping::Quarter,
+        _ => Grouping::Month,
+    }
+}
+
+/// The period's figures as the reports state them: the project's stored figure for the period
+/// (by its method) and the claim the settings in force make of it.
+fn figures(view: &ProjectFigures, label: &str, period: Period) -> Result<Figures> {
+    let found = view
+        .claims(grouping(label), DeductionRule::WholeUncertainty)?
+        .into_iter()
+        .find(|(b, _)| b.first_day() == period.from);
+    Ok(found.map_or(Figures::default(), |(_, c)| Figures {
+        stored: c.stored,
+        conservative: c.conservative,
+        claimable: c.claimable,
+    }))
+}
+
+pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
+    let (label, period) =
+        parse_period(&a.period).map_err(|e| Error::field("--period", &a.period, e))?;
+    let sealed = ctx.open()?.write(|tx| {
+        let view = load(tx, &a.project, None)?;
+        let seals = tx.seals(&a.project)?;
+        check_new(&seals, period).map_err(|e| Error::field("--period", &a.period, e))?;
+        let mut tree = TreeBuilder::default();
+        for s in tx.entries(&a.project)? {
+            tree.push(s.leaf);
+        }
+        let (next, head) = tx.chain_tip(&a.project)?;
+        let seal = Seal {
+            seq: next,
+            label: label.clone(),
+            period,
+            tree_size: tree.size(),
+            root: tree.root(),
+            figures: figures(&view, &label, period)?,
+            recorded_at: ctx.now,
+        };
+        let s = chain::seal(seal.entry(&a.project), head);
+        tx.append(std::slice::from_ref(&s))?;
+        Ok((seal, s))
+    })?;
+    let (seal, entry) = sealed;
+    Ok(Report::default()
+        .line(format!(
+            "sealed {} period {} at seq {}",
+            a.project, seal.label, seal.seq
+        ))
+        .table(seal_table(&a.project, &[(seal, entry)])))
+}
+
+/// One line per seal: its period, tree head and the figures it fixed.
+pub fn seal_table(project: &str, seals: &[(Seal, SealedEntry)]) -> Table {
+    let mut t = Table::new(
+        "seals",
+        format!("Seals, project {project}"),
+        columns(&[
+            ("Seq", "seq"),
+            ("Period", "period"),
+            ("Entries", "tree_size"),
+            ("Tree head", "root_head"),
+            ("", "root"),
+            ("Stored (t)", "stored_t"),
+            ("Conservative (t)", "conservative_t"),
+            ("Claimable (t)", "claimable_t"),
+            ("Sealed (UTC)", "sealed_at"),
+            ("", "chain_hash"),
+        ]),
+    );
+    for (s, e) in seals {
+        t.push(vec![
+            Cell::Int(s.seq as i64),
+            Cell::text(&s.label),
+            Cell::Int(s.tree_size as i64),
+            Cell::text(s.root.head()),
+            Cell::text(s.root.to_hex()),
+            Cell::Tonnes(s.figures.stored),
+            Cell::Tonnes(s.figures.conservative),
+            Cell::Tonnes(s.figures.claimable),
+            Cell::text(s.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+            Cell::text(e.chain.to_hex()),
+        ]);
+    }
+    t.note("Tree head: the RFC 6962 Merkle tree head over the leaf hashes of the project's entries seq 0 up to the seal (docs/ledger-format.md). Anything recorded later that is dated in a sealed period is refused, or with --late kept as a late adjustment dated when it was recorded.");
+    t
+}
