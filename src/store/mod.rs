@@ -81,6 +81,16 @@ impl Store {
     }
 }
 
+/// Entry rows as ledger values; a row that does not read back is named.
+fn read_back(project: &str, rows: &[EntryRow]) -> Result<Vec<SealedEntry>> {
+    rows.iter()
+        .map(|r| {
+            r.to_sealed()
+                .map_err(|what| inconsistent(format!("project {project} seq {}: {what}", r.seq)))
+        })
+        .collect()
+}
+
 /// A stored row that no longer reads back is a sign of tampering or corruption.
 fn inconsistent(what: String) -> Error {
     Error::Inconsistent(what)
@@ -148,13 +158,7 @@ impl Tx<'_> {
             .order(entries::seq)
             .select(EntryRow::as_select())
             .load(self.conn)?;
-        rows.iter()
-            .map(|r| {
-                r.to_sealed().map_err(|what| {
-                    inconsistent(format!("project {project} seq {}: {what}", r.seq))
-                })
-            })
-            .collect()
+        read_back(project, &rows)
     }
 
     /// A project's seal entries in seq order: one per sealed period, so few.
@@ -164,13 +168,7 @@ impl Tx<'_> {
             .order(entries::seq)
             .select(EntryRow::as_select())
             .load(self.conn)?;
-        rows.iter()
-            .map(|r| {
-                r.to_sealed().map_err(|what| {
-                    inconsistent(format!("project {project} seq {}: {what}", r.seq))
-                })
-            })
-            .collect()
+        read_back(project, &rows)
     }
 
     /// A project's seals, read back from their entries.
