@@ -12,6 +12,7 @@ mod inputs;
 mod meters;
 mod potential;
 mod progress;
+mod proof;
 mod reconcile;
 mod record;
 mod report;
@@ -114,6 +115,10 @@ pub enum Command {
     Weathering(weathering::WeatheringArgs),
     /// Close a reporting period: record the tree head over every entry and the period's figures
     Seal(seal::SealArgs),
+    /// Write an inclusion proof of one entry in a seal's tree (JSON, docs/proofs.md)
+    Proof(proof::ProofArgs),
+    /// Check an inclusion proof without any ledger: exit 0 when it holds, 3 when it does not
+    CheckProof(proof::CheckProofArgs),
 }
 
 /// Everything a command needs besides its arguments.
@@ -162,6 +167,8 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Mineralization(a) => mineralization::mineralization(&ctx, a),
         Command::Weathering(a) => weathering::weathering(&ctx, a),
         Command::Seal(a) => seal::seal(&ctx, a),
+        Command::Proof(a) => proof::proof(&ctx, a),
+        Command::CheckProof(a) => proof::check_proof(a),
     }
 }
 

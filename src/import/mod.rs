@@ -43,3 +43,11 @@ pub fn plan_file(
         kept.and(planned)
     })
 }
+
+/// Reads a small JSON file (a proof) into `T`; a file that is missing or not of that shape is
+/// refused, naming it.
+pub fn read_json<T: serde::de::DeserializeOwned>(path: &Path) -> Result<T> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?;
+    serde_json::from_str(&text).map_err(|e| Error::field("FILE", &path.display().to_string(), e))
+}

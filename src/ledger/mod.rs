@@ -11,6 +11,7 @@ pub mod hash;
 pub mod merkle;
 pub mod period;
 pub mod project;
+pub mod proof;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;
