@@ -1,6 +1,7 @@
 use clap::Parser;
 use sinkbook::cli::{Cli, run};
-use sinkbook::report::render;
+use sinkbook::report::{Layout, Terminal, render_with};
+use std::io::IsTerminal;
 use std::process::ExitCode;
 
 /// The command's one reading of the clock: `SINKBOOK_NOW` (RFC 3339) if set, else the system's,
@@ -16,9 +17,22 @@ fn now() -> Result<chrono::DateTime<chrono::Utc>, String> {
         .ok_or_else(|| "clock out of range".into())
 }
 
+/// What standard output is: a terminal (and how wide) or a pipe, and what the environment asks.
+fn terminal(wide: bool) -> Terminal {
+    let stdout = std::io::stdout();
+    Terminal {
+        is_terminal: stdout.is_terminal(),
+        columns: terminal_size::terminal_size_of(&stdout).map(|(w, _)| w.0),
+        columns_var: std::env::var("COLUMNS").ok(),
+        no_color: std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty()),
+        wide,
+    }
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let format = cli.format;
+    let layout = Layout::choose(&terminal(cli.wide));
     let now = match now() {
         Ok(t) => t,
         Err(e) => {
@@ -31,7 +45,7 @@ fn main() -> ExitCode {
             for w in &report.warnings {
                 eprintln!("sinkbook: warning: {w}");
             }
-            print!("{}", render(&report, format));
+            print!("{}", render_with(&report, format, layout));
             ExitCode::from(report.exit_code)
         }
         Err(e) => {

@@ -59,6 +59,9 @@ pub struct Cli {
     /// dated now, naming the sealed period (the sealed figures stay as sealed)
     #[arg(long, global = true)]
     pub late: bool,
+    /// Tables at full width even at a terminal (by default they fit its width or COLUMNS)
+    #[arg(long, global = true)]
+    pub wide: bool,
     #[command(subcommand)]
     pub command: Command,
 }

@@ -1,9 +1,14 @@
 //! Everything formatted for people or programs: the only module that renders.
 
 pub mod chart;
+mod fit;
 pub mod html;
+pub mod layout;
+mod people;
 pub mod render;
 pub mod table;
+mod wrap;
 
-pub use render::{CAUTIONS, Format, render};
+pub use layout::{Layout, Terminal};
+pub use render::{CAUTIONS, Format, render, render_with};
 pub use table::{Cell, Column, Report, Table, columns};

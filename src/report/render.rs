@@ -1,7 +1,8 @@
-//! Rendering reports: comfy-table tables for people, JSON and CSV for programs.
+//! Rendering reports: tables for people (people.rs), JSON and CSV for programs.
 
+use super::layout::Layout;
+use super::people;
 use super::table::{Cell, Report, Table};
-use comfy_table::{CellAlignment, ContentArrangement, presets};
 use serde_json::{Map, Value};
 
 /// Ends every human report that states figures (DESIGN.md).
@@ -15,9 +16,15 @@ pub enum Format {
     Csv,
 }
 
+/// A report at full width, unstyled: what a pipe or a file gets.
 pub fn render(report: &Report, format: Format) -> String {
+    render_with(report, format, Layout::FULL)
+}
+
+/// A report for the given layout (it shapes people's tables only; JSON and CSV ignore it).
+pub fn render_with(report: &Report, format: Format, layout: Layout) -> String {
     match format {
-        Format::Table => human(report),
+        Format::Table => people::report(report, layout),
         Format::Json => json(report),
         Format::Csv => csv(report),
     }
@@ -79,42 +86,6 @@ fn pairs_text(p: &[(String, String)]) -> String {
         .map(|(n, v)| format!("{n}={v}"))
         .collect::<Vec<_>>()
         .join("; ")
-}
-
-fn human_table(t: &Table) -> String {
-    let mut ct = comfy_table::Table::new();
-    let shown: Vec<usize> = (0..t.columns.len())
-        .filter(|&i| t.columns[i].people)
-        .collect();
-    ct.load_style(presets::UTF8_FULL_CONDENSED)
-        .set_content_arrangement(ContentArrangement::Disabled)
-        .set_header(shown.iter().map(|&i| t.columns[i].label));
-    let numeric: Vec<bool> = shown
-        .iter()
-        .map(|&i| t.rows.iter().any(|r| r[i].is_numeric()))
-        .collect();
-    for (i, n) in numeric.iter().enumerate() {
-        if *n && let Some(col) = ct.column_mut(i) {
-            col.set_cell_alignment(CellAlignment::Right);
-        }
-    }
-    for row in &t.rows {
-        ct.add_row(shown.iter().map(|&i| human_cell(&row[i])));
-    }
-    let mut out = format!("{}\n{ct}\n", t.title);
-    for n in &t.notes {
-        out.push_str(&format!("  {n}\n"));
-    }
-    out
-}
-
-fn human(r: &Report) -> String {
-    let mut parts: Vec<String> = r.lines.iter().map(|l| format!("{l}\n")).collect();
-    parts.extend(r.tables.iter().map(human_table));
-    if r.cautions {
-        parts.push(format!("{CAUTIONS}\n"));
-    }
-    parts.join("\n")
 }
 
 fn json_cell(c: &Cell) -> Value {
