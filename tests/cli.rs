@@ -224,7 +224,8 @@ fn demo_builds_and_prints_its_tables() {
     let o = assert_cmd::Command::cargo_bin("sinkbook")
         .unwrap()
         .env("SINKBOOK_NOW", common::NOW)
-        .args(["demo", "--db"])
+        .env_remove("COLUMNS")
+        .args(["demo", "--full", "--db"])
         .arg(&db)
         .output()
         .unwrap();
@@ -263,15 +264,32 @@ fn demo_without_db_uses_a_temporary_file() {
         .unwrap()
         .current_dir(dir.path())
         .env_remove("SINKBOOK_DB")
+        .env("SINKBOOK_NOW", common::NOW)
+        .env_remove("COLUMNS")
         .arg("demo")
         .output()
         .unwrap();
     assert!(o.status.success());
-    assert!(
-        String::from_utf8(o.stdout)
-            .unwrap()
-            .contains("Mass balance (ISO 27916) by year, project KRE")
-    );
+    // The overview: projects, one balance per project by year, totals, and where the detail is.
+    let out = String::from_utf8(o.stdout).unwrap();
+    insta::assert_snapshot!("demo_overview", out);
+    for title in [
+        "Mass balance (40 CFR 98.443) by year, project TFS",
+        "Mass balance (40 CFR 98.443) by year, project KRE",
+        "Mineralization by year, project CRB",
+        "Enhanced weathering by year, project EVW",
+        "Totals across projects",
+        "The detailed tables",
+    ] {
+        assert_eq!(out.matches(title).count(), 1, "{title}");
+    }
+    for detail in [
+        "Buffer pool, project TFS",
+        "Meters by quarter",
+        "Ledger verification",
+    ] {
+        assert!(!out.contains(detail), "{detail} is detail");
+    }
     assert_eq!(
         std::fs::read_dir(dir.path()).unwrap().count(),
         0,

@@ -33,7 +33,7 @@ fn stdout(c: &mut assert_cmd::Command) -> String {
 
 /// The whole demo, printed into a fresh ledger at `db`, with the path masked.
 fn full_demo(db: &Path, columns: Option<&str>) -> String {
-    stdout(sinkbook(columns).args(["demo", "--db"]).arg(db))
+    stdout(sinkbook(columns).args(["demo", "--full", "--db"]).arg(db))
         .replace(&db.display().to_string(), "[DB]")
 }
 

@@ -2,7 +2,7 @@
 
 use super::run_line;
 use crate::error::{Error, Result};
-use crate::report::Report;
+use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
 use std::path::Path;
@@ -40,29 +40,74 @@ const SAMPLES: &[(&str, &str)] = &[
     ),
 ];
 
-/// What the demo prints once the ledger is built.
-const TOUR: &[&[&str]] = &[
-    &["project", "list"],
-    &["balance", "TFS", "--by", "quarter"],
-    &["meters", "TFS", "--year", "2026"],
-    &["balance", "KRE", "--by", "quarter"],
-    &["balance", "KRE", "--by", "year", "--method", "iso27916"],
-    &[
-        "reconcile",
-        "TFS",
-        "$SAMPLES/tfs-monitoring-report-2026.csv",
-    ],
-    &[
-        "reconcile",
-        "KRE",
-        "$SAMPLES/kre-monitoring-report-2026.csv",
-    ],
-    &["mineralization", "CRB", "--by", "year"],
-    &["feedstock", "list", "EVW"],
-    &["weathering", "EVW"],
-    &["balance", "EVW", "--by", "year"],
-    &["verify"],
-    &["totals"],
+/// What `demo --full` prints once the ledger is built, and what each command shows; the short
+/// demo lists them as the commands that show the detail.
+const TOUR: &[(&[&str], &str)] = &[
+    (
+        &["project", "list"],
+        "the projects, their methods and permits",
+    ),
+    (
+        &["balance", "TFS", "--by", "quarter"],
+        "TFS: mass balance by quarter, surface leakage, from stored to claimable, buffer pool",
+    ),
+    (
+        &["meters", "TFS", "--year", "2026"],
+        "TFS: each meter by quarter, CO2 concentration, conversion",
+    ),
+    (
+        &["balance", "KRE", "--by", "quarter"],
+        "KRE: mass balance by quarter (Subpart RR), claims, buffer pool",
+    ),
+    (
+        &["balance", "KRE", "--by", "year", "--method", "iso27916"],
+        "KRE: mass balance by year (ISO 27916)",
+    ),
+    (
+        &[
+            "reconcile",
+            "TFS",
+            "$SAMPLES/tfs-monitoring-report-2026.csv",
+        ],
+        "TFS: the ledger against the monitoring report, with materiality",
+    ),
+    (
+        &[
+            "reconcile",
+            "KRE",
+            "$SAMPLES/kre-monitoring-report-2026.csv",
+        ],
+        "KRE: the ledger against the monitoring report, with materiality",
+    ),
+    (
+        &["mineralization", "CRB", "--by", "year"],
+        "CRB: injected CO2 split into mineralized and still dissolved",
+    ),
+    (
+        &["feedstock", "list", "EVW"],
+        "EVW: the crushed basalt's composition and potential",
+    ),
+    (
+        &["weathering", "EVW"],
+        "EVW: each field and soil campaign from applied rock to net removal",
+    ),
+    (
+        &["balance", "EVW", "--by", "year"],
+        "EVW: net removal by year, claims",
+    ),
+    (&["verify"], "every hash and the ledger's structure checked"),
+    (&["totals"], "totals across projects"),
+];
+
+/// What the short demo prints: a command, and how many of its tables to keep (its first one
+/// is the balance; the rest are detail the tour lists).
+const OVERVIEW: &[(&[&str], usize)] = &[
+    (&["project", "list"], usize::MAX),
+    (&["balance", "TFS", "--by", "year"], 1),
+    (&["balance", "KRE", "--by", "year"], 1),
+    (&["balance", "CRB", "--by", "year"], 1),
+    (&["balance", "EVW", "--by", "year"], 1),
+    (&["totals"], usize::MAX),
 ];
 
 /// Splits a script into command lines: blank lines and `#` comments skipped.
@@ -77,8 +122,9 @@ fn io(e: std::io::Error) -> Error {
     Error::Store(format!("demo: could not write the sample files: {e}"))
 }
 
-/// Runs every sample script into a ledger at `db`, then reports on it.
-fn build_and_report(db: &Path, now: DateTime<Utc>) -> Result<Report> {
+/// Runs every sample script into a ledger at `db`, then reports on it: an overview, or with
+/// `full` every table of the tour. `db_shown` is how the commands listed name the ledger.
+fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -> Result<Report> {
     let (_, created) = Store::init(db)?;
     if !created {
         return Err(Error::field(
@@ -100,25 +146,67 @@ fn build_and_report(db: &Path, now: DateTime<Utc>) -> Result<Report> {
                 .map_err(|e| Error::Refused(format!("{name} line {n}: {e}")))?;
         }
     }
-    let mut report = Report::default();
-    for words in TOUR {
+    let run = |words: &[&str]| {
         let words: Vec<String> = words.iter().map(|w| w.replace("$SAMPLES", &dir)).collect();
-        report.extend(run_line(&words, db, now)?);
+        run_line(&words, db, now)
+    };
+    let mut report = Report::default();
+    if full {
+        for (words, _) in TOUR {
+            report.extend(run(words)?);
+        }
+        return Ok(report);
     }
-    Ok(report)
+    for (words, keep) in OVERVIEW {
+        let mut part = run(words)?;
+        part.tables.truncate(*keep);
+        report.extend(part);
+    }
+    Ok(report.table(tour_table(db_shown)))
 }
 
-pub fn demo(db: Option<&Path>, now: DateTime<Utc>) -> Result<Report> {
+/// The commands that print the detailed tables, as a person would type them after `--db`.
+fn tour_table(db: &str) -> Table {
+    let mut t = Table::new(
+        "more",
+        "The detailed tables",
+        columns(&[("Command", "command"), ("Shows", "shows")]),
+    );
+    for (words, shows) in TOUR {
+        let words: Vec<String> = words
+            .iter()
+            .map(|w| w.replace("$SAMPLES", "sample-projects"))
+            .collect();
+        t.push(vec![Cell::text(words.join(" ")), Cell::text(*shows)]);
+    }
+    t.note(format!(
+        "Each as sinkbook --db {db} COMMAND; sinkbook demo --full prints them all. The monitoring reports are in sample-projects/."
+    ));
+    t
+}
+
+#[derive(Debug, clap::Args)]
+#[command(after_help = "Example: sinkbook demo --db demo.db --full")]
+pub struct DemoArgs {
+    /// Print every table of the tour, not just the overview
+    #[arg(long)]
+    full: bool,
+}
+
+pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Report> {
     let (mut report, place) = match db {
-        Some(path) => (
-            build_and_report(path, now)?,
-            format!("in {}", path.display()),
-        ),
+        Some(path) => {
+            let shown = path.display().to_string();
+            (
+                build_and_report(path, &shown, args.full, now)?,
+                format!("in {shown}"),
+            )
+        }
         None => {
             let dir = tempfile::tempdir().map_err(io)?;
             (
-                build_and_report(&dir.path().join("demo.db"), now)?,
-                "in a temporary file, removed on exit,".to_string(),
+                build_and_report(&dir.path().join("demo.db"), "demo.db", args.full, now)?,
+                "in a temporary file, removed on exit (give --db demo.db to keep it),".to_string(),
             )
         }
     };

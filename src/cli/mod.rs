@@ -107,8 +107,8 @@ pub enum Command {
     Density(density::DensityArgs),
     /// CO2 uptake potential of a rock (oxide composition) or a mineral (formula)
     Potential(potential::PotentialArgs),
-    /// Build a fresh ledger from the sample projects and print its tables
-    Demo,
+    /// Build a fresh ledger from the sample projects: an overview, or every table with --full
+    Demo(demo::DemoArgs),
     /// Register and list the feedstocks (crushed rock) of an enhanced-weathering project
     #[command(subcommand)]
     Feedstock(feedstock::FeedstockCommand),
@@ -165,7 +165,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Convert(a) => convert::convert(a),
         Command::Density(a) => density::density(a),
         Command::Potential(a) => potential::potential(a),
-        Command::Demo => demo::demo(db.as_deref(), now),
+        Command::Demo(a) => demo::demo(db.as_deref(), a, now),
         Command::Feedstock(c) => feedstock::feedstock(&ctx, c),
         Command::Mineralization(a) => mineralization::mineralization(&ctx, a),
         Command::Weathering(a) => weathering::weathering(&ctx, a),
