@@ -4,6 +4,7 @@
 //! that speaks SQL, `report` the only one that formats for people, `cli` wires them.
 
 pub mod accounting;
+pub mod bundle;
 pub mod chem;
 pub mod cli;
 pub mod eos;

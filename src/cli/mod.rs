@@ -1,6 +1,8 @@
 //! The command line: parse with clap, call the core and the store, hand a report back.
 //! The clock is read once per command, by the caller, and passed in.
 
+mod bundle;
+mod bundle_load;
 mod chart;
 mod claims;
 mod convert;
@@ -99,6 +101,9 @@ pub enum Command {
     Totals(totals::TotalsArgs),
     /// A project's year as one printable HTML page: balance, meters, leakage, claims, seal
     Report(report::ReportArgs),
+    /// A project's record as one portable file: export, check without a ledger, load
+    #[command(subcommand)]
+    Bundle(bundle::BundleCommand),
     /// Recompute every hash and check the ledger's structure
     Verify(verify::VerifyArgs),
     /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
@@ -161,6 +166,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Chart(a) => chart::chart(&ctx, a),
         Command::Totals(a) => totals::totals(&ctx, a),
         Command::Report(a) => report::report(&ctx, a),
+        Command::Bundle(c) => bundle::bundle(&ctx, c),
         Command::Verify(a) => verify::verify(&ctx, a),
         Command::Convert(a) => convert::convert(a),
         Command::Density(a) => density::density(a),

@@ -2,6 +2,7 @@
 //! planner reads a file once, hashing and parsing together, and hands its bytes on to be kept
 //! verbatim as the import's evidence.
 
+pub mod bundle_file;
 pub mod csv_records;
 pub mod evidence;
 pub mod meter_csv;

@@ -1,6 +1,7 @@
 //! The ledger file: the only module that speaks SQL. SQLite through diesel, migrations embedded
 //! and applied on open, every command in one transaction.
 
+mod bundle;
 mod connection;
 mod feedstocks;
 mod imports;
@@ -14,6 +15,7 @@ use diesel::sqlite::SqliteConnection;
 use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
 use schema::{entries, projects, settings, sites};
 
+pub use bundle::BundleImport;
 use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;

@@ -1,0 +1,268 @@
+//! Checking a bundle line by line, holding only the running state: where in the order the file
+//! is, the chain's last link, the tree head's stack of subtree roots and the digest so far.
+//! Memory stays flat whatever the bundle's size.
+
+use super::line::{Import, Item, Line, Trailer};
+use crate::ledger::Hash;
+use crate::ledger::chain::seal;
+use crate::ledger::merkle::TreeBuilder;
+use sha2::{Digest, Sha256};
+
+/// Where a line may stand: each kind of line after the kinds before it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
+enum Stage {
+    Start,
+    Header,
+    Project,
+    Sites,
+    Settings,
+    Feedstocks,
+    Imports,
+    Entries,
+    Done,
+}
+
+/// The running check of one bundle.
+pub struct Checker {
+    stage: Stage,
+    project: String,
+    lines: u64,
+    digest: Sha256,
+    next_seq: u64,
+    prev_chain: Hash,
+    tree: TreeBuilder,
+    last_code: Option<String>,
+    next_setting: u64,
+    /// The import whose bytes are being read: the next part due, the bytes so far, their hash.
+    import: Option<(Import, i64, i64, Sha256)>,
+}
+
+impl Default for Checker {
+    fn default() -> Self {
+        Checker {
+            stage: Stage::Start,
+            project: String::new(),
+            lines: 0,
+            digest: Sha256::new(),
+            next_seq: 0,
+            prev_chain: Hash::GENESIS,
+            tree: TreeBuilder::default(),
+            last_code: None,
+            next_setting: 0,
+            import: None,
+        }
+    }
+}
+
+impl Checker {
+    /// The project the header names (empty before it).
+    pub fn project(&self) -> &str {
+        &self.project
+    }
+
+    /// Entries read so far, and the tree head over them.
+    pub fn tree(&self) -> (u64, Hash) {
+        (self.tree.size(), self.tree.root())
+    }
+
+    /// Checks the next line (its bytes without the newline) and returns what it holds.
+    pub fn push(&mut self, text: &str) -> Result<Item, String> {
+        if self.stage == Stage::Done {
+            return Err("a line after the trailer".into());
+        }
+        let line = Line::parse(text)?;
+        let item = line.to_item(&self.project)?;
+        let stage = match &item {
+            Item::Header { .. } => Stage::Header,
+            Item::Project(_) => Stage::Project,
+            Item::Site(_) => Stage::Sites,
+            Item::Setting(_) => Stage::Settings,
+            Item::Feedstock(_) => Stage::Feedstocks,
+            Item::Import(_) | Item::Evidence(_) => Stage::Imports,
+            Item::Entry(_) => Stage::Entries,
+            Item::Trailer(_) => Stage::Done,
+        };
+        self.order(stage, &item)?;
+        match &item {
+            Item::Header { project, .. } => self.project = project.clone(),
+            Item::Project(p) if p.code != self.project => {
+                return Err(format!(
+                    "project {} is not the header's {}",
+                    p.code, self.project
+                ));
+            }
+            Item::Site(s) => self.ascending(&s.code)?,
+            Item::Feedstock(f) => self.ascending(&f.code)?,
+            Item::Setting(s) => {
+                if s.seq != self.next_setting {
+                    return Err(format!(
+                        "setting seq {} where {} was due",
+                        s.seq, self.next_setting
+                    ));
+                }
+                self.next_setting += 1;
+            }
+            Item::Import(i) => {
+                self.close_import()?;
+                self.import = Some((i.clone(), 0, 0, Sha256::new()));
+            }
+            Item::Evidence(p) => {
+                let Some((_, next, bytes, hash)) = &mut self.import else {
+                    return Err("file bytes before any import".into());
+                };
+                if p.part != *next {
+                    return Err(format!("part {} where part {next} was due", p.part));
+                }
+                hash.update(&p.bytes);
+                *next += 1;
+                *bytes += p.bytes.len() as i64;
+            }
+            Item::Entry(s) => self.link(s)?,
+            Item::Trailer(t) => self.close(t)?,
+            Item::Project(_) => {}
+        }
+        if stage != Stage::Done {
+            self.digest.update(text.as_bytes());
+            self.digest.update(b"\n");
+            self.lines += 1;
+        }
+        Ok(item)
+    }
+
+    /// Refuses a line out of the bundle's order.
+    fn order(&mut self, stage: Stage, item: &Item) -> Result<(), String> {
+        let once = matches!(stage, Stage::Header | Stage::Project | Stage::Done);
+        if stage < self.stage || (once && stage == self.stage) {
+            return Err(format!("{} out of order", kind_name(item)));
+        }
+        let expected = match self.stage {
+            Stage::Start => Some(Stage::Header),
+            Stage::Header => Some(Stage::Project),
+            _ => None,
+        };
+        if expected.is_some_and(|e| e != stage) {
+            return Err(format!(
+                "{} where the {} line was due",
+                kind_name(item),
+                if self.stage == Stage::Start {
+                    "header"
+                } else {
+                    "project"
+                }
+            ));
+        }
+        if stage != self.stage {
+            self.last_code = None;
+            if self.stage == Stage::Imports {
+                self.close_import()?;
+            }
+        }
+        self.stage = stage;
+        Ok(())
+    }
+
+    fn ascending(&mut self, code: &str) -> Result<(), String> {
+        if self.last_code.as_deref().is_some_and(|l| code <= l) {
+            return Err(format!("{code} out of order (codes ascend)"));
+        }
+        self.last_code = Some(code.to_string());
+        Ok(())
+    }
+
+    /// The parts of an import's bytes are the file it names: its size and its SHA-256.
+    fn close_import(&mut self) -> Result<(), String> {
+        let Some((i, _, bytes, hash)) = self.import.take() else {
+            return Ok(());
+        };
+        if bytes != i.byte_count {
+            return Err(format!(
+                "import {} holds {bytes} bytes, its byte_count says {}",
+                i.file_name, i.byte_count
+            ));
+        }
+        if Hash(hash.finalize().into()) != i.file_sha256 {
+            return Err(format!(
+                "import {}: its bytes differ from its file_sha256",
+                i.file_name
+            ));
+        }
+        Ok(())
+    }
+
+    /// The entry follows the one before it: dense seq, chain hash recomputed.
+    fn link(&mut self, s: &crate::ledger::SealedEntry) -> Result<(), String> {
+        if s.entry.seq != self.next_seq {
+            return Err(format!(
+                "entry seq {} where {} was due",
+                s.entry.seq, self.next_seq
+            ));
+        }
+        let again = seal(s.entry.clone(), self.prev_chain);
+        if again.chain != s.chain {
+            return Err(format!(
+                "entry seq {} does not link to the entry before it (chain_hash)",
+                s.entry.seq
+            ));
+        }
+        self.prev_chain = s.chain;
+        self.tree.push(s.leaf);
+        self.next_seq += 1;
+        Ok(())
+    }
+
+    fn close(&mut self, t: &Trailer) -> Result<(), String> {
+        let now = self.summary();
+        let checks = [
+            (t.lines == now.lines, "lines"),
+            (t.entries == now.entries, "entries"),
+            (t.tree_size == now.tree_size, "tree_size"),
+            (t.root == now.root, "root"),
+            (t.chain_head == now.chain_head, "chain_head"),
+            (t.sha256 == now.sha256, "sha256"),
+        ];
+        if let Some((_, field)) = checks.iter().find(|(ok, _)| !ok) {
+            return Err(format!(
+                "trailer {field} does not match the lines before it"
+            ));
+        }
+        Ok(())
+    }
+
+    /// The whole bundle was read: the trailer must have come.
+    pub fn finish(&self) -> Result<Trailer, String> {
+        if self.stage != Stage::Done {
+            return Err("the bundle ends before its trailer (cut short?)".into());
+        }
+        Ok(self.summary())
+    }
+
+    /// The trailer line for what was pushed so far (used by export).
+    pub fn trailer(&self) -> Line {
+        self.summary().to_line()
+    }
+
+    fn summary(&self) -> Trailer {
+        Trailer {
+            lines: self.lines,
+            entries: self.next_seq,
+            tree_size: self.tree.size(),
+            root: self.tree.root(),
+            chain_head: self.prev_chain,
+            sha256: Hash(self.digest.clone().finalize().into()),
+        }
+    }
+}
+
+fn kind_name(item: &Item) -> &'static str {
+    match item {
+        Item::Header { .. } => "header",
+        Item::Project(_) => "project",
+        Item::Site(_) => "site",
+        Item::Setting(_) => "setting",
+        Item::Feedstock(_) => "feedstock",
+        Item::Import(_) => "import",
+        Item::Evidence(_) => "evidence",
+        Item::Entry(_) => "entry",
+        Item::Trailer(_) => "trailer",
+    }
+}

@@ -1,0 +1,191 @@
+//! `bundle export | check | load`: a project's record as one portable file, checked without a
+//! ledger, loaded into another ledger only as the same history or its extension.
+
+use super::Context;
+use super::setup::known_project;
+use crate::bundle::line::{EvidencePart, Import, Trailer};
+use crate::bundle::{Checker, Item, Line};
+use crate::error::{Error, Result};
+use crate::import::bundle_file::each_line;
+use crate::report::{Cell, Report, Table, columns};
+use clap::{Args, Subcommand};
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+#[derive(Debug, Subcommand)]
+pub enum BundleCommand {
+    /// Write a project's registration, settings, imported files and entries to one file
+    Export(ExportArgs),
+    /// Check every hash, the chain and the tree head of a bundle, without a ledger (exit 3 if damaged)
+    Check { file: PathBuf },
+    /// Load a bundle into the ledger at --db: a new project, or the extension of the copy held
+    Load { file: PathBuf },
+}
+
+#[derive(Debug, Args)]
+pub struct ExportArgs {
+    pub project: String,
+    /// The bundle file to write
+    #[arg(long)]
+    pub out: PathBuf,
+}
+
+pub fn bundle(ctx: &Context, c: BundleCommand) -> Result<Report> {
+    match c {
+        BundleCommand::Export(a) => export(ctx, a),
+        BundleCommand::Check { file } => check(&file),
+        BundleCommand::Load { file } => super::bundle_load::load(ctx, &file),
+    }
+}
+
+/// Lines written through the checker, so an export is checked as it is written.
+struct Writer {
+    checker: Checker,
+    out: std::io::BufWriter<tempfile::NamedTempFile>,
+    name: String,
+}
+
+impl Writer {
+    fn put(&mut self, line: &Line) -> Result<()> {
+        let text = line.to_text();
+        self.checker
+            .push(text.trim_end_matches('\n'))
+            .map_err(|e| Error::Inconsistent(format!("the ledger does not export whole: {e}")))?;
+        self.out
+            .write_all(text.as_bytes())
+            .map_err(|e| Error::field("--out", &self.name, e))
+    }
+}
+
+fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
+    let name = a.out.display().to_string();
+    let dir = match a.out.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
+        _ => PathBuf::from("."),
+    };
+    // Written beside the target and renamed at the end, so a failed export leaves no file.
+    let tmp = tempfile::NamedTempFile::new_in(&dir).map_err(|e| Error::field("--out", &name, e))?;
+    let mut w = Writer {
+        checker: Checker::default(),
+        out: std::io::BufWriter::new(tmp),
+        name: name.clone(),
+    };
+    let code = a.project.clone();
+    ctx.open()?.read(|tx| {
+        let p = known_project(tx, &code)?;
+        w.put(&Line::header(&code))?;
+        w.put(&Line::project(&p))?;
+        for s in tx.sites(&code)? {
+            w.put(&Line::site(&s))?;
+        }
+        for s in tx.settings(&code)? {
+            w.put(&Line::setting(&s))?;
+        }
+        for f in tx.feedstocks(&code)? {
+            w.put(&Line::feedstock(&f))?;
+        }
+        for i in tx.bundle_imports(&code)? {
+            let import = Import {
+                file_name: i.file_name,
+                file_sha256: i.file_sha256,
+                kind: i.kind,
+                row_count: i.row_count,
+                columns_map: i.columns_map,
+                density: i.density,
+                byte_count: i.byte_count,
+                imported_at: i.imported_at,
+            };
+            w.put(&import.to_line())?;
+            // One part in memory at a time.
+            for part in 0..tx.evidence_parts(i.id)? {
+                let bytes = tx.evidence_part(i.id, part)?.unwrap_or_default();
+                w.put(&EvidencePart { part, bytes }.to_line())?;
+            }
+        }
+        tx.each_entry(&code, |s| w.put(&Line::entry(&s)))
+    })?;
+    let trailer = w.checker.trailer();
+    w.put(&trailer)?;
+    let tmp = w
+        .out
+        .into_inner()
+        .map_err(|e| Error::field("--out", &name, e.error()))?;
+    // A bundle is for sending: readable by others like any file written (a temporary file is
+    // created for its owner only).
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        tmp.as_file()
+            .set_permissions(std::fs::Permissions::from_mode(0o644))
+            .map_err(|e| Error::field("--out", &name, e))?;
+    }
+    tmp.as_file()
+        .sync_all()
+        .map_err(|e| Error::field("--out", &name, e))?;
+    tmp.persist(&a.out)
+        .map_err(|e| Error::field("--out", &name, e.error))?;
+    let t = w.checker.finish().map_err(Error::Inconsistent)?;
+    Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
+}
+
+/// Reads a bundle through the checker, handing each checked line's value to `f`.
+pub fn read_checked(
+    path: &Path,
+    mut f: impl FnMut(&Item) -> Result<()>,
+) -> Result<(String, Trailer)> {
+    let name = path.display().to_string();
+    let mut checker = Checker::default();
+    each_line(path, |n, text| {
+        let item = checker
+            .push(text)
+            .map_err(|e| Error::Inconsistent(format!("bundle {name} line {n}: {e}")))?;
+        f(&item)
+    })?;
+    let t = checker
+        .finish()
+        .map_err(|e| Error::Inconsistent(format!("bundle {name}: {e}")))?;
+    Ok((checker.project().to_string(), t))
+}
+
+fn check(file: &Path) -> Result<Report> {
+    let (project, t) = read_checked(file, |_| Ok(()))?;
+    let mut table = summary_table(
+        "Bundle check",
+        &file.display().to_string(),
+        &project,
+        &t,
+        "whole",
+    );
+    table.note("Checked: every line in its one spelling and in order; every registration and entry against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
+    Ok(Report::default().table(table))
+}
+
+pub fn summary_table(title: &str, file: &str, project: &str, t: &Trailer, result: &str) -> Table {
+    let mut table = Table::new(
+        "bundle",
+        title,
+        columns(&[
+            ("File", "file"),
+            ("Project", "project"),
+            ("Lines", "lines"),
+            ("Entries", "entries"),
+            ("Tree head", "root_head"),
+            ("", "root"),
+            ("", "chain_hash"),
+            ("", "sha256"),
+            ("Result", "result"),
+        ]),
+    );
+    table.push(vec![
+        Cell::text(file),
+        Cell::text(project),
+        Cell::Int(t.lines as i64 + 1),
+        Cell::Int(t.entries as i64),
+        Cell::text(t.root.head()),
+        Cell::text(t.root.to_hex()),
+        Cell::text(t.chain_head.to_hex()),
+        Cell::text(t.sha256.to_hex()),
+        Cell::text(result),
+    ]);
+    table
+}
