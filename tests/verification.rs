@@ -199,7 +199,21 @@ fn pool_case(reversal: &str) -> Value {
     project(&l, &[]);
     l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
     l.ok(&["project", "set", "P", "--buffer", "10%"]);
-    month(&l, "W1", 1, "1000 t");
+    // Stored and claimed in 2025; the reversal of March 2026 leaves 2026 at a loss, drawn on
+    // the pool 2025 contributed to.
+    l.ok(&[
+        "record",
+        "injection",
+        "P",
+        "--site",
+        "W1",
+        "--mass",
+        "1000 t",
+        "--from",
+        "2025-01-01",
+        "--to",
+        "2025-01-28",
+    ]);
     l.ok(&[
         "record",
         "reversal",
@@ -218,7 +232,7 @@ fn pool_case(reversal: &str) -> Value {
         .as_array()
         .unwrap()
         .iter()
-        .find(|r| r["event"].as_str().unwrap().starts_with("reversal"))
+        .find(|r| r["event"].as_str().unwrap().starts_with("loss 2026"))
         .unwrap()
         .clone()
 }

@@ -5,7 +5,7 @@ use crate::accounting::uncertainty::{
     Estimate, Reading, Term, TermSign, mass_balance, sum_readings,
 };
 use crate::ledger::period::{Bucket, Grouping, apportion};
-use crate::ledger::{Entry, EntryKind, Project};
+use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::quantity::Mass;
 use std::collections::BTreeMap;
 
@@ -35,7 +35,7 @@ pub struct Terms {
 }
 
 impl Terms {
-    /// RR-1/RR-4: CO2 received, net of what was redelivered.
+    /// RR-1 to RR-3: CO2 received, net of what was redelivered.
     pub fn received(&self) -> Mass {
         self.receipts - self.redeliveries
     }
@@ -172,11 +172,18 @@ impl TermReadings {
     /// The stored figure with its uncertainty, by the method's terms.
     fn estimate(&self, method: BalanceMethod) -> Estimate {
         use TermSign::{Adds, Deducts};
+        // Produced CO2 is (1 + X)·S from the separator meter alone: the entrained part carries
+        // the same meter's error, so U = (1 + X)·S·u, added linearly with the separated part.
+        let produced: Vec<Reading> = self
+            .separated
+            .iter()
+            .chain(&self.entrained)
+            .cloned()
+            .collect();
         let terms: Vec<(&str, TermSign, &Vec<Reading>)> = match method {
             BalanceMethod::Rr => vec![
                 ("injected", Adds, &self.injected),
-                ("separated", Deducts, &self.separated),
-                ("entrained", Deducts, &self.entrained),
+                ("produced", Deducts, &produced),
                 ("surface leakage", Deducts, &self.surface_leakage),
                 ("leaks injection side", Deducts, &self.leaks_injection_side),
                 (
@@ -267,6 +274,12 @@ pub fn balance<'a>(
     by.into_iter()
         .map(|(bucket, (terms, readings))| {
             let (stored, equation) = terms.stored(method);
+            // A facility that produces fluids reports by RR-11 in every period, a quarter
+            // without production included (the figure is the same: its produced terms are 0).
+            let equation = match equation {
+                "RR-12" if project.method == Method::Eor => "RR-11",
+                e => e,
+            };
             cum_injected += terms.injected;
             cum_stored += stored;
             let capacity = project.permit_capacity.filter(|c| c.is_positive());

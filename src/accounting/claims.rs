@@ -9,9 +9,9 @@ use super::permanence::{Claim, ClaimRules, Durability, claim};
 use super::uncertainty::Estimate;
 use crate::ledger::period::Bucket;
 use crate::ledger::setting::{Setting, SettingName, in_force};
-use crate::ledger::{Entry, EntryKind, Site};
+use crate::ledger::{Entry, Site};
 use crate::quantity::Mass;
-use chrono::{DateTime, NaiveDate, Utc};
+use chrono::{DateTime, Utc};
 
 /// Tonne-year equivalence time when a project does not set one: 55 years for a 100-year
 /// horizon (Moura-Costa & Wilson 2000, read through quotation).
@@ -92,7 +92,9 @@ pub fn claims(lines: &[BalanceLine], rules: &ClaimRules) -> Vec<(Bucket, Claim)>
         .collect()
 }
 
-/// One event of the buffer pool: a period's claim, or a reversal.
+/// One event of the buffer pool: a claim period that stores tonnes contributes its buffer; one
+/// that loses them (its stored tonnes, less the reversals dated in it, are negative) draws the
+/// loss on the pool like a reversal.
 #[derive(Debug, Clone, PartialEq)]
 pub enum PoolEvent {
     Claim {
@@ -100,87 +102,65 @@ pub enum PoolEvent {
         buffer_withheld: Mass,
         claimable: Mass,
     },
-    Reversal {
-        date: NaiveDate,
-        seq: u64,
+    Loss {
+        bucket: Bucket,
+        /// The reversals dated in the period, with their seqs.
+        reversals: Vec<u64>,
         reversal: Reversal,
     },
 }
 
-/// The pool after the claims and reversals, in date order: a reversal draws only on buffer
-/// contributed by periods that ended before it was found.
-pub fn buffer_pool<'a>(
-    claims: &[(Bucket, Claim)],
-    reversals: impl Iterator<Item = &'a Entry>,
-) -> (BufferPool, Vec<PoolEvent>) {
-    let mut events: Vec<(NaiveDate, u8, PoolEvent)> = claims
-        .iter()
-        .map(|(b, c)| {
-            (
-                b.last_day(),
-                0,
-                PoolEvent::Claim {
-                    bucket: *b,
-                    buffer_withheld: c.buffer_withheld,
-                    claimable: c.claimable,
-                },
-            )
-        })
-        .collect();
-    let reversal_list: Vec<&Entry> = reversals
-        .filter(|e| e.kind == EntryKind::Reversal)
-        .collect();
-    for e in &reversal_list {
-        events.push((
-            e.period.from,
-            1,
-            PoolEvent::Reversal {
-                date: e.period.from,
-                seq: e.seq,
-                reversal: Reversal {
-                    loss: e.mass,
-                    buffer_cancelled: Mass::ZERO,
-                    claimable_cancelled: Mass::ZERO,
-                    shortfall: Mass::ZERO,
-                },
-            },
-        ));
+/// A claim period's figure: what it stored, and the reversals dated in it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ClaimBasis {
+    pub bucket: Bucket,
+    /// Stored with its uncertainty, before reversals.
+    pub stored: Estimate,
+    pub reversed: Mass,
+    pub reversals: Vec<u64>,
+}
+
+impl ClaimBasis {
+    /// Stored net of the period's reversals, the uncertainty unchanged.
+    pub fn net(&self) -> Estimate {
+        Estimate::absolute(self.stored.value() - self.reversed, self.stored.abs_u())
     }
-    // A reversal found on a period's last day is after that period's claim.
-    events.sort_by_key(|(d, order, _)| (*d, *order));
+}
+
+/// Each claim period's claim, and the pool after them in date order: a reversal reduces the
+/// stored tonnes of the claim period it is dated in; a period left negative claims nothing
+/// and its loss cancels buffer contributed by earlier periods first, then claimable tonnes
+/// already counted; what neither covers is a shortfall.
+pub fn claim_pool(
+    periods: &[ClaimBasis],
+    rules: &ClaimRules,
+) -> (Vec<(Bucket, Claim)>, BufferPool, Vec<PoolEvent>) {
     let mut pool = BufferPool::new();
-    let mut out = Vec::with_capacity(events.len());
-    for (_, _, ev) in events {
-        match ev {
-            PoolEvent::Claim {
-                bucket,
-                buffer_withheld,
-                claimable,
-            } => {
-                // Claims are never negative (period_claim), so this cannot fail.
-                let _ = pool.add_claim(buffer_withheld, claimable);
-                out.push(PoolEvent::Claim {
-                    bucket,
-                    buffer_withheld,
-                    claimable,
+    let mut claims = Vec::with_capacity(periods.len());
+    let mut events = Vec::with_capacity(periods.len());
+    for p in periods {
+        let net = p.net();
+        let c = period_claim(&net, rules);
+        if net.value().grams() < 0 {
+            if let Ok(r) = pool.reverse(-net.value()) {
+                events.push(PoolEvent::Loss {
+                    bucket: p.bucket,
+                    reversals: p.reversals.clone(),
+                    reversal: r,
                 });
             }
-            PoolEvent::Reversal {
-                date,
-                seq,
-                reversal,
-            } => {
-                if let Ok(r) = pool.reverse(reversal.loss) {
-                    out.push(PoolEvent::Reversal {
-                        date,
-                        seq,
-                        reversal: r,
-                    });
-                }
-            }
+        } else {
+            // Claims are never negative (period_claim), so this cannot fail.
+            let _ = pool.add_claim(c.buffer_withheld, c.claimable);
+            events.push(PoolEvent::Claim {
+                bucket: p.bucket,
+                buffer_withheld: c.buffer_withheld,
+                claimable: c.claimable,
+            });
         }
+        claims.push((p.bucket, c));
     }
-    (pool, out)
+    (claims, pool, events)
 }
 
 #[cfg(test)]
@@ -262,51 +242,39 @@ mod tests {
     }
 
     #[test]
-    fn reversals_draw_on_buffer_contributed_before_them() {
-        let q = |d: &str| Grouping::Quarter.bucket(parse_date(d).unwrap());
-        let claim_of = |buffer: i64, claimable: i64| Claim {
-            applied: super::super::conservative::AppliedRule::WholeUncertainty,
-            durable_share: 1.0,
+    fn a_losing_period_draws_on_buffer_contributed_before_it() {
+        let y = |year: i32| Grouping::Year.bucket(parse_date(&format!("{year}-06-01")).unwrap());
+        let rules = ClaimRules {
+            deduction: DeductionRule::WholeUncertainty,
+            durability: Durability::Retention {
+                annual_leak_fraction: 0.0,
+                horizon_years: 100.0,
+            },
             buffer_share: 0.1,
-            stored: t(buffer + claimable),
-            uncertainty_deduction: Mass::ZERO,
-            conservative: t(buffer + claimable),
-            durability_discount: Mass::ZERO,
-            durable: t(buffer + claimable),
-            buffer_withheld: t(buffer),
-            claimable: t(claimable),
         };
-        let claims = vec![
-            (q("2026-02-01"), claim_of(10, 90)),
-            (q("2026-05-01"), claim_of(10, 90)),
-        ];
-        let reversal = |date: &str, tonnes: i64, seq: u64| Entry {
-            project: "P".into(),
-            seq,
-            kind: EntryKind::Reversal,
-            site: "S".into(),
-            period: crate::ledger::Period::day(parse_date(date).unwrap()),
-            reading: Default::default(),
-            mass: t(tonnes),
-            sign: crate::ledger::Sign::Deducts,
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: format!("r{seq}"),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
+        let basis = |year, stored, reversed| ClaimBasis {
+            bucket: y(year),
+            stored: Estimate::absolute(t(stored), Mass::ZERO),
+            reversed: t(reversed),
+            reversals: vec![],
         };
-        // Found in May: only Q1's 10 t of buffer exist; 15 t → 10 buffer + 5 claimable.
-        let rs = [reversal("2026-05-10", 15, 7)];
-        let (pool, events) = buffer_pool(&claims, rs.iter());
-        let PoolEvent::Reversal { reversal: r, .. } = &events[1] else {
+        // 2025 stores 100 t (10 t buffer, 90 t claimable); 2026 stores 20 t but reverses
+        // 35 t: a loss of 15 t → 10 t of buffer, then 5 t of claimable.
+        let (claims, pool, events) =
+            claim_pool(&[basis(2025, 100, 0), basis(2026, 20, 35)], &rules);
+        assert_eq!(claims[1].1.claimable, Mass::ZERO);
+        let PoolEvent::Loss { reversal: r, .. } = &events[1] else {
             panic!("{events:?}")
         };
         assert_eq!(
-            (r.buffer_cancelled, r.claimable_cancelled, r.shortfall),
-            (t(10), t(5), Mass::ZERO)
+            (
+                r.loss,
+                r.buffer_cancelled,
+                r.claimable_cancelled,
+                r.shortfall
+            ),
+            (t(15), t(10), t(5), Mass::ZERO)
         );
-        assert_eq!(pool.remaining(), t(10));
+        assert_eq!(pool.remaining(), Mass::ZERO);
     }
 }

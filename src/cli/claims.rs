@@ -109,11 +109,21 @@ pub fn claims_table(
         durability_text(rules.durability),
         rules.buffer_share * 100.0
     ));
-    t.note("A period whose stored figure is zero or negative claims nothing.");
+    t.note("Stored: the period's stored tonnes less the reversals dated in it. A period whose figure is zero or negative claims nothing; a loss draws on the buffer pool.");
     t
 }
 
-/// Contributions, reversals and what is left of the buffer pool.
+/// A period that lost tonnes, and the reversals dated in it.
+fn loss_text(bucket: &Bucket, reversals: &[u64]) -> String {
+    let seqs: Vec<String> = reversals.iter().map(u64::to_string).collect();
+    match seqs.len() {
+        0 => format!("loss {bucket}"),
+        1 => format!("loss {bucket} (reversal seq {})", seqs[0]),
+        _ => format!("loss {bucket} (reversals seq {})", seqs.join(", ")),
+    }
+}
+
+/// Contributions, losses and what is left of the buffer pool.
 pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) -> Table {
     let mut t = Table::new(
         "buffer_pool",
@@ -143,12 +153,12 @@ pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) ->
                 Cell::Empty,
                 Cell::Empty,
             ],
-            PoolEvent::Reversal {
-                date,
-                seq,
+            PoolEvent::Loss {
+                bucket,
+                reversals,
                 reversal: r,
             } => vec![
-                Cell::text(format!("reversal {date} (seq {seq})")),
+                Cell::text(loss_text(bucket, reversals)),
                 Cell::Empty,
                 Cell::Empty,
                 Cell::Tonnes(r.loss),
@@ -168,7 +178,7 @@ pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) ->
         Cell::Tonnes(pool.shortfall()),
     ]);
     t.note(format!(
-        "Remaining in the pool: {} t. Each month's claim contributes its buffer at the month's end; a reversal cancels buffer tonnes contributed before it first, then claimable tonnes; what neither covers is a shortfall.",
+        "Remaining in the pool: {} t. Each year's claim (the claim period) contributes its buffer at the year's end. A reversal reduces the stored tonnes of the year it is dated in; a year left negative claims nothing, and its loss cancels buffer tonnes contributed before it first, then claimable tonnes; what neither covers is a shortfall.",
         crate::report::render::tonnes_text(pool.remaining())
     ));
     if pool.shortfall().is_positive() {

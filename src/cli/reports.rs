@@ -5,7 +5,7 @@ use super::claims::{claims_table, deduction_rule, pool_table, uncertainty_note};
 use super::setup::known_project;
 use super::view::load;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
-use crate::accounting::claims::{PoolEvent, period_claim};
+use crate::accounting::claims::PoolEvent;
 use crate::error::Result;
 use crate::ledger::correction::superseded_by;
 use crate::ledger::period::Grouping;
@@ -138,13 +138,10 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     if let Some(l) = leakage_table(project, figures.entries()) {
         report = report.table(l);
     }
+    // Claims are made per claim period whatever --by shows the balance by.
     let rules = figures.rules(deduction);
-    let period_claims: Vec<_> = lines
-        .iter()
-        .map(|l| (l.bucket, period_claim(&l.uncertainty, &rules)))
-        .collect();
-    report = report.table(claims_table(project, &period_claims, &rules, &by));
-    let (pool, events) = figures.pool_by(a.method, deduction)?;
+    let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
+    report = report.table(claims_table(project, &period_claims, &rules, "year"));
     if rules.buffer_share > 0.0 || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
         report = report.table(pool_table(project, &pool, &events));
     }
@@ -210,7 +207,7 @@ fn rr_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             Cell::Tonnes(x.emissions),
         ]);
     }
-    t.note("RR-11: sequestered = injected − produced − surface leakage − leaks/vents on both sides; RR-12 when nothing is produced. Received = receipts − redeliveries (RR-1/RR-4); produced = (1 + X) × CO2 separated (entrained fraction X).");
+    t.note("RR-11: sequestered = injected − produced − surface leakage − leaks/vents on both sides, for a project that produces fluids (EOR), in every period; RR-12: injected − surface leakage − leaks/vents, for one that does not. Received = receipts − redeliveries (RR-1 to RR-3); produced = (1 + X) × CO2 separated (entrained fraction X), its ± (1 + X) × the separator's.");
     t
 }
 

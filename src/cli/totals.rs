@@ -7,7 +7,7 @@ use super::claims::deduction_rule;
 use super::view::load;
 use crate::accounting::project_view::{ProjectFigures, TotalsLine};
 use crate::error::{Error, Result};
-use crate::ledger::Method;
+use crate::ledger::{Method, Project};
 use crate::report::{Cell, Report, Table, columns};
 use chrono::{DateTime, NaiveDate, Utc};
 use clap::Args;
@@ -63,14 +63,25 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let views = ctx.open()?.read(|tx| {
+        let projects = tx.projects()?;
+        check_filter(&projects, "--operator", a.operator.as_deref(), |p| {
+            Some(p.operator.as_str())
+        })?;
+        check_filter(&projects, "--permit", a.permit.as_deref(), |p| {
+            p.permit_ref.as_deref()
+        })?;
         let mut views = Vec::new();
-        for p in tx.projects()? {
+        for p in projects {
             let wanted = as_of.is_none_or(|t| p.registered_at <= t)
-                && a.operator.as_ref().is_none_or(|o| *o == p.operator)
-                && a.method.as_ref().is_none_or(|m| m == p.method.name())
-                && a.permit
+                && a.operator
                     .as_ref()
-                    .is_none_or(|r| Some(r) == p.permit_ref.as_ref());
+                    .is_none_or(|o| o.eq_ignore_ascii_case(&p.operator))
+                && a.method.as_ref().is_none_or(|m| m == p.method.name())
+                && a.permit.as_ref().is_none_or(|r| {
+                    p.permit_ref
+                        .as_ref()
+                        .is_some_and(|p| p.eq_ignore_ascii_case(r))
+                });
             if wanted {
                 views.push(load(tx, &p.code, as_of)?);
             }
@@ -138,9 +149,36 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     t.push(row);
     t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the net of the carbonation uptake less the project's emissions for ex-situ projects, the weathering net (removal − emissions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
     if !by_year {
-        t.note("Per project, buffer and claimable are net of what reversals cancelled (buffer first, then claimable).");
+        t.note("Buffer and claimable are net of what reversals cancelled (buffer first, then claimable), in the year of the reversal, so the years add up to the project's line.");
     }
     Ok(Report::default().table(t))
+}
+
+/// A filter that matches no project is refused, listing the values the ledger knows
+/// (operators match whatever their case).
+fn check_filter(
+    projects: &[Project],
+    option: &str,
+    given: Option<&str>,
+    value: impl Fn(&Project) -> Option<&str>,
+) -> Result<()> {
+    let Some(given) = given else {
+        return Ok(());
+    };
+    let known: std::collections::BTreeSet<&str> = projects.iter().filter_map(&value).collect();
+    if known.iter().any(|k| k.eq_ignore_ascii_case(given)) {
+        return Ok(());
+    }
+    let list: Vec<&str> = known.into_iter().collect();
+    Err(Error::field(
+        option,
+        given,
+        if list.is_empty() {
+            "matches no project (the ledger holds none with one)".to_string()
+        } else {
+            format!("matches no project (known: {})", list.join(", "))
+        },
+    ))
 }
 
 fn cells(l: &TotalsLine) -> Vec<Cell> {

@@ -27,7 +27,7 @@ pub use weathering::{CampaignTotal, EmissionsInScope, campaign_total, default_se
 
 use super::balance::BalanceMethod;
 use super::buffer_pool::BufferPool;
-use super::claims::{PoolEvent, buffer_pool, period_claim, rules};
+use super::claims::{ClaimBasis, PoolEvent, claim_pool, period_claim, rules};
 use super::conservative::DeductionRule;
 use super::permanence::{Claim, ClaimRules};
 use super::uncertainty::Estimate;
@@ -39,6 +39,15 @@ use crate::ledger::{Entry, EntryKind, Method, Project, Site};
 use crate::quantity::Mass;
 use chrono::{DateTime, Utc};
 use evidence::Batch;
+use std::collections::BTreeMap;
+
+/// The one granularity at which claims are made: the figures of the claims table, the buffer
+/// pool and `totals` (uncertainty added in quadrature does not add across periods, so claims
+/// made by month, quarter and year would be three different figures).
+pub const CLAIM_PERIOD: Grouping = Grouping::Year;
+
+/// Each claim period's claim, the pool after them, and its events.
+pub type ClaimPool = (Vec<(Bucket, Claim)>, BufferPool, Vec<PoolEvent>);
 
 /// What the view is built from besides the entries: the registrations and settings in force.
 pub struct Registrations {
@@ -177,32 +186,53 @@ impl ProjectFigures {
             .collect())
     }
 
-    /// The buffer pool: each month's claim contributes its buffer at the month's end, so a
-    /// reversal meets the same pool whatever a table's grouping.
-    pub fn pool(
-        &self,
-        deduction: DeductionRule,
-    ) -> Result<(BufferPool, Vec<PoolEvent>), ViewError> {
-        self.pool_by(BalanceMethod::Rr, deduction)
+    /// Each claim period's stored figure (a geological project's by `method`) and the
+    /// reversals dated in it.
+    pub fn claim_basis(&self, method: BalanceMethod) -> Result<Vec<ClaimBasis>, ViewError> {
+        let stored: Vec<(Bucket, Estimate)> = match self.view.project.method {
+            Method::SalineAquifer | Method::DepletedField | Method::Eor => self
+                .geological(CLAIM_PERIOD, method)
+                .into_iter()
+                .map(|l| (l.bucket, l.uncertainty))
+                .collect(),
+            _ => self.stored(CLAIM_PERIOD)?,
+        };
+        let mut by: BTreeMap<Bucket, ClaimBasis> = stored
+            .into_iter()
+            .map(|(bucket, stored)| {
+                let basis = ClaimBasis {
+                    bucket,
+                    stored,
+                    reversed: Mass::ZERO,
+                    reversals: Vec::new(),
+                };
+                (bucket, basis)
+            })
+            .collect();
+        for e in self.reversals() {
+            let bucket = CLAIM_PERIOD.bucket(e.period.from);
+            let b = by.entry(bucket).or_insert_with(|| ClaimBasis {
+                bucket,
+                stored: Estimate::absolute(Mass::ZERO, Mass::ZERO),
+                reversed: Mass::ZERO,
+                reversals: Vec::new(),
+            });
+            b.reversed += e.mass;
+            b.reversals.push(e.seq);
+        }
+        Ok(by.into_values().collect())
     }
 
-    /// The buffer pool with a geological project's claims made by `method`'s mass balance.
-    pub fn pool_by(
+    /// The claims of each claim period and the buffer pool after them (see [`claim_pool`]).
+    pub fn claim_pool(
         &self,
         method: BalanceMethod,
         deduction: DeductionRule,
-    ) -> Result<(BufferPool, Vec<PoolEvent>), ViewError> {
-        let monthly = match self.view.project.method {
-            Method::SalineAquifer | Method::DepletedField | Method::Eor => {
-                let rules = self.rules(deduction);
-                self.geological(Grouping::Month, method)
-                    .iter()
-                    .map(|l| (l.bucket, period_claim(&l.uncertainty, &rules)))
-                    .collect()
-            }
-            _ => self.claims(Grouping::Month, deduction)?,
-        };
-        Ok(buffer_pool(&monthly, self.entries()))
+    ) -> Result<ClaimPool, ViewError> {
+        Ok(claim_pool(
+            &self.claim_basis(method)?,
+            &self.rules(deduction),
+        ))
     }
 
     /// Every reversal recorded, as (date, mass).

@@ -1,13 +1,12 @@
 //! A project's line of the regulator's totals: received, injected, stored, conservative,
 //! durable, buffer, claimable and reversed, per year and to date.
 
+use super::CLAIM_PERIOD;
 use super::{ProjectFigures, ViewError};
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::claims::{PoolEvent, period_claim};
+use crate::accounting::claims::{PoolEvent, claim_pool};
 use crate::accounting::conservative::DeductionRule;
-use crate::ledger::period::Grouping;
 use crate::quantity::Mass;
-use chrono::Datelike;
 use std::collections::BTreeMap;
 
 /// The figures of one line of the totals.
@@ -90,44 +89,46 @@ pub struct ProjectTotals {
 
 impl ProjectFigures {
     pub fn totals(&self, deduction: DeductionRule) -> Result<ProjectTotals, ViewError> {
-        let rules = self.rules(deduction);
         let terms: BTreeMap<i32, _> = self
-            .geological(Grouping::Year, BalanceMethod::Rr)
+            .geological(CLAIM_PERIOD, BalanceMethod::Rr)
             .into_iter()
             .map(|l| (l.bucket.year, l.terms))
             .collect();
-        let (pool, events) = self.pool(deduction)?;
-        let mut years = Vec::new();
-        let mut total = TotalsLine::default();
-        for (bucket, u) in self.stored(Grouping::Year)? {
-            let c = period_claim(&u, &rules);
+        let basis = self.claim_basis(BalanceMethod::Rr)?;
+        let (claims, _, events) = claim_pool(&basis, &self.rules(deduction));
+        let mut years: BTreeMap<i32, TotalsLine> = BTreeMap::new();
+        for (b, (bucket, c)) in basis.iter().zip(&claims) {
             let t = terms.get(&bucket.year).copied().unwrap_or_default();
-            let line = TotalsLine {
-                received: t.received(),
-                injected: t.injected,
-                stored: u.value(),
-                conservative: c.conservative,
-                durable: c.durable,
-                buffer: c.buffer_withheld,
-                claimable: c.claimable,
-                reversed: self
-                    .reversals()
-                    .filter(|e| e.period.from.year() == bucket.year)
-                    .map(|e| e.mass)
-                    .sum(),
-            };
-            total.add(&line);
-            years.push((bucket.year, line));
+            years.insert(
+                bucket.year,
+                TotalsLine {
+                    received: t.received(),
+                    injected: t.injected,
+                    stored: b.stored.value(),
+                    conservative: c.conservative,
+                    durable: c.durable,
+                    buffer: c.buffer_withheld,
+                    claimable: c.claimable,
+                    reversed: b.reversed,
+                },
+            );
         }
-        let cancelled_claimable: Mass = events
-            .iter()
-            .filter_map(|e| match e {
-                PoolEvent::Reversal { reversal, .. } => Some(reversal.claimable_cancelled),
-                PoolEvent::Claim { .. } => None,
-            })
-            .sum();
-        total.buffer = total.buffer - pool.cancelled();
-        total.claimable = total.claimable - cancelled_claimable;
+        // A period's loss cancels buffer and claimable counted before it, in its year.
+        for ev in &events {
+            if let PoolEvent::Loss {
+                bucket, reversal, ..
+            } = ev
+            {
+                let y = years.entry(bucket.year).or_default();
+                y.buffer = y.buffer - reversal.buffer_cancelled;
+                y.claimable = y.claimable - reversal.claimable_cancelled;
+            }
+        }
+        let mut total = TotalsLine::default();
+        for line in years.values() {
+            total.add(line);
+        }
+        let years: Vec<(i32, TotalsLine)> = years.into_iter().collect();
         Ok(ProjectTotals {
             years,
             headroom: self.project().permit_capacity.map(|c| c - total.stored),
