@@ -66,6 +66,37 @@ fn altered_amount() {
     );
 }
 
+/// Reads check what they read: a forged amount stops every report that reads entries, naming
+/// the seq, instead of being counted.
+#[test]
+fn reports_refuse_a_forged_amount() {
+    let l = ledger_with_entries();
+    raw(&l)
+        .batch_execute(&format!(
+            "{DROP_TRIGGERS} UPDATE entries SET grams = grams + 1000000 WHERE seq = 4"
+        ))
+        .unwrap();
+    for args in [
+        &["balance", "TFS"][..],
+        &["balance", "TFS", "--by", "quarter"],
+        &["totals"],
+        &["entries", "TFS"],
+        &["--format", "json", "entries", "TFS"],
+    ] {
+        let r = l.run(args);
+        assert_eq!(
+            r.code, 3,
+            "{args:?} should refuse the forged entry: {}",
+            r.out
+        );
+        assert!(
+            r.err.contains("project TFS seq 4: leaf hash differs"),
+            "{args:?}: {}",
+            r.err
+        );
+    }
+}
+
 #[test]
 fn altered_date() {
     tampered(
@@ -154,6 +185,11 @@ fn altered_permit_is_caught() {
 #[test]
 fn corrupted_file_is_caught_by_integrity_check() {
     let l = ledger_with_entries();
+    let whole = l.ok(&["verify", "--deep"]);
+    assert!(
+        whole.contains("integrity_check found the file's structure whole"),
+        "{whole}"
+    );
     // Checkpoint the WAL so the pages live in the main file, then scribble over a page.
     raw(&l)
         .batch_execute("PRAGMA wal_checkpoint(TRUNCATE);")
@@ -167,7 +203,7 @@ fn corrupted_file_is_caught_by_integrity_check() {
         }
     }
     std::fs::write(&l.path, bytes).unwrap();
-    let r = l.run(&["verify"]);
+    let r = l.run(&["verify", "--deep"]);
     assert_ne!(r.code, 0, "a scribbled page must not verify");
     assert!(r.code == 3 || r.code == 1, "{}: {}", r.code, r.err);
 }

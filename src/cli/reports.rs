@@ -7,7 +7,6 @@ use super::view::load;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
 use crate::accounting::claims::PoolEvent;
 use crate::error::Result;
-use crate::ledger::correction::superseded_by;
 use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::report::render::tonnes_text;
@@ -20,11 +19,6 @@ pub struct EntriesArgs {
 }
 
 pub fn entries(ctx: &Context, a: EntriesArgs) -> Result<Report> {
-    let all = ctx.open()?.read(|tx| {
-        known_project(tx, &a.project)?;
-        tx.entries(&a.project)
-    })?;
-    let by = superseded_by(&all);
     let mut t = Table::new(
         "entries",
         format!("Entries, project {}", a.project),
@@ -53,34 +47,41 @@ pub fn entries(ctx: &Context, a: EntriesArgs) -> Result<Report> {
             ("", "chain_hash"),
         ]),
     );
-    for (s, by) in all.iter().zip(&by) {
-        let e = &s.entry;
-        t.push(vec![
-            Cell::Int(e.seq as i64),
-            Cell::text(e.kind.name()),
-            Cell::text(&e.site),
-            Cell::text(e.period.to_string()),
-            Cell::text(e.period.from.to_string()),
-            Cell::text(e.period.to.to_string()),
-            Cell::Pairs(e.reading.0.clone()),
-            Cell::Tonnes(e.mass),
-            Cell::Int(e.mass.grams()),
-            Cell::text(e.sign.name()),
-            e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
-            by.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
-            Cell::opt_text(e.reason.as_deref()),
-            Cell::text(&e.key),
-            Cell::opt_text(e.meter.as_deref()),
-            Cell::opt_text(e.note.as_deref()),
-            Cell::text(e.recorded_at.format("%Y-%m-%dT%H:%M:%S%.6fZ").to_string()),
-            Cell::opt_text(e.evidence.as_ref().map(|v| v.file_name.clone())),
-            Cell::opt_text(e.evidence.as_ref().map(|v| v.sha256.to_hex())),
-            Cell::text(s.leaf.to_hex()),
-            Cell::text(s.chain.head()),
-            Cell::text(s.chain.to_hex()),
-        ]);
-    }
-    if by.iter().any(Option::is_some) {
+    let mut any_replaced = false;
+    ctx.open()?.read(|tx| {
+        known_project(tx, &a.project)?;
+        tx.walk_chain(&a.project, None, |row| {
+            let (s, by) = (row.sealed, row.replaced_by);
+            any_replaced |= by.is_some();
+            let e = &s.entry;
+            t.push(vec![
+                Cell::Int(e.seq as i64),
+                Cell::text(e.kind.name()),
+                Cell::text(&e.site),
+                Cell::text(e.period.to_string()),
+                Cell::text(e.period.from.to_string()),
+                Cell::text(e.period.to.to_string()),
+                Cell::Pairs(e.reading.0.clone()),
+                Cell::Tonnes(e.mass),
+                Cell::Int(e.mass.grams()),
+                Cell::text(e.sign.name()),
+                e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+                by.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+                Cell::opt_text(e.reason.as_deref()),
+                Cell::text(&e.key),
+                Cell::opt_text(e.meter.as_deref()),
+                Cell::opt_text(e.note.as_deref()),
+                Cell::text(e.recorded_at.format("%Y-%m-%dT%H:%M:%S%.6fZ").to_string()),
+                Cell::opt_text(e.evidence.as_ref().map(|v| v.file_name.clone())),
+                Cell::opt_text(e.evidence.as_ref().map(|v| v.sha256.to_hex())),
+                Cell::text(s.leaf.to_hex()),
+                Cell::text(s.chain.head()),
+                Cell::text(s.chain.to_hex()),
+            ]);
+            Ok(())
+        })
+    })?;
+    if any_replaced {
         t.note("Entries with a \"Replaced by\" seq are kept for the record; reports count the entry that replaces them.");
     }
     Ok(Report::default().table(t))

@@ -1,8 +1,10 @@
-//! A project's chain: sealing the next entry and checking a stored chain end to end.
+//! A project's chain: sealing the next entry and checking a stored chain as it is read, one
+//! entry at a time, so no reader has to hold the chain in memory.
 
 use super::canonical::encode;
-use super::entry::{Entry, SealedEntry};
+use super::entry::{Entry, EntryKind, SealedEntry};
 use super::hash::{Hash, chain_hash, leaf_hash};
+use chrono::{DateTime, Utc};
 use std::fmt;
 
 /// Hashes an entry onto the chain whose head is `prev`.
@@ -37,22 +39,49 @@ pub struct ChainCheck {
     pub head: Hash,
 }
 
-/// Checks one project's stored entries, given in seq order: dense seqs from 0, each leaf and
-/// chain hash recomputed from the stored fields, each correction naming an earlier entry of the
-/// same kind that nothing else has corrected.
-pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Finding> {
-    let finding = |seq: u64, what: String| Finding {
-        project: project.to_string(),
-        seq,
-        what,
-    };
-    let mut prev = Hash::GENESIS;
-    let mut corrected_by: std::collections::HashMap<u64, u64> = Default::default();
-    for (i, s) in entries.iter().enumerate() {
+/// What the store looked up, by index, about the entry a correction names: the kind of that
+/// entry (None when there is no such entry) and the first entry that corrects it.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct Target {
+    pub kind: Option<EntryKind>,
+    pub first_corrector: Option<u64>,
+}
+
+/// Checks one project's stored entries as they arrive in seq order: dense seqs from 0, each
+/// leaf and chain hash recomputed from the stored fields, recorded_at never decreasing, each
+/// correction naming an earlier entry of the same kind that nothing else corrected first.
+pub struct ChainWalk {
+    project: String,
+    next_seq: u64,
+    head: Hash,
+    last_recorded: Option<DateTime<Utc>>,
+}
+
+impl ChainWalk {
+    pub fn new(project: &str) -> Self {
+        Self {
+            project: project.to_string(),
+            next_seq: 0,
+            head: Hash::GENESIS,
+            last_recorded: None,
+        }
+    }
+
+    fn finding(&self, seq: u64, what: String) -> Finding {
+        Finding {
+            project: self.project.clone(),
+            seq,
+            what,
+        }
+    }
+
+    /// Checks the next stored entry; `target` is what the store found about the entry it
+    /// corrects (ignored when it corrects nothing).
+    pub fn step(&mut self, s: &SealedEntry, target: Target) -> Result<(), Finding> {
         let e = &s.entry;
-        let expected = i as u64;
+        let expected = self.next_seq;
         if e.seq != expected {
-            return Err(finding(
+            return Err(self.finding(
                 expected,
                 format!(
                     "sequence broken: expected seq {expected}, found seq {}",
@@ -60,12 +89,12 @@ pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Findi
                 ),
             ));
         }
-        if e.project != project {
-            return Err(finding(e.seq, format!("entry names project {}", e.project)));
+        if e.project != self.project {
+            return Err(self.finding(e.seq, format!("entry names project {}", e.project)));
         }
         let leaf = leaf_hash(&encode(e));
         if leaf != s.leaf {
-            return Err(finding(
+            return Err(self.finding(
                 e.seq,
                 format!(
                     "leaf hash differs from the entry's content (stored {}, recomputed {})",
@@ -74,9 +103,9 @@ pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Findi
                 ),
             ));
         }
-        let chain = chain_hash(prev, leaf);
+        let chain = chain_hash(self.head, leaf);
         if chain != s.chain {
-            return Err(finding(
+            return Err(self.finding(
                 e.seq,
                 format!(
                     "chain hash does not follow from the entry before (stored {}, recomputed {})",
@@ -85,31 +114,51 @@ pub fn check(project: &str, entries: &[SealedEntry]) -> Result<ChainCheck, Findi
                 ),
             ));
         }
-        if let Some(target) = e.corrects {
-            if target >= e.seq {
-                return Err(finding(
-                    e.seq,
-                    format!("corrects seq {target}, which is not earlier"),
-                ));
-            }
-            let t = &entries[target as usize].entry;
-            if t.kind != e.kind {
-                return Err(finding(
-                    e.seq,
-                    format!("corrects seq {target} of another kind ({})", t.kind),
-                ));
-            }
-            if let Some(first) = corrected_by.insert(target, e.seq) {
-                return Err(finding(
-                    e.seq,
-                    format!("corrects seq {target}, already corrected by seq {first}"),
-                ));
-            }
+        if let Some(before) = self.last_recorded
+            && e.recorded_at < before
+        {
+            return Err(self.finding(
+                e.seq,
+                format!(
+                    "recorded_at {} is earlier than the entry before it ({})",
+                    e.recorded_at.to_rfc3339(),
+                    before.to_rfc3339()
+                ),
+            ));
         }
-        prev = chain;
+        if let Some(t) = e.corrects {
+            self.check_correction(e, t, target)?;
+        }
+        self.next_seq += 1;
+        self.head = chain;
+        self.last_recorded = Some(e.recorded_at);
+        Ok(())
     }
-    Ok(ChainCheck {
-        entries: entries.len() as u64,
-        head: prev,
-    })
+
+    fn check_correction(&self, e: &Entry, t: u64, target: Target) -> Result<(), Finding> {
+        if t >= e.seq {
+            return Err(self.finding(e.seq, format!("corrects seq {t}, which is not earlier")));
+        }
+        match target.kind {
+            None => Err(self.finding(e.seq, format!("corrects seq {t}, which is not stored"))),
+            Some(k) if k != e.kind => {
+                Err(self.finding(e.seq, format!("corrects seq {t} of another kind ({k})")))
+            }
+            _ => match target.first_corrector {
+                Some(first) if first != e.seq => Err(self.finding(
+                    e.seq,
+                    format!("corrects seq {t}, already corrected by seq {first}"),
+                )),
+                _ => Ok(()),
+            },
+        }
+    }
+
+    /// The entries checked and the head they lead to.
+    pub fn finish(self) -> ChainCheck {
+        ChainCheck {
+            entries: self.next_seq,
+            head: self.head,
+        }
+    }
 }

@@ -111,24 +111,44 @@ mod tests {
             .collect()
     }
 
+    /// Walks a chain held in memory, looking each correction's target up in it as the store
+    /// does by index.
+    fn check(c: &[SealedEntry]) -> Result<chain::ChainCheck, chain::Finding> {
+        let mut walk = chain::ChainWalk::new("TFS");
+        for s in c {
+            let target = s
+                .entry
+                .corrects
+                .map_or_else(Default::default, |t| chain::Target {
+                    kind: c.get(t as usize).map(|x| x.entry.kind),
+                    first_corrector: c
+                        .iter()
+                        .find(|x| x.entry.corrects == Some(t))
+                        .map(|x| x.entry.seq),
+                });
+            walk.step(s, target)?;
+        }
+        Ok(walk.finish())
+    }
+
     #[test]
     fn check_accepts_a_whole_chain_and_names_breaks() {
         let c = sealed_chain(4);
-        assert_eq!(chain::check("TFS", &c).unwrap().head, c[3].chain);
+        assert_eq!(check(&c).unwrap().head, c[3].chain);
 
         let mut altered = c.clone();
         altered[2].entry.mass = Mass::from_grams(1);
-        let f = chain::check("TFS", &altered).unwrap_err();
+        let f = check(&altered).unwrap_err();
         assert_eq!(f.seq, 2);
         assert!(f.what.contains("leaf hash"), "{f}");
 
         let mut gap = c.clone();
         gap.remove(1);
-        assert_eq!(chain::check("TFS", &gap).unwrap_err().seq, 1);
+        assert_eq!(check(&gap).unwrap_err().seq, 1);
 
         let mut swapped = c.clone();
         swapped.swap(1, 2);
-        assert_eq!(chain::check("TFS", &swapped).unwrap_err().seq, 1);
+        assert_eq!(check(&swapped).unwrap_err().seq, 1);
     }
 
     #[test]
@@ -150,7 +170,43 @@ mod tests {
             correction::target(&c, 9),
             Err(correction::CorrectionError::NoSuchSeq(9))
         );
-        assert!(chain::check("TFS", &c).is_ok());
+        assert!(check(&c).is_ok());
+    }
+
+    #[test]
+    fn check_names_a_clock_that_ran_backwards() {
+        let mut c = sealed_chain(2);
+        let mut late = fixture(2);
+        late.key = "late".into();
+        late.recorded_at = c[1].entry.recorded_at - chrono::Duration::seconds(1);
+        c.push(chain::seal(late, c[1].chain));
+        let f = check(&c).unwrap_err();
+        assert_eq!(f.seq, 2);
+        assert!(f.what.contains("earlier than the entry before"), "{f}");
+    }
+
+    #[test]
+    fn check_names_a_correction_of_another_kind_or_a_second_correction() {
+        let c = sealed_chain(2);
+        let mut other = fixture(2);
+        other.key = "other".into();
+        other.kind = EntryKind::Production;
+        other.corrects = Some(0);
+        let mut wrong = c.clone();
+        wrong.push(chain::seal(other, c[1].chain));
+        let f = check(&wrong).unwrap_err();
+        assert!(f.what.contains("of another kind (injection)"), "{f}");
+
+        let mut twice = c.clone();
+        for key in ["fix1", "fix2"] {
+            let mut fix = fixture(twice.len() as u64);
+            fix.key = key.into();
+            fix.corrects = Some(0);
+            twice.push(chain::seal(fix, twice.last().unwrap().chain));
+        }
+        let f = check(&twice).unwrap_err();
+        assert_eq!(f.seq, 3);
+        assert!(f.what.contains("already corrected by seq 2"), "{f}");
     }
 
     proptest::proptest! {

@@ -7,6 +7,7 @@ mod feedstocks;
 mod imports;
 mod rows;
 pub mod schema;
+mod stream;
 
 use crate::error::{Error, Result};
 use crate::ledger::{Hash, Project, SealedEntry, Site};
@@ -22,6 +23,7 @@ pub use connection::APPLICATION_ID;
 pub use imports::{
     BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
 };
+pub use stream::ChainRow;
 
 impl From<diesel::result::Error> for Error {
     fn from(e: diesel::result::Error) -> Self {
@@ -153,14 +155,14 @@ impl Tx<'_> {
         Ok(())
     }
 
-    /// Every entry of a project in seq order, exactly as stored.
+    /// Every entry of a project in seq order, exactly as stored, each checked as it is read.
     pub fn entries(&mut self, project: &str) -> Result<Vec<SealedEntry>> {
-        let rows: Vec<EntryRow> = entries::table
-            .filter(entries::project.eq(project))
-            .order(entries::seq)
-            .select(EntryRow::as_select())
-            .load(self.conn)?;
-        read_back(project, &rows)
+        let mut all = Vec::new();
+        self.for_each_entry(project, None, |s| {
+            all.push(s.clone());
+            Ok(())
+        })?;
+        Ok(all)
     }
 
     /// A project's seal entries in seq order: one per sealed period, so few.

@@ -1,0 +1,230 @@
+//! Reading a project's chain one row at a time, each row decoded and checked (leaf hash, chain
+//! link, recorded_at, correction links) before anything reads it, so a report never holds the
+//! chain and never counts a forged figure.
+
+use super::Tx;
+use super::rows::EntryRow;
+use super::schema::entries;
+use crate::error::{Error, Result};
+use crate::ledger::chain::{ChainCheck, ChainWalk, Target};
+use crate::ledger::{EntryKind, SealedEntry};
+use chrono::{DateTime, Utc};
+use diesel::dsl::sql;
+use diesel::prelude::*;
+use diesel::sql_types::{BigInt, Nullable, Text, Timestamp};
+
+/// The seq of the entry that replaces this one, among corrections recorded by the bound time
+/// (every correction when it is NULL); found through the index on (project, corrects).
+const REPLACED_BY: &str = "(SELECT min(c.seq) FROM entries c \
+     WHERE c.project = entries.project AND c.corrects = entries.seq \
+     AND c.recorded_at <= coalesce(";
+
+/// For a correction: the kind of the entry it names.
+const TARGET_KIND: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
+     (SELECT t.kind FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
+
+/// For a correction: the first entry that corrects the same target.
+const FIRST_CORRECTOR: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
+     (SELECT min(x.seq) FROM entries x WHERE x.project = entries.project AND x.corrects = entries.corrects) END";
+
+/// One stored entry as read, with the seq of the entry that replaces it, if any.
+pub struct ChainRow<'a> {
+    pub sealed: &'a SealedEntry,
+    pub replaced_by: Option<u64>,
+}
+
+impl Tx<'_> {
+    /// Every entry of a project in seq order, each checked as it is decoded; with `as_of`, only
+    /// the entries recorded by then (the whole chain is still checked).
+    pub fn for_each_entry(
+        &mut self,
+        project: &str,
+        as_of: Option<DateTime<Utc>>,
+        mut f: impl FnMut(&SealedEntry) -> Result<()>,
+    ) -> Result<()> {
+        self.walk_chain(project, as_of, |row| f(row.sealed))
+            .map(drop)
+    }
+
+    /// The entries reports count, in seq order: those no correction (recorded by `as_of`)
+    /// replaces, each checked as it is decoded.
+    pub fn for_each_effective_entry(
+        &mut self,
+        project: &str,
+        as_of: Option<DateTime<Utc>>,
+        mut f: impl FnMut(&SealedEntry) -> Result<()>,
+    ) -> Result<()> {
+        self.walk_chain(project, as_of, |row| match row.replaced_by {
+            None => f(row.sealed),
+            Some(_) => Ok(()),
+        })
+        .map(drop)
+    }
+
+    /// Walks the whole chain of a project in seq order, checking every row, and hands `f` the
+    /// rows recorded by `as_of` with the seq replacing each. Returns what the check covered.
+    pub fn walk_chain(
+        &mut self,
+        project: &str,
+        as_of: Option<DateTime<Utc>>,
+        mut f: impl FnMut(ChainRow<'_>) -> Result<()>,
+    ) -> Result<ChainCheck> {
+        let cut = as_of.map(|t| t.naive_utc());
+        let replaced_by = sql::<Nullable<BigInt>>(REPLACED_BY)
+            .bind::<Nullable<Timestamp>, _>(cut)
+            .sql(", c.recorded_at))");
+        let rows = entries::table
+            .filter(entries::project.eq(project))
+            .order(entries::seq)
+            .select((
+                EntryRow::as_select(),
+                replaced_by,
+                sql::<Nullable<Text>>(TARGET_KIND),
+                sql::<Nullable<BigInt>>(FIRST_CORRECTOR),
+            ))
+            .load_iter::<(EntryRow, Option<i64>, Option<String>, Option<i64>), _>(self.conn)?;
+        let mut walk = ChainWalk::new(project);
+        for row in rows {
+            let (row, replaced_by, target_kind, first_corrector) = row?;
+            let bad = |what: String| {
+                Error::Inconsistent(format!("project {project} seq {}: {what}", row.seq))
+            };
+            let sealed = row.to_sealed().map_err(bad)?;
+            let target = Target {
+                kind: target_kind
+                    .map(|k| {
+                        EntryKind::from_name(&k)
+                            .ok_or_else(|| bad(format!("corrects an entry of unknown kind {k:?}")))
+                    })
+                    .transpose()?,
+                first_corrector: first_corrector.and_then(|s| u64::try_from(s).ok()),
+            };
+            walk.step(&sealed, target)
+                .map_err(|finding| Error::Inconsistent(finding.to_string()))?;
+            if cut.is_none_or(|t| sealed.entry.recorded_at.naive_utc() <= t) {
+                f(ChainRow {
+                    sealed: &sealed,
+                    replaced_by: replaced_by.and_then(|s| u64::try_from(s).ok()),
+                })?;
+            }
+        }
+        Ok(walk.finish())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::Store;
+    use crate::ledger::chain::seal;
+    use crate::ledger::period::parse_date;
+    use crate::ledger::{
+        Entry, EntryKind, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site, SiteKind,
+    };
+    use crate::quantity::Mass;
+    use chrono::{DateTime, Duration, Utc};
+
+    fn at(day: i64) -> DateTime<Utc> {
+        DateTime::UNIX_EPOCH + Duration::days(20_000 + day)
+    }
+
+    /// Project P with entries 0..=4 recorded on days 0..=4: seq 3 corrects seq 0 and seq 4
+    /// corrects seq 3.
+    fn ledger() -> (tempfile::TempDir, Store) {
+        let dir = tempfile::tempdir().unwrap();
+        let (mut store, _) = Store::init(&dir.path().join("l.db")).unwrap();
+        store
+            .write(|tx| {
+                tx.add_project(&Project {
+                    code: "P".into(),
+                    name: "P".into(),
+                    method: Method::SalineAquifer,
+                    operator: "O".into(),
+                    permit_ref: None,
+                    permit_capacity: None,
+                    permit_annual: None,
+                    registered_at: at(0),
+                })?;
+                tx.add_site(&Site {
+                    project: "P".into(),
+                    code: "W".into(),
+                    kind: SiteKind::InjectionWell,
+                    area: None,
+                    uncertainty: None,
+                    registered_at: at(0),
+                })?;
+                let mut head = Hash::GENESIS;
+                let mut sealed: Vec<SealedEntry> = Vec::new();
+                for (seq, corrects) in [None, None, None, Some(0), Some(3)].into_iter().enumerate()
+                {
+                    let day = parse_date("2026-01-01").unwrap();
+                    let s = seal(
+                        Entry {
+                            project: "P".into(),
+                            seq: seq as u64,
+                            kind: EntryKind::Injection,
+                            site: "W".into(),
+                            period: Period::new(day, day).unwrap(),
+                            reading: Reading::default(),
+                            mass: Mass::from_grams(seq as i64 + 1),
+                            sign: Sign::Adds,
+                            recorded_at: at(seq as i64),
+                            key: format!("k{seq}"),
+                            meter: None,
+                            note: None,
+                            corrects,
+                            reason: corrects.map(|_| "fix".into()),
+                            evidence: None,
+                        },
+                        head,
+                    );
+                    head = s.chain;
+                    sealed.push(s);
+                }
+                tx.append(&sealed)
+            })
+            .unwrap();
+        (dir, store)
+    }
+
+    fn effective(store: &mut Store, as_of: Option<DateTime<Utc>>) -> Vec<u64> {
+        store
+            .read(|tx| {
+                let mut seqs = Vec::new();
+                tx.for_each_effective_entry("P", as_of, |s| {
+                    seqs.push(s.entry.seq);
+                    Ok(())
+                })?;
+                Ok(seqs)
+            })
+            .unwrap()
+    }
+
+    #[test]
+    fn effective_entries_follow_the_latest_correction_known_at_the_date() {
+        let (_dir, mut store) = ledger();
+        assert_eq!(effective(&mut store, None), [1, 2, 4]);
+        assert_eq!(effective(&mut store, Some(at(3))), [1, 2, 3]);
+        assert_eq!(effective(&mut store, Some(at(2))), [0, 1, 2]);
+        assert_eq!(effective(&mut store, Some(at(-1))), Vec::<u64>::new());
+    }
+
+    #[test]
+    fn every_entry_comes_with_what_replaces_it() {
+        let (_dir, mut store) = ledger();
+        let (rows, check) = store
+            .read(|tx| {
+                let mut rows = Vec::new();
+                let c = tx.walk_chain("P", None, |r| {
+                    rows.push((r.sealed.entry.seq, r.replaced_by));
+                    Ok(())
+                })?;
+                Ok((rows, c))
+            })
+            .unwrap();
+        assert_eq!(
+            rows,
+            [(0, Some(3)), (1, None), (2, None), (3, Some(4)), (4, None)]
+        );
+        assert_eq!(check.entries, 5);
+    }
+}
