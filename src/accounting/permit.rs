@@ -20,7 +20,7 @@ pub fn check(
     new: &[Entry],
     over_permit: bool,
 ) -> Result<Vec<String>> {
-    let replaced: Vec<u64> = new.iter().filter_map(|e| e.corrects).collect();
+    let replaced: std::collections::HashSet<u64> = new.iter().filter_map(|e| e.corrects).collect();
     let mut after: Vec<Entry> = effective(entries)
         .filter(|e| !replaced.contains(&e.seq))
         .cloned()

@@ -8,12 +8,12 @@ use super::setup::known_project;
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
-use crate::import::meter_day::Source;
+use crate::import::meter_day::{MeterDay, Source};
 use crate::import::overlap::{self, Covered};
 use crate::import::plan::{Options, Plan};
 use crate::import::plan_file;
 use crate::ledger::append::{Appended, SealRule, append};
-use crate::ledger::{EntryKind, SealedEntry, Site};
+use crate::ledger::{Entry, EntryKind, Reading, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
 use crate::report::{Cell, Report, Table, columns};
@@ -48,6 +48,9 @@ pub struct ImportArgs {
     #[arg(long)]
     pub replace: bool,
 }
+
+/// Entries sealed and written at a time.
+const ENTRY_CHUNK: usize = 10_000;
 
 /// Bad rows or overlaps listed in the one-line refusal before "and N more".
 const LISTED: usize = 20;
@@ -100,7 +103,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         room_for(&ctx.db, plan.bytes / 2 + entry_bytes, &format!("{} entries, and the evidence copied into the ledger file", plan.days.len()))?;
         let source = Source { project: &a.project, kind, file_name: &file_name, sha256: plan.sha256, density, recorded_at: ctx.now };
         let covered = covered_days(tx, &a.project, kind, &plan)?;
-        let new = overlap::entries(&plan.days, &source, &covered, a.replace).map_err(|o| {
+        let corrects = overlap::corrections(&plan.days, &covered, a.replace).map_err(|o| {
             Error::Refused(format!(
                 "{file_name}: {} meter-day{} already counted in the ledger, nothing written (a meter-day counts once: if this file replaces the earlier export, import it with --replace): {}",
                 o.len(),
@@ -109,26 +112,32 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             ))
         })?;
         let mut warnings = if matches!(kind, EntryKind::Injection | EntryKind::Production | EntryKind::EquipmentLeak) {
+            // The permit needs what each entry does to the balance, not its reading.
+            let new: Vec<Entry> = plan.days.iter().zip(&corrects).map(|(d, c)| Entry { reading: Reading::default(), ..d.entry(&source, *c) }).collect();
             permit::check(&project, &tx.entries(&a.project)?, &new, a.over_permit)?
         } else {
             Vec::new()
         };
+        // Sealed and written a chunk at a time, so memory holds one chunk of entries.
         let mut tip = tx.chain_tip(&a.project)?;
         let seals = tx.seals(&a.project)?;
-        let all = if seals.is_empty() || new.iter().all(|e| e.corrects.is_none()) { Vec::new() } else { tx.entries(&a.project)? };
-        let mut sealed = Vec::with_capacity(new.len());
-        for e in new {
-            let site = &sites[&e.site];
-            let replaced = e.corrects.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
-            let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
-            match append(e, site, tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
-                Appended::New(s) | Appended::Existing(s) => {
-                    tip = (tip.0 + 1, s.chain);
-                    sealed.push(s);
+        let all = if seals.is_empty() || corrects.iter().all(Option::is_none) { Vec::new() } else { tx.entries(&a.project)? };
+        let mut summary = Summary::default();
+        for (days, corrects) in plan.days.chunks(ENTRY_CHUNK).zip(corrects.chunks(ENTRY_CHUNK)) {
+            let mut sealed = Vec::with_capacity(days.len());
+            for (d, c) in days.iter().zip(corrects) {
+                let replaced = c.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
+                let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
+                match append(d.entry(&source, *c), &sites[&d.site], tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
+                    Appended::New(s) | Appended::Existing(s) => {
+                        tip = (tip.0 + 1, s.chain);
+                        summary.add(d, &s);
+                        sealed.push(s);
+                    }
                 }
             }
+            tx.append(&sealed)?;
         }
-        tx.append(&sealed)?;
         tx.add_import(&NewImport {
             id: import_id,
             project: &a.project,
@@ -142,10 +151,9 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             at: ctx.now,
         })?;
         warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
-        let replaced = sealed.iter().filter(|s| s.entry.corrects.is_some()).count();
         let mut report = Report::default()
-            .line(summary_line(&file_name, &a.project, import_id, &plan, sealed.len(), replaced))
-            .table(summary_table(&a.project, &sealed));
+            .line(summary_line(&file_name, &a.project, import_id, &plan, summary.entries, summary.replaced))
+            .table(summary.table(&a.project));
         report.warnings = warnings;
         Ok(report)
     })
@@ -245,57 +253,66 @@ struct MeterSummary {
     seqs: (u64, u64),
 }
 
-/// Per meter: days, readings and CO2 of the import.
-fn summary_table(project: &str, sealed: &[SealedEntry]) -> Table {
-    let mut by: BTreeMap<(String, String), MeterSummary> = BTreeMap::new();
-    for s in sealed {
-        let e = &s.entry;
-        let k = (e.meter.clone().unwrap_or_default(), e.site.clone());
-        let v = by.entry(k).or_insert(MeterSummary {
-            days: 0,
-            readings: 0,
-            mass: Mass::ZERO,
-            first: e.period.from,
-            last: e.period.to,
-            seqs: (e.seq, e.seq),
-        });
+/// Per meter: days, readings and CO2 of the import, added up as its entries are sealed.
+#[derive(Default)]
+struct Summary {
+    by: BTreeMap<(String, String), MeterSummary>,
+    entries: usize,
+    replaced: usize,
+}
+
+impl Summary {
+    fn add(&mut self, d: &MeterDay, s: &SealedEntry) {
+        self.entries += 1;
+        self.replaced += usize::from(s.entry.corrects.is_some());
+        let seq = s.entry.seq;
+        let v = self
+            .by
+            .entry((d.meter.clone(), d.site.clone()))
+            .or_insert(MeterSummary {
+                days: 0,
+                readings: 0,
+                mass: Mass::ZERO,
+                first: d.day,
+                last: d.day,
+                seqs: (seq, seq),
+            });
         v.days += 1;
-        v.readings += e
-            .reading
-            .get("readings")
-            .and_then(|r| r.parse::<u64>().ok())
-            .unwrap_or(0);
-        v.mass += e.mass;
-        v.first = v.first.min(e.period.from);
-        v.last = v.last.max(e.period.to);
-        v.seqs = (v.seqs.0.min(e.seq), v.seqs.1.max(e.seq));
+        v.readings += d.rows;
+        v.mass += d.co2;
+        v.first = v.first.min(d.day);
+        v.last = v.last.max(d.day);
+        v.seqs = (v.seqs.0.min(seq), v.seqs.1.max(seq));
     }
-    let mut t = Table::new(
-        "import",
-        format!("Import into project {project}, by meter"),
-        columns(&[
-            ("Meter", "meter"),
-            ("Site", "site"),
-            ("First day", "first_day"),
-            ("Last day", "last_day"),
-            ("Days", "days"),
-            ("Readings", "readings"),
-            ("CO2 (t)", "co2_t"),
-            ("Seq range", "seq_range"),
-        ]),
-    );
-    for ((meter, site), m) in by {
-        t.push(vec![
-            Cell::text(meter),
-            Cell::text(site),
-            Cell::text(m.first.to_string()),
-            Cell::text(m.last.to_string()),
-            Cell::Int(m.days as i64),
-            Cell::Int(m.readings as i64),
-            Cell::Tonnes(m.mass),
-            Cell::text(format!("{}–{}", m.seqs.0, m.seqs.1)),
-        ]);
+
+    fn table(self, project: &str) -> Table {
+        let mut t = Table::new(
+            "import",
+            format!("Import into project {project}, by meter"),
+            columns(&[
+                ("Meter", "meter"),
+                ("Site", "site"),
+                ("First day", "first_day"),
+                ("Last day", "last_day"),
+                ("Days", "days"),
+                ("Readings", "readings"),
+                ("CO2 (t)", "co2_t"),
+                ("Seq range", "seq_range"),
+            ]),
+        );
+        for ((meter, site), m) in self.by {
+            t.push(vec![
+                Cell::text(meter),
+                Cell::text(site),
+                Cell::text(m.first.to_string()),
+                Cell::text(m.last.to_string()),
+                Cell::Int(m.days as i64),
+                Cell::Int(m.readings as i64),
+                Cell::Tonnes(m.mass),
+                Cell::text(format!("{}–{}", m.seqs.0, m.seqs.1)),
+            ]);
+        }
+        t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
+        t
     }
-    t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
-    t
 }

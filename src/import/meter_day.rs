@@ -105,9 +105,10 @@ impl MeterDay {
         r
     }
 
-    /// The meter-day as a new entry (its seq is set on append). The key names the file and
-    /// the meter-day, so the same file cannot add it twice.
-    pub fn entry(&self, s: &Source<'_>) -> Entry {
+    /// The meter-day as a new entry (its seq is set on append), or as a correction of entry
+    /// `corrects`, giving the file as the reason. The key names the file and the meter-day, so
+    /// the same file cannot add it twice.
+    pub fn entry(&self, s: &Source<'_>, corrects: Option<u64>) -> Entry {
         Entry {
             project: s.project.to_string(),
             seq: 0,
@@ -126,8 +127,14 @@ impl MeterDay {
             ),
             meter: Some(self.meter.clone()),
             note: None,
-            corrects: None,
-            reason: None,
+            corrects,
+            reason: corrects.map(|_| {
+                format!(
+                    "replaced by the meter export {} (SHA-256 {})",
+                    s.file_name,
+                    s.sha256.to_hex()
+                )
+            }),
             evidence: Some(Evidence {
                 file_name: s.file_name.to_string(),
                 sha256: s.sha256,

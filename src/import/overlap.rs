@@ -1,7 +1,7 @@
 //! A meter-day counts once: a planned meter-day the ledger already counts is refused, or, when
 //! the file is to replace the earlier export, becomes a correction of the entry it replaces.
 
-use super::meter_day::{MeterDay, Source};
+use super::meter_day::MeterDay;
 use crate::ledger::{Entry, SealedEntry};
 use chrono::NaiveDate;
 use std::collections::HashMap;
@@ -33,47 +33,33 @@ impl std::fmt::Display for Overlap {
 /// The meter-days the ledger counts now, by (meter, day): the entry that counts each.
 pub type Covered = HashMap<(String, NaiveDate), (u64, Option<String>)>;
 
-/// The entries a plan's meter-days become. Without `replace`, any meter-day already covered
-/// refuses the file (all the overlaps are returned, in day order); with it, each covered one
-/// becomes a correction of the entry that counts it, giving the file as the reason.
-pub fn entries(
+/// Which entry each of a plan's meter-days replaces. Without `replace`, any meter-day already
+/// covered refuses the file (all the overlaps are returned, in day order); with it, each covered
+/// one is to be a correction of the entry that counts it.
+pub fn corrections(
     days: &[MeterDay],
-    source: &Source<'_>,
     covered: &Covered,
     replace: bool,
-) -> Result<Vec<Entry>, Vec<Overlap>> {
-    let overlaps: Vec<Overlap> = days
+) -> Result<Vec<Option<u64>>, Vec<Overlap>> {
+    let found: Vec<Option<&(u64, Option<String>)>> = days
         .iter()
-        .filter_map(|d| {
-            covered
-                .get(&(d.meter.clone(), d.day))
-                .map(|(seq, file)| Overlap {
+        .map(|d| covered.get(&(d.meter.clone(), d.day)))
+        .collect();
+    if !replace && found.iter().any(Option::is_some) {
+        return Err(days
+            .iter()
+            .zip(&found)
+            .filter_map(|(d, f)| {
+                f.map(|(seq, file)| Overlap {
                     meter: d.meter.clone(),
                     day: d.day,
                     seq: *seq,
                     earlier_file: file.clone(),
                 })
-        })
-        .collect();
-    if !overlaps.is_empty() && !replace {
-        return Err(overlaps);
+            })
+            .collect());
     }
-    let reason = format!(
-        "replaced by the meter export {} (SHA-256 {})",
-        source.file_name,
-        source.sha256.to_hex()
-    );
-    Ok(days
-        .iter()
-        .map(|d| {
-            let mut e = d.entry(source);
-            if let Some((seq, _)) = covered.get(&(d.meter.clone(), d.day)) {
-                e.corrects = Some(*seq);
-                e.reason = Some(reason.clone());
-            }
-            e
-        })
-        .collect())
+    Ok(found.iter().map(|f| f.map(|(seq, _)| *seq)).collect())
 }
 
 /// An effective entry recorded by hand over an imported meter-day: it no longer equals the
@@ -134,8 +120,6 @@ pub fn hand_corrections<'a>(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ledger::{EntryKind, Hash};
-    use crate::quantity::volume::DensityMethod;
 
     fn day(d: u32, meter: &str) -> MeterDay {
         MeterDay::new(
@@ -144,17 +128,6 @@ mod tests {
             meter,
             d as u64 + 1,
         )
-    }
-
-    fn source() -> Source<'static> {
-        Source {
-            project: "TFS",
-            kind: EntryKind::Injection,
-            file_name: "feb-resent.csv",
-            sha256: Hash::GENESIS,
-            density: DensityMethod::Eos,
-            recorded_at: chrono::DateTime::UNIX_EPOCH,
-        }
     }
 
     #[test]
@@ -168,24 +141,15 @@ mod tests {
             ),
             (7, Some("feb.csv".into())),
         );
-        let refused = entries(&days, &source(), &covered, false).unwrap_err();
+        let refused = corrections(&days, &covered, false).unwrap_err();
         assert_eq!(refused.len(), 1);
         assert_eq!(
             refused[0].to_string(),
             "meter FM-101 on 2026-02-02 is seq 7 (from feb.csv)"
         );
-        let new = entries(&days, &source(), &covered, true).unwrap();
         assert_eq!(
-            new.iter().map(|e| e.corrects).collect::<Vec<_>>(),
+            corrections(&days, &covered, true).unwrap(),
             [None, Some(7), None]
         );
-        assert!(
-            new[1]
-                .reason
-                .as_deref()
-                .unwrap()
-                .contains("feb-resent.csv (SHA-256 0000")
-        );
-        assert_eq!(new[0].reason, None);
     }
 }
