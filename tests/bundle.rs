@@ -185,6 +185,33 @@ fn a_later_bundle_extends_the_copy_and_a_fork_is_refused() {
 }
 
 #[test]
+fn seals_travel_and_a_seal_left_off_the_header_is_caught() {
+    let l = small_tfs();
+    l.ok(&["seal", "TFS", "--period", "2026-04"]);
+    let r = l.inject("TF-I2", "10 t", "2026-06-01", "2026-06-30", "after-seal");
+    assert_eq!(r.code, 0, "{}", r.err);
+    l.ok(&["seal", "TFS", "--period", "2026-06"]);
+    let file = export(&l, "TFS", "sealed.bundle");
+    let checked = l.ok(&["bundle", "check", file.to_str().unwrap()]);
+    assert!(checked.contains("whole"), "{checked}");
+    let text = std::fs::read_to_string(&file).unwrap();
+    let header = text.lines().next().unwrap();
+    assert!(header.ends_with(r#""seals":[4,6]}"#), "{header}");
+    let hidden = l.dir.path().join("hidden.bundle");
+    std::fs::write(
+        &hidden,
+        text.replacen(r#""seals":[4,6]"#, r#""seals":[4]"#, 1),
+    )
+    .unwrap();
+    let r = l.run(&["bundle", "check", hidden.to_str().unwrap()]);
+    assert_eq!(r.code, 3, "{}", r.err);
+    assert!(r.err.contains("entry seq 6"), "{}", r.err);
+    let copy = Ledger::new();
+    assert_eq!(load(&copy, &file).code, 0);
+    copy.ok(&["verify"]);
+}
+
+#[test]
 fn a_missing_file_is_refused_and_a_cut_bundle_is_damaged() {
     let l = small_tfs();
     let r = l.run(&["bundle", "check", "no-such.bundle"]);

@@ -6,9 +6,10 @@ use common::Ledger;
 use std::path::Path;
 use std::process::Command;
 
-/// The page of TFS's 2026 from the demo ledger, and the ledger it came from.
+/// The page of TFS's 2026 from the demo ledger, sealed, and the seal's root.
 fn tfs_page() -> (Ledger, String) {
     let l = Ledger::demo();
+    let sealed = l.ok(&["--format", "json", "seal", "TFS", "--period", "2026"]);
     let out = l.dir.path().join("tfs-2026.html");
     let printed = l.ok(&[
         "report",
@@ -20,6 +21,15 @@ fn tfs_page() -> (Ledger, String) {
     ]);
     assert!(printed.contains("Report written"), "{printed}");
     let html = std::fs::read_to_string(&out).unwrap();
+    let v: serde_json::Value = serde_json::from_str(&sealed).unwrap();
+    let root = v[0]["root"]
+        .as_str()
+        .expect("seal prints its root")
+        .to_string();
+    assert!(
+        html.contains(&root),
+        "the seal's root {root} is not on the page"
+    );
     (l, html)
 }
 
@@ -97,7 +107,10 @@ fn page_holds_every_section_with_headed_tables_and_nothing_from_elsewhere() {
         body.contains("Accounting only: these figures are as good as the measurements"),
         "cautions missing"
     );
-    assert!(body.contains("Not sealed"), "the seal section says nothing");
+    assert!(
+        body.contains("Seal seq 738 closes 2026: tree size 738, root"),
+        "seal section"
+    );
     // Self-contained: no script, nothing fetched; the only URIs are XML namespaces.
     for n in doc.descendants().filter(|n| n.is_element()) {
         assert_ne!(n.tag_name().name(), "script");
@@ -143,6 +156,7 @@ fn a_project_name_with_markup_is_escaped() {
     let body = text_of(doc.root_element());
     assert!(body.contains("<b>Bold</b> & \"quoted\""));
     assert!(body.contains("O'Brien <ops>"));
+    assert!(body.contains("Not sealed: ESC 2026 carries no seal."));
 }
 
 #[test]

@@ -6,6 +6,7 @@ use super::line::{Import, Item, Line, Trailer};
 use crate::ledger::Hash;
 use crate::ledger::chain::seal;
 use crate::ledger::merkle::TreeBuilder;
+use crate::ledger::seal_check::SealCheck;
 use sha2::{Digest, Sha256};
 
 /// Where a line may stand: each kind of line after the kinds before it.
@@ -33,6 +34,9 @@ pub struct Checker {
     tree: TreeBuilder,
     last_code: Option<String>,
     next_setting: u64,
+    /// The seals the header lists, checked as the entries stream by; then how many there were.
+    seals: Option<SealCheck>,
+    sealed: usize,
     /// The import whose bytes are being read: the next part due, the bytes so far, their hash.
     import: Option<(Import, i64, i64, Sha256)>,
 }
@@ -50,6 +54,8 @@ impl Default for Checker {
             last_code: None,
             next_setting: 0,
             import: None,
+            seals: None,
+            sealed: 0,
         }
     }
 }
@@ -84,7 +90,10 @@ impl Checker {
         };
         self.order(stage, &item)?;
         match &item {
-            Item::Header { project, .. } => self.project = project.clone(),
+            Item::Header { project, seals, .. } => {
+                self.project = project.clone();
+                self.seals = Some(SealCheck::new(seals.clone()));
+            }
             Item::Project(p) if p.code != self.project => {
                 return Err(format!(
                     "project {} is not the header's {}",
@@ -204,13 +213,28 @@ impl Checker {
                 s.entry.seq
             ));
         }
+        if let Some(c) = &mut self.seals {
+            c.push(s)
+                .map_err(|w| format!("entry seq {}: {w}", s.entry.seq))?;
+        }
         self.prev_chain = s.chain;
         self.tree.push(s.leaf);
         self.next_seq += 1;
         Ok(())
     }
 
+    /// How many seals the bundle holds, each checked.
+    pub fn seals(&self) -> usize {
+        self.sealed
+    }
+
     fn close(&mut self, t: &Trailer) -> Result<(), String> {
+        if let Some(c) = self.seals.take() {
+            let checked = c
+                .finish()
+                .map_err(|(seq, w)| format!("seal seq {seq}: {w}"))?;
+            self.sealed = checked.len();
+        }
         let now = self.summary();
         let checks = [
             (t.lines == now.lines, "lines"),

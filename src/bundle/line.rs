@@ -31,6 +31,8 @@ pub enum Line {
         format: String,
         version: u32,
         project: String,
+        /// The seqs of the project's seal entries, ascending.
+        seals: Vec<u64>,
     },
     Project {
         code: String,
@@ -142,11 +144,12 @@ fn row_hash_matches(what: &str, bytes: &[u8], stored: &str) -> Result<(), String
 }
 
 impl Line {
-    pub fn header(project: &str) -> Line {
+    pub fn header(project: &str, seals: &[u64]) -> Line {
         Line::Header {
             format: FORMAT.into(),
             version: VERSION,
             project: project.into(),
+            seals: seals.to_vec(),
         }
     }
 
@@ -247,6 +250,7 @@ pub enum Item {
     Header {
         version: u32,
         project: String,
+        seals: Vec<u64>,
     },
     Project(Project),
     Site(Site),
@@ -356,7 +360,7 @@ impl Line {
     pub fn to_item(&self, project: &str) -> Result<Item, String> {
         let item = self.value(project)?;
         let again = match &item {
-            Item::Header { project, .. } => Line::header(project),
+            Item::Header { project, seals, .. } => Line::header(project, seals),
             Item::Project(p) => Line::project(p),
             Item::Site(s) => Line::site(s),
             Item::Setting(s) => Line::setting(s),
@@ -378,6 +382,7 @@ impl Line {
                 format,
                 version,
                 project,
+                seals,
             } => {
                 if format != FORMAT {
                     return Err(format!("format {format:?} is not {FORMAT:?}"));
@@ -387,7 +392,11 @@ impl Line {
                         "version {version} is not {VERSION}, the one this build reads"
                     ));
                 }
-                Item::Header { version, project }
+                Item::Header {
+                    version,
+                    project,
+                    seals,
+                }
             }
             Line::Project {
                 code,
@@ -590,13 +599,13 @@ mod tests {
 
     #[test]
     fn one_spelling_only() {
-        let header = r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS"}"#;
+        let header = r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[]}"#;
         assert!(Line::parse(header).is_ok());
         // The same meaning, spelt otherwise: spaces, another field order, an unknown field.
         for other in [
-            r#"{"type": "header","format":"sinkbook-bundle","version":1,"project":"TFS"}"#,
-            r#"{"type":"header","version":1,"format":"sinkbook-bundle","project":"TFS"}"#,
-            r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","x":0}"#,
+            r#"{"type": "header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[]}"#,
+            r#"{"type":"header","version":1,"format":"sinkbook-bundle","project":"TFS","seals":[]}"#,
+            r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[],"x":0}"#,
         ] {
             assert!(Line::parse(other).is_err(), "{other}");
         }

@@ -73,7 +73,12 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     let code = a.project.clone();
     ctx.open()?.read(|tx| {
         let p = known_project(tx, &code)?;
-        w.put(&Line::header(&code))?;
+        let seals: Vec<u64> = tx
+            .seal_entries(&code)?
+            .iter()
+            .map(|s| s.entry.seq)
+            .collect();
+        w.put(&Line::header(&code, &seals))?;
         w.put(&Line::project(&p))?;
         for s in tx.sites(&code)? {
             w.put(&Line::site(&s))?;
@@ -156,7 +161,7 @@ fn check(file: &Path) -> Result<Report> {
         &t,
         "whole",
     );
-    table.note("Checked: every line in its one spelling and in order; every registration and entry against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
+    table.note("Checked: every line in its one spelling and in order; every registration and entry against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
     Ok(Report::default().table(table))
 }
 

@@ -7,14 +7,18 @@ use super::chart::line_chart;
 use super::claims::{deduction_rule, uncertainty_note};
 use super::meters::{MetersArgs, meters};
 use super::reports::{BalanceArgs, By, balance};
+use super::seal::seal_table;
 use super::setup::{ProjectCommand, project};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
+use crate::ledger::SealedEntry;
 use crate::ledger::period::Grouping;
+use crate::ledger::seal::{Seal, late_for};
 use crate::report::html::{Page, Section, page};
 use crate::report::{Cell, Report, Table, columns};
+use chrono::Datelike;
 use clap::Args;
 use std::path::PathBuf;
 
@@ -80,7 +84,66 @@ fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Re
 }
 
 /// The sections of the page, in reading order.
-fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectFigures) -> Result<Vec<Section>> {
+/// The seals and the late adjustments the ledger holds of a project.
+struct Sealed {
+    seals: Vec<(Seal, SealedEntry)>,
+    late: Vec<SealedEntry>,
+}
+
+/// The year's seals with their full tree heads, and every late adjustment in its own lines.
+fn seal_sections(code: &str, year: i32, sealed: Sealed) -> (Section, Section) {
+    let mut late = Section::new("late-adjustments", "Late adjustments");
+    if sealed.late.is_empty() {
+        late = late.text(format!(
+            "No late adjustments: nothing was recorded into a sealed period of project {code}."
+        ));
+    }
+    for e in &sealed.late {
+        let x = &e.entry;
+        late = late.text(format!(
+            "Seq {}: {} at {}, {}, {} t, recorded {} as a late adjustment to sealed period {}; the sealed figures stand.",
+            x.seq,
+            x.kind.name(),
+            x.site,
+            x.period,
+            crate::report::render::tonnes_text(x.mass),
+            x.recorded_at.format("%Y-%m-%d"),
+            late_for(x).unwrap_or("?"),
+        ));
+    }
+    let year_seals: Vec<(Seal, SealedEntry)> = sealed
+        .seals
+        .into_iter()
+        .filter(|(s, _)| s.period.from.year() == year)
+        .collect();
+    let mut seal = Section::new("seal", "Seal and signed statements");
+    if year_seals.is_empty() {
+        seal = seal.text(format!("Not sealed: {code} {year} carries no seal."));
+    }
+    for (s, _) in &year_seals {
+        seal = seal.text(format!(
+            "Seal seq {} closes {}: tree size {}, root {} (RFC 6962 tree head over entries 0 to {}).",
+            s.seq,
+            s.label,
+            s.tree_size,
+            s.root.to_hex(),
+            s.tree_size.saturating_sub(1)
+        ));
+    }
+    if !year_seals.is_empty() {
+        seal = seal
+            .table(seal_table(code, &year_seals))
+            .text("Signed statements: none recorded over these seals yet.");
+    }
+    (late, seal)
+}
+
+fn sections(
+    ctx: &Context,
+    a: &ReportArgs,
+    view: &ProjectFigures,
+    sealed: Sealed,
+) -> Result<Vec<Section>> {
     let code = &view.project().code;
     let registration = project(ctx, ProjectCommand::Show { code: code.clone() })?;
     let mut first = Section::new("project", "Project and permit");
@@ -155,10 +218,7 @@ fn sections(ctx: &Context, a: &ReportArgs, view: &ProjectFigures) -> Result<Vec<
     let reconciliations = Section::new("reconciliations", "Reconciliations").text(
         "The ledger keeps no reconciliations: the reconcile command compares the ledger with a monitoring report and records nothing, so none can be shown here.",
     );
-    let late = Section::new("late-adjustments", "Late adjustments")
-        .text("This ledger holds no seal, so no entry is a late adjustment to a sealed period.");
-    let seal = Section::new("seal", "Seal and signed statements")
-        .text(format!("Not sealed: {} {} carries no seal.", code, a.year));
+    let (late, seal) = seal_sections(code, a.year, sealed);
     Ok(vec![
         first,
         bal,
@@ -181,10 +241,26 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             "is not a plausible reporting year",
         ));
     }
-    let (view, tip) = ctx.open()?.read(|tx| {
+    let (view, tip, sealed) = ctx.open()?.read(|tx| {
         let view = super::view::load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
-        Ok((view, tip))
+        let seals = tx
+            .seal_entries(&a.project)?
+            .into_iter()
+            .map(|e| {
+                Seal::from_entry(&e.entry)
+                    .map(|s| (s, e))
+                    .map_err(Error::Inconsistent)
+            })
+            .collect::<Result<Vec<_>>>()?;
+        let mut late = Vec::new();
+        tx.each_entry(&a.project, |e| {
+            if late_for(&e.entry).is_some() {
+                late.push(e);
+            }
+            Ok(())
+        })?;
+        Ok((view, tip, Sealed { seals, late }))
     })?;
     let p = view.project();
     let page_doc = Page {
@@ -207,7 +283,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             ("Entries in the chain".into(), tip.0.to_string()),
             ("Chain head".into(), tip.1.to_hex()),
         ],
-        sections: sections(ctx, &a, &view)?,
+        sections: sections(ctx, &a, &view, sealed)?,
     };
     let html = page(&page_doc);
     std::fs::write(&a.out, &html)
