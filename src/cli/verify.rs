@@ -90,7 +90,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
                 Cell::Int(seals as i64),
                 Cell::text(c.head.head()),
                 Cell::text(c.head.to_hex()),
-                Cell::text("whole"),
+                Cell::text("intact"),
             ]);
         }
         Ok(())
