@@ -15,15 +15,25 @@ use std::path::{Path, PathBuf};
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
     /// Write a project's registration, settings, imported files and entries to one file
+    #[command(after_help = "Example: sinkbook bundle export TFS --out tfs.bundle")]
     Export(ExportArgs),
     /// Check every hash, the chain and the tree head of a bundle, without a ledger (exit 3 if damaged)
-    Check { file: PathBuf },
+    #[command(after_help = "Example: sinkbook bundle check tfs.bundle")]
+    Check {
+        /// The bundle file to check
+        file: PathBuf,
+    },
     /// Load a bundle into the ledger at --db: a new project, or the extension of the copy held
-    Load { file: PathBuf },
+    #[command(after_help = "Example: sinkbook --db registry.db bundle load tfs.bundle")]
+    Load {
+        /// The bundle file to load
+        file: PathBuf,
+    },
 }
 
 #[derive(Debug, Args)]
 pub struct ExportArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The bundle file to write
     #[arg(long)]

@@ -32,6 +32,7 @@ pub struct ChartArgs {
     /// The SVG file to write
     #[arg(long)]
     pub out: PathBuf,
+    /// Length of each period (one row each)
     #[arg(long, value_enum, default_value_t = ChartBy::Quarter)]
     pub by: ChartBy,
     /// Deduct only the share of the uncertainty above this threshold

@@ -19,6 +19,7 @@ use std::io::Read;
 
 #[derive(Debug, Args)]
 pub struct ReadingsArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The meter whose readings to show
     #[arg(long)]

@@ -18,13 +18,21 @@ use clap::{Args, Subcommand};
 #[derive(Debug, Subcommand)]
 pub enum FeedstockCommand {
     /// Register a feedstock: oxide analysis, immobile elements, density, particle size
+    #[command(
+        after_help = "Example: sinkbook feedstock add EVW EVB-1 --oxides SiO2=49.5,Al2O3=14.2,FeO=11.6,CaO=9.4,MgO=7.8 --unit wt% --density \"2.9 t/m3\""
+    )]
     Add(FeedstockAdd),
     /// List a project's feedstocks with their cation contents and CO2 potential
-    List { project: String },
+    #[command(after_help = "Example: sinkbook feedstock list EVW")]
+    List {
+        /// Project code (e.g. EVW)
+        project: String,
+    },
 }
 
 #[derive(Debug, Args)]
 pub struct FeedstockAdd {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// Short code, e.g. EVB-1
     pub code: String,

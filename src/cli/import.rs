@@ -25,6 +25,7 @@ use std::path::PathBuf;
 
 #[derive(Debug, Args)]
 pub struct ImportArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// CSV with a header row; default columns timestamp,site,quantity,unit,co2_fraction (optional basis, meter)
     pub file: PathBuf,

@@ -16,6 +16,7 @@ use std::collections::BTreeMap;
 
 #[derive(Debug, Args)]
 pub struct MetersArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The reporting year
     #[arg(long)]

@@ -35,7 +35,9 @@ pub(super) fn grouping_name(g: Grouping) -> &'static str {
 
 #[derive(Debug, Args)]
 pub struct MineralizationArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
+    /// Length of each period (one row each)
     #[arg(long, value_enum, default_value_t = By::Quarter)]
     pub by: By,
 }

@@ -22,6 +22,7 @@ mod reports;
 mod seal;
 mod settings;
 mod setup;
+mod shell;
 mod totals;
 mod verify;
 mod view;
@@ -48,7 +49,7 @@ pub const DEFAULT_DB: &str = "sinkbook.db";
     name = "sinkbook",
     version,
     about = "An append-only, tamper-evident ledger of CO2 stored underground and in rock",
-    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered · 4 reconciliation material"
+    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered · 4 reconciliation material\n\nExample: sinkbook demo"
 )]
 pub struct Cli {
     /// The ledger file [default: sinkbook.db in the working directory]
@@ -71,61 +72,98 @@ pub struct Cli {
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// Create a ledger file (or confirm that one exists)
+    #[command(after_help = "Example: sinkbook --db tfs.db init")]
     Init,
     /// Register and list storage projects
     #[command(subcommand)]
+    #[command(after_help = "Example: sinkbook project list")]
     Project(setup::ProjectCommand),
     /// Register and list wells, fields and plants of a project
     #[command(subcommand)]
+    #[command(after_help = "Example: sinkbook site list TFS")]
     Site(setup::SiteCommand),
     /// Record a measured quantity as a new ledger entry
     #[command(subcommand)]
+    #[command(
+        after_help = "Example: sinkbook record injection TFS --site TF-I1 --meter FM-101 --mass \"35164.5 t\" --co2-fraction 0.984 --from 2026-01-01 --to 2026-01-31"
+    )]
     Record(record::RecordCommand),
     /// Record a correction: a new entry that replaces an earlier one
+    #[command(
+        after_help = "Example: sinkbook correct TFS 0 --reason \"meter FM-101 recalibrated\" --mass \"35160.2 t\""
+    )]
     Correct(record::CorrectArgs),
     /// List every entry of a project with its reading and hash
+    #[command(after_help = "Example: sinkbook entries TFS")]
     Entries(reports::EntriesArgs),
     /// Injected and stored tonnes by period, cumulative, and permit use
+    #[command(after_help = "Example: sinkbook balance TFS --by quarter")]
     Balance(reports::BalanceArgs),
     /// Import a meter export (CSV): its bytes kept as evidence, one entry per meter per day
+    #[command(after_help = "Example: sinkbook import TFS sample-projects/tfs-meters-2026.csv")]
     Import(import::ImportArgs),
     /// The imported readings behind one meter-day, re-read from the kept files
+    #[command(after_help = "Example: sinkbook readings TFS --meter FM-101 --day 2026-02-10")]
     Readings(evidence::ReadingsArgs),
     /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
+    #[command(after_help = "Example: sinkbook meters TFS --year 2026")]
     Meters(meters::MetersArgs),
     /// Reconcile the ledger with an independent monitoring report; exit 4 when material
+    #[command(
+        after_help = "Example: sinkbook reconcile TFS sample-projects/tfs-monitoring-report-2026.csv"
+    )]
     Reconcile(reconcile::ReconcileArgs),
     /// Chart cumulative stored, conservative and durable tonnes against the permit (SVG)
+    #[command(after_help = "Example: sinkbook chart TFS --out tfs.svg")]
     Chart(chart::ChartArgs),
     /// Totals across projects: stored, conservative, durable, buffer, claimable, reversed, headroom
+    #[command(after_help = "Example: sinkbook totals --by year")]
     Totals(totals::TotalsArgs),
     /// A project's year as one printable HTML page: balance, meters, leakage, claims, seal
+    #[command(after_help = "Example: sinkbook report TFS --year 2026 --out tfs-2026.html")]
     Report(report::ReportArgs),
     /// A project's record as one portable file: export, check without a ledger, load
     #[command(subcommand)]
+    #[command(after_help = "Example: sinkbook bundle export TFS --out tfs.bundle")]
     Bundle(bundle::BundleCommand),
     /// Recompute every hash and check the ledger's structure
+    #[command(after_help = "Example: sinkbook verify")]
     Verify(verify::VerifyArgs),
     /// Convert masses, gas volumes and species (CaCO3, C, minerals) to CO2 and back
+    #[command(after_help = "Example: sinkbook convert \"1000 short_ton\" --to t")]
     Convert(convert::ConvertArgs),
     /// CO2 density, phase and compressibility factor by the Span–Wagner equation of state
+    #[command(
+        after_help = "Example: sinkbook density --temperature \"40 C\" --pressure \"10 MPa\""
+    )]
     Density(density::DensityArgs),
     /// CO2 uptake potential of a rock (oxide composition) or a mineral (formula)
+    #[command(after_help = "Example: sinkbook potential --mineral Mg2SiO4")]
     Potential(potential::PotentialArgs),
     /// Build a fresh ledger from the sample projects: an overview, or every table with --full
     Demo(demo::DemoArgs),
+    /// A completion script for bash, zsh or fish
+    Completions(shell::CompletionsArgs),
+    /// The manual page (roff, for man)
+    Manual(shell::ManualArgs),
     /// Register and list the feedstocks (crushed rock) of an enhanced-weathering project
     #[command(subcommand)]
+    #[command(after_help = "Example: sinkbook feedstock list EVW")]
     Feedstock(feedstock::FeedstockCommand),
     /// CO2 injected into basalt split by tracer campaigns into mineralized and still dissolved
+    #[command(after_help = "Example: sinkbook mineralization CRB --by year")]
     Mineralization(mineralization::MineralizationArgs),
     /// Per field and soil campaign: applied, dissolved fraction, gross CO2, deductions, emissions, net
+    #[command(after_help = "Example: sinkbook weathering EVW")]
     Weathering(weathering::WeatheringArgs),
     /// Close a reporting period: record the tree head over every entry and the period's figures
+    #[command(after_help = "Example: sinkbook seal TFS --period 2026")]
     Seal(seal::SealArgs),
     /// Write an inclusion proof of one entry in a seal's tree (JSON, docs/proofs.md)
+    #[command(after_help = "Example: sinkbook proof TFS 12 --seal 2026 --out proof.json")]
     Proof(proof::ProofArgs),
     /// Check an inclusion proof without any ledger: exit 0 when it holds, 3 when it does not
+    #[command(after_help = "Example: sinkbook check-proof proof.json")]
     CheckProof(proof::CheckProofArgs),
 }
 
@@ -172,6 +210,8 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Density(a) => density::density(a),
         Command::Potential(a) => potential::potential(a),
         Command::Demo(a) => demo::demo(db.as_deref(), a, now),
+        Command::Completions(a) => shell::completions(a),
+        Command::Manual(a) => shell::manual(a),
         Command::Feedstock(c) => feedstock::feedstock(&ctx, c),
         Command::Mineralization(a) => mineralization::mineralization(&ctx, a),
         Command::Weathering(a) => weathering::weathering(&ctx, a),

@@ -14,6 +14,7 @@ use std::path::PathBuf;
 
 #[derive(Debug, Args)]
 pub struct ProofArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The entry to prove
     pub seq: u64,

@@ -27,6 +27,7 @@ pub const MATERIAL: u8 = 4;
 
 #[derive(Debug, Args)]
 pub struct ReconcileArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// CSV with columns period,quantity,value,unit (period 2026, 2026-Q1 or 2026-03; quantity
     /// received, injected, produced, leakage, equipment-leak, stored, mineralized, weathering-net)

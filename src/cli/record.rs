@@ -99,38 +99,81 @@ impl QuantityArgs {
 #[derive(Debug, Subcommand)]
 pub enum RecordCommand {
     /// CO2 received by custody transfer into the project
+    #[command(
+        after_help = "Example: sinkbook record receipt KRE --site KR-P1 --mass \"40000 t\" --from 2026-01-01 --to 2026-01-31"
+    )]
     Receipt(RecordArgs),
     /// CO2 received but sent on without injection
+    #[command(
+        after_help = "Example: sinkbook record redelivery KRE --site KR-P1 --mass \"500 t\" --from 2026-01-01 --to 2026-01-31"
+    )]
     Redelivery(RecordArgs),
     /// CO2 injected at an injection well, from its flow meter
+    #[command(
+        after_help = "Example: sinkbook record injection TFS --site TF-I1 --mass \"35164.5 t\" --co2-fraction 0.984 --from 2026-01-01 --to 2026-01-31"
+    )]
     Injection(InjectionArgs),
     /// CO2 separated from produced fluids, per separator
+    #[command(
+        after_help = "Example: sinkbook record production KRE --site KR-S1 --mass \"25000 t\" --from 2026-01-01 --to 2026-01-31"
+    )]
     Production(ProductionArgs),
     /// Surface leakage through a leakage pathway (a mass, or a rate over the days of the event)
+    #[command(
+        after_help = "Example: sinkbook record leakage TFS --site TF-M1 --pathway \"TF-M1 annulus\" --rate \"0.015 t/h\" --since-last-survey --to 2026-09-20"
+    )]
     Leakage(LeakageArgs),
     /// An equipment leak or vent between a flow meter and a wellhead
+    #[command(
+        after_help = "Example: sinkbook record equipment-leak TFS --site TF-I1 --side injection --mass \"18.4 t\" --from 2026-05-01 --to 2026-05-31"
+    )]
     EquipmentLeak(EquipmentLeakArgs),
     /// Emissions of the project's own work (energy, transport), reported beside storage
+    #[command(
+        after_help = "Example: sinkbook record emission KRE --site KR-C1 --mass \"2200 t\" --from 2026-01-01 --to 2026-01-31"
+    )]
     Emission(EmissionArgs),
     /// A surface or well survey for leaks, with its result
+    #[command(
+        after_help = "Example: sinkbook record survey TFS --site TF-M1 --date 2026-06-14 --result no-leak"
+    )]
     Survey(SurveyArgs),
     /// A meter calibration or verification: the uncertainty in force from its date
+    #[command(
+        after_help = "Example: sinkbook record calibration TFS --site TF-I2 --meter FM-201 --date 2026-08-25 --uncertainty 1.0%"
+    )]
     Calibration(CalibrationArgs),
     /// A loss found after tonnes were claimed: cancels the buffer pool first, then claimable tonnes
+    #[command(
+        after_help = "Example: sinkbook record reversal KRE --site KR-P2 --mass \"14500 t\" --date 2026-11-24 --reason \"CO2 migration behind casing\""
+    )]
     Reversal(ReversalArgs),
     /// A tracer sample at a monitoring well: injectate share and DIC, giving the mineralized fraction
+    #[command(
+        after_help = "Example: sinkbook record tracer-sample CRB --site CR-M1 --date 2025-06-17 --tracer-ratio 0.085 --dic-sample 27.71 --dic-background 1.62 --dic-injectate 812.0 --unit mmol/kg"
+    )]
     TracerSample(super::record_rock::TracerSampleArgs),
     /// A batch of solid carbonated ex situ: dry mass fed, CO2 content before and after
+    #[command(
+        after_help = "Example: sinkbook record carbonation ASH --site AS-P1 --mass \"620 t\" --co2-before 1.2% --co2-after 14.5% --from 2026-01-16 --to 2026-02-15"
+    )]
     Carbonation(super::record_rock::CarbonationArgs),
     /// Feedstock spread on a field
+    #[command(
+        after_help = "Example: sinkbook record application EVW --site EV-F1 --feedstock EVB-1 --mass \"625 t\" --date 2024-04-15"
+    )]
     Application(super::record_rock::ApplicationArgs),
     /// A soil core of a field: depth, bulk density, base cations and an immobile element
+    #[command(
+        after_help = "Example: sinkbook record soil-sample EVW --site EV-F1 --date 2024-03-18 --depth \"0-30 cm\" --bulk-density \"1.30 t/m3\" --conc Ca=6150,Mg=3420,Na=5230,K=14800,Ti=3610 --unit mg/kg --baseline"
+    )]
     SoilSample(super::record_rock::SoilSampleArgs),
 }
 
 /// Options every quantity record takes.
 #[derive(Debug, Args)]
 pub struct RecordArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The site the reading was taken at
     #[arg(long)]
@@ -149,6 +192,7 @@ pub struct RecordArgs {
     /// The meter's identifier
     #[arg(long, value_name = "ID")]
     pub meter: Option<String>,
+    /// A note kept with the entry (free text)
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
 }
@@ -198,6 +242,7 @@ pub enum Side {
 pub struct EquipmentLeakArgs {
     #[command(flatten)]
     pub base: RecordArgs,
+    /// Which side of the mass balance the leak is on: injection or production
     #[arg(long, value_enum)]
     pub side: Side,
 }
@@ -228,43 +273,57 @@ pub enum SurveyResult {
 
 #[derive(Debug, Args)]
 pub struct SurveyArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
+    /// The site the reading was taken at
     #[arg(long)]
     pub site: String,
+    /// The day of it (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub date: String,
+    /// What the survey found
     #[arg(long, value_enum)]
     pub result: SurveyResult,
     /// The pathway surveyed, if the survey covered one pathway only
     #[arg(long)]
     pub pathway: Option<String>,
+    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
+    /// A note kept with the entry (free text)
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
 }
 
 #[derive(Debug, Args)]
 pub struct CalibrationArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
+    /// The site the reading was taken at
     #[arg(long)]
     pub site: String,
+    /// The day of it (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub date: String,
     /// The meter's uncertainty (95 %) found, e.g. 0.4%
     #[arg(long, allow_hyphen_values = true)]
     pub uncertainty: String,
+    /// The meter's identifier
     #[arg(long, value_name = "ID")]
     pub meter: Option<String>,
+    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
+    /// A note kept with the entry (free text)
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
 }
 
 #[derive(Debug, Args)]
 pub struct ReversalArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
+    /// The site the reading was taken at
     #[arg(long)]
     pub site: String,
     /// The CO2 lost, with its unit
@@ -276,12 +335,14 @@ pub struct ReversalArgs {
     /// What was lost and how it was found
     #[arg(long)]
     pub reason: String,
+    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
 }
 
 #[derive(Debug, Args)]
 pub struct CorrectArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The seq of the entry to replace
     pub seq: u64,
@@ -291,16 +352,22 @@ pub struct CorrectArgs {
     /// Any option left out keeps the corrected entry's value
     #[command(flatten)]
     pub quantity: QuantityArgs,
+    /// The site, when the corrected entry named the wrong one
     #[arg(long)]
     pub site: Option<String>,
+    /// First day the corrected reading covers (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub from: Option<String>,
+    /// Last day the corrected reading covers, included
     #[arg(long, value_name = "DATE")]
     pub to: Option<String>,
+    /// Idempotency key of the correction [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
+    /// The meter's identifier, when the corrected entry named the wrong one
     #[arg(long, value_name = "ID")]
     pub meter: Option<String>,
+    /// A note kept with the correction (free text)
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
     /// Record even though the correction takes the project past its permit

@@ -25,6 +25,7 @@ pub struct EntryOptions {
     /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
     #[arg(long)]
     pub key: Option<String>,
+    /// A note kept with the entry (free text)
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
     /// Replace an earlier entry of the same kind (a re-analysis, a corrected transcription)
@@ -37,10 +38,12 @@ pub struct EntryOptions {
 
 #[derive(Debug, Args)]
 pub struct TracerSampleArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The monitoring well sampled
     #[arg(long)]
     pub site: String,
+    /// The day of it (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub date: String,
     /// X: the non-reactive tracer's concentration in the sample over that in the injectate, in (0, 1]
@@ -64,6 +67,7 @@ pub struct TracerSampleArgs {
 
 #[derive(Debug, Args)]
 pub struct CarbonationArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The plant where the solid was carbonated
     #[arg(long)]
@@ -89,6 +93,7 @@ pub struct CarbonationArgs {
 
 #[derive(Debug, Args)]
 pub struct ApplicationArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The field spread (registered with an area)
     #[arg(long)]
@@ -99,6 +104,7 @@ pub struct ApplicationArgs {
     /// Dry mass of rock spread, e.g. "625 t"
     #[arg(long, value_name = "MASS")]
     pub mass: String,
+    /// The day of it (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub date: String,
     #[command(flatten)]
@@ -107,10 +113,12 @@ pub struct ApplicationArgs {
 
 #[derive(Debug, Args)]
 pub struct SoilSampleArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The field cored
     #[arg(long)]
     pub site: String,
+    /// The day of it (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
     pub date: String,
     /// Depth interval cored, e.g. "0-30 cm"

@@ -24,6 +24,7 @@ use std::path::PathBuf;
 
 #[derive(Debug, Args)]
 pub struct ReportArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The reporting year
     #[arg(long)]

@@ -15,6 +15,7 @@ use clap::{Args, ValueEnum};
 
 #[derive(Debug, Args)]
 pub struct EntriesArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
 }
 
@@ -97,7 +98,9 @@ pub enum By {
 
 #[derive(Debug, Args)]
 pub struct BalanceArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
+    /// Length of each period (one row each)
     #[arg(long, value_enum, default_value_t = By::Quarter)]
     pub by: By,
     /// rr: 40 CFR 98.443 (RR-11/RR-12); iso27916: the CO2-EOR form, recycled CO2 counted once

@@ -16,6 +16,7 @@ use clap::Args;
 
 #[derive(Debug, Args)]
 pub struct SealArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// The reporting period to close: a year (2026), a quarter (2026-Q1) or a month (2026-03)
     #[arg(long, value_name = "PERIOD")]

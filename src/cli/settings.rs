@@ -13,6 +13,7 @@ use clap::Args;
 
 #[derive(Debug, Args)]
 pub struct ProjectSet {
+    /// Project code (e.g. TFS)
     pub code: String,
     /// Share of durable tonnes withheld into the buffer pool, e.g. 10%
     #[arg(long, allow_hyphen_values = true)]

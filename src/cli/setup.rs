@@ -22,12 +22,21 @@ pub fn init(ctx: &Context) -> Result<Report> {
 #[derive(Debug, Subcommand)]
 pub enum ProjectCommand {
     /// Register a project
+    #[command(
+        after_help = "Example: sinkbook project add TFS --name \"Tamsin Flats Storage\" --method saline-aquifer --operator \"Northdeep Storage Cooperative\" --permit-capacity \"2.5 Mt\""
+    )]
     Add(ProjectAdd),
     /// List the projects of the ledger
+    #[command(after_help = "Example: sinkbook project list")]
     List,
     /// Show one project with its sites and settings
-    Show { code: String },
+    #[command(after_help = "Example: sinkbook project show TFS")]
+    Show {
+        /// Project code (e.g. TFS)
+        code: String,
+    },
     /// Record a change to a project's buffer share, retention model or temporary storage terms
+    #[command(after_help = "Example: sinkbook project set TFS --buffer 5%")]
     Set(super::settings::ProjectSet),
 }
 
@@ -35,11 +44,13 @@ pub enum ProjectCommand {
 pub struct ProjectAdd {
     /// Short code, e.g. TFS
     pub code: String,
+    /// The project's name
     #[arg(long)]
     pub name: String,
     /// saline-aquifer, depleted-field, eor, basalt-mineralization, ex-situ-mineralization, enhanced-weathering
     #[arg(long)]
     pub method: String,
+    /// Who operates the project
     #[arg(long)]
     pub operator: String,
     /// The permit's reference
@@ -162,8 +173,11 @@ fn projects_table(projects: &[Project]) -> Table {
 #[derive(Debug, Subcommand)]
 pub enum SiteCommand {
     /// Register a well, field or plant of a project
+    #[command(after_help = "Example: sinkbook site add TFS TF-I1 --kind injection-well")]
     Add {
+        /// Project code (e.g. TFS)
         project: String,
+        /// Site code (e.g. TF-I1)
         code: String,
         /// injection-well, production-well, monitoring-well, field, plant
         #[arg(long)]
@@ -176,7 +190,11 @@ pub enum SiteCommand {
         uncertainty: Option<String>,
     },
     /// List a project's sites
-    List { project: String },
+    #[command(after_help = "Example: sinkbook site list TFS")]
+    List {
+        /// Project code (e.g. TFS)
+        project: String,
+    },
 }
 
 pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {

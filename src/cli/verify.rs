@@ -120,6 +120,6 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Cell::Int(seals as i64),
         Cell::text(c.head.head()),
         Cell::text(c.head.to_hex()),
-        Cell::text("whole"),
+        Cell::text("intact"),
     ])
 }

@@ -67,6 +67,7 @@ pub struct DeductionArgs {
 
 #[derive(Debug, Args)]
 pub struct WeatheringArgs {
+    /// Project code (e.g. TFS)
     pub project: String,
     /// Only this field
     #[arg(long)]

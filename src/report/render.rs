@@ -23,6 +23,9 @@ pub fn render(report: &Report, format: Format) -> String {
 
 /// A report for the given layout (it shapes people's tables only; JSON and CSV ignore it).
 pub fn render_with(report: &Report, format: Format, layout: Layout) -> String {
+    if let Some(text) = &report.text {
+        return text.clone();
+    }
     match format {
         Format::Table => people::report(report, layout),
         Format::Json => json(report),

@@ -106,6 +106,8 @@ pub struct Report {
     /// Exit code of a command that completed but found something scripts must act on
     /// (4: a reconciliation found a material misstatement).
     pub exit_code: u8,
+    /// Text printed as it is, whatever the format (a completion script, a man page).
+    pub text: Option<String>,
 }
 
 impl Report {

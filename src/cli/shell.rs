@@ -1,0 +1,52 @@
+//! `completions` and `manual`: the command line described for shells and for `man`, generated
+//! from the same clap definitions that parse it.
+
+use super::Cli;
+use crate::error::{Error, Result};
+use crate::report::Report;
+use clap::{Args, CommandFactory};
+use clap_complete::Shell;
+
+#[derive(Debug, Args)]
+#[command(
+    after_help = "Example: sinkbook completions bash > ~/.local/share/bash-completion/completions/sinkbook"
+)]
+pub struct CompletionsArgs {
+    /// The shell to complete for
+    #[arg(value_parser = ["bash", "zsh", "fish"])]
+    pub shell: String,
+}
+
+#[derive(Debug, Args)]
+#[command(after_help = "Example: sinkbook manual > ~/.local/share/man/man1/sinkbook.1")]
+pub struct ManualArgs {}
+
+fn text(bytes: Vec<u8>) -> Result<Report> {
+    let text = String::from_utf8(bytes)
+        .map_err(|e| Error::Refused(format!("generated text is not UTF-8: {e}")))?;
+    Ok(Report {
+        text: Some(text),
+        ..Report::default()
+    })
+}
+
+/// A completion script for the shell, printed as it is.
+pub fn completions(a: CompletionsArgs) -> Result<Report> {
+    let shell = match a.shell.as_str() {
+        "zsh" => Shell::Zsh,
+        "fish" => Shell::Fish,
+        _ => Shell::Bash,
+    };
+    let mut out = Vec::new();
+    clap_complete::generate(shell, &mut Cli::command(), "sinkbook", &mut out);
+    text(out)
+}
+
+/// The man page (roff), with a section for every command.
+pub fn manual(_: ManualArgs) -> Result<Report> {
+    let mut out = Vec::new();
+    clap_mangen::Man::new(Cli::command())
+        .render(&mut out)
+        .map_err(|e| Error::Refused(format!("manual: {e}")))?;
+    text(out)
+}
