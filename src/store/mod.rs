@@ -1,17 +1,19 @@
 //! The ledger file: the only module that speaks SQL. SQLite through diesel, migrations embedded
 //! and applied on open, every command in one transaction.
 
+pub(crate) mod backend;
 mod bundle;
 mod connection;
 mod feedstocks;
 mod imports;
+mod postgres;
 mod rows;
 pub mod schema;
 
 use crate::error::{Error, Result};
 use crate::ledger::{Hash, Project, SealedEntry, Site};
+use backend::{Conn, on_backend};
 use diesel::prelude::*;
-use diesel::sqlite::SqliteConnection;
 use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
 use schema::{entries, projects, settings, sites};
 
@@ -23,27 +25,25 @@ pub use imports::{
     BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
 };
 
-impl From<diesel::result::Error> for Error {
-    fn from(e: diesel::result::Error) -> Self {
-        Error::Store(format!("ledger database error: {e}"))
-    }
-}
-
-/// An open ledger file.
+/// An open ledger: a SQLite file, or the shared registry when `--db` is a `postgres://` URL.
 pub struct Store {
-    conn: SqliteConnection,
+    conn: Conn,
     path: PathBuf,
 }
 
 /// Access to the ledger inside one transaction.
 pub struct Tx<'a> {
-    conn: &'a mut SqliteConnection,
+    conn: &'a mut Conn,
+    writing: bool,
 }
 
 impl Store {
     /// Creates a ledger at `path` (or opens it, if it already is one). Returns whether it was new.
     pub fn init(path: &Path) -> Result<(Store, bool)> {
-        let (conn, created) = connection::create(path)?;
+        let (conn, created) = match postgres::url(path) {
+            Some(url) => postgres::create(url).map(|(c, new)| (Conn::Pg(c), new))?,
+            None => connection::create(path).map(|(c, new)| (Conn::Sqlite(c), new))?,
+        };
         Ok((
             Store {
                 conn,
@@ -55,7 +55,10 @@ impl Store {
 
     /// Opens an existing ledger; any other file is refused.
     pub fn open(path: &Path) -> Result<Store> {
-        let conn = connection::open(path)?;
+        let conn = match postgres::url(path) {
+            Some(url) => Conn::Pg(postgres::open(url)?),
+            None => Conn::Sqlite(connection::open(path)?),
+        };
         Ok(Store {
             conn,
             path: path.to_path_buf(),
@@ -66,20 +69,35 @@ impl Store {
         &self.path
     }
 
-    /// Runs `f` in a write transaction taken at once (BEGIN IMMEDIATE), so two writers never
-    /// fork a chain; nothing is written if `f` fails.
-    pub fn write<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
-        self.conn.immediate_transaction(|conn| f(&mut Tx { conn }))
+    /// Runs `f` in one write transaction in which two writers never fork a chain; nothing is
+    /// written if `f` fails. On the registry `f` may run again after contention
+    /// (`backend::write`), so it must not act outside the transaction.
+    pub fn write<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+        backend::write(&mut self.conn, |conn| {
+            f(&mut Tx {
+                conn,
+                writing: true,
+            })
+        })
     }
 
     /// Runs `f` in a read transaction, so a report sees one consistent state.
-    pub fn read<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
-        self.conn.transaction(|conn| f(&mut Tx { conn }))
+    pub fn read<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+        backend::read(&mut self.conn, |conn| {
+            f(&mut Tx {
+                conn,
+                writing: false,
+            })
+        })
     }
 
-    /// SQLite's own check of the file's structure; "ok" when whole.
+    /// The database's own check of its pages; "ok" when whole. SQLite checks the file's
+    /// structure; the registry's server reports the page checksum failures it has seen.
     pub fn integrity_check(&mut self) -> Result<Vec<String>> {
-        connection::integrity_check(&mut self.conn)
+        match &mut self.conn {
+            Conn::Sqlite(c) => connection::integrity_check(c),
+            Conn::Pg(c) => postgres::integrity_check(c),
+        }
     }
 }
 
@@ -195,8 +213,10 @@ impl Tx<'_> {
         row.map(|r| r.to_sealed().map_err(inconsistent)).transpose()
     }
 
-    /// The seq the next entry takes and the chain head it links to.
+    /// The seq the next entry takes and the chain head it links to. In a write on the registry
+    /// the project's chain is locked first, until the transaction ends.
     pub fn chain_tip(&mut self, project: &str) -> Result<(u64, Hash)> {
+        self.hold(project)?;
         let last: Option<(i64, String)> = entries::table
             .filter(entries::project.eq(project))
             .order(entries::seq.desc())
@@ -220,15 +240,26 @@ impl Tx<'_> {
     pub fn append(&mut self, sealed: &[SealedEntry]) -> Result<()> {
         let rows: Vec<EntryRow> = sealed.iter().map(EntryRow::from_sealed).collect();
         for chunk in rows.chunks(1000) {
-            diesel::insert_into(entries::table)
+            on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
                 .values(chunk)
-                .execute(self.conn)?;
+                .execute(c))?;
         }
         Ok(())
     }
 
-    /// A project's settings, in the order recorded.
+    /// In a write on the registry, locks `project`'s chain and settings until the transaction
+    /// ends, so the seqs a writer reads stay the next ones free (SQLite's BEGIN IMMEDIATE
+    /// already holds the whole file).
+    fn hold(&mut self, project: &str) -> Result<()> {
+        match (&mut *self.conn, self.writing) {
+            (Conn::Pg(c), true) => postgres::lock_chain(c, project),
+            _ => Ok(()),
+        }
+    }
+
+    /// A project's settings, in the order recorded (locked first in a write: see `hold`).
     pub fn settings(&mut self, project: &str) -> Result<Vec<crate::ledger::setting::Setting>> {
+        self.hold(project)?;
         let rows: Vec<SettingRow> = settings::table
             .filter(settings::project.eq(project))
             .order(settings::seq)
