@@ -130,3 +130,150 @@ fn no_role_can_rewrite_history_through_sql() {
         assert!(!ok && err.contains(refusal), "the owner's {sql}: {err}");
     }
 }
+
+/// A registry with TFS (operator Northdeep Storage Cooperative) and one role of each kind, made
+/// through `registry role add`: TFS's operator, another operator, a verifier, a regulator.
+fn registry_with_roles() -> (Ledger, [String; 4]) {
+    let l = Ledger::with_tfs_on(true);
+    let db = l.registry.as_ref().unwrap();
+    let names = [
+        db.role("nsc"),
+        db.role("other"),
+        db.role("verifier"),
+        db.role("regulator"),
+    ];
+    let kinds: [&[&str]; 4] = [
+        &["--operator", "Northdeep Storage Cooperative"],
+        &["--operator", "Kestrel Ridge Energy"],
+        &["--verifier"],
+        &["--regulator"],
+    ];
+    for (name, kind) in names.iter().zip(kinds) {
+        let mut args = vec!["registry", "role", "add", name.as_str()];
+        args.extend(kind);
+        let out = l.ok(&args);
+        assert!(out.contains(&format!("created role {name}")), "{out}");
+    }
+    (l, names)
+}
+
+/// Runs sinkbook against the registry as `role`.
+fn as_role(l: &Ledger, role: &str, args: &[&str]) -> common::Run {
+    let db = l.registry.as_ref().unwrap();
+    let as_role = Ledger {
+        dir: tempfile::tempdir().unwrap(),
+        path: db.url_as(role).into(),
+        registry: None,
+    };
+    as_role.run(args)
+}
+
+#[test]
+fn each_role_writes_only_what_it_may_through_the_command_line() {
+    if !registry::available() {
+        return;
+    }
+    let (l, [nsc, other, verifier, regulator]) = registry_with_roles();
+    let record = [
+        "record",
+        "injection",
+        "TFS",
+        "--site",
+        "TF-I1",
+        "--mass",
+        "10 t",
+        "--co2-fraction",
+        "0.985",
+        "--from",
+        "2026-01-01",
+        "--to",
+        "2026-01-01",
+    ];
+    let r = as_role(&l, &nsc, &record);
+    assert_eq!(r.code, 0, "the operator's own role records: {}", r.err);
+    for role in [&other, &verifier, &regulator] {
+        let r = as_role(&l, role, &record);
+        assert_eq!(r.code, 1, "{role} recorded into TFS: {}", r.out);
+        assert_eq!(r.err.lines().count(), 1, "one line: {}", r.err);
+        assert!(
+            r.err
+                .contains(&format!("role {role} may not make this write")),
+            "{}",
+            r.err
+        );
+    }
+    let project = [
+        "project",
+        "add",
+        "NEW",
+        "--name",
+        "New",
+        "--method",
+        "saline-aquifer",
+        "--operator",
+        "Northdeep Storage Cooperative",
+    ];
+    let r = as_role(&l, &other, &project);
+    assert_eq!(r.code, 1, "another operator registered NSC's project");
+    assert!(r.err.contains("table \"projects\""), "{}", r.err);
+    assert_eq!(as_role(&l, &nsc, &project).code, 0);
+    let r = as_role(&l, &regulator, &["--format", "json", "entries", "TFS"]);
+    assert_eq!(r.code, 0, "a regulator reads: {}", r.err);
+    assert_eq!(l.count("TFS"), 1, "only the operator's own record was kept");
+    let db = l.registry.as_ref().unwrap();
+    let (_, by) = psql("postgres", &db.name, "SELECT recorded_by FROM entries");
+    assert_eq!(by.trim(), nsc, "the entry names the role that wrote it");
+}
+
+#[test]
+fn the_server_refuses_each_role_s_forbidden_sql() {
+    if !registry::available() {
+        return;
+    }
+    let (l, [nsc, other, verifier, regulator]) = registry_with_roles();
+    let db = l.registry.as_ref().unwrap();
+    l.inject("TF-I1", "10 t", "2026-01-01", "2026-01-01", "k1");
+    let site = "INSERT INTO sites VALUES ('TFS', 'TF-X', 'injection-well', NULL, NULL, now(), 'x')";
+    for (role, sql, refusal) in [
+        (
+            &nsc,
+            "UPDATE entries SET grams = 1",
+            "permission denied for table entries",
+        ),
+        (
+            &nsc,
+            "DELETE FROM entries",
+            "permission denied for table entries",
+        ),
+        (
+            &nsc,
+            "TRUNCATE entries",
+            "permission denied for table entries",
+        ),
+        (
+            &other,
+            site,
+            "violates row-level security policy for table \"sites\"",
+        ),
+        (&verifier, site, "permission denied for table sites"),
+        (&regulator, site, "permission denied for table sites"),
+        (
+            &regulator,
+            "UPDATE projects SET name = 'x'",
+            "permission denied for table projects",
+        ),
+        (
+            &nsc,
+            "INSERT INTO registry_roles VALUES ('x', 'operator', 'Kestrel Ridge Energy', now())",
+            "permission denied for table registry_roles",
+        ),
+    ] {
+        let (ok, err) = psql(role, &db.name, sql);
+        assert!(!ok && err.contains(refusal), "{role}: {sql}: {err}");
+    }
+    let (ok, err) = psql(&nsc, &db.name, site);
+    assert!(
+        ok,
+        "the operator's own role adds a site to its project: {err}"
+    );
+}

@@ -49,10 +49,21 @@ impl From<DieselError> for Error {
             {
                 Error::Store(format!("{BUSY} ({e})"))
             }
+            DieselError::DatabaseError(_, info)
+                if info
+                    .message()
+                    .starts_with("new row violates row-level security policy")
+                    || info.message().starts_with("permission denied for") =>
+            {
+                Error::Refused(format!("{REFUSED} ({})", info.message()))
+            }
             _ => Error::Store(format!("ledger database error: {e}")),
         }
     }
 }
+
+/// Marks a write the registry's roles do not allow; `write` names the role in the message.
+const REFUSED: &str = "the registry refused the write";
 
 fn is_busy(e: &Error) -> bool {
     matches!(e, Error::Store(m) if m.starts_with(BUSY))
@@ -71,11 +82,33 @@ pub fn write<T>(conn: &mut Conn, mut f: impl FnMut(&mut Conn) -> Result<T>) -> R
                     "{e}; gave up after {ATTEMPTS} attempts, nothing was written: try again"
                 )));
             }
+            Err(Error::Refused(m)) if m.starts_with(REFUSED) => {
+                return Err(Error::Refused(format!(
+                    "role {} may not make this write: an operator's role writes only the projects of its own operator, a verifier's or regulator's role writes no ledger rows {}; nothing written",
+                    role(conn),
+                    &m[REFUSED.len()..].trim_start()
+                )));
+            }
             done => return done,
         }
         pause *= 3;
     }
     unreachable!("the loop returns")
+}
+
+#[derive(diesel::QueryableByName)]
+struct Role {
+    #[diesel(sql_type = diesel::sql_types::Text)]
+    role: String,
+}
+
+/// The database role the connection writes as.
+fn role(conn: &mut Conn) -> String {
+    use diesel::RunQueryDsl;
+    diesel::sql_query("SELECT CAST(current_user AS TEXT) AS role")
+        .get_result::<Role>(conn)
+        .map(|r| r.role)
+        .unwrap_or_else(|_| "(unknown)".into())
 }
 
 /// Runs `f` in a read transaction, so a report sees one consistent state.

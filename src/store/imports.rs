@@ -135,10 +135,10 @@ impl Tx<'_> {
             "SELECT bytes FROM import_evidence WHERE import_id = ? AND part = ?",
         );
         let p: Option<Part> = diesel::sql_query(sql)
-                .bind::<BigInt, _>(import_id)
-                .bind::<BigInt, _>(part)
-                .get_result(self.conn)
-                .optional()?;
+            .bind::<BigInt, _>(import_id)
+            .bind::<BigInt, _>(part)
+            .get_result(self.conn)
+            .optional()?;
         Ok(p.map(|p| p.bytes))
     }
 
@@ -212,11 +212,11 @@ impl Tx<'_> {
              ORDER BY e.period_from, e.meter",
         );
         Ok(diesel::sql_query(sql)
-        .bind::<Text, _>(project)
-        .bind::<Text, _>(kind)
-        .bind::<Text, _>(from.to_string())
-        .bind::<Text, _>(to.to_string())
-        .load(self.conn)?)
+            .bind::<Text, _>(project)
+            .bind::<Text, _>(kind)
+            .bind::<Text, _>(from.to_string())
+            .bind::<Text, _>(to.to_string())
+            .load(self.conn)?)
     }
 }
 

@@ -24,6 +24,7 @@ pub use connection::APPLICATION_ID;
 pub use imports::{
     BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
 };
+pub use postgres::RoleKind;
 
 /// An open ledger: a SQLite file, or the shared registry when `--db` is a `postgres://` URL.
 pub struct Store {
@@ -89,6 +90,23 @@ impl Store {
                 writing: false,
             })
         })
+    }
+
+    /// Adds a login role to the registry (run by its owner); a ledger file has no roles.
+    pub fn add_role(
+        &mut self,
+        name: &str,
+        kind: &RoleKind,
+        at: chrono::DateTime<chrono::Utc>,
+    ) -> Result<()> {
+        let Conn::Pg(c) = &mut self.conn else {
+            return Err(Error::field(
+                "--db",
+                &self.path.display().to_string(),
+                "is a ledger file; roles belong to a PostgreSQL registry (--db postgres://USER@HOST/DB)",
+            ));
+        };
+        c.transaction(|c| postgres::add_role(c, name, kind, at))
     }
 
     /// The database's own check of its pages; "ok" when whole. SQLite checks the file's

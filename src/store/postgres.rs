@@ -115,3 +115,65 @@ pub fn integrity_check(conn: &mut PgConnection) -> Result<Vec<String>> {
         n => format!("the server counted {n} page checksum failures in this database"),
     }])
 }
+
+/// What a registry role may do: write one operator's projects, read and attest, or read.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum RoleKind {
+    Operator(String),
+    Verifier,
+    Regulator,
+}
+
+impl RoleKind {
+    /// The group role (migrations/postgres) the login role joins.
+    fn group(&self) -> &'static str {
+        match self {
+            RoleKind::Operator(_) => "sinkbook_operator",
+            RoleKind::Verifier => "sinkbook_verifier",
+            RoleKind::Regulator => "sinkbook_regulator",
+        }
+    }
+
+    pub fn word(&self) -> &'static str {
+        match self {
+            RoleKind::Operator(_) => "operator",
+            RoleKind::Verifier => "verifier",
+            RoleKind::Regulator => "regulator",
+        }
+    }
+}
+
+#[derive(QueryableByName)]
+struct Statement {
+    #[diesel(sql_type = Text)]
+    sql: String,
+}
+
+/// Creates login role `name` in its kind's group and records what it may write, in one
+/// transaction: a role the mapping does not hold writes nothing.
+pub fn add_role(
+    conn: &mut PgConnection,
+    name: &str,
+    kind: &RoleKind,
+    at: chrono::DateTime<chrono::Utc>,
+) -> Result<()> {
+    // format('%I') quotes the name as PostgreSQL itself would.
+    let create =
+        diesel::sql_query("SELECT format('CREATE ROLE %I LOGIN IN ROLE %I', $1, $2) AS sql")
+            .bind::<Text, _>(name)
+            .bind::<Text, _>(kind.group())
+            .get_result::<Statement>(conn)?
+            .sql;
+    conn.batch_execute(&create)?;
+    let operator = match kind {
+        RoleKind::Operator(o) => Some(o.as_str()),
+        _ => None,
+    };
+    diesel::sql_query("INSERT INTO registry_roles VALUES ($1, $2, $3, $4)")
+        .bind::<Text, _>(name)
+        .bind::<Text, _>(kind.word())
+        .bind::<diesel::sql_types::Nullable<Text>, _>(operator)
+        .bind::<diesel::sql_types::Timestamp, _>(at.naive_utc())
+        .execute(conn)?;
+    Ok(())
+}
