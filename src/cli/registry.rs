@@ -21,7 +21,7 @@ pub enum RoleCommand {
 }
 
 #[derive(Args, Debug)]
-#[group(id = "kind", required = true, multiple = false)]
+#[command(group(clap::ArgGroup::new("kind").required(true).multiple(false)))]
 pub struct RoleAdd {
     /// The PostgreSQL role to create, e.g. northdeep_ops
     pub name: String,

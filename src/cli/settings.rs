@@ -81,13 +81,13 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         let mut all = tx.settings(&a.code)?;
         let next = all.len() as u64;
         let new: Vec<Setting> = values
-            .iter()
+            .into_iter()
             .enumerate()
             .map(|(i, (name, value))| Setting {
                 project: a.code.clone(),
                 seq: next + i as u64,
-                name: *name,
-                value: value.clone(),
+                name,
+                value,
                 recorded_at: ctx.now,
             })
             .collect();

@@ -7,7 +7,6 @@ use diesel::connection::{AnsiTransactionManager, Connection, TransactionManager}
 use diesel::pg::PgConnection;
 use diesel::result::{DatabaseErrorKind, Error as DieselError};
 use diesel::sqlite::SqliteConnection;
-use std::time::Duration;
 
 /// An open ledger database.
 #[derive(diesel::MultiConnection)]
@@ -27,9 +26,6 @@ macro_rules! on_backend {
     };
 }
 pub(crate) use on_backend;
-
-/// How often a write the registry refused for contention is tried again before giving up.
-const ATTEMPTS: u32 = 5;
 
 /// Marks a store error worth another attempt: a deadlock, a serialization failure or a lock
 /// that timed out, all of which leave the database as it was.
@@ -70,30 +66,18 @@ fn is_busy(e: &Error) -> bool {
 }
 
 /// Runs `f` in one transaction: on SQLite taken at once (BEGIN IMMEDIATE), so two writers never
-/// fork a chain; on PostgreSQL the appends lock their project's chain instead, and a write the
-/// server refused for contention is tried again, with a growing pause, a bounded number of times.
-pub fn write<T>(conn: &mut Conn, mut f: impl FnMut(&mut Conn) -> Result<T>) -> Result<T> {
-    let mut pause = Duration::from_millis(20);
-    for attempt in 1.. {
-        match transaction(conn, true, &mut f) {
-            Err(e) if is_busy(&e) && attempt < ATTEMPTS => std::thread::sleep(pause),
-            Err(e) if is_busy(&e) => {
-                return Err(Error::Store(format!(
-                    "{e}; gave up after {ATTEMPTS} attempts, nothing was written: try again"
-                )));
-            }
-            Err(Error::Refused(m)) if m.starts_with(REFUSED) => {
-                return Err(Error::Refused(format!(
-                    "role {} may not make this write: an operator's role writes only the projects of its own operator, a verifier's or regulator's role writes no ledger rows {}; nothing written",
-                    role(conn),
-                    &m[REFUSED.len()..].trim_start()
-                )));
-            }
-            done => return done,
-        }
-        pause *= 3;
+/// fork a chain; on PostgreSQL the appends lock their project's chain instead. A write the
+/// server refused for contention (deadlock, lock timeout) ends with one line saying so.
+pub fn write<T>(conn: &mut Conn, f: impl FnOnce(&mut Conn) -> Result<T>) -> Result<T> {
+    match transaction(conn, true, f) {
+        Err(e) if is_busy(&e) => Err(Error::Store(format!("{e}; nothing was written: try again"))),
+        Err(Error::Refused(m)) if m.starts_with(REFUSED) => Err(Error::Refused(format!(
+            "role {} may not make this write: an operator's role writes only the projects of its own operator, a verifier's or regulator's role writes no ledger rows {}; nothing written",
+            role(conn),
+            m[REFUSED.len()..].trim_start()
+        ))),
+        done => done,
     }
-    unreachable!("the loop returns")
 }
 
 #[derive(diesel::QueryableByName)]
@@ -112,14 +96,14 @@ fn role(conn: &mut Conn) -> String {
 }
 
 /// Runs `f` in a read transaction, so a report sees one consistent state.
-pub fn read<T>(conn: &mut Conn, mut f: impl FnMut(&mut Conn) -> Result<T>) -> Result<T> {
-    transaction(conn, false, &mut f)
+pub fn read<T>(conn: &mut Conn, f: impl FnOnce(&mut Conn) -> Result<T>) -> Result<T> {
+    transaction(conn, false, f)
 }
 
 fn transaction<T>(
     conn: &mut Conn,
     write: bool,
-    f: &mut impl FnMut(&mut Conn) -> Result<T>,
+    f: impl FnOnce(&mut Conn) -> Result<T>,
 ) -> Result<T> {
     match conn {
         Conn::Sqlite(c) if write => {

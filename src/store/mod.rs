@@ -71,9 +71,8 @@ impl Store {
     }
 
     /// Runs `f` in one write transaction in which two writers never fork a chain; nothing is
-    /// written if `f` fails. On the registry `f` may run again after contention
-    /// (`backend::write`), so it must not act outside the transaction.
-    pub fn write<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+    /// written if `f` fails.
+    pub fn write<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
         backend::write(&mut self.conn, |conn| {
             f(&mut Tx {
                 conn,
@@ -83,7 +82,7 @@ impl Store {
     }
 
     /// Runs `f` in a read transaction, so a report sees one consistent state.
-    pub fn read<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+    pub fn read<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
         backend::read(&mut self.conn, |conn| {
             f(&mut Tx {
                 conn,

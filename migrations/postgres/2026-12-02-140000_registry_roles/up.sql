@@ -5,7 +5,7 @@
 -- only read. `sinkbook registry role add` creates login roles in them and records each in
 -- registry_roles; row-level security keys on that table, so an operator's role inserts
 -- projects, sites, settings, feedstocks, imports (with their kept bytes) and entries only where the project's operator
--- is the role's. No application role holds UPDATE, DELETE or TRUNCATE on any table, and the
+-- is the role's; verifiers' roles add signed statements over seals. No application role holds UPDATE, DELETE or TRUNCATE on any table, and the
 -- append-only triggers refuse them even to the owner.
 
 DO $$
@@ -59,16 +59,18 @@ ALTER DEFAULT PRIVILEGES IN SCHEMA public GRANT SELECT ON TABLES
 GRANT INSERT ON projects, sites, entries, settings, feedstocks, imports, import_evidence
     TO sinkbook_operator;
 GRANT USAGE ON SEQUENCE imports_id_seq TO sinkbook_operator;
+GRANT INSERT ON signatures TO sinkbook_operator, sinkbook_verifier;
 
 DO $$
 DECLARE t TEXT;
 BEGIN
     FOREACH t IN ARRAY ARRAY['projects', 'sites', 'entries', 'settings', 'feedstocks', 'imports',
-                             'import_evidence', 'registry_roles'] LOOP
+                             'import_evidence', 'signatures', 'registry_roles'] LOOP
         EXECUTE format('ALTER TABLE %I ENABLE ROW LEVEL SECURITY', t);
         EXECUTE format('CREATE POLICY %I ON %I FOR SELECT USING (true)', t || '_read', t);
     END LOOP;
-    FOREACH t IN ARRAY ARRAY['sites', 'entries', 'settings', 'feedstocks', 'imports'] LOOP
+    FOREACH t IN ARRAY ARRAY['sites', 'entries', 'settings', 'feedstocks', 'imports',
+                             'signatures'] LOOP
         EXECUTE format('CREATE POLICY %I ON %I FOR INSERT TO sinkbook_operator '
                        'WITH CHECK (sinkbook_operates(project))', t || '_operator_writes', t);
     END LOOP;
@@ -84,3 +86,8 @@ CREATE POLICY import_evidence_operator_writes ON import_evidence FOR INSERT TO s
     WITH CHECK (NOT EXISTS (SELECT 1 FROM imports i WHERE i.id = import_id)
                 OR EXISTS (SELECT 1 FROM imports i WHERE i.id = import_id
                            AND sinkbook_operates(i.project)));
+
+-- A verifier's role signs statements over any project's seals, and writes nothing else.
+CREATE POLICY signatures_verifier_writes ON signatures FOR INSERT TO sinkbook_verifier
+    WITH CHECK (EXISTS (SELECT 1 FROM registry_roles r
+                        WHERE r.role_name = current_user::text AND r.kind = 'verifier'));
