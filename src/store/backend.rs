@@ -7,6 +7,7 @@ use diesel::connection::{AnsiTransactionManager, Connection, TransactionManager}
 use diesel::pg::PgConnection;
 use diesel::result::{DatabaseErrorKind, Error as DieselError};
 use diesel::sqlite::SqliteConnection;
+use std::cell::RefCell;
 
 /// An open ledger database.
 #[derive(diesel::MultiConnection)]
@@ -68,12 +69,20 @@ fn is_busy(e: &Error) -> bool {
 /// Runs `f` in one transaction: on SQLite taken at once (BEGIN IMMEDIATE), so two writers never
 /// fork a chain; on PostgreSQL the appends lock their project's chain instead. A write the
 /// server refused for contention (deadlock, lock timeout) ends with one line saying so.
-pub fn write<T>(conn: &mut Conn, f: impl FnOnce(&mut Conn) -> Result<T>) -> Result<T> {
+pub fn write<T>(
+    conn: &mut Conn,
+    project: &RefCell<Option<String>>,
+    f: impl FnOnce(&mut Conn) -> Result<T>,
+) -> Result<T> {
     match transaction(conn, true, f) {
         Err(e) if is_busy(&e) => Err(Error::Store(format!("{e}; nothing was written: try again"))),
         Err(Error::Refused(m)) if m.starts_with(REFUSED) => Err(Error::Refused(format!(
-            "role {} may not make this write: an operator's role writes only the projects of its own operator, a verifier's or regulator's role writes no ledger rows {}; nothing written",
+            "role {} may not write {}: an operator's role writes only its own operator's projects, a verifier's only signed statements, a regulator's nothing {}; nothing written",
             role(conn),
+            match project.borrow().as_deref() {
+                Some(p) => format!("project {p}"),
+                None => "this".into(),
+            },
             m[REFUSED.len()..].trim_start()
         ))),
         done => done,

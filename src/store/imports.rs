@@ -71,9 +71,13 @@ impl Tx<'_> {
     /// be imported already, once read), they are rolled back and its value returned.
     pub fn savepoint<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<(T, bool)>) -> Result<T> {
         let mut discarded = None;
-        let writing = self.writing;
+        let (writing, project) = (self.writing, self.project);
         let kept = self.conn.transaction(|conn| {
-            let (value, keep) = f(&mut Tx { conn, writing })?;
+            let (value, keep) = f(&mut Tx {
+                conn,
+                writing,
+                project,
+            })?;
             if keep {
                 return Ok(value);
             }

@@ -18,6 +18,7 @@ use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
 use schema::{entries, projects, settings, sites};
 
 pub use bundle::BundleImport;
+use std::cell::RefCell;
 use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
@@ -36,6 +37,8 @@ pub struct Store {
 pub struct Tx<'a> {
     conn: &'a mut Conn,
     writing: bool,
+    /// The project a write last named, for the registry's refusal to say which it was.
+    project: &'a RefCell<Option<String>>,
 }
 
 impl Store {
@@ -73,20 +76,24 @@ impl Store {
     /// Runs `f` in one write transaction in which two writers never fork a chain; nothing is
     /// written if `f` fails.
     pub fn write<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
-        backend::write(&mut self.conn, |conn| {
+        let project = RefCell::new(None);
+        backend::write(&mut self.conn, &project, |conn| {
             f(&mut Tx {
                 conn,
                 writing: true,
+                project: &project,
             })
         })
     }
 
     /// Runs `f` in a read transaction, so a report sees one consistent state.
     pub fn read<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+        let project = RefCell::new(None);
         backend::read(&mut self.conn, |conn| {
             f(&mut Tx {
                 conn,
                 writing: false,
+                project: &project,
             })
         })
     }
@@ -145,6 +152,7 @@ impl Tx<'_> {
     }
 
     pub fn project(&mut self, code: &str) -> Result<Option<Project>> {
+        self.names(code);
         let row: Option<ProjectRow> = projects::table
             .find(code)
             .select(ProjectRow::as_select())
@@ -155,6 +163,7 @@ impl Tx<'_> {
     }
 
     pub fn add_project(&mut self, p: &Project) -> Result<()> {
+        self.names(&p.code);
         diesel::insert_into(projects::table)
             .values(ProjectRow::from_project(p))
             .execute(self.conn)?;
@@ -264,10 +273,18 @@ impl Tx<'_> {
         Ok(())
     }
 
+    /// Remembers the project a write is about.
+    fn names(&self, project: &str) {
+        if self.writing {
+            *self.project.borrow_mut() = Some(project.to_string());
+        }
+    }
+
     /// In a write on the registry, locks `project`'s chain and settings until the transaction
     /// ends, so the seqs a writer reads stay the next ones free (SQLite's BEGIN IMMEDIATE
     /// already holds the whole file).
     fn hold(&mut self, project: &str) -> Result<()> {
+        self.names(project);
         match (&mut *self.conn, self.writing) {
             (Conn::Pg(c), true) => postgres::lock_chain(c, project),
             _ => Ok(()),

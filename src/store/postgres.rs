@@ -58,7 +58,14 @@ pub fn open(url: &str) -> Result<PgConnection> {
             "{url} holds no sinkbook registry (create it with `sinkbook init --db {url}`)"
         )));
     }
-    migrate(url, &mut conn)?;
+    // The owner migrates; an application role may create nothing, and reads and writes the
+    // tables as the owner left them.
+    let owner = diesel::sql_query("SELECT has_schema_privilege('public', 'CREATE') AS exists")
+        .get_result::<Exists>(&mut conn)
+        .map_err(|e| store_error(url, e))?;
+    if owner.exists {
+        migrate(url, &mut conn)?;
+    }
     Ok(conn)
 }
 
