@@ -154,15 +154,14 @@ fn registry_with_roles() -> (Ledger, [String; 4]) {
     (l, names)
 }
 
-/// Runs sinkbook against the registry as `role`.
-fn as_role(l: &Ledger, role: &str, args: &[&str]) -> common::Run {
+/// The registry as `role` sees it: the same database, connecting as that role.
+fn as_role(l: &Ledger, role: &str) -> Ledger {
     let db = l.registry.as_ref().unwrap();
-    let as_role = Ledger {
+    Ledger {
         dir: tempfile::tempdir().unwrap(),
         path: db.url_as(role).into(),
         registry: None,
-    };
-    as_role.run(args)
+    }
 }
 
 #[test]
@@ -171,27 +170,10 @@ fn each_role_writes_only_what_it_may_through_the_command_line() {
         return;
     }
     let (l, [nsc, other, verifier, regulator]) = registry_with_roles();
-    let record = |day: &'static str| {
-        [
-            "record",
-            "injection",
-            "TFS",
-            "--site",
-            "TF-I1",
-            "--mass",
-            "10 t",
-            "--co2-fraction",
-            "0.985",
-            "--from",
-            day,
-            "--to",
-            day,
-        ]
-    };
-    let r = as_role(&l, &nsc, &record("2026-01-01"));
+    let r = as_role(&l, &nsc).inject("TF-I1", "10 t", "2026-01-01", "2026-01-01", "own");
     assert_eq!(r.code, 0, "the operator's own role records: {}", r.err);
     for role in [&other, &verifier, &regulator] {
-        let r = as_role(&l, role, &record("2026-01-02"));
+        let r = as_role(&l, role).inject("TF-I1", "10 t", "2026-01-02", "2026-01-02", role);
         assert_eq!(r.code, 1, "{role} recorded into TFS: {}", r.out);
         assert_eq!(r.err.lines().count(), 1, "one line: {}", r.err);
         assert!(
@@ -212,11 +194,11 @@ fn each_role_writes_only_what_it_may_through_the_command_line() {
         "--operator",
         "Northdeep Storage Cooperative",
     ];
-    let r = as_role(&l, &other, &project);
+    let r = as_role(&l, &other).run(&project);
     assert_eq!(r.code, 1, "another operator registered NSC's project");
     assert!(r.err.contains("table \"projects\""), "{}", r.err);
-    assert_eq!(as_role(&l, &nsc, &project).code, 0);
-    let r = as_role(&l, &regulator, &["--format", "json", "entries", "TFS"]);
+    assert_eq!(as_role(&l, &nsc).run(&project).code, 0);
+    let r = as_role(&l, &regulator).run(&["--format", "json", "entries", "TFS"]);
     assert_eq!(r.code, 0, "a regulator reads: {}", r.err);
     assert_eq!(l.count("TFS"), 1, "only the operator's own record was kept");
     let db = l.registry.as_ref().unwrap();
