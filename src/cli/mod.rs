@@ -167,7 +167,10 @@ pub enum Command {
     #[command(after_help = "Example: sinkbook check-proof proof.json")]
     CheckProof(proof::CheckProofArgs),
     /// The shared registry on PostgreSQL: its login roles
-    #[command(subcommand)]
+    #[command(
+        subcommand,
+        after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add audit_vera --verifier"
+    )]
     Registry(registry::RegistryCommand),
 }
 

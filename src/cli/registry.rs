@@ -9,7 +9,10 @@ use clap::{Args, Subcommand};
 #[derive(Subcommand, Debug)]
 pub enum RegistryCommand {
     /// Manage the registry's login roles
-    #[command(subcommand)]
+    #[command(
+        subcommand,
+        after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add state_regulator --regulator"
+    )]
     Role(RoleCommand),
 }
 
@@ -17,6 +20,9 @@ pub enum RegistryCommand {
 pub enum RoleCommand {
     /// Create a login role: an operator's (writes that operator's projects), a verifier's
     /// (reads all) or a regulator's (reads all); run by the registry's owner
+    #[command(
+        after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add northdeep_ops --operator \"Northdeep Storage Cooperative\""
+    )]
     Add(RoleAdd),
 }
 
