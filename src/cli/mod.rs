@@ -17,6 +17,7 @@ mod progress;
 mod proof;
 mod reconcile;
 mod record;
+mod registry;
 mod report;
 mod reports;
 mod seal;
@@ -165,6 +166,12 @@ pub enum Command {
     /// Check an inclusion proof without any ledger: exit 0 when it holds, 3 when it does not
     #[command(after_help = "Example: sinkbook check-proof proof.json")]
     CheckProof(proof::CheckProofArgs),
+    /// The shared registry on PostgreSQL: its login roles
+    #[command(
+        subcommand,
+        after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add audit_vera --verifier"
+    )]
+    Registry(registry::RegistryCommand),
 }
 
 /// Everything a command needs besides its arguments.
@@ -218,6 +225,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Seal(a) => seal::seal(&ctx, a),
         Command::Proof(a) => proof::proof(&ctx, a),
         Command::CheckProof(a) => proof::check_proof(a),
+        Command::Registry(c) => registry::registry(&ctx, c),
     }
 }
 

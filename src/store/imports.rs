@@ -2,6 +2,7 @@
 //! bytes kept verbatim in parts, and the meter-days already covered.
 
 use super::Tx;
+use super::backend::{Conn, placeholders};
 use super::rows::ImportRow;
 use super::schema::{import_evidence, imports};
 use crate::error::{Error, Result};
@@ -70,8 +71,13 @@ impl Tx<'_> {
     /// be imported already, once read), they are rolled back and its value returned.
     pub fn savepoint<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<(T, bool)>) -> Result<T> {
         let mut discarded = None;
+        let (writing, project) = (self.writing, self.project);
         let kept = self.conn.transaction(|conn| {
-            let (value, keep) = f(&mut Tx { conn })?;
+            let (value, keep) = f(&mut Tx {
+                conn,
+                writing,
+                project,
+            })?;
             if keep {
                 return Ok(value);
             }
@@ -105,6 +111,9 @@ impl Tx<'_> {
 
     /// The id the next import takes.
     pub fn next_import_id(&mut self) -> Result<i64> {
+        if let Conn::Pg(c) = &mut *self.conn {
+            return super::postgres::next_import_id(c);
+        }
         let max: Option<i64> = imports::table
             .select(diesel::dsl::max(imports::id))
             .first(self.conn)?;
@@ -125,12 +134,15 @@ impl Tx<'_> {
 
     /// Part `part` of an import's bytes, if kept.
     pub fn evidence_part(&mut self, import_id: i64, part: i64) -> Result<Option<Vec<u8>>> {
-        let p: Option<Part> =
-            diesel::sql_query("SELECT bytes FROM import_evidence WHERE import_id = ? AND part = ?")
-                .bind::<BigInt, _>(import_id)
-                .bind::<BigInt, _>(part)
-                .get_result(self.conn)
-                .optional()?;
+        let sql = placeholders(
+            self.conn,
+            "SELECT bytes FROM import_evidence WHERE import_id = ? AND part = ?",
+        );
+        let p: Option<Part> = diesel::sql_query(sql)
+            .bind::<BigInt, _>(import_id)
+            .bind::<BigInt, _>(part)
+            .get_result(self.conn)
+            .optional()?;
         Ok(p.map(|p| p.bytes))
     }
 
@@ -194,19 +206,21 @@ impl Tx<'_> {
         from: NaiveDate,
         to: NaiveDate,
     ) -> Result<Vec<CoveredDay>> {
-        Ok(diesel::sql_query(
+        let sql = placeholders(
+            self.conn,
             "SELECT e.seq AS seq, e.meter AS meter, e.period_from AS day, \
              e.evidence_name AS evidence_name FROM entries e \
              WHERE e.project = ? AND e.kind = ? AND e.meter IS NOT NULL \
              AND e.period_from = e.period_to AND e.period_from BETWEEN ? AND ? \
              AND NOT EXISTS (SELECT 1 FROM entries c WHERE c.project = e.project AND c.corrects = e.seq) \
              ORDER BY e.period_from, e.meter",
-        )
-        .bind::<Text, _>(project)
-        .bind::<Text, _>(kind)
-        .bind::<Text, _>(from.to_string())
-        .bind::<Text, _>(to.to_string())
-        .load(self.conn)?)
+        );
+        Ok(diesel::sql_query(sql)
+            .bind::<Text, _>(project)
+            .bind::<Text, _>(kind)
+            .bind::<Text, _>(from.to_string())
+            .bind::<Text, _>(to.to_string())
+            .load(self.conn)?)
     }
 }
 
@@ -259,6 +273,10 @@ pub const BYTES_PER_ENTRY: u64 = 1024;
 /// transaction's pages are written to the write-ahead log first and copied into the ledger
 /// file afterwards. `what` says what the bytes are.
 pub fn room_for(db: &std::path::Path, bytes: u64, what: &str) -> Result<()> {
+    if super::postgres::url(db).is_some() {
+        // The registry's disk is its server's to watch; PostgreSQL answers a full one itself.
+        return Ok(());
+    }
     let dir = match db.parent() {
         Some(d) if !d.as_os_str().is_empty() => d,
         _ => std::path::Path::new("."),

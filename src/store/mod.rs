@@ -1,51 +1,55 @@
 //! The ledger file: the only module that speaks SQL. SQLite through diesel, migrations embedded
 //! and applied on open, every command in one transaction.
 
+pub(crate) mod backend;
 mod bundle;
 mod connection;
 mod feedstocks;
 mod imports;
+mod postgres;
 mod rows;
 pub mod schema;
 mod stream;
 
 use crate::error::{Error, Result};
 use crate::ledger::{Hash, Project, SealedEntry, Site};
+use backend::{Conn, on_backend};
 use diesel::prelude::*;
-use diesel::sqlite::SqliteConnection;
 use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
 use schema::{entries, projects, settings, sites};
 
 pub use bundle::BundleImport;
+use std::cell::RefCell;
 use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
 pub use imports::{
     BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
 };
+pub use postgres::RoleKind;
 pub use stream::ChainRow;
 
-impl From<diesel::result::Error> for Error {
-    fn from(e: diesel::result::Error) -> Self {
-        Error::Store(format!("ledger database error: {e}"))
-    }
-}
-
-/// An open ledger file.
+/// An open ledger: a SQLite file, or the shared registry when `--db` is a `postgres://` URL.
 pub struct Store {
-    conn: SqliteConnection,
+    conn: Conn,
     path: PathBuf,
 }
 
 /// Access to the ledger inside one transaction.
 pub struct Tx<'a> {
-    conn: &'a mut SqliteConnection,
+    conn: &'a mut Conn,
+    writing: bool,
+    /// The project a write last named, for the registry's refusal to say which it was.
+    project: &'a RefCell<Option<String>>,
 }
 
 impl Store {
     /// Creates a ledger at `path` (or opens it, if it already is one). Returns whether it was new.
     pub fn init(path: &Path) -> Result<(Store, bool)> {
-        let (conn, created) = connection::create(path)?;
+        let (conn, created) = match postgres::url(path) {
+            Some(url) => postgres::create(url).map(|(c, new)| (Conn::Pg(c), new))?,
+            None => connection::create(path).map(|(c, new)| (Conn::Sqlite(c), new))?,
+        };
         Ok((
             Store {
                 conn,
@@ -57,7 +61,10 @@ impl Store {
 
     /// Opens an existing ledger; any other file is refused.
     pub fn open(path: &Path) -> Result<Store> {
-        let conn = connection::open(path)?;
+        let conn = match postgres::url(path) {
+            Some(url) => Conn::Pg(postgres::open(url)?),
+            None => Conn::Sqlite(connection::open(path)?),
+        };
         Ok(Store {
             conn,
             path: path.to_path_buf(),
@@ -68,20 +75,55 @@ impl Store {
         &self.path
     }
 
-    /// Runs `f` in a write transaction taken at once (BEGIN IMMEDIATE), so two writers never
-    /// fork a chain; nothing is written if `f` fails.
+    /// Runs `f` in one write transaction in which two writers never fork a chain; nothing is
+    /// written if `f` fails.
     pub fn write<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
-        self.conn.immediate_transaction(|conn| f(&mut Tx { conn }))
+        let project = RefCell::new(None);
+        backend::write(&mut self.conn, &project, |conn| {
+            f(&mut Tx {
+                conn,
+                writing: true,
+                project: &project,
+            })
+        })
     }
 
     /// Runs `f` in a read transaction, so a report sees one consistent state.
     pub fn read<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
-        self.conn.transaction(|conn| f(&mut Tx { conn }))
+        let project = RefCell::new(None);
+        backend::read(&mut self.conn, |conn| {
+            f(&mut Tx {
+                conn,
+                writing: false,
+                project: &project,
+            })
+        })
     }
 
-    /// SQLite's own check of the file's structure; "ok" when whole.
+    /// Adds a login role to the registry (run by its owner); a ledger file has no roles.
+    pub fn add_role(
+        &mut self,
+        name: &str,
+        kind: &RoleKind,
+        at: chrono::DateTime<chrono::Utc>,
+    ) -> Result<()> {
+        let Conn::Pg(c) = &mut self.conn else {
+            return Err(Error::field(
+                "--db",
+                &self.path.display().to_string(),
+                "is a ledger file; roles belong to a PostgreSQL registry (--db postgres://USER@HOST/DB)",
+            ));
+        };
+        c.transaction(|c| postgres::add_role(c, name, kind, at))
+    }
+
+    /// The database's own check of its pages; "ok" when whole. SQLite checks the file's
+    /// structure; the registry's server reports the page checksum failures it has seen.
     pub fn integrity_check(&mut self) -> Result<Vec<String>> {
-        connection::integrity_check(&mut self.conn)
+        match &mut self.conn {
+            Conn::Sqlite(c) => connection::integrity_check(c),
+            Conn::Pg(c) => postgres::integrity_check(c),
+        }
     }
 }
 
@@ -112,6 +154,7 @@ impl Tx<'_> {
     }
 
     pub fn project(&mut self, code: &str) -> Result<Option<Project>> {
+        self.names(code);
         let row: Option<ProjectRow> = projects::table
             .find(code)
             .select(ProjectRow::as_select())
@@ -122,6 +165,7 @@ impl Tx<'_> {
     }
 
     pub fn add_project(&mut self, p: &Project) -> Result<()> {
+        self.names(&p.code);
         diesel::insert_into(projects::table)
             .values(ProjectRow::from_project(p))
             .execute(self.conn)?;
@@ -197,8 +241,10 @@ impl Tx<'_> {
         row.map(|r| r.to_sealed().map_err(inconsistent)).transpose()
     }
 
-    /// The seq the next entry takes and the chain head it links to.
+    /// The seq the next entry takes and the chain head it links to. In a write on the registry
+    /// the project's chain is locked first, until the transaction ends.
     pub fn chain_tip(&mut self, project: &str) -> Result<(u64, Hash)> {
+        self.hold(project)?;
         let last: Option<(i64, String)> = entries::table
             .filter(entries::project.eq(project))
             .order(entries::seq.desc())
@@ -222,15 +268,34 @@ impl Tx<'_> {
     pub fn append(&mut self, sealed: &[SealedEntry]) -> Result<()> {
         let rows: Vec<EntryRow> = sealed.iter().map(EntryRow::from_sealed).collect();
         for chunk in rows.chunks(1000) {
-            diesel::insert_into(entries::table)
+            on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
                 .values(chunk)
-                .execute(self.conn)?;
+                .execute(c))?;
         }
         Ok(())
     }
 
-    /// A project's settings, in the order recorded.
+    /// Remembers the project a write is about.
+    fn names(&self, project: &str) {
+        if self.writing {
+            *self.project.borrow_mut() = Some(project.to_string());
+        }
+    }
+
+    /// In a write on the registry, locks `project`'s chain and settings until the transaction
+    /// ends, so the seqs a writer reads stay the next ones free (SQLite's BEGIN IMMEDIATE
+    /// already holds the whole file).
+    fn hold(&mut self, project: &str) -> Result<()> {
+        self.names(project);
+        match (&mut *self.conn, self.writing) {
+            (Conn::Pg(c), true) => postgres::lock_chain(c, project),
+            _ => Ok(()),
+        }
+    }
+
+    /// A project's settings, in the order recorded (locked first in a write: see `hold`).
     pub fn settings(&mut self, project: &str) -> Result<Vec<crate::ledger::setting::Setting>> {
+        self.hold(project)?;
         let rows: Vec<SettingRow> = settings::table
             .filter(settings::project.eq(project))
             .order(settings::seq)

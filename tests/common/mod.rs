@@ -2,6 +2,8 @@
 
 #![allow(dead_code)]
 
+pub mod registry;
+
 use assert_cmd::Command;
 use std::path::PathBuf;
 
@@ -17,9 +19,18 @@ pub fn tool_missing(what: &str) {
     eprintln!("skipped: {what} is missing, so this reference check did not run");
 }
 
+/// A ledger for one test: a file in a temporary folder, or, with
+/// `SINKBOOK_TEST_BACKEND=postgres`, a throwaway database on the local PostgreSQL server, so
+/// the same tests run on both backends. `path` is what `--db` takes.
 pub struct Ledger {
     pub dir: tempfile::TempDir,
     pub path: PathBuf,
+    pub registry: Option<registry::Database>,
+}
+
+/// Whether the tests run against PostgreSQL (`SINKBOOK_TEST_BACKEND=postgres`).
+pub fn on_postgres() -> bool {
+    std::env::var("SINKBOOK_TEST_BACKEND").as_deref() == Ok("postgres")
 }
 
 /// Output of one run: exit code, stdout, stderr.
@@ -32,25 +43,51 @@ pub struct Run {
 impl Ledger {
     /// A new, initialised, empty ledger.
     pub fn new() -> Ledger {
-        let dir = tempfile::tempdir().unwrap();
-        let path = dir.path().join("test.db");
-        let l = Ledger { dir, path };
+        let l = Ledger::unmade(on_postgres(), "test.db");
         l.ok(&["init"]);
         l
     }
 
     /// A ledger built by `demo` from the sample projects (all four, TFS's 2026 complete).
     pub fn demo() -> Ledger {
-        let dir = tempfile::tempdir().unwrap();
-        let path = dir.path().join("demo.db");
-        let l = Ledger { dir, path };
+        let l = Ledger::unmade(on_postgres(), "demo.db");
         l.ok(&["demo"]);
         l
     }
 
+    /// Where a ledger would go, not yet created: a SQLite file, or an empty PostgreSQL database.
+    pub fn unmade(postgres: bool, file: &str) -> Ledger {
+        let dir = tempfile::tempdir().unwrap();
+        if postgres {
+            assert!(
+                registry::available(),
+                "PostgreSQL does not answer on 127.0.0.1:5432"
+            );
+            let db = registry::Database::new();
+            let path = PathBuf::from(db.url());
+            return Ledger {
+                dir,
+                path,
+                registry: Some(db),
+            };
+        }
+        let path = dir.path().join(file);
+        Ledger {
+            dir,
+            path,
+            registry: None,
+        }
+    }
+
     /// A ledger with project TFS (permit 2.5 Mt), injection wells TF-I1, TF-I2, monitoring well TF-M1.
     pub fn with_tfs() -> Ledger {
-        let l = Ledger::new();
+        Ledger::with_tfs_on(on_postgres())
+    }
+
+    /// `with_tfs` on the backend named: PostgreSQL when `postgres`, else a SQLite file.
+    pub fn with_tfs_on(postgres: bool) -> Ledger {
+        let l = Ledger::unmade(postgres, "test.db");
+        l.ok(&["init"]);
         l.ok(&[
             "project",
             "add",

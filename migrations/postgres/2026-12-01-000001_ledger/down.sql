@@ -1,0 +1,1 @@
+-- A ledger is never migrated down: its history is the point. Nothing to undo here.
