@@ -22,6 +22,7 @@ mod reports;
 mod seal;
 mod settings;
 mod setup;
+mod sign;
 mod totals;
 mod verify;
 mod view;
@@ -127,6 +128,13 @@ pub enum Command {
     Proof(proof::ProofArgs),
     /// Check an inclusion proof without any ledger: exit 0 when it holds, 3 when it does not
     CheckProof(proof::CheckProofArgs),
+    /// Make and show ed25519 keys for signing statements
+    #[command(subcommand)]
+    Key(sign::KeyCommand),
+    /// Sign a statement over a sealed period's tree head, as operator or verifier
+    Sign(sign::SignArgs),
+    /// The signed statements of a project: key, signature, and whether the seal still matches
+    Statements(sign::StatementsArgs),
 }
 
 /// Everything a command needs besides its arguments.
@@ -178,6 +186,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Seal(a) => seal::seal(&ctx, a),
         Command::Proof(a) => proof::proof(&ctx, a),
         Command::CheckProof(a) => proof::check_proof(a),
+        Command::Key(c) => sign::key(c),
+        Command::Sign(a) => sign::sign(&ctx, a),
+        Command::Statements(a) => sign::statements(&ctx, a),
     }
 }
 

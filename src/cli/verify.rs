@@ -45,6 +45,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             ("Sites", "sites"),
             ("Entries", "entries"),
             ("Seals", "seals"),
+            ("Statements", "statements"),
             ("Chain head", "chain_head"),
             ("", "chain_hash"),
             ("Result", "result"),
@@ -64,6 +65,15 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             let entries = tx.entries(&p.code)?;
             let c = check(&p.code, &entries).map_err(|f| Error::Inconsistent(f.to_string()))?;
             let seals = check_seals(tx, &p.code, &entries)?;
+            let statements = super::sign::judge_all(tx, &p.code)?;
+            for j in &statements {
+                if let Err(w) = j.signature.as_ref().and(j.seal.as_ref()) {
+                    return Err(Error::Inconsistent(format!(
+                        "project {} statement {}: {w}",
+                        p.code, j.statement.seq
+                    )));
+                }
+            }
             for s in entries.iter().filter(|s| s.entry.kind != EntryKind::Seal) {
                 if !sites.iter().any(|x| x.code == s.entry.site) {
                     return Err(Error::Inconsistent(format!(
@@ -88,6 +98,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
                 Cell::Int(sites.len() as i64),
                 Cell::Int(c.entries as i64),
                 Cell::Int(seals as i64),
+                Cell::Int(statements.len() as i64),
                 Cell::text(c.head.head()),
                 Cell::text(c.head.to_hex()),
                 Cell::text("whole"),
@@ -95,7 +106,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         }
         Ok(())
     })?;
-    t.note("Checked: SQLite integrity_check; every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next.");
+    t.note("Checked: SQLite integrity_check; every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed.");
     if expected.is_some() {
         t.note("The published chain head given with --expect-head is still held by the chain.");
     }
