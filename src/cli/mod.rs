@@ -24,6 +24,7 @@ mod seal;
 mod settings;
 mod setup;
 mod shell;
+mod sign;
 mod totals;
 mod verify;
 mod view;
@@ -172,6 +173,20 @@ pub enum Command {
         after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add audit_vera --verifier"
     )]
     Registry(registry::RegistryCommand),
+    /// Make and show ed25519 keys for signing statements
+    #[command(
+        subcommand,
+        after_help = "Example: sinkbook key new --out operator.key"
+    )]
+    Key(sign::KeyCommand),
+    /// Sign a statement over a sealed period's tree head, as operator or verifier
+    #[command(
+        after_help = "Example: sinkbook sign TFS --period 2026 --role verifier --key verifier.key --statement \"Reviewed against the monitoring report\""
+    )]
+    Sign(sign::SignArgs),
+    /// The signed statements of a project: key, signature, and whether the seal still matches
+    #[command(after_help = "Example: sinkbook statements TFS")]
+    Statements(sign::StatementsArgs),
 }
 
 /// Everything a command needs besides its arguments.
@@ -226,6 +241,9 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Proof(a) => proof::proof(&ctx, a),
         Command::CheckProof(a) => proof::check_proof(a),
         Command::Registry(c) => registry::registry(&ctx, c),
+        Command::Key(c) => sign::key(c),
+        Command::Sign(a) => sign::sign(&ctx, a),
+        Command::Statements(a) => sign::statements(&ctx, a),
     }
 }
 

@@ -12,6 +12,7 @@ use crate::ledger::period::Grouping;
 use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
 use crate::ledger::{Period, SealedEntry};
 use crate::report::{Cell, Report, Table, columns};
+use crate::store::Tx;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -49,35 +50,45 @@ fn figures(view: &ProjectFigures, label: &str, period: Period) -> Result<Figures
 pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
     let (label, period) =
         parse_period(&a.period).map_err(|e| Error::field("--period", &a.period, e))?;
-    let sealed = ctx.open()?.write(|tx| {
-        let view = load(tx, &a.project, None)?;
-        let seals = tx.seals(&a.project)?;
-        check_new(&seals, period).map_err(|e| Error::field("--period", &a.period, e))?;
-        let mut tree = TreeBuilder::default();
-        for s in tx.entries(&a.project)? {
-            tree.push(s.leaf);
-        }
-        let (next, head) = tx.chain_tip(&a.project)?;
-        let seal = Seal {
-            seq: next,
-            label: label.clone(),
-            period,
-            tree_size: tree.size(),
-            root: tree.root(),
-            figures: figures(&view, &label, period)?,
-            recorded_at: ctx.now,
-        };
-        let s = chain::seal(seal.entry(&a.project), head);
-        tx.append(std::slice::from_ref(&s))?;
-        Ok((seal, s))
-    })?;
-    let (seal, entry) = sealed;
+    let (seal, entry) = ctx
+        .open()?
+        .write(|tx| record_seal(tx, ctx, &a.project, &label, period))?;
     Ok(Report::default()
         .line(format!(
             "sealed {} period {} at seq {}",
             a.project, seal.label, seal.seq
         ))
         .table(seal_table(&a.project, &[(seal, entry)])))
+}
+
+/// Appends the seal of `period` to the project's chain, inside the caller's write transaction.
+pub fn record_seal(
+    tx: &mut Tx<'_>,
+    ctx: &Context,
+    project: &str,
+    label: &str,
+    period: Period,
+) -> Result<(Seal, SealedEntry)> {
+    let view = load(tx, project, None)?;
+    let seals = tx.seals(project)?;
+    check_new(&seals, period).map_err(|e| Error::field("--period", label, e))?;
+    let mut tree = TreeBuilder::default();
+    for s in tx.entries(project)? {
+        tree.push(s.leaf);
+    }
+    let (next, head) = tx.chain_tip(project)?;
+    let seal = Seal {
+        seq: next,
+        label: label.to_string(),
+        period,
+        tree_size: tree.size(),
+        root: tree.root(),
+        figures: figures(&view, label, period)?,
+        recorded_at: ctx.now,
+    };
+    let s = chain::seal(seal.entry(project), head);
+    tx.append(std::slice::from_ref(&s))?;
+    Ok((seal, s))
 }
 
 /// One line per seal: its period, tree head and the figures it fixed.

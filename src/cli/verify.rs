@@ -49,6 +49,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             ("Sites", "sites"),
             ("Entries", "entries"),
             ("Seals", "seals"),
+            ("Statements", "statements"),
             ("Chain head", "chain_head"),
             ("", "chain_hash"),
             ("Result", "result"),
@@ -65,7 +66,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         }
         Ok(())
     })?;
-    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next.");
+    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed.");
     if a.deep {
         t.note("SQLite's integrity_check found the file's structure whole.");
     }
@@ -102,6 +103,15 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Ok(())
     })?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
+    let statements = super::sign::judge_all(tx, &p.code)?;
+    for j in &statements {
+        if let Err(w) = j.signature.as_ref().and(j.seal.as_ref()) {
+            return Err(Error::Inconsistent(format!(
+                "project {} statement {}: {w}",
+                p.code, j.statement.seq
+            )));
+        }
+    }
     if let Some(h) = expected
         && !holds_expected
     {
@@ -118,6 +128,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Cell::Int(sites.len() as i64),
         Cell::Int(c.entries as i64),
         Cell::Int(seals as i64),
+        Cell::Int(statements.len() as i64),
         Cell::text(c.head.head()),
         Cell::text(c.head.to_hex()),
         Cell::text("intact"),

@@ -48,7 +48,11 @@ pub fn plan_file(
 /// Reads a small JSON file (a proof) into `T`; a file that is missing or not of that shape is
 /// refused, naming it.
 pub fn read_json<T: serde::de::DeserializeOwned>(path: &Path) -> Result<T> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?;
+    let text = read_text(path)?;
     serde_json::from_str(&text).map_err(|e| Error::field("FILE", &path.display().to_string(), e))
+}
+
+/// Reads a small text file (a key); a missing or unreadable file is refused, naming it.
+pub fn read_text(path: &Path) -> Result<String> {
+    std::fs::read_to_string(path).map_err(|e| Error::field("FILE", &path.display().to_string(), e))
 }

@@ -142,3 +142,35 @@ pub fn encode_feedstock(f: &Feedstock) -> Vec<u8> {
     w.i64(f.registered_at.timestamp_micros());
     w.0
 }
+
+/// The bytes a statement's ed25519 signature is made over: what is signed, by whom in which
+/// role, over which tree head, when.
+pub fn encode_statement(s: &super::signature::Signed) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("statement");
+    w.str(&s.project);
+    w.u64(s.seal_seq);
+    w.str(&s.period);
+    w.u64(s.tree_size);
+    w.0.extend_from_slice(&s.root.0);
+    w.str(s.role.name());
+    w.str(&s.statement);
+    w.i64(s.signed_at.timestamp_micros());
+    w.0
+}
+
+/// The bytes of a stored statement, whose hash the signatures table keeps: its seq, the signed
+/// bytes, the public key and the signature.
+pub fn encode_signature_row(s: &super::signature::Statement) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("signature");
+    w.u64(s.seq);
+    let signed = encode_statement(&s.signed);
+    w.u32(u32::try_from(signed.len()).expect("statements are far below 4 GiB"));
+    w.0.extend_from_slice(&signed);
+    w.0.extend_from_slice(&s.public_key);
+    w.0.extend_from_slice(&s.signature);
+    w.0
+}

@@ -15,6 +15,7 @@ pub mod proof;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;
+pub mod signature;
 
 pub use entry::{Entry, EntryKind, Evidence, Reading, SealedEntry, Sign};
 pub use hash::Hash;

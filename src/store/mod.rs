@@ -231,6 +231,28 @@ impl Tx<'_> {
             .collect()
     }
 
+    /// A project's signed statements, in the order recorded.
+    pub fn signatures(
+        &mut self,
+        project: &str,
+    ) -> Result<Vec<crate::ledger::signature::Statement>> {
+        let rows: Vec<rows::SignatureRow> = schema::signatures::table
+            .filter(schema::signatures::project.eq(project))
+            .order(schema::signatures::seq)
+            .select(rows::SignatureRow::as_select())
+            .load(self.conn)?;
+        rows.iter()
+            .map(|r| r.to_statement().map_err(inconsistent))
+            .collect()
+    }
+
+    pub fn add_signature(&mut self, s: &crate::ledger::signature::Statement) -> Result<()> {
+        diesel::insert_into(schema::signatures::table)
+            .values(rows::SignatureRow::from_statement(s))
+            .execute(self.conn)?;
+        Ok(())
+    }
+
     /// The entry holding an idempotency key, if any.
     pub fn entry_by_key(&mut self, project: &str, key: &str) -> Result<Option<SealedEntry>> {
         let row: Option<EntryRow> = entries::table

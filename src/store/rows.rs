@@ -332,3 +332,82 @@ impl FeedstockRow {
         Ok(f)
     }
 }
+
+#[derive(Queryable, Selectable, Insertable)]
+#[diesel(table_name = super::schema::signatures, check_for_backend(diesel::sqlite::Sqlite))]
+pub struct SignatureRow {
+    pub project: String,
+    pub seq: i64,
+    pub seal_seq: i64,
+    pub period: String,
+    pub tree_size: i64,
+    pub root: String,
+    pub role: String,
+    pub statement: String,
+    pub signed_at: NaiveDateTime,
+    pub public_key: String,
+    pub signature: String,
+    pub row_hash: String,
+}
+
+impl SignatureRow {
+    pub fn from_statement(s: &crate::ledger::signature::Statement) -> Self {
+        use crate::ledger::signature::hex;
+        let g = &s.signed;
+        Self {
+            project: g.project.clone(),
+            seq: s.seq as i64,
+            seal_seq: g.seal_seq as i64,
+            period: g.period.clone(),
+            tree_size: g.tree_size as i64,
+            root: g.root.to_hex(),
+            role: g.role.name().into(),
+            statement: g.statement.clone(),
+            signed_at: g.signed_at.naive_utc(),
+            public_key: hex(&s.public_key),
+            signature: hex(&s.signature),
+            row_hash: leaf_hash(&crate::ledger::canonical::encode_signature_row(s)).to_hex(),
+        }
+    }
+
+    /// The statement as stored, checked against its row hash (not its signature: that is
+    /// `verify`'s and `statements`' to judge and report).
+    pub fn to_statement(&self) -> Result<crate::ledger::signature::Statement, String> {
+        use crate::ledger::signature::{Role, Signed, Statement};
+        let at = || format!("signature {} of project {}", self.seq, self.project);
+        let unsigned = |v: i64, name: &str| {
+            u64::try_from(v).map_err(|_| format!("{}: {name} {v} is negative", at()))
+        };
+        let bytes = |s: &str, n: usize| -> Result<Vec<u8>, String> {
+            let v: Option<Vec<u8>> = (s.len() == 2 * n && s.is_ascii())
+                .then(|| {
+                    (0..n)
+                        .map(|i| u8::from_str_radix(&s[2 * i..2 * i + 2], 16).ok())
+                        .collect()
+                })
+                .flatten();
+            v.ok_or_else(|| format!("{}: not {n} bytes of hex", at()))
+        };
+        let s = Statement {
+            seq: unsigned(self.seq, "seq")?,
+            signed: Signed {
+                project: self.project.clone(),
+                seal_seq: unsigned(self.seal_seq, "seal_seq")?,
+                period: self.period.clone(),
+                tree_size: unsigned(self.tree_size, "tree_size")?,
+                root: hash("root", &self.root)?,
+                role: Role::from_name(&self.role)
+                    .ok_or_else(|| format!("{}: unknown role {:?}", at(), self.role))?,
+                statement: self.statement.clone(),
+                signed_at: utc(self.signed_at),
+            },
+            public_key: bytes(&self.public_key, 32)?.try_into().expect("32 bytes"),
+            signature: bytes(&self.signature, 64)?.try_into().expect("64 bytes"),
+        };
+        if leaf_hash(&crate::ledger::canonical::encode_signature_row(&s)).to_hex() != self.row_hash
+        {
+            return Err(format!("{} differs from its row hash", at()));
+        }
+        Ok(s)
+    }
+}

@@ -1,0 +1,326 @@
+//! `key`: ed25519 keys in files only their owner may read; `sign`: a statement signed over a
+//! seal's tree head; `statements`: the statements of a project, each judged again.
+
+use super::Context;
+use super::seal::record_seal;
+use super::setup::known_project;
+use crate::error::{Error, Result};
+use crate::ledger::merkle::TreeBuilder;
+use crate::ledger::seal::{Seal, parse_period};
+use crate::ledger::signature::{
+    Role, Signed, Statement, fingerprint, hex, key_file_text, parse_key_file, sign as sign_with,
+};
+use crate::ledger::{Hash, SealedEntry};
+use crate::report::{Cell, Report, Table, columns};
+use crate::store::Tx;
+use clap::{Args, Subcommand, ValueEnum};
+use std::path::{Path, PathBuf};
+
+#[derive(Debug, Subcommand)]
+pub enum KeyCommand {
+    /// Make a new ed25519 key in a file only its owner can read (0600); never overwrites
+    #[command(after_help = "Example: sinkbook key new --out operator.key")]
+    New {
+        /// The key file to create (refused if it exists)
+        #[arg(long, value_name = "FILE")]
+        out: PathBuf,
+    },
+    /// Print a key file's public key and fingerprint
+    #[command(after_help = "Example: sinkbook key show operator.key")]
+    Show {
+        /// The key file to read
+        file: PathBuf,
+    },
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum RoleArg {
+    /// The project's operator
+    Operator,
+    /// An independent verifier (only on a sealed period)
+    Verifier,
+}
+
+#[derive(Debug, Args)]
+pub struct SignArgs {
+    /// The project code
+    pub project: String,
+    /// The sealed period the statement is about (2026, 2026-Q1, 2026-03); an operator signing an
+    /// unsealed period seals it first
+    #[arg(long, value_name = "PERIOD")]
+    pub period: String,
+    /// Who signs: the project's operator, or an independent verifier
+    #[arg(long, value_enum)]
+    pub role: RoleArg,
+    /// The key file (from `sinkbook key new`)
+    #[arg(long, value_name = "FILE")]
+    pub key: PathBuf,
+    /// What the signer states about the period
+    #[arg(long, value_name = "TEXT")]
+    pub statement: String,
+}
+
+#[derive(Debug, Args)]
+pub struct StatementsArgs {
+    /// The project code
+    pub project: String,
+}
+
+fn key_table(public_key: &[u8; 32], file: &Path) -> Table {
+    let mut t = Table::new(
+        "key",
+        format!("Key {}", file.display()),
+        columns(&[
+            ("Public key (ed25519)", "public_key"),
+            ("Fingerprint", "fingerprint"),
+        ]),
+    );
+    t.push(vec![
+        Cell::text(hex(public_key)),
+        Cell::text(fingerprint(public_key)),
+    ]);
+    t.note("Fingerprint: the first 16 hex digits of the SHA-256 of the 32-byte public key.");
+    t
+}
+
+pub fn key(c: KeyCommand) -> Result<Report> {
+    match c {
+        KeyCommand::New { out } => {
+            let mut seed = [0u8; 32];
+            getrandom::fill(&mut seed)
+                .map_err(|e| Error::Store(format!("no randomness for a new key: {e}")))?;
+            let public = ed25519_dalek::SigningKey::from_bytes(&seed)
+                .verifying_key()
+                .to_bytes();
+            write_private(&out, &key_file_text(&seed))?;
+            Ok(Report::default()
+                .line(format!(
+                    "wrote a new ed25519 key to {} (readable by its owner only)",
+                    out.display()
+                ))
+                .table(key_table(&public, &out)))
+        }
+        KeyCommand::Show { file } => {
+            let key = read_key(&file)?;
+            Ok(Report::default().table(key_table(&key.verifying_key().to_bytes(), &file)))
+        }
+    }
+}
+
+/// Creates `path` with mode 0600, refusing one that exists.
+fn write_private(path: &Path, text: &str) -> Result<()> {
+    use std::io::Write;
+    let shown = path.display().to_string();
+    let mut o = std::fs::OpenOptions::new();
+    o.write(true).create_new(true);
+    #[cfg(unix)]
+    std::os::unix::fs::OpenOptionsExt::mode(&mut o, 0o600);
+    let mut f = o.open(path).map_err(|e| match e.kind() {
+        std::io::ErrorKind::AlreadyExists => Error::field(
+            "--out",
+            &shown,
+            "already exists; a key file is never overwritten",
+        ),
+        _ => Error::field("--out", &shown, e),
+    })?;
+    f.write_all(text.as_bytes())
+        .map_err(|e| Error::field("--out", &shown, e))
+}
+
+fn read_key(path: &Path) -> Result<ed25519_dalek::SigningKey> {
+    let text = crate::import::read_text(path)?;
+    parse_key_file(&text).map_err(|e| Error::field("--key", &path.display().to_string(), e))
+}
+
+pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
+    let (label, period) =
+        parse_period(&a.period).map_err(|e| Error::field("--period", &a.period, e))?;
+    let key = read_key(&a.key)?;
+    super::inputs::text("--statement", &a.statement)?;
+    let role = match a.role {
+        RoleArg::Operator => Role::Operator,
+        RoleArg::Verifier => Role::Verifier,
+    };
+    let s = ctx.open()?.write(|tx| {
+        known_project(tx, &a.project)?;
+        let seal = match tx.seals(&a.project)?.into_iter().find(|s| s.label == label) {
+            Some(s) => s,
+            None if role == Role::Operator => {
+                record_seal(tx, ctx, &a.project, &label, period)?.0
+            }
+            None => {
+                return Err(Error::field(
+                    "--period",
+                    &a.period,
+                    format!(
+                        "is not sealed in project {}; a verifier signs only a sealed period (the operator seals it: sinkbook seal {} --period {label})",
+                        a.project, a.project
+                    ),
+                ));
+            }
+        };
+        let seq = tx.signatures(&a.project)?.len() as u64;
+        let s = sign_with(
+            seq,
+            Signed {
+                project: a.project.clone(),
+                seal_seq: seal.seq,
+                period: seal.label,
+                tree_size: seal.tree_size,
+                root: seal.root,
+                role,
+                statement: a.statement.clone(),
+                signed_at: ctx.now,
+            },
+            &key,
+        );
+        tx.add_signature(&s)?;
+        Ok(s)
+    })?;
+    Ok(Report::default()
+        .line(format!(
+            "signed {} period {} as {} with key {}",
+            a.project,
+            s.signed.period,
+            s.signed.role,
+            fingerprint(&s.public_key)
+        ))
+        .table(statements_table(&a.project, &[judged(s, Ok(()))])))
+}
+
+/// A statement with what re-checking it found: its signature, and whether the seal it signs
+/// still stands as signed.
+pub struct Judged {
+    pub statement: Statement,
+    pub signature: std::result::Result<(), String>,
+    pub seal: std::result::Result<(), String>,
+}
+
+fn judged(statement: Statement, seal: std::result::Result<(), String>) -> Judged {
+    let signature = statement.verify();
+    Judged {
+        statement,
+        signature,
+        seal,
+    }
+}
+
+/// Every statement of a project judged: the signature over its bytes, and the seal it names —
+/// still in the chain, with the tree size and root signed, and that root still the head of the
+/// leaves before it.
+pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
+    let statements = tx.signatures(project)?;
+    if statements.is_empty() {
+        return Ok(Vec::new());
+    }
+    let seals = tx.seals(project)?;
+    let entries = tx.entries(project)?;
+    let heads = heads_at(&entries, &seals);
+    Ok(statements
+        .into_iter()
+        .map(|s| {
+            let seal = seal_stands(&s, &seals, &heads);
+            judged(s, seal)
+        })
+        .collect())
+}
+
+/// The tree head of the leaves before each seal, recomputed.
+fn heads_at(entries: &[SealedEntry], seals: &[Seal]) -> Vec<(u64, Hash)> {
+    let mut tree = TreeBuilder::default();
+    let mut heads = Vec::new();
+    for s in entries {
+        if seals.iter().any(|x| x.tree_size == tree.size()) {
+            heads.push((tree.size(), tree.root()));
+        }
+        tree.push(s.leaf);
+    }
+    heads
+}
+
+fn seal_stands(
+    s: &Statement,
+    seals: &[Seal],
+    heads: &[(u64, Hash)],
+) -> std::result::Result<(), String> {
+    let g = &s.signed;
+    let seal = seals
+        .iter()
+        .find(|x| x.seq == g.seal_seq)
+        .ok_or_else(|| format!("seq {} is no longer a seal", g.seal_seq))?;
+    if seal.tree_size != g.tree_size || seal.root != g.root || seal.label != g.period {
+        return Err(format!(
+            "seal seq {} now holds {} entries, head {}; the statement signed {} entries, head {}",
+            seal.seq,
+            seal.tree_size,
+            seal.root.head(),
+            g.tree_size,
+            g.root.head()
+        ));
+    }
+    match heads.iter().find(|(n, _)| *n == g.tree_size) {
+        Some((_, h)) if *h == g.root => Ok(()),
+        _ => Err(format!(
+            "the leaves before seal seq {} no longer give head {}",
+            seal.seq,
+            g.root.head()
+        )),
+    }
+}
+
+pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
+    let judged = ctx.open()?.read(|tx| {
+        known_project(tx, &a.project)?;
+        judge_all(tx, &a.project)
+    })?;
+    Ok(Report::default().table(statements_table(&a.project, &judged)))
+}
+
+fn statements_table(project: &str, judged: &[Judged]) -> Table {
+    let mut t = Table::new(
+        "statements",
+        format!("Signed statements, project {project}"),
+        columns(&[
+            ("Seq", "seq"),
+            ("Period", "period"),
+            ("Role", "role"),
+            ("Key", "fingerprint"),
+            ("", "public_key"),
+            ("Statement", "statement"),
+            ("Signed (UTC)", "signed_at"),
+            ("Seal", "seal_seq"),
+            ("", "tree_size"),
+            ("", "root"),
+            ("Signature", "signature_check"),
+            ("Seal still matches", "seal_matches"),
+            ("", "signature"),
+        ]),
+    );
+    for j in judged {
+        let s = &j.statement;
+        let g = &s.signed;
+        t.push(vec![
+            Cell::Int(s.seq as i64),
+            Cell::text(&g.period),
+            Cell::text(g.role.name()),
+            Cell::text(fingerprint(&s.public_key)),
+            Cell::text(hex(&s.public_key)),
+            Cell::text(&g.statement),
+            Cell::text(g.signed_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+            Cell::Int(g.seal_seq as i64),
+            Cell::Int(g.tree_size as i64),
+            Cell::text(g.root.to_hex()),
+            Cell::text(match &j.signature {
+                Ok(()) => "valid".to_string(),
+                Err(e) => format!("INVALID: {e}"),
+            }),
+            Cell::text(match &j.seal {
+                Ok(()) => "yes".to_string(),
+                Err(e) => format!("NO: {e}"),
+            }),
+            Cell::text(hex(&s.signature)),
+        ]);
+    }
+    t.note("Each signature is ed25519 (RFC 8032) over the statement's canonical bytes: project, seal seq, period, tree size, root, role, statement, time (docs/ledger-format.md). Key: the fingerprint of the signer's public key — who holds that key is for the reader to establish.");
+    t
+}
