@@ -5,30 +5,9 @@ mod common;
 use common::Ledger;
 use serde_json::Value;
 
-fn json(l: &Ledger, args: &[&str]) -> Value {
-    let mut all = vec!["--format", "json"];
-    all.extend_from_slice(args);
-    serde_json::from_str(&l.ok(&all)).unwrap()
-}
-
 /// An EOR project with an injection well, a production well and a plant.
 fn eor() -> Ledger {
-    let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "KRE",
-        "--name",
-        "Kestrel Ridge EOR",
-        "--method",
-        "eor",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    for (s, k) in [("KR-I1", "injection-well"), ("KR-P", "plant")] {
-        l.ok(&["site", "add", "KRE", s, "--kind", k]);
-    }
-    l
+    Ledger::with_kre(&[("KR-I1", "injection-well"), ("KR-P", "plant")])
 }
 
 fn record(l: &Ledger, kind: &str, site: &str, extra: &[&str], from: &str, to: &str) {
@@ -72,7 +51,7 @@ fn produced_uncertainty_comes_from_the_separator_meter_alone() {
         q1.0,
         q1.1,
     );
-    let b = json(&l, &["balance", "KRE", "--by", "quarter"]);
+    let b = l.json(&["balance", "KRE", "--by", "quarter"]);
     let q = &b["balance"][0];
     assert_eq!(q["produced_t"], 102.0);
     assert_eq!(q["stored_t"], 898.0);
@@ -93,7 +72,7 @@ fn footnotes_cite_the_equations_the_table_uses() {
         "2026-04-01",
         "2026-06-30",
     );
-    let b = json(&l, &["balance", "KRE", "--by", "quarter"]);
+    let b = l.json(&["balance", "KRE", "--by", "quarter"]);
     assert_eq!(b["balance"][0]["equation"], "RR-11");
     assert_eq!(b["balance"][0]["stored_t"], 500.0);
     let table = l.ok(&["balance", "KRE", "--by", "quarter"]);
@@ -130,7 +109,7 @@ fn totals_years_add_up_and_filters_name_what_they_miss() {
         "--reason",
         "CO2 found at the surface above KR-I1",
     ]);
-    let by_year = json(&l, &["totals", "--by", "year"]);
+    let by_year = l.json(&["totals", "--by", "year"]);
     let rows = by_year.as_array().unwrap();
     let year = |y: &str| rows.iter().find(|r| r["year"] == y).unwrap();
     assert_eq!(year("2025")["buffer_t"], 100.0);
@@ -141,13 +120,10 @@ fn totals_years_add_up_and_filters_name_what_they_miss() {
     let all = rows.iter().find(|r| r["project"] == "all").unwrap();
     assert_eq!(all["buffer_t"], 0.0);
     assert_eq!(all["claimable_t"], 850.0);
-    let total = json(&l, &["totals"]);
+    let total = l.json(&["totals"]);
     assert_eq!(total[0]["claimable_t"], 850.0);
     // --operator matches whatever its case; a filter that matches nothing lists what is known.
-    let lower = json(
-        &l,
-        &["totals", "--operator", "northdeep storage cooperative"],
-    );
+    let lower = l.json(&["totals", "--operator", "northdeep storage cooperative"]);
     assert_eq!(lower[0]["project"], "KRE");
     let r = l.run(&["totals", "--operator", "Nobody"]);
     assert_eq!(r.code, 1, "{}", r.err);
@@ -206,7 +182,7 @@ fn a_loss_is_drawn_on_the_pool_and_a_reversal_counts_in_its_year() {
         y26.0,
         y26.1,
     );
-    let b = json(&l, &["balance", "KRE", "--by", "quarter"]);
+    let b = l.json(&["balance", "KRE", "--by", "quarter"]);
     let claims = b["claims"].as_array().unwrap();
     let claim = |p: &str| claims.iter().find(|r| r["period"] == p).unwrap();
     assert_eq!(claim("2025")["stored_t"], 950.0);
@@ -227,7 +203,7 @@ fn a_loss_is_drawn_on_the_pool_and_a_reversal_counts_in_its_year() {
             .iter()
             .any(|r| r["event"].as_str().unwrap().contains("2025-06"))
     );
-    let t = json(&l, &["totals"]);
+    let t = l.json(&["totals"]);
     assert_eq!(t[0]["buffer_t"], 0.0);
     assert_eq!(t[0]["claimable_t"], 750.0); // 855 − 105
     assert_eq!(t[0]["reversed_t"], 50.0);

@@ -5,33 +5,13 @@ mod common;
 use common::Ledger;
 use serde_json::Value;
 
-fn json(l: &Ledger, args: &[&str]) -> Value {
-    let mut all = vec!["--format", "json"];
-    all.extend_from_slice(args);
-    serde_json::from_str(&l.ok(&all)).unwrap()
-}
-
 /// A small EOR project: CO2 bought in at a plant, injected, produced back, recycled.
 fn eor() -> Ledger {
-    let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "KRE",
-        "--name",
-        "Kestrel Ridge EOR",
-        "--method",
-        "eor",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    for (s, k) in [
+    let l = Ledger::with_kre(&[
         ("KR-P", "plant"),
         ("KR-I1", "injection-well"),
         ("KR-W1", "production-well"),
-    ] {
-        l.ok(&["site", "add", "KRE", s, "--kind", k]);
-    }
+    ]);
     let q1 = ["--from", "2026-01-01", "--to", "2026-03-31"];
     let rec = |kind: &str, site: &str, extra: &[&str]| {
         let mut args = vec!["record", kind, "KRE", "--site", site];
@@ -79,7 +59,7 @@ fn eor() -> Ledger {
 #[test]
 fn rr_11_terms_for_an_eor_project() {
     let l = eor();
-    let b = json(&l, &["balance", "KRE", "--by", "year"]);
+    let b = l.json(&["balance", "KRE", "--by", "year"]);
     let y = &b["balance"][0];
     assert_eq!(y["received_t"], 980.0);
     assert_eq!(y["injected_t"], 1280.0);
@@ -95,10 +75,7 @@ fn rr_11_terms_for_an_eor_project() {
 #[test]
 fn iso_27916_counts_recycled_once() {
     let l = eor();
-    let b = json(
-        &l,
-        &["balance", "KRE", "--by", "year", "--method", "iso27916"],
-    );
+    let b = l.json(&["balance", "KRE", "--by", "year", "--method", "iso27916"]);
     let y = &b["balance"][0];
     assert_eq!(y["input_t"], 980.0);
     assert_eq!(y["operational_losses_t"], 1.4);
@@ -154,11 +131,11 @@ fn volumetric_meters_and_the_meter_table() {
         "--to",
         "2026-01-31",
     ]);
-    let e = json(&l, &["entries", "TFS"]);
+    let e = l.json(&["entries", "TFS"]);
     // 500e6 scf × 0.028316846592 m³/scf × 1.8682 kg/m³ × 0.99 — the RR-2 form with D (40 CFR 98.443, read).
     let expected = (500e6_f64 * 0.028316846592 * 1.8682 * 0.99 * 1000.0).round() as i64;
     assert!((e[0]["co2_g"].as_i64().unwrap() - expected).abs() <= 1);
-    let m = json(&l, &["meters", "TFS", "--year", "2026"]);
+    let m = l.json(&["meters", "TFS", "--year", "2026"]);
     assert_eq!(m[0]["meter"], "FM-101");
     assert_eq!(m[0]["quantity"], 20000.0);
     assert_eq!(m[1]["meter_type"], "volumetric");
@@ -209,11 +186,11 @@ fn leak_by_rate_backdated_to_the_last_clear_survey() {
         "2026-06-24",
     ]);
     assert_eq!(r.code, 0, "{}", r.err);
-    let e = json(&l, &["entries", "TFS"]);
+    let e = l.json(&["entries", "TFS"]);
     // 2026-03-20 to 2026-06-24: 97 days × 24 h × 0.02 t/h = 46.56 t (EU 2018/2066 Annex IV §23 B.3).
     assert_eq!(e[2]["period_from"], "2026-03-20");
     assert_eq!(e[2]["co2_g"], 46_560_000);
-    let b = json(&l, &["balance", "TFS", "--by", "quarter"]);
+    let b = l.json(&["balance", "TFS", "--by", "quarter"]);
     // Split by days: 12 days in Q1, 85 in Q2.
     assert_eq!(b["balance"][0]["surface_leakage_t"], 5.76);
     assert_eq!(b["balance"][1]["surface_leakage_t"], 40.8);

@@ -9,12 +9,6 @@ use sinkbook::accounting::weathering::Analysis;
 use sinkbook::accounting::weathering::tau::tau;
 use sinkbook::accounting::weathering::three_end_member::{EndMember, forward_model};
 
-fn json(l: &Ledger, args: &[&str]) -> Value {
-    let mut all = vec!["--format", "json"];
-    all.extend_from_slice(args);
-    serde_json::from_str(&l.ok(&all)).unwrap()
-}
-
 fn grams(v: &Value) -> i64 {
     (v.as_f64().unwrap() * 1e6).round() as i64
 }
@@ -129,7 +123,7 @@ fn references_md_tracer_example_through_the_ledger() {
     let l = crb();
     let out = tracer(&l, "CR-M1", "2025-05-10", "0.4", "1.2");
     assert!(out.contains("mineralized fraction 0.9250"), "{out}");
-    let m = json(&l, &["mineralization", "CRB"]);
+    let m = l.json(&["mineralization", "CRB"]);
     let s = &m["tracer_samples"][0];
     assert!((s["mineralized_fraction"].as_f64().unwrap() - 0.925).abs() < 1e-12);
     // Recomputed here from the formula: 1 − (1.2 − 0.6·1)/(0.4·20).
@@ -141,7 +135,7 @@ fn campaigns_apply_to_co2_injected_before_them() {
     let l = crb();
     tracer(&l, "CR-M1", "2025-05-10", "0.4", "1.2"); // 0.925
     tracer(&l, "CR-M2", "2025-05-10", "0.5", "2.5"); // 1 − 2/10 = 0.8
-    let m = json(&l, &["mineralization", "CRB"]);
+    let m = l.json(&["mineralization", "CRB"]);
     let c = &m["campaigns"][0];
     assert!((c["mineralized_fraction"].as_f64().unwrap() - 0.8625).abs() < 1e-12);
     let sd = ((0.0625f64.powi(2) * 2.0) / 1.0).sqrt();
@@ -163,7 +157,7 @@ fn campaigns_apply_to_co2_injected_before_them() {
     }
     // A later campaign supersedes: all of Q1 and Q2 at its fraction.
     tracer(&l, "CR-M1", "2025-08-01", "0.4", "0.8"); // 1 − 0.2/8 = 0.975
-    let m = json(&l, &["balance", "CRB"]);
+    let m = l.json(&["balance", "CRB"]);
     assert_eq!(grams(&m[1]["mineralized_t"]), 273_243_750); // 280.25 × 0.975
     assert_eq!(m[1]["campaign"], "2025-08-01");
     insta::assert_snapshot!("mineralization_tables", l.ok(&["mineralization", "CRB"]));
@@ -191,7 +185,7 @@ fn out_of_range_fractions_are_findings_not_clamped() {
     ]);
     assert_eq!(r.code, 0);
     assert!(r.err.contains("outside [0, 1]"), "{}", r.err);
-    let m = json(&l, &["mineralization", "CRB"]);
+    let m = l.json(&["mineralization", "CRB"]);
     let f = m["tracer_samples"][0]["mineralized_fraction"]
         .as_f64()
         .unwrap();
@@ -264,7 +258,7 @@ fn carbonate(l: &Ledger, mass: &str, before: &str, after: &str, from: &str, to: 
 fn carbonation_uptake_counts_the_mass_co2_adds() {
     let l = plant();
     carbonate(&l, "1000 t", "2%", "20%", "2026-01-05", "2026-01-30");
-    let b = json(&l, &["balance", "XSM", "--by", "month"]);
+    let b = l.json(&["balance", "XSM", "--by", "month"]);
     assert_eq!(grams(&b[0]["stored_t"]), 225_000_000);
     assert!((b[0]["product_t"].as_f64().unwrap() - 1225.0).abs() < 1e-9);
 
@@ -279,7 +273,7 @@ fn carbonation_uptake_counts_the_mass_co2_adds() {
         "2026-02-02",
         "2026-02-06",
     );
-    let b = json(&l, &["balance", "XSM", "--by", "month"]);
+    let b = l.json(&["balance", "XSM", "--by", "month"]);
     let per_t = grams(&b[1]["stored_t"]) as f64 / 100e6;
     assert!((per_t - M_CO2 / (CA + O)).abs() < 2e-8, "{per_t}");
     assert!((per_t - 0.785).abs() < 5e-4);
@@ -332,7 +326,7 @@ fn carbonation_balance_by_period_and_no_uptake_finding() {
         "{}",
         r.err
     );
-    let b = json(&l, &["balance", "XSM", "--by", "month"]);
+    let b = l.json(&["balance", "XSM", "--by", "month"]);
     let uptake: f64 = 620e6 * (0.145 - 0.012) / (1.0 - 0.145);
     let jan = grams(&b[0]["stored_t"]);
     let feb = grams(&b[1]["stored_t"]);
@@ -509,7 +503,7 @@ fn evw_one_field() -> Ledger {
 #[test]
 fn three_end_member_round_trip_through_the_cli() {
     let l = evw_one_field();
-    let w = json(&l, &["weathering", "EVW"]);
+    let w = l.json(&["weathering", "EVW"]);
     let row = &w[0];
     assert_eq!(row["field"], "EV-F1");
     let f = row["dissolved_fraction"].as_f64().unwrap();
@@ -519,7 +513,7 @@ fn three_end_member_round_trip_through_the_cli() {
     assert!((row["rate_t_per_ha"].as_f64().unwrap() - 50.0).abs() < 1e-12);
 
     // τ of the bulk soil against the mixture at application reads far less than 30 %.
-    let t = json(&l, &["weathering", "EVW", "--method", "tau"]);
+    let t = l.json(&["weathering", "EVW", "--method", "tau"]);
     let bulk = t[0]["dissolved_fraction"].as_f64().unwrap();
     assert!(bulk > 0.0 && bulk < 0.1, "τ on the bulk mixture: {bulk}");
     // The same τ from the library on the composite cations (computed by hand here).
@@ -571,21 +565,18 @@ fn gross_to_net_term_by_term() {
         "--to",
         "2025-04-10",
     ]);
-    let w = json(
-        &l,
-        &[
-            "weathering",
-            "EVW",
-            "--strong-acid",
-            "10%",
-            "--cation-retention",
-            "5%",
-            "--secondary-carbonate",
-            "20%",
-            "--ocean-efficiency",
-            "0.85",
-        ],
-    );
+    let w = l.json(&[
+        "weathering",
+        "EVW",
+        "--strong-acid",
+        "10%",
+        "--cation-retention",
+        "5%",
+        "--secondary-carbonate",
+        "20%",
+        "--ocean-efficiency",
+        "0.85",
+    ]);
     let row = &w[0];
     let f = row["dissolved_fraction"].as_f64().unwrap();
     let m = feedstock_mol_per_kg();
@@ -731,7 +722,7 @@ fn weathering_table_and_balance_by_year() {
         "--to",
         "2025-04-10",
     ]);
-    let w = json(&l, &["weathering", "EVW"]);
+    let w = l.json(&["weathering", "EVW"]);
     let rows = w.as_array().unwrap();
     assert_eq!(rows.len(), 4, "three campaigns and the total");
     let f2 = rows.iter().find(|r| r["field"] == "EV-F2").unwrap();
@@ -739,7 +730,7 @@ fn weathering_table_and_balance_by_year() {
         (f2["dissolved_fraction"].as_f64().unwrap() - 0.10).abs() < 1e-7,
         "the correction counts"
     );
-    let b = json(&l, &["balance", "EVW", "--by", "year"]);
+    let b = l.json(&["balance", "EVW", "--by", "year"]);
     let y = b.as_array().unwrap();
     assert_eq!(y[0]["period"], "2025");
     // 2025 credits both fields' first campaigns; 2026 the change of EV-F1's.
@@ -804,14 +795,11 @@ fn small_immobile_contrast_is_inconclusive() {
         ),
         "{out}"
     );
-    let w = json(&l, &["weathering", "EVW"]);
+    let w = l.json(&["weathering", "EVW"]);
     assert_eq!(w[0]["dissolved_fraction"], "inconclusive");
     assert!(w[0]["net_t"].is_null());
     // A lower screen set by the monitoring plan lets the number through.
-    let low = json(
-        &l,
-        &["weathering", "EVW", "--min-immobile-contrast", "0.05"],
-    );
+    let low = l.json(&["weathering", "EVW", "--min-immobile-contrast", "0.05"]);
     let finding = low[0]["finding"].as_str().unwrap();
     assert!(
         finding.contains("the sample shows no feedstock"),
@@ -848,7 +836,7 @@ fn emission_inventory_records_every_input_and_factor() {
         "2025-03-31",
     ]);
     assert!(out.contains("recorded EVW seq 0"));
-    let e = json(&l, &["entries", "EVW"]);
+    let e = l.json(&["entries", "EVW"]);
     let reading: Vec<(String, String)> = e[0]["reading"]
         .as_array()
         .unwrap()
@@ -891,7 +879,7 @@ fn emission_inventory_records_every_input_and_factor() {
         "--to",
         "2025-03-31",
     ]);
-    let e = json(&l, &["entries", "EVW"]);
+    let e = l.json(&["entries", "EVW"]);
     let kg = e[1]["co2_g"].as_i64().unwrap() as f64 / 1e3;
     assert!((kg / 1000.0 - 0.0708).abs() < 5e-5, "{kg}");
     // A given mass tagged with its stage.
@@ -910,7 +898,7 @@ fn emission_inventory_records_every_input_and_factor() {
         "--to",
         "2025-04-10",
     ]);
-    let e = json(&l, &["entries", "EVW"]);
+    let e = l.json(&["entries", "EVW"]);
     assert_eq!(e[2]["co2_g"], 210_000);
     let r = &e[2]["reading"];
     assert!(

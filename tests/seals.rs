@@ -8,12 +8,6 @@ use std::process::{Command, Stdio};
 
 const LATER: &str = "2027-02-10T08:00:00Z";
 
-fn json(l: &Ledger, args: &[&str]) -> serde_json::Value {
-    let mut a = vec!["--format", "json"];
-    a.extend_from_slice(args);
-    serde_json::from_str(&l.ok(&a)).unwrap()
-}
-
 /// tests/recompute_chain.py over `entries --format json`: its `seal` lines.
 fn python_seal_lines(l: &Ledger, project: &str) -> Vec<String> {
     let entries = l.ok(&["--format", "json", "entries", project]);
@@ -73,11 +67,11 @@ fn python_recomputes_every_seal_root_of_the_demo() {
     l.ok(&["demo"]);
     l.ok(&["seal", "KRE", "--period", "2026-Q1"]);
     l.ok(&["seal", "KRE", "--period", "2026-Q2"]);
-    let projects = json(&l, &["project", "list"]);
+    let projects = l.json(&["project", "list"]);
     let mut seals = 0;
     for p in projects.as_array().unwrap() {
         let code = p["code"].as_str().unwrap();
-        let listed = json(&l, &["entries", code]);
+        let listed = l.json(&["entries", code]);
         let sealed: Vec<&serde_json::Value> = listed
             .as_array()
             .unwrap()
@@ -108,7 +102,7 @@ fn python_recomputes_every_seal_root_of_the_demo() {
         seals += lines.len();
     }
     assert!(seals >= 2, "the demo ledger holds seals");
-    let v = json(&l, &["verify"]);
+    let v = l.json(&["verify"]);
     let kre = v
         .as_array()
         .unwrap()
@@ -133,7 +127,7 @@ fn sealed_tfs() -> Ledger {
 #[test]
 fn a_seal_fixes_its_tree_head_and_figures() {
     let l = sealed_tfs();
-    let s = json(&l, &["seal", "TFS", "--period", "2026-Q1"]);
+    let s = l.json(&["seal", "TFS", "--period", "2026-Q1"]);
     assert_eq!(s[0]["tree_size"], 2);
     let root = s[0]["root"].as_str().unwrap();
     assert_eq!(root.len(), 64);
@@ -160,7 +154,7 @@ fn a_seal_fixes_its_tree_head_and_figures() {
 fn sealed_periods_refuse_or_take_late_adjustments() {
     let l = sealed_tfs();
     l.ok(&["seal", "TFS", "--period", "2026-Q1"]);
-    let before = json(&l, &["balance", "TFS", "--by", "quarter"]);
+    let before = l.json(&["balance", "TFS", "--by", "quarter"]);
 
     let r = l.inject("TF-I2", "50 t", "2026-03-01", "2026-03-31", "late-1");
     assert_eq!(r.code, 1);
@@ -201,7 +195,7 @@ fn sealed_periods_refuse_or_take_late_adjustments() {
     ]);
     assert_eq!(l.run_at(LATER, &late_record).code, 0);
 
-    let entries = json(&l, &["entries", "TFS"]);
+    let entries = l.json(&["entries", "TFS"]);
     let fix_entry = &entries[3];
     assert_eq!(fix_entry["period_from"], "2027-02-10");
     assert_eq!(fix_entry["corrects"], serde_json::Value::Null);
@@ -217,7 +211,7 @@ fn sealed_periods_refuse_or_take_late_adjustments() {
             .any(|p| p[0] == "late_for" && p[1] == "2026-Q1")
     );
 
-    let after = json(&l, &["balance", "TFS", "--by", "quarter"]);
+    let after = l.json(&["balance", "TFS", "--by", "quarter"]);
     assert_eq!(
         before["balance"][0]["stored_t"], after["balance"][0]["stored_t"],
         "the sealed quarter's figures stay as sealed"

@@ -6,12 +6,6 @@ mod common;
 use common::{Demo, Ledger};
 use serde_json::Value;
 
-fn json(l: &Ledger, args: &[&str]) -> Value {
-    let mut all = vec!["--format", "json"];
-    all.extend_from_slice(args);
-    serde_json::from_str(&l.ok(&all)).unwrap()
-}
-
 fn project(l: &Ledger, extra: &[&str]) {
     let mut a = vec![
         "project",
@@ -69,7 +63,7 @@ fn readings_of_one_meter_keep_its_relative_uncertainty() {
     for m in 1..=12 {
         month(&l, "W1", m, "50000 t");
     }
-    let b = json(&l, &["balance", "P", "--by", "year"]);
+    let b = l.json(&["balance", "P", "--by", "year"]);
     assert_eq!(b["balance"][0]["stored_t"], 600_000.0);
     assert!((b["balance"][0]["stored_u_pct"].as_f64().unwrap() - 1.0).abs() < 1e-9);
 }
@@ -102,7 +96,7 @@ fn different_meters_combine_in_quadrature() {
     ]);
     month(&l, "W1", 3, "600 kt");
     month(&l, "W2", 3, "400 kt");
-    let b = json(&l, &["balance", "P", "--by", "year"]);
+    let b = l.json(&["balance", "P", "--by", "year"]);
     let pct = b["balance"][0]["stored_u_pct"].as_f64().unwrap();
     assert!((pct - 0.849).abs() < 5e-4, "{pct}");
     // A record's own uncertainty wins over the site's; a calibration changes it from its date.
@@ -133,7 +127,7 @@ fn different_meters_combine_in_quadrature() {
         "--to",
         "2026-07-28",
     ]);
-    let q = json(&l, &["balance", "P", "--by", "quarter"]);
+    let q = l.json(&["balance", "P", "--by", "quarter"]);
     assert!((q["balance"][1]["stored_u_pct"].as_f64().unwrap() - 0.4).abs() < 1e-9);
     assert!((q["balance"][2]["stored_u_pct"].as_f64().unwrap() - 2.0).abs() < 1e-9);
 }
@@ -164,7 +158,7 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
         "100",
     ]);
     month(&l, "W1", 1, "1000 t");
-    let c = &json(&l, &["balance", "P", "--by", "year"])["claims"][0];
+    let c = &l.json(&["balance", "P", "--by", "year"])["claims"][0];
     // 1000 t ± 8 % → conservative 920 t; retention (1 − 0.0001)^100 = 0.990049 → 910.846 t;
     // 10 % buffer → 91.085 t withheld, 819.761 t claimable (computed, REFERENCES.md).
     assert_eq!(c["stored_t"], 1000.0);
@@ -178,10 +172,7 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
     assert!((buffer - durable * 0.1).abs() < 1e-6);
     assert!((c["claimable_t"].as_f64().unwrap() - (durable - buffer)).abs() < 1e-9);
     // Deducting only the excess over 5 %: 3 % of 1000 t.
-    let e = &json(
-        &l,
-        &["balance", "P", "--by", "year", "--deduct-excess-over", "5%"],
-    )["claims"][0];
+    let e = &l.json(&["balance", "P", "--by", "year", "--deduct-excess-over", "5%"])["claims"][0];
     assert_eq!(e["conservative_t"], 970.0);
     let human = l.ok(&["balance", "P", "--by", "year", "--deduct-excess-over", "5%"]);
     assert!(
@@ -190,7 +181,7 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
     );
     // Temporary storage in tonne-years (Moura-Costa & Wilson 2000): 20 of 55 years → 363.64 t per 1000.
     l.ok(&["project", "set", "P", "--years-held", "20"]);
-    let t = &json(&l, &["balance", "P", "--by", "year"])["claims"][0];
+    let t = &l.json(&["balance", "P", "--by", "year"])["claims"][0];
     assert!((t["durable_t"].as_f64().unwrap() - 920.0 * 20.0 / 55.0).abs() < 1e-6);
 }
 
@@ -227,7 +218,7 @@ fn pool_case(reversal: &str) -> Value {
         "--reason",
         "leak found in a later survey",
     ]);
-    let b = json(&l, &["balance", "P", "--by", "year"]);
+    let b = l.json(&["balance", "P", "--by", "year"]);
     b["buffer_pool"]
         .as_array()
         .unwrap()
@@ -325,9 +316,9 @@ fn totals_as_of_reproduce_an_earlier_table_byte_for_byte() {
         "Other Operator",
     ]);
     assert_eq!(l.ok(&["totals", "--as-of", "2026-12-01"]), then);
-    let now = json(&l, &["totals"]);
+    let now = l.json(&["totals"]);
     assert_eq!(now[0]["stored_t"], 1400.0);
-    let filtered = json(&l, &["totals", "--operator", "Other Operator"]);
+    let filtered = l.json(&["totals", "--operator", "Other Operator"]);
     assert_eq!(filtered[0]["project"], "Q");
     insta::assert_snapshot!("totals_as_of", then);
 }

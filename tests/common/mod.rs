@@ -113,6 +113,26 @@ impl Ledger {
         l
     }
 
+    /// A ledger with the EOR project KRE and the sites given as (code, kind).
+    pub fn with_kre(sites: &[(&str, &str)]) -> Ledger {
+        let l = Ledger::new();
+        l.ok(&[
+            "project",
+            "add",
+            "KRE",
+            "--name",
+            "Kestrel Ridge EOR",
+            "--method",
+            "eor",
+            "--operator",
+            "Northdeep Storage Cooperative",
+        ]);
+        for (site, kind) in sites {
+            l.ok(&["site", "add", "KRE", site, "--kind", kind]);
+        }
+        l
+    }
+
     pub fn run(&self, args: &[&str]) -> Run {
         self.run_at(NOW, args)
     }
@@ -141,6 +161,13 @@ impl Ledger {
         let r = self.run(args);
         assert_eq!(r.code, 0, "sinkbook {args:?} failed: {}", r.err);
         r.out
+    }
+
+    /// Runs with `--format json`, insists on exit 0 and parses what it printed.
+    pub fn json(&self, args: &[&str]) -> serde_json::Value {
+        let mut all = vec!["--format", "json"];
+        all.extend_from_slice(args);
+        serde_json::from_str(&self.ok(&all)).unwrap()
     }
 
     /// Number of entries of a project, read through `entries --format json`.
