@@ -3,7 +3,6 @@
 
 mod common;
 use common::Ledger;
-use serde_json::Value;
 
 /// A small EOR project: CO2 bought in at a plant, injected, produced back, recycled.
 fn eor() -> Ledger {
