@@ -3,7 +3,6 @@
 
 mod common;
 use common::Ledger;
-use serde_json::Value;
 
 /// An EOR project with an injection well, a production well and a plant.
 fn eor() -> Ledger {
