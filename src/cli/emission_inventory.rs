@@ -295,7 +295,7 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
             Stage::Spreading => spreading(tx, b, i, &mut reading)?,
         };
         reading.push("how", computed.how);
-        reading.push("category", category);
+        reading.push("category", category.clone());
         draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)
     })
 }

@@ -340,7 +340,7 @@ pub struct ReversalArgs {
     pub key: Option<String>,
 }
 
-#[derive(Debug, Args)]
+#[derive(Debug, Clone, Args)]
 pub struct CorrectArgs {
     /// Project code (e.g. TFS)
     pub project: String,
@@ -729,7 +729,7 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
         let target = correction::target(&all, a.seq)
             .cloned()
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))?;
-        corrected(ctx, a, target)
+        corrected(ctx, a.clone(), target)
     })
 }
 
@@ -784,7 +784,7 @@ pub(super) fn commit(
     key: Option<String>,
     over_permit: bool,
 ) -> Result<Report> {
-    commit_with(ctx, key, over_permit, |_| Ok(entry))
+    commit_with(ctx, key, over_permit, |_| Ok(entry.clone()))
 }
 
 /// Drafts the entry with `make` and appends it in one write transaction, so whatever `make`
@@ -793,14 +793,14 @@ pub(super) fn commit_with(
     ctx: &Context,
     key: Option<String>,
     over_permit: bool,
-    make: impl FnOnce(&mut Tx<'_>) -> Result<Entry>,
+    mut make: impl FnMut(&mut Tx<'_>) -> Result<Entry>,
 ) -> Result<Report> {
     let (outcome, warnings) = ctx.open()?.write(|tx| {
         let mut entry = make(tx)?;
         if over_permit {
             entry.reading.push("over_permit", "acknowledged");
         }
-        entry.key = key.unwrap_or_else(|| content_key(&entry));
+        entry.key = key.clone().unwrap_or_else(|| content_key(&entry));
         let project = known_project(tx, &entry.project)?;
         let site = tx.site(&entry.project, &entry.site)?.ok_or_else(|| {
             Error::field(

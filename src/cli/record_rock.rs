@@ -265,7 +265,7 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
             ctx,
             kind,
             (&a.project, &a.site),
-            reading,
+            reading.clone(),
             (Mass::ZERO, Period::day(date)),
             &a.entry,
         )
@@ -358,7 +358,7 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
             ctx,
             kind,
             (&a.project, &a.site),
-            reading,
+            reading.clone(),
             (mass, period),
             &a.entry,
         )
@@ -523,10 +523,10 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
             before_any_feedstock(tx, &a, date)?;
         }
         let mut reading = Reading::default();
-        reading.push("depth", depth);
+        reading.push("depth", depth.clone());
         reading.push("bulk_density", rho.to_string());
         reading.push("conc_unit", unit.name());
-        for (n, v) in conc_text {
+        for (n, v) in conc_text.iter().cloned() {
             reading.push(&n, v);
         }
         if a.baseline {

@@ -81,7 +81,8 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         let mut all = tx.settings(&a.code)?;
         let next = all.len() as u64;
         let new: Vec<Setting> = values
-            .into_iter()
+            .iter()
+            .cloned()
             .enumerate()
             .map(|(i, (name, value))| Setting {
                 project: a.code.clone(),

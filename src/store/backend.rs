@@ -8,6 +8,7 @@ use diesel::pg::PgConnection;
 use diesel::result::{DatabaseErrorKind, Error as DieselError};
 use diesel::sqlite::SqliteConnection;
 use std::cell::RefCell;
+use std::time::Duration;
 
 /// An open ledger database.
 #[derive(diesel::MultiConnection)]
@@ -28,9 +29,15 @@ macro_rules! on_backend {
 }
 pub(crate) use on_backend;
 
-/// Marks a store error worth another attempt: a deadlock, a serialization failure or a lock
-/// that timed out, all of which leave the database as it was.
-const BUSY: &str = "the registry is busy";
+/// Marks a store error worth another attempt: a deadlock, a serialization failure, a lock that
+/// timed out (PostgreSQL 40P01, 40001, 55P03) or a SQLite file another writer held past the busy
+/// timeout, all of which leave the database as it was.
+const BUSY: &str = "the ledger is busy";
+
+/// How many times a write turned away for contention is tried in all, and the pause before the
+/// second try, doubled before each later one (0.1 + 0.2 + 0.4 + 0.8 s).
+const ATTEMPTS: u32 = 5;
+const FIRST_PAUSE: Duration = Duration::from_millis(100);
 
 impl From<DieselError> for Error {
     fn from(e: DieselError) -> Self {
@@ -39,10 +46,14 @@ impl From<DieselError> for Error {
                 Error::Store(format!("{BUSY} ({e})"))
             }
             DieselError::DatabaseError(_, info)
-                if info.message().starts_with("deadlock detected")
-                    || info
-                        .message()
-                        .starts_with("canceling statement due to lock timeout") =>
+                if [
+                    "deadlock detected",
+                    "canceling statement due to lock timeout",
+                    "could not obtain lock",
+                    "database is locked",
+                ]
+                .iter()
+                .any(|m| info.message().starts_with(m)) =>
             {
                 Error::Store(format!("{BUSY} ({e})"))
             }
@@ -67,15 +78,28 @@ fn is_busy(e: &Error) -> bool {
 }
 
 /// Runs `f` in one transaction: on SQLite taken at once (BEGIN IMMEDIATE), so two writers never
-/// fork a chain; on PostgreSQL the appends lock their project's chain instead. A write the
-/// server refused for contention (deadlock, lock timeout) ends with one line saying so.
+/// fork a chain; on PostgreSQL the appends lock their project's chain instead. A transaction
+/// turned away for contention left nothing behind, so it is run again from the start, after a
+/// pause that doubles each time; after `ATTEMPTS` tries the command ends with one line saying so.
 pub fn write<T>(
     conn: &mut Conn,
     project: &RefCell<Option<String>>,
-    f: impl FnOnce(&mut Conn) -> Result<T>,
+    mut f: impl FnMut(&mut Conn) -> Result<T>,
 ) -> Result<T> {
-    match transaction(conn, true, f) {
-        Err(e) if is_busy(&e) => Err(Error::Store(format!("{e}; nothing was written: try again"))),
+    let mut pause = FIRST_PAUSE;
+    let mut tried = 1;
+    let mut done = transaction(conn, true, &mut f);
+    while tried < ATTEMPTS && done.as_ref().is_err_and(is_busy) {
+        std::thread::sleep(pause);
+        pause *= 2;
+        tried += 1;
+        done = transaction(conn, true, &mut f);
+    }
+    match done {
+        Err(e) if is_busy(&e) => Err(Error::Store(format!(
+            "{e}; tried {ATTEMPTS} times, pausing {:.1} s in all between tries; nothing was written, try again later",
+            (pause - FIRST_PAUSE).as_secs_f64()
+        ))),
         Err(Error::Refused(m)) if m.starts_with(REFUSED) => Err(Error::Refused(format!(
             "role {} may not write {}: an operator's role writes only its own operator's projects, a verifier's only signed statements, a regulator's nothing {}; nothing written",
             role(conn),
@@ -167,5 +191,15 @@ mod tests {
             "ledger database error: disk full".into()
         )));
         assert!(!is_busy(&Error::Refused(BUSY.into())));
+        let locked = DieselError::DatabaseError(
+            DatabaseErrorKind::Unknown,
+            Box::new("database is locked".to_string()),
+        );
+        assert!(is_busy(&Error::from(locked)), "SQLite's busy file");
+        let timeout = DieselError::DatabaseError(
+            DatabaseErrorKind::Unknown,
+            Box::new("canceling statement due to lock timeout".to_string()),
+        );
+        assert!(is_busy(&Error::from(timeout)), "PostgreSQL's 55P03");
     }
 }

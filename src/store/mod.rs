@@ -76,8 +76,9 @@ impl Store {
     }
 
     /// Runs `f` in one write transaction in which two writers never fork a chain; nothing is
-    /// written if `f` fails.
-    pub fn write<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<T>) -> Result<T> {
+    /// written if `f` fails. `f` may run again when the database turned the transaction away
+    /// for contention (see `backend::write`).
+    pub fn write<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
         let project = RefCell::new(None);
         backend::write(&mut self.conn, &project, |conn| {
             f(&mut Tx {

@@ -28,10 +28,13 @@ struct Exists {
 }
 
 /// Connects and sets the session: UTC, a bounded wait for locks, no chatter on standard error.
+/// A lock timeout the URL (`?options=-c%20lock_timeout%3D2s`) or the role already sets is kept;
+/// none (PostgreSQL's default) becomes 30 s.
 fn connect(url: &str) -> Result<PgConnection> {
     let mut conn = PgConnection::establish(url).map_err(|e| store_error(url, e))?;
     conn.batch_execute(
-        "SET TIME ZONE 'UTC'; SET lock_timeout = '30s'; SET client_min_messages = warning;",
+        "SET TIME ZONE 'UTC'; SET client_min_messages = warning; \
+         SELECT set_config('lock_timeout', '30s', false) WHERE current_setting('lock_timeout') = '0';",
     )
     .map_err(|e| store_error(url, e))?;
     Ok(conn)
