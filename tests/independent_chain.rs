@@ -13,13 +13,9 @@ fn python_available() -> bool {
         .is_ok_and(|o| o.status.success())
 }
 
-#[test]
-fn python_recomputes_every_leaf_and_chain_hash() {
-    if !python_available() {
-        common::tool_missing("python3 (the independent chain recomputation)");
-        return;
-    }
-    let l = Ledger::with_tfs();
+/// Records, corrects and lists TFS on `l`, has Python recompute every hash, and returns the
+/// entries as listed.
+fn python_recomputes(l: &Ledger) -> serde_json::Value {
     for (i, (site, mass)) in [
         ("TF-I1", "35164.5 t"),
         ("TF-I2", "1000 short_ton"),
@@ -80,4 +76,30 @@ fn python_recomputes_every_leaf_and_chain_hash() {
         last,
         "verify's head is python's head"
     );
+    v
+}
+
+#[test]
+fn python_recomputes_every_leaf_and_chain_hash() {
+    if !python_available() {
+        common::tool_missing("python3 (the independent chain recomputation)");
+        return;
+    }
+    python_recomputes(&Ledger::with_tfs());
+}
+
+/// On the registry every entry names the role that recorded it: canonical encoding v2.
+#[test]
+fn python_recomputes_the_registry_s_entries_that_name_their_role() {
+    if !python_available() {
+        common::tool_missing("python3 (the independent chain recomputation)");
+        return;
+    }
+    if !common::registry::available() {
+        return;
+    }
+    let v = python_recomputes(&Ledger::with_tfs_on(true));
+    for e in v.as_array().unwrap() {
+        assert_eq!(e["recorded_by"], "postgres", "{e}");
+    }
 }

@@ -1,6 +1,6 @@
 #!/usr/bin/env python3
 """Recomputes a sinkbook chain from `sinkbook --format json entries PROJECT`, following
-docs/ledger-format.md only (canonical encoding v1), with Python's own hashlib. It shares no code
+docs/ledger-format.md only (canonical encodings v1 and v2), with Python's own hashlib. It shares no code
 with sinkbook. Prints one line per entry: seq, leaf hex, chain hex; then, for every seal, `seal`,
 its seq, tree size and the RFC 6962 tree head recomputed from the leaves before it. Exits 1 on
 the first mismatch."""
@@ -41,7 +41,10 @@ def micros(rfc3339):
 
 
 def encode(project, e):
-    b = bytes([1]) + s(project) + struct.pack("<Q", e["seq"]) + bytes([KINDS[e["kind"]]]) + s(e["site"])
+    """v1; v2 when the entry names the registry role that recorded it: version byte 2, the same
+    fields, then the role."""
+    by = e.get("recorded_by")
+    b = bytes([1 if by is None else 2]) + s(project) + struct.pack("<Q", e["seq"]) + bytes([KINDS[e["kind"]]]) + s(e["site"])
     b += struct.pack("<ii", days(e["period_from"]), days(e["period_to"]))
     b += struct.pack("<I", len(e["reading"]))
     for name, value in e["reading"]:
@@ -51,6 +54,8 @@ def encode(project, e):
     b += opt(e["corrects"], lambda c: struct.pack("<Q", c)) + opt(e["reason"], s)
     evidence = None if e["evidence_name"] is None else (e["evidence_name"], e["evidence_sha256"])
     b += opt(evidence, lambda ev: s(ev[0]) + bytes.fromhex(ev[1]))
+    if by is not None:
+        b += s(by)
     return b
 
 

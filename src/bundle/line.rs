@@ -101,6 +101,9 @@ pub enum Line {
         reason: Option<String>,
         evidence_name: Option<String>,
         evidence_sha256: Option<String>,
+        /// Present only for an entry under encoding v2, so a ledger file's bundle keeps its bytes.
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        recorded_by: Option<String>,
         leaf_hash: String,
         chain_hash: String,
     },
@@ -221,6 +224,7 @@ impl Line {
             reason: e.reason.clone(),
             evidence_name: e.evidence.as_ref().map(|v| v.file_name.clone()),
             evidence_sha256: e.evidence.as_ref().map(|v| v.sha256.to_hex()),
+            recorded_by: e.recorded_by.clone(),
             leaf_hash: s.leaf.to_hex(),
             chain_hash: s.chain.to_hex(),
         }
@@ -546,6 +550,7 @@ fn entry_value(line: Line, project: &str) -> Result<SealedEntry, String> {
         reason,
         evidence_name,
         evidence_sha256,
+        recorded_by,
         leaf_hash: leaf,
         chain_hash,
     } = line
@@ -580,6 +585,7 @@ fn entry_value(line: Line, project: &str) -> Result<SealedEntry, String> {
         corrects,
         reason,
         evidence,
+        recorded_by,
     };
     let leaf_stored = hash("leaf_hash", &leaf)?;
     let leaf_now = leaf_hash(&crate::ledger::canonical::encode(&entry));

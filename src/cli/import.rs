@@ -121,6 +121,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         };
         // Sealed and written a chunk at a time, so memory holds one chunk of entries.
         let mut tip = tx.chain_tip(&a.project)?;
+        let recorded_by = tx.recorded_by()?;
         let seals = tx.seals(&a.project)?;
         let all = if seals.is_empty() || corrects.iter().all(Option::is_none) { Vec::new() } else { tx.entries(&a.project)? };
         let mut summary = Summary::default();
@@ -129,7 +130,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             for (d, c) in days.iter().zip(corrects) {
                 let replaced = c.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
                 let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
-                match append(d.entry(&source, *c), &sites[&d.site], tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
+                match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, &sites[&d.site], tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
                     Appended::New(s) | Appended::Existing(s) => {
                         tip = (tip.0 + 1, s.chain);
                         summary.add(d, &s);

@@ -430,6 +430,7 @@ pub(super) fn draft(
         corrects: None,
         reason: None,
         evidence: None,
+        recorded_by: None,
     })
 }
 
@@ -797,6 +798,7 @@ pub(super) fn commit_with(
 ) -> Result<Report> {
     let (outcome, warnings) = ctx.open()?.write(|tx| {
         let mut entry = make(tx)?;
+        entry.recorded_by = tx.recorded_by()?;
         if over_permit {
             entry.reading.push("over_permit", "acknowledged");
         }

@@ -10,7 +10,7 @@ use crate::ledger::chain;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::period::Grouping;
 use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
-use crate::ledger::{Period, SealedEntry};
+use crate::ledger::{Entry, Period, SealedEntry};
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use clap::Args;
@@ -86,7 +86,11 @@ pub fn record_seal(
         figures: figures(&view, label, period)?,
         recorded_at: ctx.now,
     };
-    let s = chain::seal(seal.entry(project), head);
+    let entry = Entry {
+        recorded_by: tx.recorded_by()?,
+        ..seal.entry(project)
+    };
+    let s = chain::seal(entry, head);
     tx.append(std::slice::from_ref(&s))?;
     Ok((seal, s))
 }

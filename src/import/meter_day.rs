@@ -139,6 +139,7 @@ impl MeterDay {
                 file_name: s.file_name.to_string(),
                 sha256: s.sha256,
             }),
+            recorded_by: None,
         }
     }
 }

@@ -91,12 +91,14 @@ pub fn within_limit<'a>(
     Ok(())
 }
 
-/// A key derived from what the entry says, so that re-running the same command is harmless.
+/// A key derived from what the entry says, so that re-running the same command is harmless,
+/// whoever runs it.
 pub fn content_key(e: &Entry) -> String {
     let neutral = Entry {
         seq: 0,
         key: String::new(),
         recorded_at: DateTime::UNIX_EPOCH,
+        recorded_by: None,
         ..e.clone()
     };
     format!("auto-{}", &Hash::of(&encode(&neutral)).to_hex()[..20])

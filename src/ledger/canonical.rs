@@ -1,13 +1,18 @@
-//! Canonical encoding v1: the exact bytes an entry's leaf hash is taken over.
-//! docs/ledger-format.md specifies it field by field, so anyone can recompute a chain.
+//! Canonical encodings: the exact bytes an entry's leaf hash is taken over. v1 for entries of a
+//! ledger file and every registration; v2, for an entry a registry role appended, is v1's
+//! fields then the role. docs/ledger-format.md specifies them field by field, so anyone can
+//! recompute a chain.
 
 use super::entry::Entry;
 use super::feedstock::Feedstock;
 use super::period::epoch_days;
 use super::project::{Project, Site};
 
-/// The version byte that opens every encoding.
+/// The version byte that opens every encoding but a v2 entry's.
 pub const VERSION: u8 = 1;
+
+/// The version byte of an entry that names the registry role that recorded it.
+pub const ENTRY_RECORDED_BY: u8 = 2;
 
 /// Builds the canonical bytes.
 #[derive(Default)]
@@ -46,10 +51,14 @@ impl Writer {
     }
 }
 
-/// The canonical bytes of an entry (everything but its hashes).
+/// The canonical bytes of an entry (everything but its hashes): v1, or v2 when it names the
+/// role that recorded it.
 pub fn encode(e: &Entry) -> Vec<u8> {
     let mut w = Writer::default();
-    w.u8(VERSION);
+    w.u8(match e.recorded_by {
+        None => VERSION,
+        Some(_) => ENTRY_RECORDED_BY,
+    });
     w.str(&e.project);
     w.u64(e.seq);
     w.u8(e.kind.ordinal());
@@ -73,6 +82,9 @@ pub fn encode(e: &Entry) -> Vec<u8> {
         w.str(&ev.file_name);
         w.0.extend_from_slice(&ev.sha256.0);
     });
+    if let Some(role) = &e.recorded_by {
+        w.str(role);
+    }
     w.0
 }
 

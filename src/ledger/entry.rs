@@ -140,15 +140,19 @@ pub struct Entry {
     pub corrects: Option<u64>,
     pub reason: Option<String>,
     pub evidence: Option<Evidence>,
+    /// The registry role that appended the entry, in its canonical bytes (encoding v2); `None`
+    /// for an entry written to a ledger file, which has no database roles (encoding v1).
+    pub recorded_by: Option<String>,
 }
 
 impl Entry {
-    /// Whether two entries record the same thing, ignoring position and time of recording;
-    /// a re-submission of the same key with the same content is a harmless retry.
+    /// Whether two entries record the same thing, ignoring position, time and role of
+    /// recording; a re-submission of the same key with the same content is a harmless retry.
     pub fn same_content(&self, other: &Entry) -> bool {
         let strip = |e: &Entry| Entry {
             seq: 0,
             recorded_at: DateTime::UNIX_EPOCH,
+            recorded_by: None,
             ..e.clone()
         };
         strip(self) == strip(other)

@@ -50,6 +50,7 @@ mod tests {
             corrects: None,
             reason: None,
             evidence: None,
+            recorded_by: None,
         }
     }
 
@@ -94,6 +95,22 @@ mod tests {
         let sealed = chain::seal(e, Hash::GENESIS);
         assert_eq!(sealed.leaf.to_hex(), GOLDEN_LEAF);
         assert_eq!(sealed.chain.to_hex(), GOLDEN_CHAIN);
+    }
+
+    /// Encoding v2 is v1 with version byte 2 and the recording role appended as a `str`.
+    #[test]
+    fn an_entry_naming_its_role_is_v1_with_version_2_and_the_role_at_the_end() {
+        let v1 = canonical::encode(&fixture(0));
+        let e = Entry {
+            recorded_by: Some("nsc_ops".into()),
+            ..fixture(0)
+        };
+        let mut expect = v1.clone();
+        expect[0] = 2;
+        expect.extend_from_slice(&7u32.to_le_bytes());
+        expect.extend_from_slice(b"nsc_ops");
+        assert_eq!(canonical::encode(&e), expect);
+        assert_ne!(chain::seal(e, Hash::GENESIS).leaf.to_hex(), GOLDEN_LEAF);
     }
 
     const GOLDEN_LEAF: &str = "7a684dfc897085a5930352be9bd9b2b417d1989125fead7ab3b1f33a808bb368";

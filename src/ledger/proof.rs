@@ -52,11 +52,11 @@ fn hash(name: &str, s: &str) -> Result<Hash, String> {
     Hash::from_hex(s).ok_or_else(|| format!("{name} is not 64 hex digits"))
 }
 
-/// The project and seq at the head of canonical entry bytes: `u8` version 1, `str` project,
-/// `u64` seq.
+/// The project and seq at the head of canonical entry bytes: `u8` version 1 or 2, `str`
+/// project, `u64` seq.
 fn project_and_seq(bytes: &[u8]) -> Option<(String, u64)> {
     let (&version, rest) = bytes.split_first()?;
-    if version != 1 {
+    if version != 1 && version != 2 {
         return None;
     }
     let len = u32::from_le_bytes(rest.get(..4)?.try_into().ok()?) as usize;

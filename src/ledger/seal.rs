@@ -92,6 +92,7 @@ impl Seal {
             corrects: None,
             reason: None,
             evidence: None,
+            recorded_by: None,
         }
     }
 

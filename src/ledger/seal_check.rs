@@ -125,6 +125,7 @@ mod tests {
             corrects: None,
             reason: None,
             evidence: None,
+            recorded_by: None,
         }
     }
 

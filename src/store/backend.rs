@@ -113,19 +113,13 @@ pub fn write<T>(
     }
 }
 
-#[derive(diesel::QueryableByName)]
-struct Role {
-    #[diesel(sql_type = diesel::sql_types::Text)]
-    role: String,
-}
-
 /// The database role the connection writes as.
 fn role(conn: &mut Conn) -> String {
-    use diesel::RunQueryDsl;
-    diesel::sql_query("SELECT CAST(current_user AS TEXT) AS role")
-        .get_result::<Role>(conn)
-        .map(|r| r.role)
-        .unwrap_or_else(|_| "(unknown)".into())
+    match conn {
+        Conn::Pg(c) => super::postgres::current_role(c).ok(),
+        Conn::Sqlite(_) => None,
+    }
+    .unwrap_or_else(|| "(unknown)".into())
 }
 
 /// Runs `f` in a read transaction, so a report sees one consistent state.

@@ -298,6 +298,15 @@ impl Tx<'_> {
         Ok(())
     }
 
+    /// The role the entries appended in this transaction record: the registry's login role,
+    /// or none in a ledger file, which has no database roles (docs/ledger-format.md, v2).
+    pub fn recorded_by(&mut self) -> Result<Option<String>> {
+        match &mut *self.conn {
+            Conn::Pg(c) => postgres::current_role(c).map(Some),
+            Conn::Sqlite(_) => Ok(None),
+        }
+    }
+
     /// Remembers the project a write is about.
     fn names(&self, project: &str) {
         if self.writing {

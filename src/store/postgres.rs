@@ -92,6 +92,21 @@ pub fn lock_chain(conn: &mut PgConnection, project: &str) -> Result<()> {
 }
 
 #[derive(QueryableByName)]
+struct Role {
+    #[diesel(sql_type = Text)]
+    role: String,
+}
+
+/// The database role the connection writes as, which every entry it appends records.
+pub fn current_role(conn: &mut PgConnection) -> Result<String> {
+    Ok(
+        diesel::sql_query("SELECT CAST(current_user AS TEXT) AS role")
+            .get_result::<Role>(conn)?
+            .role,
+    )
+}
+
+#[derive(QueryableByName)]
 struct Next {
     #[diesel(sql_type = BigInt)]
     id: i64,

@@ -62,6 +62,8 @@ pub struct EntryRow {
     pub evidence_sha256: Option<String>,
     pub leaf_hash: String,
     pub chain_hash: String,
+    /// The registry role named in the entry's bytes; NULL for a v1 entry.
+    pub recorded_by: Option<String>,
 }
 
 fn utc(t: NaiveDateTime) -> DateTime<Utc> {
@@ -167,6 +169,7 @@ impl EntryRow {
             evidence_sha256: e.evidence.as_ref().map(|v| v.sha256.to_hex()),
             leaf_hash: s.leaf.to_hex(),
             chain_hash: s.chain.to_hex(),
+            recorded_by: e.recorded_by.clone(),
         }
     }
 
@@ -207,6 +210,7 @@ impl EntryRow {
                 .transpose()?,
             reason: self.reason.clone(),
             evidence,
+            recorded_by: self.recorded_by.clone(),
         };
         Ok(SealedEntry {
             entry,

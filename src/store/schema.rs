@@ -47,6 +47,7 @@ diesel::table! {
         evidence_sha256 -> Nullable<Text>,
         leaf_hash -> Text,
         chain_hash -> Text,
+        recorded_by -> Nullable<Text>,
     }
 }
 

@@ -174,6 +174,7 @@ mod tests {
                             corrects,
                             reason: corrects.map(|_| "fix".into()),
                             evidence: None,
+                            recorded_by: None,
                         },
                         head,
                     );
