@@ -2,16 +2,15 @@
 //! uncertainty runs through the chain stored → conservative → durable → buffer withheld →
 //! claimable, and reversals draw on the buffer pool in date order.
 
-use super::balance::BalanceLine;
 use super::buffer_pool::{BufferPool, Reversal};
 use super::conservative::DeductionRule;
 use super::permanence::{Claim, ClaimRules, Durability, claim};
 use super::uncertainty::Estimate;
 use crate::ledger::period::Bucket;
-use crate::ledger::setting::{Setting, SettingName, in_force};
+use crate::ledger::setting::{Setting, SettingName, value_on};
 use crate::ledger::{Entry, Site};
 use crate::quantity::Mass;
-use chrono::{DateTime, Utc};
+use chrono::NaiveDate;
 
 /// Tonne-year equivalence time when a project does not set one: 55 years for a 100-year
 /// horizon (Moura-Costa & Wilson 2000, read through quotation).
@@ -45,9 +44,9 @@ pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[&Entry]) -> Op
     })
 }
 
-/// The claim rules in force at `as_of`, from the project's settings.
-pub fn rules(settings: &[Setting], as_of: DateTime<Utc>, deduction: DeductionRule) -> ClaimRules {
-    let num = |name| in_force(settings, name, as_of).and_then(|v| v.parse::<f64>().ok());
+/// The claim rules in force on `day` (a claim period's last day), from the project's settings.
+pub fn rules(settings: &[Setting], day: NaiveDate, deduction: DeductionRule) -> ClaimRules {
+    let num = |name| value_on(settings, name, day).and_then(|v| v.parse::<f64>().ok());
     let durability = match num(SettingName::YearsHeld) {
         Some(years_held) => Durability::TonneYears {
             years_held,
@@ -82,14 +81,6 @@ pub fn period_claim(stored: &Estimate, rules: &ClaimRules) -> Claim {
         buffer_withheld: zero,
         claimable: zero,
     })
-}
-
-/// The claims of each balance line.
-pub fn claims(lines: &[BalanceLine], rules: &ClaimRules) -> Vec<(Bucket, Claim)> {
-    lines
-        .iter()
-        .map(|l| (l.bucket, period_claim(&l.uncertainty, rules)))
-        .collect()
 }
 
 /// One event of the buffer pool: a claim period that stores tonnes contributes its buffer; one
@@ -127,20 +118,21 @@ impl ClaimBasis {
     }
 }
 
-/// Each claim period's claim, and the pool after them in date order: a reversal reduces the
-/// stored tonnes of the claim period it is dated in; a period left negative claims nothing
-/// and its loss cancels buffer contributed by earlier periods first, then claimable tonnes
-/// already counted; what neither covers is a shortfall.
+/// Each claim period's claim under the rules in force on its last day, and the pool after them
+/// in date order: a reversal reduces the stored tonnes of the claim period it is dated in; a
+/// period left negative claims nothing and its loss cancels buffer contributed by earlier
+/// periods first, then claimable tonnes already counted; what neither covers is a shortfall.
+/// A later period's settings never reach back: what an earlier period withheld stays withheld.
 pub fn claim_pool(
     periods: &[ClaimBasis],
-    rules: &ClaimRules,
+    rules: impl Fn(Bucket) -> ClaimRules,
 ) -> (Vec<(Bucket, Claim)>, BufferPool, Vec<PoolEvent>) {
     let mut pool = BufferPool::new();
     let mut claims = Vec::with_capacity(periods.len());
     let mut events = Vec::with_capacity(periods.len());
     for p in periods {
         let net = p.net();
-        let c = period_claim(&net, rules);
+        let c = period_claim(&net, &rules(p.bucket));
         if net.value().grams() < 0 {
             if let Ok(r) = pool.reverse(-net.value()) {
                 events.push(PoolEvent::Loss {
@@ -178,7 +170,8 @@ mod tests {
             seq: 0,
             name,
             value: value.into(),
-            recorded_at: DateTime::parse_from_rfc3339(at).unwrap().to_utc(),
+            recorded_at: chrono::DateTime::parse_from_rfc3339(at).unwrap().to_utc(),
+            effective: None,
         }
     }
 
@@ -189,10 +182,10 @@ mod tests {
             setting(SettingName::Buffer, "0.2", "2026-06-01T00:00:00Z"),
             setting(SettingName::AnnualLeak, "0.0001", "2026-01-01T00:00:00Z"),
         ];
-        let at = |d: &str| DateTime::parse_from_rfc3339(d).unwrap().to_utc();
+        let at = |d: &str| d.parse::<NaiveDate>().unwrap();
         let r = rules(
             &s,
-            at("2026-03-01T00:00:00Z"),
+            at("2026-03-01"),
             DeductionRule::WholeUncertainty,
         );
         assert_eq!(r.buffer_share, 0.1);
@@ -206,7 +199,7 @@ mod tests {
         assert_eq!(
             rules(
                 &s,
-                at("2026-07-01T00:00:00Z"),
+                at("2026-07-01"),
                 DeductionRule::WholeUncertainty
             )
             .buffer_share,
@@ -215,7 +208,7 @@ mod tests {
         assert_eq!(
             rules(
                 &[],
-                at("2026-07-01T00:00:00Z"),
+                at("2026-07-01"),
                 DeductionRule::WholeUncertainty
             )
             .buffer_share,
@@ -261,7 +254,7 @@ mod tests {
         // 2025 stores 100 t (10 t buffer, 90 t claimable); 2026 stores 20 t but reverses
         // 35 t: a loss of 15 t → 10 t of buffer, then 5 t of claimable.
         let (claims, pool, events) =
-            claim_pool(&[basis(2025, 100, 0), basis(2026, 20, 35)], &rules);
+            claim_pool(&[basis(2025, 100, 0), basis(2026, 20, 35)], |_| rules);
         assert_eq!(claims[1].1.claimable, Mass::ZERO);
         let PoolEvent::Loss { reversal: r, .. } = &events[1] else {
             panic!("{events:?}")

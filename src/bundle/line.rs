@@ -59,6 +59,9 @@ pub enum Line {
         value: String,
         recorded_at: String,
         row_hash: String,
+        /// The day it takes effect; absent for settings recorded before they had one.
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        effective_from: Option<String>,
     },
     Feedstock {
         code: String,
@@ -188,6 +191,7 @@ impl Line {
             value: s.value.clone(),
             recorded_at: time_text(s.recorded_at),
             row_hash: leaf_hash(&encode_setting(s)).to_hex(),
+            effective_from: s.effective.map(|d| d.to_string()),
         }
     }
 
@@ -451,6 +455,7 @@ impl Line {
                 value,
                 recorded_at,
                 row_hash,
+                effective_from,
             } => {
                 let s = Setting {
                     project: project.into(),
@@ -458,6 +463,10 @@ impl Line {
                     name: named("name", &name, SettingName::from_name)?,
                     value,
                     recorded_at: time("recorded_at", &recorded_at)?,
+                    effective: effective_from
+                        .as_deref()
+                        .map(|d| parse_date(d).map_err(|e| format!("effective_from {d:?} {e}")))
+                        .transpose()?,
                 };
                 row_hash_matches(&format!("setting {seq}"), &encode_setting(&s), &row_hash)?;
                 Item::Setting(s)

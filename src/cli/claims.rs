@@ -7,10 +7,10 @@ use crate::accounting::conservative::DeductionRule;
 use crate::accounting::permanence::{Claim, ClaimRules, Durability};
 use crate::accounting::project_view::{ProjectFigures, claim_figures, claims_total};
 use crate::error::{Error, Result};
-use crate::ledger::Project;
 use crate::ledger::period::Bucket;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::{Cell, Table, columns};
+use chrono::NaiveDate;
 
 /// How the uncertainty was combined, and which metered entries stated none.
 pub fn uncertainty_note(figures: &ProjectFigures) -> String {
@@ -74,13 +74,72 @@ fn durability_text(d: Durability) -> String {
     }
 }
 
+/// The settings a claim uses, in words.
+fn rules_text(rules: &ClaimRules) -> String {
+    format!(
+        "Conservative: {}. Durable: {}. Buffer: {:.2} % of durable withheld into the buffer pool.",
+        rule_text(rules.deduction),
+        durability_text(rules.durability),
+        rules.buffer_share * 100.0
+    )
+}
+
+/// One note per run of claim periods under the same settings (those in force on each
+/// period's last day), and one per backdated setting the claims use.
+fn settings_notes(t: &mut Table, figures: &ProjectFigures, claims: &[(Bucket, Claim)], deduction: DeductionRule) {
+    let mut runs: Vec<(Bucket, Bucket, ClaimRules)> = Vec::new();
+    for (b, _) in claims {
+        let r = figures.rules(*b, deduction);
+        match runs.last_mut() {
+            Some((_, last, prev)) if *prev == r => *last = *b,
+            _ => runs.push((*b, *b, r)),
+        }
+    }
+    match runs.as_slice() {
+        [] => t.note(rules_text(&figures.rules_on(NaiveDate::MAX, deduction))),
+        [(_, _, r)] => t.note(rules_text(r)),
+        _ => {
+            for (first, last, r) in &runs {
+                let span = if first == last { first.to_string() } else { format!("{first} to {last}") };
+                t.note(format!("{span}: {}", rules_text(r)));
+            }
+        }
+    }
+    let periods: Vec<Bucket> = claims.iter().map(|(b, _)| *b).collect();
+    for note in backdated_notes(figures, &periods) {
+        t.note(note);
+    }
+}
+
+/// A note for each backdated setting the figures of `periods` use.
+pub fn backdated_notes(figures: &ProjectFigures, periods: &[Bucket]) -> Vec<String> {
+    figures
+        .backdated(periods)
+        .into_iter()
+        .map(|(s, used)| {
+            let list: Vec<String> = used.iter().map(Bucket::to_string).collect();
+            format!(
+                "Backdated setting: {} = {} recorded {} takes effect from {}; {} {} {} it.",
+                s.name,
+                s.value,
+                s.recorded_at.format("%Y-%m-%d"),
+                s.from(),
+                if used.len() == 1 { "claim period" } else { "claim periods" },
+                list.join(", "),
+                if used.len() == 1 { "uses" } else { "use" }
+            )
+        })
+        .collect()
+}
+
 /// stored → conservative → durable → buffer withheld → claimable, every discount its own column.
 pub fn claims_table(
-    project: &Project,
+    figures: &ProjectFigures,
     claims: &[(Bucket, Claim)],
-    rules: &ClaimRules,
-    by: &str,
+    deduction: DeductionRule,
 ) -> Table {
+    let project = figures.project();
+    let by = format!("{:?}", figures.claim_period()).to_lowercase();
     let mut t = Table::new(
         "claims",
         format!("From stored to claimable by {by}, project {}", project.code),
@@ -103,12 +162,7 @@ pub fn claims_table(
     let mut row = vec![Cell::text("total")];
     row.extend(claims_total(claims).map(Cell::Tonnes));
     t.push(row);
-    t.note(format!(
-        "Conservative: {}. Durable: {}. Buffer: {:.2} % of durable withheld into the buffer pool.",
-        rule_text(rules.deduction),
-        durability_text(rules.durability),
-        rules.buffer_share * 100.0
-    ));
+    settings_notes(&mut t, figures, claims, deduction);
     t.note("Stored: the period's stored tonnes less the reversals dated in it. A period whose figure is zero or negative claims nothing; a loss draws on the buffer pool.");
     t
 }
@@ -124,7 +178,9 @@ fn loss_text(bucket: &Bucket, reversals: &[u64]) -> String {
 }
 
 /// Contributions, losses and what is left of the buffer pool.
-pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) -> Table {
+pub fn pool_table(figures: &ProjectFigures, pool: &BufferPool, events: &[PoolEvent]) -> Table {
+    let project = figures.project();
+    let by = format!("{:?}", figures.claim_period()).to_lowercase();
     let mut t = Table::new(
         "buffer_pool",
         format!("Buffer pool, project {}", project.code),
@@ -178,7 +234,7 @@ pub fn pool_table(project: &Project, pool: &BufferPool, events: &[PoolEvent]) ->
         Cell::Tonnes(pool.shortfall()),
     ]);
     t.note(format!(
-        "Remaining in the pool: {} t. Each year's claim (the claim period) contributes its buffer at the year's end. A reversal reduces the stored tonnes of the year it is dated in; a year left negative claims nothing, and its loss cancels buffer tonnes contributed before it first, then claimable tonnes; what neither covers is a shortfall.",
+        "Remaining in the pool: {} t. Each claim period's claim (by {by}) contributes its buffer at the period's end, under the settings in force on its last day; a later setting never changes what was withheld. A reversal reduces the stored tonnes of the claim period it is dated in; a period left negative claims nothing, and its loss cancels buffer tonnes contributed before it first, then claimable tonnes; what neither covers is a shortfall.",
         crate::report::render::tonnes_text(pool.remaining())
     ));
     if pool.shortfall().is_positive() {

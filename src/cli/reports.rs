@@ -145,11 +145,13 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
         report = report.table(l);
     }
     // Claims are made per claim period whatever --by shows the balance by.
-    let rules = figures.rules(deduction);
     let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
-    report = report.table(claims_table(project, &period_claims, &rules, "year"));
-    if rules.buffer_share > 0.0 || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
-        report = report.table(pool_table(project, &pool, &events));
+    report = report.table(claims_table(&figures, &period_claims, deduction));
+    let buffered = period_claims
+        .iter()
+        .any(|(b, _)| figures.rules(*b, deduction).buffer_share > 0.0);
+    if buffered || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
+        report = report.table(pool_table(&figures, &pool, &events));
     }
     Ok(report)
 }

@@ -1,11 +1,13 @@
-//! `project set`: dated changes to a project's buffer share, retention model and temporary
-//! storage terms, and the table of the settings in force.
+//! `project set`: dated changes to a project's buffer share, retention model, temporary
+//! storage terms and claim period, each taking effect from a day, and the table of the settings
+//! in force.
 
 use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::{Setting, SettingName, in_force};
+use chrono::NaiveDate;
 use crate::quantity::Decimal;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::{Cell, Report, Table, columns};
@@ -30,6 +32,21 @@ pub struct ProjectSet {
     /// Tonne-year equivalence time [default: 55 years for a 100-year horizon, Moura-Costa & Wilson 2000]
     #[arg(long, value_name = "YEARS", allow_hyphen_values = true)]
     pub equivalence_years: Option<String>,
+    /// The one granularity of the project's claims, buffer pool and totals [default: year]
+    #[arg(long, value_enum, value_name = "PERIOD")]
+    pub claim_period: Option<ClaimPeriod>,
+    /// The day these settings take effect (YYYY-MM-DD); before today only where no sealed period
+    /// lies between it and today [default: the day recorded]
+    #[arg(long, value_name = "DATE")]
+    pub from: Option<String>,
+}
+
+/// The granularity at which a project's claims are made.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum ClaimPeriod {
+    Month,
+    Quarter,
+    Year,
 }
 
 /// A share in [0, 100 %), normalised to its decimal.
@@ -68,17 +85,29 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
             years("--equivalence-years", e)?,
         ));
     }
+    if let Some(p) = a.claim_period {
+        let name = format!("{p:?}").to_lowercase();
+        values.push((SettingName::ClaimPeriod, name));
+    }
     if values.is_empty() {
         return Err(Error::Refused(
-            "nothing to set: give --buffer, --annual-leak, --horizon, --years-held or --equivalence-years".into(),
+            "nothing to set: give --buffer, --annual-leak, --horizon, --years-held, --equivalence-years or --claim-period".into(),
         ));
     }
+    let today = ctx.now.date_naive();
+    let from = match &a.from {
+        Some(d) => super::inputs::date("--from", d)?,
+        None => today,
+    };
     let all = ctx.open()?.write(|tx| {
         known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;
-        admit_setting(&seals, ctx.now.date_naive(), ctx.late)
-            .map_err(|e| Error::field("project set", &a.code, e))?;
+        admit_setting(&seals, from, today, ctx.late)
+            .map_err(|e| Error::field("--from", &from.to_string(), e))?;
         let mut all = tx.settings(&a.code)?;
+        if a.claim_period.is_some() && !seals.is_empty() {
+            claim_period_kept(&all, &values)?;
+        }
         let next = all.len() as u64;
         let new: Vec<Setting> = values
             .iter()
@@ -90,6 +119,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
                 name,
                 value,
                 recorded_at: ctx.now,
+                effective: Some(from),
             })
             .collect();
         tx.add_settings(&new)?;
@@ -101,7 +131,22 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         .table(settings_table(&a.code, &all, ctx.now)))
 }
 
-/// The settings in force at `as_of`, each with when it was recorded.
+/// Once a period is sealed the claim period stays as it was: claims made by another one would
+/// restate the sealed figures.
+fn claim_period_kept(all: &[Setting], values: &[(SettingName, String)]) -> Result<()> {
+    let now = in_force(all, SettingName::ClaimPeriod, NaiveDate::MAX).map_or("year", |s| &s.value);
+    match values.iter().find(|(n, _)| *n == SettingName::ClaimPeriod) {
+        Some((_, v)) if v != now => Err(Error::field(
+            "--claim-period",
+            v,
+            format!("the project has sealed periods, claimed by {now}; the claim period cannot change"),
+        )),
+        _ => Ok(()),
+    }
+}
+
+/// Every setting recorded by `as_of`, by name and the day it takes effect, each marked where it
+/// is the one in force on the day of `as_of`.
 pub fn settings_table(
     project: &str,
     all: &[Setting],
@@ -109,26 +154,32 @@ pub fn settings_table(
 ) -> Table {
     let mut t = Table::new(
         "settings",
-        format!("Settings in force, project {project}"),
+        format!("Settings, project {project}"),
         columns(&[
             ("Setting", "setting"),
             ("Value", "value"),
+            ("In force from", "from"),
             ("Recorded (UTC)", "recorded_at"),
+            ("In force today", "in_force_today"),
         ]),
     );
-    for name in SettingName::ALL {
-        if let Some(v) = in_force(all, *name, as_of) {
-            let when = all
-                .iter()
-                .filter(|s| s.name == *name && s.value == v && s.recorded_at <= as_of)
-                .map(|s| s.recorded_at)
-                .max();
-            t.push(vec![
-                Cell::text(name.name()),
-                Cell::text(v),
-                Cell::opt_text(when.map(|w| w.format("%Y-%m-%d %H:%M:%S").to_string())),
-            ]);
-        }
+    let today = as_of.date_naive();
+    let mut held: Vec<&Setting> = all.iter().filter(|s| s.recorded_at <= as_of).collect();
+    held.sort_by_key(|s| (s.name, s.from(), s.recorded_at, s.seq));
+    let owned: Vec<Setting> = held.iter().map(|s| (*s).clone()).collect();
+    for s in &held {
+        let now = in_force(&owned, s.name, today).is_some_and(|f| f.seq == s.seq);
+        t.push(vec![
+            Cell::text(s.name.name()),
+            Cell::text(&s.value),
+            Cell::text(s.from().to_string()),
+            Cell::text(s.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+            Cell::text(if now { "yes" } else { "" }),
+        ]);
+    }
+    t.note("Each claim period uses the settings in force on its last day: of each setting, the one taking effect last on or before that day (of those, the last recorded).");
+    if held.iter().any(|s| s.backdated()) {
+        t.note("Some settings take effect before the day they were recorded (backdated); reports that use them say so.");
     }
     t
 }

@@ -3,7 +3,7 @@
 //! as the ledger held it at the end of any date.
 
 use super::Context;
-use super::claims::deduction_rule;
+use super::claims::{backdated_notes, deduction_rule};
 use super::view::load;
 use crate::accounting::project_view::{ProjectFigures, TotalsLine};
 use crate::error::{Error, Result};
@@ -116,8 +116,12 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         ]),
     );
     let mut all = TotalsLine::default();
+    let mut backdated = Vec::new();
     for v in &views {
         let totals = v.totals(deduction)?;
+        for note in backdated_notes(v, &v.periods(v.claim_period())?) {
+            backdated.push(format!("{}: {note}", v.project().code));
+        }
         if by_year {
             for (year, line) in &totals.years {
                 let mut row = project_cells(v, Some(*year));
@@ -148,6 +152,9 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     row.push(Cell::Empty);
     t.push(row);
     t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the net of the carbonation uptake less the project's emissions for ex-situ projects, the weathering net (removal − emissions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
+    for note in backdated {
+        t.note(note);
+    }
     if !by_year {
         t.note("Buffer and claimable are net of what reversals cancelled (buffer first, then claimable), in the year of the reversal, so the years add up to the project's line.");
     }

@@ -25,7 +25,6 @@ pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result
         sites,
         settings,
         feedstocks,
-        as_of: as_of.unwrap_or(DateTime::<Utc>::MAX_UTC),
     })?;
     let mut entries = tx.entries(code)?;
     entries.retain(|s| held(s.entry.recorded_at));

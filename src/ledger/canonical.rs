@@ -118,7 +118,8 @@ pub fn encode_site(s: &Site) -> Vec<u8> {
     w.0
 }
 
-/// The canonical bytes of a project setting.
+/// The canonical bytes of a project setting. The effective date follows only where the row has
+/// one, so rows written before settings had one keep their hashes.
 pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
     let mut w = Writer::default();
     w.u8(VERSION);
@@ -128,6 +129,9 @@ pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
     w.str(s.name.name());
     w.str(&s.value);
     w.i64(s.recorded_at.timestamp_micros());
+    if let Some(d) = s.effective {
+        w.i32(epoch_days(d));
+    }
     w.0
 }
 

@@ -155,6 +155,12 @@ pub enum SealRefusal {
     NoLateDifference { kind: EntryKind },
     /// A new seal would overlap one recorded before.
     Overlap { label: String, seq: u64 },
+    /// A setting would take effect inside a sealed period.
+    Backdated {
+        from: NaiveDate,
+        label: String,
+        seq: u64,
+    },
 }
 
 impl fmt::Display for SealRefusal {
@@ -175,6 +181,10 @@ impl fmt::Display for SealRefusal {
             Self::Overlap { label, seq } => {
                 write!(f, "overlaps period {label}, sealed by seq {seq}")
             }
+            Self::Backdated { from, label, seq } => write!(
+                f,
+                "would take effect from {from}, inside period {label} sealed by seq {seq}; a setting never reaches back into a sealed period (not even with --late): give a --from after it"
+            ),
         }
     }
 }
@@ -254,10 +264,26 @@ pub fn admit(
     Ok(entry)
 }
 
-/// Admits a setting recorded `today`: settings take effect when recorded, so one recorded inside a
-/// sealed period is refused, and `late` cannot move it to an open period.
-pub fn admit_setting(seals: &[Seal], today: NaiveDate, late: bool) -> Result<(), SealRefusal> {
-    match covering(seals, Period::day(today)) {
+/// Admits a setting taking effect `from` a day, recorded `today`. One backdated reaches into
+/// every day from its date to today, so none of them may be sealed; one taking effect today or
+/// later is refused in a sealed period as an entry would be.
+pub fn admit_setting(
+    seals: &[Seal],
+    from: NaiveDate,
+    today: NaiveDate,
+    late: bool,
+) -> Result<(), SealRefusal> {
+    if from < today {
+        return match covering(seals, Period { from, to: today }) {
+            None => Ok(()),
+            Some(s) => Err(SealRefusal::Backdated {
+                from,
+                label: s.label.clone(),
+                seq: s.seq,
+            }),
+        };
+    }
+    match covering(seals, Period::day(from)) {
         None => Ok(()),
         Some(s) if late => Err(SealRefusal::TodaySealed {
             label: s.label.clone(),
@@ -266,7 +292,7 @@ pub fn admit_setting(seals: &[Seal], today: NaiveDate, late: bool) -> Result<(),
         Some(s) => Err(SealRefusal::Sealed {
             label: s.label.clone(),
             seq: s.seq,
-            days: Period::day(today),
+            days: Period::day(from),
         }),
     }
 }

@@ -1,9 +1,10 @@
 //! Project settings that change over time: the buffer share withheld from claims, the retention
-//! model, and temporary storage. Each change is a dated, hashed row; the latest one recorded by a
-//! given time is the one in force.
+//! model, temporary storage and the claim period. Each change is a dated, hashed row that takes
+//! effect from a date (by default the day it was recorded); a claim period uses the settings in
+//! force on its last day.
 
 use super::project::named_enum;
-use chrono::{DateTime, Utc};
+use chrono::{DateTime, NaiveDate, Utc};
 
 named_enum! {
     /// What a setting sets.
@@ -18,6 +19,8 @@ named_enum! {
         YearsHeld => "years-held",
         /// Equivalence time of the tonne-year method, in years.
         EquivalenceYears => "equivalence-years",
+        /// The one granularity at which the project's claims are made: month, quarter or year.
+        ClaimPeriod => "claim-period",
     }
 }
 
@@ -29,13 +32,76 @@ pub struct Setting {
     pub name: SettingName,
     pub value: String,
     pub recorded_at: DateTime<Utc>,
+    /// The day it takes effect; rows written before settings had one take effect the day they
+    /// were recorded.
+    pub effective: Option<NaiveDate>,
 }
 
-/// The value of each setting in force at `as_of`: the latest recorded by then.
-pub fn in_force(settings: &[Setting], name: SettingName, as_of: DateTime<Utc>) -> Option<&str> {
+impl Setting {
+    /// The first day the setting is in force.
+    pub fn from(&self) -> NaiveDate {
+        self.effective
+            .unwrap_or_else(|| self.recorded_at.date_naive())
+    }
+
+    /// Whether it takes effect before the day it was recorded.
+    pub fn backdated(&self) -> bool {
+        self.from() < self.recorded_at.date_naive()
+    }
+}
+
+/// The setting of `name` in force on `day`: of those in effect by then, the one with the latest
+/// effective date, and of those the one recorded last.
+pub fn in_force(settings: &[Setting], name: SettingName, day: NaiveDate) -> Option<&Setting> {
     settings
         .iter()
-        .filter(|s| s.name == name && s.recorded_at <= as_of)
-        .max_by_key(|s| (s.recorded_at, s.seq))
-        .map(|s| s.value.as_str())
+        .filter(|s| s.name == name && s.from() <= day)
+        .max_by_key(|s| (s.from(), s.recorded_at, s.seq))
+}
+
+/// The value of `name` in force on `day`.
+pub fn value_on(settings: &[Setting], name: SettingName, day: NaiveDate) -> Option<&str> {
+    in_force(settings, name, day).map(|s| s.value.as_str())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn at(name: SettingName, value: &str, recorded: &str, from: Option<&str>) -> Setting {
+        Setting {
+            project: "P".into(),
+            seq: 0,
+            name,
+            value: value.into(),
+            recorded_at: DateTime::parse_from_rfc3339(recorded).unwrap().to_utc(),
+            effective: from.map(|d| d.parse().unwrap()),
+        }
+    }
+
+    #[test]
+    fn a_setting_is_in_force_from_its_effective_date() {
+        let d = |s: &str| s.parse::<NaiveDate>().unwrap();
+        let s = vec![
+            at(SettingName::Buffer, "0.1", "2026-04-15T08:00:00Z", None),
+            at(
+                SettingName::Buffer,
+                "0",
+                "2026-05-01T08:00:00Z",
+                Some("2026-08-01"),
+            ),
+        ];
+        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-01-31")), None);
+        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-04-15")), Some("0.1"));
+        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-07-31")), Some("0.1"));
+        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-08-01")), Some("0"));
+        assert!(!s[0].backdated());
+        let back = at(
+            SettingName::Buffer,
+            "0.1",
+            "2026-04-15T08:00:00Z",
+            Some("2026-01-01"),
+        );
+        assert!(back.backdated());
+    }
 }

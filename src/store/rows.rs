@@ -244,6 +244,7 @@ pub struct SettingRow {
     pub value: String,
     pub recorded_at: NaiveDateTime,
     pub row_hash: String,
+    pub effective_from: Option<String>,
 }
 
 impl SettingRow {
@@ -255,6 +256,7 @@ impl SettingRow {
             value: s.value.clone(),
             recorded_at: s.recorded_at.naive_utc(),
             row_hash: leaf_hash(&crate::ledger::canonical::encode_setting(s)).to_hex(),
+            effective_from: s.effective.map(|d| d.to_string()),
         }
     }
 
@@ -269,6 +271,14 @@ impl SettingRow {
                 .ok_or_else(|| format!("unknown setting {:?}", self.name))?,
             value: self.value.clone(),
             recorded_at: utc(self.recorded_at),
+            effective: self
+                .effective_from
+                .as_deref()
+                .map(|d| {
+                    crate::ledger::period::parse_date(d)
+                        .map_err(|e| format!("setting {} effective_from {d:?} {e}", self.seq))
+                })
+                .transpose()?,
         };
         if leaf_hash(&crate::ledger::canonical::encode_setting(&s)).to_hex() != self.row_hash {
             return Err(format!(

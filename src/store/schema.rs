@@ -82,6 +82,7 @@ diesel::table! {
         value -> Text,
         recorded_at -> Timestamp,
         row_hash -> Text,
+        effective_from -> Nullable<Text>,
     }
 }
 

@@ -34,17 +34,12 @@ use super::uncertainty::Estimate;
 use super::weathering::campaign::{Application, Core, Feedstock};
 use crate::ledger::feedstock::Feedstock as Registered;
 use crate::ledger::period::{Bucket, Grouping};
-use crate::ledger::setting::Setting;
+use crate::ledger::setting::{Setting, SettingName, in_force};
 use crate::ledger::{Entry, EntryKind, Method, Project, Site};
 use crate::quantity::Mass;
-use chrono::{DateTime, Utc};
+use chrono::NaiveDate;
 use evidence::Batch;
 use std::collections::BTreeMap;
-
-/// The one granularity at which claims are made: the figures of the claims table, the buffer
-/// pool and `totals` (uncertainty added in quadrature does not add across periods, so claims
-/// made by month, quarter and year would be three different figures).
-pub const CLAIM_PERIOD: Grouping = Grouping::Year;
 
 /// Each claim period's claim, the pool after them, and its events.
 pub type ClaimPool = (Vec<(Bucket, Claim)>, BufferPool, Vec<PoolEvent>);
@@ -55,8 +50,6 @@ pub struct Registrations {
     pub sites: Vec<Site>,
     pub settings: Vec<Setting>,
     pub feedstocks: Vec<Registered>,
-    /// The knowledge time the view stands at: settings recorded later are not in force.
-    pub as_of: DateTime<Utc>,
 }
 
 /// A project's figures, fed entry by entry.
@@ -64,7 +57,6 @@ pub struct ProjectView {
     project: Project,
     sites: Vec<Site>,
     settings: Vec<Setting>,
-    as_of: DateTime<Utc>,
     feedstocks: Vec<Feedstock>,
     /// Effective entries in seq order, for the geological balance and the tables that list them.
     entries: Vec<Entry>,
@@ -85,7 +77,6 @@ impl ProjectView {
             project: r.project,
             sites: r.sites,
             settings: r.settings,
-            as_of: r.as_of,
             feedstocks,
             entries: Vec::new(),
             samples: Vec::new(),
@@ -140,9 +131,49 @@ impl ProjectFigures {
         self.view.entries.iter()
     }
 
-    /// The claim rules in force at the view's date.
-    pub fn rules(&self, deduction: DeductionRule) -> ClaimRules {
-        rules(&self.view.settings, self.view.as_of, deduction)
+    /// The one granularity at which the project's claims are made (`project set
+    /// --claim-period`, a year unless set): the figures of the claims table, the buffer pool
+    /// and `totals` (uncertainty added in quadrature does not add across periods, so claims
+    /// made by month, quarter and year would be three different figures).
+    pub fn claim_period(&self) -> Grouping {
+        match in_force(&self.view.settings, SettingName::ClaimPeriod, NaiveDate::MAX)
+            .map(|s| s.value.as_str())
+        {
+            Some("month") => Grouping::Month,
+            Some("quarter") => Grouping::Quarter,
+            _ => Grouping::Year,
+        }
+    }
+
+    /// The claim rules of a period: the settings in force on its last day.
+    pub fn rules(&self, period: Bucket, deduction: DeductionRule) -> ClaimRules {
+        self.rules_on(period.last_day(), deduction)
+    }
+
+    /// The claim rules of the settings in force on `day`.
+    pub fn rules_on(&self, day: NaiveDate, deduction: DeductionRule) -> ClaimRules {
+        rules(&self.view.settings, day, deduction)
+    }
+
+    /// The backdated settings the claims of `periods` use (those taking effect before the
+    /// day they were recorded), each with the periods whose last day it is in force on.
+    pub fn backdated(&self, periods: &[Bucket]) -> Vec<(&Setting, Vec<Bucket>)> {
+        let mut used: Vec<(&Setting, Vec<Bucket>)> = Vec::new();
+        for p in periods {
+            for name in SettingName::ALL {
+                let Some(s) = in_force(&self.view.settings, *name, p.last_day()) else {
+                    continue;
+                };
+                if !s.backdated() {
+                    continue;
+                }
+                match used.iter_mut().find(|(u, _)| u.seq == s.seq) {
+                    Some((_, ps)) => ps.push(*p),
+                    None => used.push((s, vec![*p])),
+                }
+            }
+        }
+        used
     }
 
     /// Each period's stored figure, with its uncertainty (95 %), as the project's method
@@ -178,24 +209,24 @@ impl ProjectFigures {
         grouping: Grouping,
         deduction: DeductionRule,
     ) -> Result<Vec<(Bucket, Claim)>, ViewError> {
-        let rules = self.rules(deduction);
         Ok(self
             .stored(grouping)?
             .iter()
-            .map(|(b, u)| (*b, period_claim(u, &rules)))
+            .map(|(b, u)| (*b, period_claim(u, &self.rules(*b, deduction))))
             .collect())
     }
 
     /// Each claim period's stored figure (a geological project's by `method`) and the
     /// reversals dated in it.
     pub fn claim_basis(&self, method: BalanceMethod) -> Result<Vec<ClaimBasis>, ViewError> {
+        let period = self.claim_period();
         let stored: Vec<(Bucket, Estimate)> = match self.view.project.method {
             Method::SalineAquifer | Method::DepletedField | Method::Eor => self
-                .geological(CLAIM_PERIOD, method)
+                .geological(period, method)
                 .into_iter()
                 .map(|l| (l.bucket, l.uncertainty))
                 .collect(),
-            _ => self.stored(CLAIM_PERIOD)?,
+            _ => self.stored(period)?,
         };
         let mut by: BTreeMap<Bucket, ClaimBasis> = stored
             .into_iter()
@@ -210,7 +241,7 @@ impl ProjectFigures {
             })
             .collect();
         for e in self.reversals() {
-            let bucket = CLAIM_PERIOD.bucket(e.period.from);
+            let bucket = period.bucket(e.period.from);
             let b = by.entry(bucket).or_insert_with(|| ClaimBasis {
                 bucket,
                 stored: Estimate::absolute(Mass::ZERO, Mass::ZERO),
@@ -229,10 +260,9 @@ impl ProjectFigures {
         method: BalanceMethod,
         deduction: DeductionRule,
     ) -> Result<ClaimPool, ViewError> {
-        Ok(claim_pool(
-            &self.claim_basis(method)?,
-            &self.rules(deduction),
-        ))
+        Ok(claim_pool(&self.claim_basis(method)?, |b| {
+            self.rules(b, deduction)
+        }))
     }
 
     /// Every reversal recorded, as (date, mass).

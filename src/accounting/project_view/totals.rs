@@ -1,11 +1,11 @@
 //! A project's line of the regulator's totals: received, injected, stored, conservative,
 //! durable, buffer, claimable and reversed, per year and to date.
 
-use super::CLAIM_PERIOD;
 use super::{ProjectFigures, ViewError};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::claims::{PoolEvent, claim_pool};
 use crate::accounting::conservative::DeductionRule;
+use crate::ledger::period::Grouping;
 use crate::quantity::Mass;
 use std::collections::BTreeMap;
 
@@ -90,28 +90,36 @@ pub struct ProjectTotals {
 impl ProjectFigures {
     pub fn totals(&self, deduction: DeductionRule) -> Result<ProjectTotals, ViewError> {
         let terms: BTreeMap<i32, _> = self
-            .geological(CLAIM_PERIOD, BalanceMethod::Rr)
+            .geological(Grouping::Year, BalanceMethod::Rr)
             .into_iter()
             .map(|l| (l.bucket.year, l.terms))
             .collect();
         let basis = self.claim_basis(BalanceMethod::Rr)?;
-        let (claims, _, events) = claim_pool(&basis, &self.rules(deduction));
-        let mut years: BTreeMap<i32, TotalsLine> = BTreeMap::new();
-        for (b, (bucket, c)) in basis.iter().zip(&claims) {
-            let t = terms.get(&bucket.year).copied().unwrap_or_default();
-            years.insert(
-                bucket.year,
-                TotalsLine {
+        let (claims, _, events) = claim_pool(&basis, |b| self.rules(b, deduction));
+        let mut years: BTreeMap<i32, TotalsLine> = terms
+            .iter()
+            .map(|(y, t)| {
+                let line = TotalsLine {
                     received: t.received(),
                     injected: t.injected,
-                    stored: b.stored.value(),
-                    conservative: c.conservative,
-                    durable: c.durable,
-                    buffer: c.buffer_withheld,
-                    claimable: c.claimable,
-                    reversed: b.reversed,
-                },
-            );
+                    ..TotalsLine::default()
+                };
+                (*y, line)
+            })
+            .collect();
+        // Claim periods shorter than a year add into their year.
+        for (b, (bucket, c)) in basis.iter().zip(&claims) {
+            let y = years.entry(bucket.year).or_default();
+            y.add(&TotalsLine {
+                received: Mass::ZERO,
+                injected: Mass::ZERO,
+                stored: b.stored.value(),
+                conservative: c.conservative,
+                durable: c.durable,
+                buffer: c.buffer_withheld,
+                claimable: c.claimable,
+                reversed: b.reversed,
+            });
         }
         // A period's loss cancels buffer and claimable counted before it, in its year.
         for ev in &events {
