@@ -118,15 +118,35 @@ fn a_backdated_setting_is_said_so_and_never_reaches_into_a_sealed_period() {
     // from 1 April on it may.
     l.ok(&["seal", "TFS", "--period", "2026-Q1"]);
     for late in [false, true] {
-        let mut args = vec!["project", "set", "TFS", "--buffer", "20%", "--from", "2026-02-01"];
+        let mut args = vec![
+            "project",
+            "set",
+            "TFS",
+            "--buffer",
+            "20%",
+            "--from",
+            "2026-02-01",
+        ];
         if late {
             args.push("--late");
         }
         let r = l.run(&args);
         assert_eq!(r.code, 1, "{}", r.out);
-        assert!(r.err.contains("--from") && r.err.contains("2026-Q1"), "{}", r.err);
+        assert!(
+            r.err.contains("--from") && r.err.contains("2026-Q1"),
+            "{}",
+            r.err
+        );
     }
-    l.ok(&["project", "set", "TFS", "--buffer", "20%", "--from", "2026-04-01"]);
+    l.ok(&[
+        "project",
+        "set",
+        "TFS",
+        "--buffer",
+        "20%",
+        "--from",
+        "2026-04-01",
+    ]);
     // The claim period cannot change under a seal.
     let r = l.run(&["project", "set", "TFS", "--claim-period", "quarter"]);
     assert_eq!(r.code, 1, "{}", r.out);

@@ -189,7 +189,15 @@ fn pool_case(reversal: &str) -> Value {
     let l = Ledger::new();
     project(&l, &[]);
     l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
-    l.ok(&["project", "set", "P", "--buffer", "10%"]);
+    l.ok(&[
+        "project",
+        "set",
+        "P",
+        "--buffer",
+        "10%",
+        "--from",
+        "2025-01-01",
+    ]);
     // Stored and claimed in 2025; the reversal of March 2026 leaves 2026 at a loss, drawn on
     // the pool 2025 contributed to.
     l.ok(&[

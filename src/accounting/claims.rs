@@ -183,11 +183,7 @@ mod tests {
             setting(SettingName::AnnualLeak, "0.0001", "2026-01-01T00:00:00Z"),
         ];
         let at = |d: &str| d.parse::<NaiveDate>().unwrap();
-        let r = rules(
-            &s,
-            at("2026-03-01"),
-            DeductionRule::WholeUncertainty,
-        );
+        let r = rules(&s, at("2026-03-01"), DeductionRule::WholeUncertainty);
         assert_eq!(r.buffer_share, 0.1);
         assert_eq!(
             r.durability,
@@ -197,21 +193,11 @@ mod tests {
             }
         );
         assert_eq!(
-            rules(
-                &s,
-                at("2026-07-01"),
-                DeductionRule::WholeUncertainty
-            )
-            .buffer_share,
+            rules(&s, at("2026-07-01"), DeductionRule::WholeUncertainty).buffer_share,
             0.2
         );
         assert_eq!(
-            rules(
-                &[],
-                at("2026-07-01"),
-                DeductionRule::WholeUncertainty
-            )
-            .buffer_share,
+            rules(&[], at("2026-07-01"), DeductionRule::WholeUncertainty).buffer_share,
             0.0
         );
     }

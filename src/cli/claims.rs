@@ -86,7 +86,12 @@ fn rules_text(rules: &ClaimRules) -> String {
 
 /// One note per run of claim periods under the same settings (those in force on each
 /// period's last day), and one per backdated setting the claims use.
-fn settings_notes(t: &mut Table, figures: &ProjectFigures, claims: &[(Bucket, Claim)], deduction: DeductionRule) {
+fn settings_notes(
+    t: &mut Table,
+    figures: &ProjectFigures,
+    claims: &[(Bucket, Claim)],
+    deduction: DeductionRule,
+) {
     let mut runs: Vec<(Bucket, Bucket, ClaimRules)> = Vec::new();
     for (b, _) in claims {
         let r = figures.rules(*b, deduction);
@@ -100,7 +105,11 @@ fn settings_notes(t: &mut Table, figures: &ProjectFigures, claims: &[(Bucket, Cl
         [(_, _, r)] => t.note(rules_text(r)),
         _ => {
             for (first, last, r) in &runs {
-                let span = if first == last { first.to_string() } else { format!("{first} to {last}") };
+                let span = if first == last {
+                    first.to_string()
+                } else {
+                    format!("{first} to {last}")
+                };
                 t.note(format!("{span}: {}", rules_text(r)));
             }
         }
@@ -111,22 +120,40 @@ fn settings_notes(t: &mut Table, figures: &ProjectFigures, claims: &[(Bucket, Cl
     }
 }
 
-/// A note for each backdated setting the figures of `periods` use.
+/// A note for each backdated change the figures of `periods` use: settings recorded together,
+/// taking effect the same day and used by the same periods, share one note.
 pub fn backdated_notes(figures: &ProjectFigures, periods: &[Bucket]) -> Vec<String> {
-    figures
-        .backdated(periods)
+    let mut groups: Vec<(String, String, Vec<Bucket>, Vec<String>)> = Vec::new();
+    for (s, used) in figures.backdated(periods) {
+        let recorded = s.recorded_at.format("%Y-%m-%d").to_string();
+        let from = s.from().to_string();
+        let value = format!("{} = {}", s.name, s.value);
+        match groups
+            .iter_mut()
+            .find(|g| g.0 == recorded && g.1 == from && g.2 == used)
+        {
+            Some(g) => g.3.push(value),
+            None => groups.push((recorded, from, used, vec![value])),
+        }
+    }
+    groups
         .into_iter()
-        .map(|(s, used)| {
+        .map(|(recorded, from, used, values)| {
             let list: Vec<String> = used.iter().map(Bucket::to_string).collect();
+            let one = used.len() == 1;
             format!(
-                "Backdated setting: {} = {} recorded {} takes effect from {}; {} {} {} it.",
-                s.name,
-                s.value,
-                s.recorded_at.format("%Y-%m-%d"),
-                s.from(),
-                if used.len() == 1 { "claim period" } else { "claim periods" },
+                "Backdated {}: {} recorded {recorded} {} effect from {from}; {} {} {} {}.",
+                if values.len() == 1 {
+                    "setting"
+                } else {
+                    "settings"
+                },
+                values.join(", "),
+                if values.len() == 1 { "takes" } else { "take" },
+                if one { "claim period" } else { "claim periods" },
                 list.join(", "),
-                if used.len() == 1 { "uses" } else { "use" }
+                if one { "uses" } else { "use" },
+                if values.len() == 1 { "it" } else { "them" },
             )
         })
         .collect()

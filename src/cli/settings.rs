@@ -7,10 +7,10 @@ use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::{Setting, SettingName, in_force};
-use chrono::NaiveDate;
 use crate::quantity::Decimal;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::{Cell, Report, Table, columns};
+use chrono::NaiveDate;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -139,7 +139,9 @@ fn claim_period_kept(all: &[Setting], values: &[(SettingName, String)]) -> Resul
         Some((_, v)) if v != now => Err(Error::field(
             "--claim-period",
             v,
-            format!("the project has sealed periods, claimed by {now}; the claim period cannot change"),
+            format!(
+                "the project has sealed periods, claimed by {now}; the claim period cannot change"
+            ),
         )),
         _ => Ok(()),
     }

@@ -92,9 +92,18 @@ mod tests {
             ),
         ];
         assert_eq!(value_on(&s, SettingName::Buffer, d("2026-01-31")), None);
-        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-04-15")), Some("0.1"));
-        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-07-31")), Some("0.1"));
-        assert_eq!(value_on(&s, SettingName::Buffer, d("2026-08-01")), Some("0"));
+        assert_eq!(
+            value_on(&s, SettingName::Buffer, d("2026-04-15")),
+            Some("0.1")
+        );
+        assert_eq!(
+            value_on(&s, SettingName::Buffer, d("2026-07-31")),
+            Some("0.1")
+        );
+        assert_eq!(
+            value_on(&s, SettingName::Buffer, d("2026-08-01")),
+            Some("0")
+        );
         assert!(!s[0].backdated());
         let back = at(
             SettingName::Buffer,

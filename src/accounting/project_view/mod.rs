@@ -136,8 +136,12 @@ impl ProjectFigures {
     /// and `totals` (uncertainty added in quadrature does not add across periods, so claims
     /// made by month, quarter and year would be three different figures).
     pub fn claim_period(&self) -> Grouping {
-        match in_force(&self.view.settings, SettingName::ClaimPeriod, NaiveDate::MAX)
-            .map(|s| s.value.as_str())
+        match in_force(
+            &self.view.settings,
+            SettingName::ClaimPeriod,
+            NaiveDate::MAX,
+        )
+        .map(|s| s.value.as_str())
         {
             Some("month") => Grouping::Month,
             Some("quarter") => Grouping::Quarter,
