@@ -86,15 +86,7 @@ fn totals_years_add_up_and_filters_name_what_they_miss() {
     // claimable: the 2026 row shows buffer −100 t and claimable −50 t, and the years add up
     // to the project's line: buffer 0 t, claimable 850 t.
     let l = eor();
-    l.ok(&[
-        "project",
-        "set",
-        "KRE",
-        "--buffer",
-        "10%",
-        "--from",
-        "2025-01-01",
-    ]);
+    l.set("KRE", &["--buffer", "10%", "--from", "2025-01-01"]);
     record(
         &l,
         "injection",
@@ -150,15 +142,7 @@ fn a_loss_is_drawn_on_the_pool_and_a_reversal_counts_in_its_year() {
     // by the reversal. 2026: injected 100 t, surface leakage 300 t → stored −200 t: the year
     // claims nothing and its 200 t loss cancels the 95 t of buffer, then 105 t of claimable.
     let l = eor();
-    l.ok(&[
-        "project",
-        "set",
-        "KRE",
-        "--buffer",
-        "10%",
-        "--from",
-        "2025-01-01",
-    ]);
+    l.set("KRE", &["--buffer", "10%", "--from", "2025-01-01"]);
     let (y25, y26) = (("2025-01-01", "2025-03-31"), ("2026-01-01", "2026-03-31"));
     record(
         &l,

@@ -146,17 +146,17 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
         "--uncertainty",
         "8%",
     ]);
-    l.ok(&[
-        "project",
-        "set",
+    l.set(
         "P",
-        "--buffer",
-        "10%",
-        "--annual-leak",
-        "0.01%",
-        "--horizon",
-        "100",
-    ]);
+        &[
+            "--buffer",
+            "10%",
+            "--annual-leak",
+            "0.01%",
+            "--horizon",
+            "100",
+        ],
+    );
     month(&l, "W1", 1, "1000 t");
     let c = &l.json(&["balance", "P", "--by", "year"])["claims"][0];
     // 1000 t ± 8 % → conservative 920 t; retention (1 − 0.0001)^100 = 0.990049 → 910.846 t;
@@ -189,15 +189,7 @@ fn pool_case(reversal: &str) -> Value {
     let l = Ledger::new();
     project(&l, &[]);
     l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
-    l.ok(&[
-        "project",
-        "set",
-        "P",
-        "--buffer",
-        "10%",
-        "--from",
-        "2025-01-01",
-    ]);
+    l.set("P", &["--buffer", "10%", "--from", "2025-01-01"]);
     // Stored and claimed in 2025; the reversal of March 2026 leaves 2026 at a loss, drawn on
     // the pool 2025 contributed to.
     l.ok(&[

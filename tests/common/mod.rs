@@ -163,6 +163,13 @@ impl Ledger {
         r.out
     }
 
+    /// `project set PROJECT ARGS…`, insisting on exit 0.
+    pub fn set(&self, project: &str, args: &[&str]) -> String {
+        let mut all = vec!["project", "set", project];
+        all.extend_from_slice(args);
+        self.ok(&all)
+    }
+
     /// Runs with `--format json`, insists on exit 0 and parses what it printed.
     pub fn json(&self, args: &[&str]) -> serde_json::Value {
         let mut all = vec!["--format", "json"];
