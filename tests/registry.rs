@@ -182,6 +182,12 @@ fn no_role_can_rewrite_history_through_sql() {
 /// through `registry role add`: TFS's operator, another operator, a verifier, a regulator.
 fn registry_with_roles() -> (Ledger, [String; 4]) {
     let l = Ledger::with_tfs_on(true);
+    let names = roles_on(&l);
+    (l, names)
+}
+
+/// Adds TFS's operator's role, another operator's, a verifier's and a regulator's to `l`.
+fn roles_on(l: &Ledger) -> [String; 4] {
     let db = l.registry.as_ref().unwrap();
     let names = [
         db.role("nsc"),
@@ -201,7 +207,7 @@ fn registry_with_roles() -> (Ledger, [String; 4]) {
         let out = l.ok(&args);
         assert!(out.contains(&format!("created role {name}")), "{out}");
     }
-    (l, names)
+    names
 }
 
 /// The registry as `role` sees it: the same database, connecting as that role.
@@ -401,4 +407,65 @@ fn a_record_kept_waiting_by_a_held_chain_retries_then_gives_up_in_one_line() {
     );
     let (_, n) = psql("postgres", &db.name, "SELECT count(*) FROM entries");
     assert_eq!(n.trim(), "0");
+}
+
+/// TFS's `stored_t` in the regulator's `totals --format json`.
+fn stored_t(l: &Ledger) -> serde_json::Value {
+    let v: serde_json::Value =
+        serde_json::from_str(&l.ok(&["--format", "json", "totals"])).unwrap();
+    let tfs = v.as_array().unwrap().iter().find(|r| r["project"] == "TFS");
+    let stored = tfs.expect("TFS is in the totals")["stored_t"].clone();
+    assert!(stored.is_number() || stored.is_string(), "{stored}");
+    stored
+}
+
+/// An operator keeps TFS in its own ledger file and sends it as bundles: the registry takes
+/// them only from that operator's role, extends its copy with a later bundle, and the regulator
+/// sees the project in its totals as the file reports it.
+#[test]
+fn an_operator_s_bundle_from_its_ledger_file_loads_and_shows_in_the_regulator_s_totals() {
+    if !registry::available() {
+        return;
+    }
+    let file = Ledger::with_tfs_on(false);
+    file.inject("TF-I1", "1200 t", "2026-01-01", "2026-01-31", "jan");
+    let registry = Ledger::unmade(true, "unused.db");
+    registry.ok(&["init"]);
+    let [nsc, other, _, regulator] = roles_on(&registry);
+    let send = |name: &str| {
+        let out = file.dir.path().join(name);
+        file.ok(&["bundle", "export", "TFS", "--out", out.to_str().unwrap()]);
+        out
+    };
+    let load = |role: &str, bundle: &std::path::Path| {
+        as_role(&registry, role).run(&["bundle", "load", bundle.to_str().unwrap()])
+    };
+    let first = send("tfs-1.bundle");
+    let r = load(&other, &first);
+    assert_eq!(r.code, 1, "another operator's role loaded TFS: {}", r.out);
+    assert_eq!(r.err.lines().count(), 1, "one line: {}", r.err);
+    assert!(
+        r.err.contains(&format!("role {other} may not write project TFS")),
+        "{}",
+        r.err
+    );
+    let r = load(&nsc, &first);
+    assert_eq!(r.code, 0, "TFS's operator loads its bundle: {}", r.err);
+    assert!(r.out.contains("1 new entries"), "{}", r.out);
+    let watcher = as_role(&registry, &regulator);
+    assert_eq!(stored_t(&watcher), stored_t(&file));
+
+    file.inject("TF-I1", "900 t", "2026-02-01", "2026-02-28", "feb");
+    let r = load(&nsc, &send("tfs-2.bundle"));
+    assert_eq!(r.code, 0, "the later bundle extends the copy: {}", r.err);
+    assert!(r.out.contains("1 new entries"), "{}", r.out);
+    assert_eq!(stored_t(&watcher), stored_t(&file));
+    assert_eq!(
+        watcher.ok(&["--format", "json", "entries", "TFS"]),
+        file.ok(&["--format", "json", "entries", "TFS"]),
+        "the copy holds the file's entries, v1 bytes and all"
+    );
+    let r = load(&nsc, &first);
+    assert_eq!(r.code, 1, "an older bundle is refused: {}", r.out);
+    watcher.ok(&["verify"]);
 }
