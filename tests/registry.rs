@@ -445,7 +445,8 @@ fn an_operator_s_bundle_from_its_ledger_file_loads_and_shows_in_the_regulator_s_
     assert_eq!(r.code, 1, "another operator's role loaded TFS: {}", r.out);
     assert_eq!(r.err.lines().count(), 1, "one line: {}", r.err);
     assert!(
-        r.err.contains(&format!("role {other} may not write project TFS")),
+        r.err
+            .contains(&format!("role {other} may not write project TFS")),
         "{}",
         r.err
     );
@@ -468,4 +469,9 @@ fn an_operator_s_bundle_from_its_ledger_file_loads_and_shows_in_the_regulator_s_
     let r = load(&nsc, &first);
     assert_eq!(r.code, 1, "an older bundle is refused: {}", r.out);
     watcher.ok(&["verify"]);
+    let listed = watcher.ok(&["--format", "csv", "registry", "operators"]);
+    assert!(
+        listed.contains("Northdeep Storage Cooperative,TFS,saline-aquifer,none,"),
+        "{listed}"
+    );
 }

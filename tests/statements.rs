@@ -148,3 +148,52 @@ fn a_forged_signature_is_caught() {
     assert_eq!(r.code, 3);
     assert!(r.err.contains("signature 1 of project TFS"), "{}", r.err);
 }
+
+/// `registry operators`: each project by operator with its last seal, and whether a
+/// verifier's statement signs it; a project with no seal, and a seal only its operator signed,
+/// say so.
+#[test]
+fn operators_list_each_project_s_last_seal_and_its_verifier_s_statement() {
+    let (l, op, _) = sealed_and_signed();
+    l.ok(&[
+        "project",
+        "add",
+        "KRE",
+        "--name",
+        "Kestrel Ridge EOR",
+        "--method",
+        "eor",
+        "--operator",
+        "Northdeep Storage Cooperative",
+    ]);
+    insta::assert_snapshot!("registry_operators", l.ok(&["registry", "operators"]));
+    let v: serde_json::Value =
+        serde_json::from_str(&l.ok(&["--format", "json", "registry", "operators"])).unwrap();
+    assert_eq!(v[0]["project"], "KRE");
+    assert_eq!(v[0]["last_seal"], "none");
+    assert_eq!(v[1]["project"], "TFS");
+    assert_eq!(v[1]["last_seal"], "2026-Q1");
+    assert_eq!(
+        v[1]["tree_size"], 1,
+        "the seal covers the one injection before it"
+    );
+    assert_eq!(v[1]["verifier_statement"], "yes");
+    // A later seal signed only by the operator carries no verifier's statement.
+    let r = l.inject("TF-I1", "500 t", "2026-04-01", "2026-04-30", "k2");
+    assert_eq!(r.code, 0, "{}", r.err);
+    l.ok(&[
+        "sign",
+        "TFS",
+        "--period",
+        "2026-Q2",
+        "--role",
+        "operator",
+        "--key",
+        &op,
+        "--statement",
+        "Q2 as reported.",
+    ]);
+    let csv = l.ok(&["--format", "csv", "registry", "operators"]);
+    let tfs = csv.lines().find(|r| r.contains(",TFS,")).unwrap();
+    assert!(tfs.contains(",2026-Q2,") && tfs.ends_with(",no"), "{csv}");
+}

@@ -167,7 +167,7 @@ pub enum Command {
     /// Check an inclusion proof without any ledger: exit 0 when it holds, 3 when it does not
     #[command(after_help = "Example: sinkbook check-proof proof.json")]
     CheckProof(proof::CheckProofArgs),
-    /// The shared registry on PostgreSQL: its login roles
+    /// The shared registry on PostgreSQL: its login roles, its operators and their projects
     #[command(
         subcommand,
         after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add audit_vera --verifier"

@@ -1,8 +1,10 @@
-//! The shared registry's own commands: who may write what.
+//! The shared registry's own commands: who may write what, and who keeps which projects.
 
 use super::Context;
+use super::sign::judge_all;
 use crate::error::{Error, Result};
-use crate::report::Report;
+use crate::ledger::signature::Role;
+use crate::report::{Cell, Report, Table, columns};
 use crate::store::RoleKind;
 use clap::{Args, Subcommand};
 
@@ -14,6 +16,12 @@ pub enum RegistryCommand {
         after_help = "Example: sinkbook --db postgres://postgres@127.0.0.1/registry registry role add state_regulator --regulator"
     )]
     Role(RoleCommand),
+    /// Every operator and its projects, each project's last seal and whether a verifier's
+    /// signed statement over that seal checks
+    #[command(
+        after_help = "Example: sinkbook --db postgres://state_regulator@127.0.0.1/registry registry operators"
+    )]
+    Operators,
 }
 
 #[derive(Subcommand, Debug)]
@@ -45,7 +53,75 @@ pub struct RoleAdd {
 pub fn registry(ctx: &Context, c: RegistryCommand) -> Result<Report> {
     match c {
         RegistryCommand::Role(RoleCommand::Add(a)) => role_add(ctx, a),
+        RegistryCommand::Operators => operators(ctx),
     }
+}
+
+/// One line per project, by operator: its last seal, and whether a verifier's statement signs
+/// that seal with a signature that verifies and a seal that still stands (`statements` lists
+/// every statement with its checks).
+fn operators(ctx: &Context) -> Result<Report> {
+    let mut t = Table::new(
+        "operators",
+        "Operators, projects and their last seals".to_string(),
+        columns(&[
+            ("Operator", "operator"),
+            ("Project", "project"),
+            ("Method", "method"),
+            ("Last seal", "last_seal"),
+            ("Sealed (UTC)", "sealed_at"),
+            ("Entries sealed", "tree_size"),
+            ("Verifier's statement", "verifier_statement"),
+        ]),
+    );
+    ctx.open()?.read(|tx| {
+        let mut projects = tx.projects()?;
+        projects.sort_by(|a, b| (&a.operator, &a.code).cmp(&(&b.operator, &b.code)));
+        for p in projects {
+            let Some(seal) = tx.seals(&p.code)?.pop() else {
+                t.push(vec![
+                    Cell::text(&p.operator),
+                    Cell::text(&p.code),
+                    Cell::text(p.method.name()),
+                    Cell::text("none"),
+                    Cell::Empty,
+                    Cell::Empty,
+                    Cell::Empty,
+                ]);
+                continue;
+            };
+            let verifiers: Vec<_> = judge_all(tx, &p.code)?
+                .into_iter()
+                .filter(|j| {
+                    j.statement.signed.seal_seq == seal.seq
+                        && j.statement.signed.role == Role::Verifier
+                })
+                .collect();
+            let statement = match verifiers
+                .iter()
+                .find(|j| j.signature.is_ok() && j.seal.is_ok())
+            {
+                Some(_) => "yes".to_string(),
+                None if verifiers.is_empty() => "no".to_string(),
+                None => format!(
+                    "no: {} signed, none checks (see sinkbook statements {})",
+                    verifiers.len(),
+                    p.code
+                ),
+            };
+            t.push(vec![
+                Cell::text(&p.operator),
+                Cell::text(&p.code),
+                Cell::text(p.method.name()),
+                Cell::text(&seal.label),
+                Cell::text(seal.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+                Cell::Int(seal.tree_size as i64),
+                Cell::text(statement),
+            ]);
+        }
+        Ok(())
+    })?;
+    Ok(Report::default().table(t))
 }
 
 fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {
