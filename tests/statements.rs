@@ -155,17 +155,7 @@ fn a_forged_signature_is_caught() {
 #[test]
 fn operators_list_each_project_s_last_seal_and_its_verifier_s_statement() {
     let (l, op, _) = sealed_and_signed();
-    l.ok(&[
-        "project",
-        "add",
-        "KRE",
-        "--name",
-        "Kestrel Ridge EOR",
-        "--method",
-        "eor",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
+    l.add_kre(&[]);
     insta::assert_snapshot!("registry_operators", l.ok(&["registry", "operators"]));
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "registry", "operators"])).unwrap();

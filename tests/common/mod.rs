@@ -116,6 +116,13 @@ impl Ledger {
     /// A ledger with the EOR project KRE and the sites given as (code, kind).
     pub fn with_kre(sites: &[(&str, &str)]) -> Ledger {
         let l = Ledger::new();
+        l.add_kre(sites);
+        l
+    }
+
+    /// Registers the EOR project KRE with the sites given as (code, kind).
+    pub fn add_kre(&self, sites: &[(&str, &str)]) {
+        let l = self;
         l.ok(&[
             "project",
             "add",
@@ -130,7 +137,6 @@ impl Ledger {
         for (site, kind) in sites {
             l.ok(&["site", "add", "KRE", site, "--kind", kind]);
         }
-        l
     }
 
     pub fn run(&self, args: &[&str]) -> Run {
