@@ -53,8 +53,8 @@ fn produced_uncertainty_comes_from_the_separator_meter_alone() {
     let b = l.json(&["balance", "KRE", "--by", "quarter"]);
     let q = &b["balance"][0];
     assert_eq!(q["produced_t"], 102.0);
-    assert_eq!(q["stored_t"], 898.0);
-    let u = q["stored_u_t"].as_f64().unwrap();
+    assert_eq!(q["sequestered_t"], 898.0);
+    let u = q["sequestered_u_t"].as_f64().unwrap();
     assert!((u - 2.04).abs() < 1e-9, "stored ± {u} t, expected 2.04 t");
 }
 
@@ -73,7 +73,7 @@ fn footnotes_cite_the_equations_the_table_uses() {
     );
     let b = l.json(&["balance", "KRE", "--by", "quarter"]);
     assert_eq!(b["balance"][0]["equation"], "RR-11");
-    assert_eq!(b["balance"][0]["stored_t"], 500.0);
+    assert_eq!(b["balance"][0]["sequestered_t"], 500.0);
     let table = l.ok(&["balance", "KRE", "--by", "quarter"]);
     assert!(table.contains("(RR-1 to RR-3)"), "{table}");
     assert!(!table.contains("RR-1/RR-4"), "{table}");
@@ -111,16 +111,16 @@ fn totals_years_add_up_and_filters_name_what_they_miss() {
     let by_year = l.json(&["totals", "--by", "year"]);
     let rows = by_year.as_array().unwrap();
     let year = |y: &str| rows.iter().find(|r| r["year"] == y).unwrap();
-    assert_eq!(year("2025")["buffer_t"], 100.0);
-    assert_eq!(year("2025")["claimable_t"], 900.0);
-    assert_eq!(year("2026")["buffer_t"], -100.0);
-    assert_eq!(year("2026")["claimable_t"], -50.0);
+    assert_eq!(year("2025")["buffer_held_t"], 100.0);
+    assert_eq!(year("2025")["claimable_after_reversals_t"], 900.0);
+    assert_eq!(year("2026")["buffer_held_t"], -100.0);
+    assert_eq!(year("2026")["claimable_after_reversals_t"], -50.0);
     assert_eq!(year("2026")["reversed_t"], 150.0);
     let all = rows.iter().find(|r| r["project"] == "all").unwrap();
-    assert_eq!(all["buffer_t"], 0.0);
-    assert_eq!(all["claimable_t"], 850.0);
+    assert_eq!(all["buffer_held_t"], 0.0);
+    assert_eq!(all["claimable_after_reversals_t"], 850.0);
     let total = l.json(&["totals"]);
-    assert_eq!(total[0]["claimable_t"], 850.0);
+    assert_eq!(total[0]["claimable_after_reversals_t"], 850.0);
     // --operator matches whatever its case; a filter that matches nothing lists what is known.
     let lower = l.json(&["totals", "--operator", "northdeep storage cooperative"]);
     assert_eq!(lower[0]["project"], "KRE");
@@ -194,16 +194,16 @@ fn a_loss_is_drawn_on_the_pool_and_a_reversal_counts_in_its_year() {
         .iter()
         .find(|r| r["event"].as_str().unwrap().starts_with("loss 2026"))
         .unwrap();
-    assert_eq!(loss["reversal_t"], 200.0);
-    assert_eq!(loss["buffer_cancelled_t"], 95.0);
-    assert_eq!(loss["claimable_cancelled_t"], 105.0);
+    assert_eq!(loss["reversed_t"], 200.0);
+    assert_eq!(loss["cancelled_from_buffer_t"], 95.0);
+    assert_eq!(loss["cancelled_from_claimable_t"], 105.0);
     assert!(
         !pool
             .iter()
             .any(|r| r["event"].as_str().unwrap().contains("2025-06"))
     );
     let t = l.json(&["totals"]);
-    assert_eq!(t[0]["buffer_t"], 0.0);
-    assert_eq!(t[0]["claimable_t"], 750.0); // 855 − 105
+    assert_eq!(t[0]["buffer_held_t"], 0.0);
+    assert_eq!(t[0]["claimable_after_reversals_t"], 750.0); // 855 − 105
     assert_eq!(t[0]["reversed_t"], 50.0);
 }

@@ -22,11 +22,15 @@ fn tonnes(r: &Value, key: &str) -> f64 {
         .unwrap_or_else(|| panic!("{key} missing in {r}"))
 }
 
-/// Each year's stored figure as `balance --by year` gives it: the mass balance's stored_t,
+/// Each year's stored figure as `balance --by year` gives it: Subpart RR's sequestered_t,
 /// a basalt project's stored_t, a weathering project's net_t.
 fn balance_by_year(demo: &Demo, code: &str) -> BTreeMap<String, f64> {
     let v = demo.json(&["balance", code, "--by", "year"]);
-    let key = if code == "EVW" { "net_t" } else { "stored_t" };
+    let key = match code {
+        "EVW" => "net_t",
+        "CRB" => "stored_t",
+        _ => "sequestered_t",
+    };
     rows(&v, "balance")
         .iter()
         .filter(|r| r["period"] != "total")

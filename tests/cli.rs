@@ -214,7 +214,7 @@ fn periods_spanning_quarters_are_split_by_days() {
         serde_json::from_str(&l.ok(&["--format", "json", "balance", "TFS"])).unwrap();
     assert_eq!(b["balance"][0]["injected_t"], 98.5);
     assert_eq!(b["balance"][1]["injected_t"], 886.5);
-    assert_eq!(b["balance"][1]["cumulative_stored_t"], 985.0);
+    assert_eq!(b["balance"][1]["cumulative_sequestered_t"], 985.0);
 }
 
 #[test]

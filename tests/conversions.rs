@@ -42,7 +42,7 @@ fn density_reference_states() {
         ("60F", "1atm", 1.8682),
     ] {
         let v = json(&["density", "--temperature", t, "--pressure", p]);
-        close(v[0]["density_kg_m3"].as_f64().unwrap(), rho, 1e-4);
+        close(v[0]["density_kg_per_m3"].as_f64().unwrap(), rho, 1e-4);
     }
     let v = json(&["density", "--temperature", "40C", "--pressure", "10MPa"]);
     assert_eq!(v[0]["phase"], "supercritical");
@@ -97,7 +97,7 @@ fn conversions_against_references() {
         .unwrap();
     close(eos, reg, 2e-5);
     assert!(
-        json(&["convert", "2.5 MMscf", "--to", "t"])[0]["method"]
+        json(&["convert", "2.5 MMscf", "--to", "t"])[0]["how"]
             .as_str()
             .unwrap()
             .contains("Span & Wagner")
@@ -142,12 +142,12 @@ fn potential_against_references() {
     let v = json(&["potential", "--mineral", "Mg1.8Fe0.2SiO4"]);
     let total = v.as_array().unwrap().last().unwrap();
     assert!(
-        total["carbonate_t_per_t"].as_f64().unwrap()
+        total["carbonate_route_t_co2_per_t"].as_f64().unwrap()
             < json(&["potential", "--mineral", "Mg1.8Fe0.2SiO4", "--reducing"])
                 .as_array()
                 .unwrap()
                 .last()
-                .unwrap()["carbonate_t_per_t"]
+                .unwrap()["carbonate_route_t_co2_per_t"]
                 .as_f64()
                 .unwrap(),
         "Fe counts only when reducing"

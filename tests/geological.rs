@@ -67,7 +67,7 @@ fn rr_11_terms_for_an_eor_project() {
     assert_eq!(y["produced_t"], 306.0);
     assert_eq!(y["equation"], "RR-11");
     // 1280 − 306 − 0 − 0.4 − 1 = 972.6 t
-    assert_eq!(y["stored_t"], 972.6);
+    assert_eq!(y["sequestered_t"], 972.6);
     assert_eq!(y["emissions_t"], 35.0);
 }
 
@@ -78,7 +78,7 @@ fn iso_27916_counts_recycled_once() {
     let y = &b["balance"][0];
     assert_eq!(y["input_t"], 980.0);
     assert_eq!(y["operational_losses_t"], 1.4);
-    assert_eq!(y["complex_losses_t"], 6.0);
+    assert_eq!(y["losses_from_eor_complex_t"], 6.0);
     assert_eq!(y["stored_t"], 972.6);
     assert_eq!(y["recycled_t"], 300.0);
     insta::assert_snapshot!(
@@ -136,7 +136,7 @@ fn volumetric_meters_and_the_meter_table() {
     assert!((e[0]["co2_g"].as_i64().unwrap() - expected).abs() <= 1);
     let m = l.json(&["meters", "TFS", "--year", "2026"]);
     assert_eq!(m[0]["meter"], "FM-101");
-    assert_eq!(m[0]["quantity"], 20000.0);
+    assert_eq!(m[0]["quantity_read"], 20000.0);
     assert_eq!(m[1]["meter_type"], "volumetric");
     assert_eq!(m[1]["co2_fraction_mean"], 0.99);
     insta::assert_snapshot!(

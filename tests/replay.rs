@@ -119,7 +119,7 @@ proptest! {
         let b = replay(&dir.path().join("b.db"), &ops);
         prop_assert_eq!(&a, &b);
         let balance: serde_json::Value = serde_json::from_str(&a.0).unwrap();
-        let stored = balance["balance"][0]["cumulative_stored_t"].as_f64().unwrap_or(0.0);
+        let stored = balance["balance"][0]["cumulative_sequestered_t"].as_f64().unwrap_or(0.0);
         prop_assert_eq!(stored, a.2 as f64 / 1e6);
     }
 }

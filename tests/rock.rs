@@ -137,13 +137,13 @@ fn campaigns_apply_to_co2_injected_before_them() {
     tracer(&l, "CR-M2", "2025-05-10", "0.5", "2.5"); // 1 − 2/10 = 0.8
     let m = l.json(&["mineralization", "CRB"]);
     let c = &m["campaigns"][0];
-    assert!((c["mineralized_fraction"].as_f64().unwrap() - 0.8625).abs() < 1e-12);
+    assert!((c["mineralized_fraction_mean"].as_f64().unwrap() - 0.8625).abs() < 1e-12);
     let sd = ((0.0625f64.powi(2) * 2.0) / 1.0).sqrt();
     assert!((c["mineralized_fraction_sd"].as_f64().unwrap() - sd).abs() < 1e-12);
     let q = &m["mineralization"];
     // Q1 ended before the campaign: 300.5 t × 0.8625 = 259.18125 t → 259 181 250 g.
     assert_eq!(grams(&q[0]["mineralized_t"]), 259_181_250);
-    assert_eq!(grams(&q[0]["dissolved_t"]), 300_500_000 - 259_181_250);
+    assert_eq!(grams(&q[0]["still_dissolved_t"]), 300_500_000 - 259_181_250);
     assert_eq!(q[0]["campaign"], "2025-05-10");
     // Q2 ends after it: not yet sampled, neither mineralized nor dissolved.
     assert_eq!(grams(&q[1]["not_yet_sampled_t"]), 280_250_000);
@@ -151,7 +151,7 @@ fn campaigns_apply_to_co2_injected_before_them() {
     assert_eq!(q[2]["period"], "total");
     for row in q.as_array().unwrap() {
         let parts = grams(&row["mineralized_t"])
-            + grams(&row["dissolved_t"])
+            + grams(&row["still_dissolved_t"])
             + grams(&row["not_yet_sampled_t"]);
         assert_eq!(parts, grams(&row["injected_t"]));
     }
@@ -606,7 +606,7 @@ fn gross_to_net_term_by_term() {
         precipitated - kept_as_carbonate
     );
     assert_eq!(
-        grams(&row["ocean_reequilibration_t"]),
+        grams(&row["ocean_re_equilibration_t"]),
         to_ocean - kept_in_ocean
     );
     // US EPA 2018 truck factor, 0.202 kg per short ton-mile (REFERENCES.md, through a
@@ -748,7 +748,7 @@ fn weathering_table_and_balance_by_year() {
             "strong_acid_t",
             "cation_retention_t",
             "secondary_carbonate_t",
-            "ocean_reequilibration_t",
+            "ocean_re_equilibration_t",
         ]
         .iter()
         .map(|k| grams(&row[*k]))

@@ -213,7 +213,7 @@ fn sealed_periods_refuse_or_take_late_adjustments() {
 
     let after = l.json(&["balance", "TFS", "--by", "quarter"]);
     assert_eq!(
-        before["balance"][0]["stored_t"], after["balance"][0]["stored_t"],
+        before["balance"][0]["sequestered_t"], after["balance"][0]["sequestered_t"],
         "the sealed quarter's figures stay as sealed"
     );
     // Correcting the late difference itself is refused; the sealed entry is corrected again.

@@ -64,8 +64,8 @@ fn readings_of_one_meter_keep_its_relative_uncertainty() {
         month(&l, "W1", m, "50000 t");
     }
     let b = l.json(&["balance", "P", "--by", "year"]);
-    assert_eq!(b["balance"][0]["stored_t"], 600_000.0);
-    assert!((b["balance"][0]["stored_u_pct"].as_f64().unwrap() - 1.0).abs() < 1e-9);
+    assert_eq!(b["balance"][0]["sequestered_t"], 600_000.0);
+    assert!((b["balance"][0]["sequestered_u_pct"].as_f64().unwrap() - 1.0).abs() < 1e-9);
 }
 
 #[test]
@@ -97,7 +97,7 @@ fn different_meters_combine_in_quadrature() {
     month(&l, "W1", 3, "600 kt");
     month(&l, "W2", 3, "400 kt");
     let b = l.json(&["balance", "P", "--by", "year"]);
-    let pct = b["balance"][0]["stored_u_pct"].as_f64().unwrap();
+    let pct = b["balance"][0]["sequestered_u_pct"].as_f64().unwrap();
     assert!((pct - 0.849).abs() < 5e-4, "{pct}");
     // A record's own uncertainty wins over the site's; a calibration changes it from its date.
     l.ok(&[
@@ -128,8 +128,8 @@ fn different_meters_combine_in_quadrature() {
         "2026-07-28",
     ]);
     let q = l.json(&["balance", "P", "--by", "quarter"]);
-    assert!((q["balance"][1]["stored_u_pct"].as_f64().unwrap() - 0.4).abs() < 1e-9);
-    assert!((q["balance"][2]["stored_u_pct"].as_f64().unwrap() - 2.0).abs() < 1e-9);
+    assert!((q["balance"][1]["sequestered_u_pct"].as_f64().unwrap() - 0.4).abs() < 1e-9);
+    assert!((q["balance"][2]["sequestered_u_pct"].as_f64().unwrap() - 2.0).abs() < 1e-9);
 }
 
 #[test]
@@ -234,24 +234,24 @@ fn reversals_cancel_the_buffer_first_then_claimable() {
     let small = pool_case("40 t");
     assert_eq!(
         (
-            small["buffer_cancelled_t"].as_f64(),
-            small["claimable_cancelled_t"].as_f64()
+            small["cancelled_from_buffer_t"].as_f64(),
+            small["cancelled_from_claimable_t"].as_f64()
         ),
         (Some(40.0), Some(0.0))
     );
     let equal = pool_case("100 t");
     assert_eq!(
         (
-            equal["buffer_cancelled_t"].as_f64(),
-            equal["claimable_cancelled_t"].as_f64()
+            equal["cancelled_from_buffer_t"].as_f64(),
+            equal["cancelled_from_claimable_t"].as_f64()
         ),
         (Some(100.0), Some(0.0))
     );
     let large = pool_case("250 t");
     assert_eq!(
         (
-            large["buffer_cancelled_t"].as_f64(),
-            large["claimable_cancelled_t"].as_f64()
+            large["cancelled_from_buffer_t"].as_f64(),
+            large["cancelled_from_claimable_t"].as_f64()
         ),
         (Some(100.0), Some(150.0))
     );
@@ -584,5 +584,5 @@ fn a_basalt_project_reconciles_its_mineralized_tonnes() {
     let r: Value = serde_json::from_slice(&o.stdout).unwrap();
     assert_eq!(r["reconciliation"][0]["ledger_t"], y2025);
     assert_eq!(r["reconciliation"][0]["difference_t"], 0.0);
-    assert_eq!(r["materiality"][0]["ledger_stored_t"], y2025);
+    assert_eq!(r["materiality"][0]["stored_ledger_t"], y2025);
 }

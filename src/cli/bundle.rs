@@ -7,6 +7,7 @@ use crate::bundle::line::{EvidencePart, Import, Trailer};
 use crate::bundle::{Checker, Item, Line};
 use crate::error::{Error, Result};
 use crate::import::bundle_file::each_line;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, Subcommand};
 use std::io::Write;
@@ -180,15 +181,15 @@ pub fn summary_table(title: &str, file: &str, project: &str, t: &Trailer, result
         "bundle",
         title,
         columns(&[
-            ("File", "file"),
-            ("Project", "project"),
-            ("Lines", "lines"),
-            ("Entries", "entries"),
-            ("Tree head", "root_head"),
-            ("", "root"),
-            ("", "chain_hash"),
-            ("", "sha256"),
-            ("Result", "result"),
+            names::FILE,
+            names::PROJECT,
+            names::LINES,
+            names::ENTRIES,
+            names::TREE_HEAD,
+            names::ROOT.programs(),
+            names::CHAIN_HASH.programs(),
+            names::SHA256.programs(),
+            names::RESULT,
         ]),
     );
     table.push(vec![

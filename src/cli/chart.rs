@@ -9,6 +9,7 @@ use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::period::{Bucket, Grouping};
 use crate::report::chart::LineChart;
+use crate::report::names;
 use crate::report::{Report, Table, columns};
 use clap::{Args, ValueEnum};
 use std::collections::BTreeSet;
@@ -64,11 +65,7 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
     let mut t = Table::new(
         "chart",
         "Chart written",
-        columns(&[
-            ("File", "file"),
-            ("Series", "series"),
-            ("Periods", "periods"),
-        ]),
+        columns(&[names::FILE, names::SERIES, names::PERIODS]),
     );
     t.push(vec![
         crate::report::Cell::text(a.out.display().to_string()),
@@ -129,11 +126,7 @@ fn values_table(chart: &LineChart) -> Table {
     let mut t = Table::new(
         "chart_values",
         "Cumulative tonnes plotted",
-        columns(&[
-            ("Period", "period"),
-            ("Series", "series"),
-            ("Cumulative (t)", "cumulative_t"),
-        ]),
+        columns(&[names::PERIOD, names::SERIES, names::CUMULATIVE_T]),
     );
     for (name, values) in &chart.series {
         for (period, v) in chart.periods.iter().zip(values) {

@@ -9,6 +9,7 @@ use crate::accounting::project_view::{ProjectFigures, claim_figures, claims_tota
 use crate::error::{Error, Result};
 use crate::ledger::period::Bucket;
 use crate::quantity::fraction::parse_uncertainty;
+use crate::report::names;
 use crate::report::{Cell, Table, columns};
 use chrono::NaiveDate;
 
@@ -171,14 +172,14 @@ pub fn claims_table(
         "claims",
         format!("From stored to claimable by {by}, project {}", project.code),
         columns(&[
-            ("Period", "period"),
-            ("Stored (t)", "stored_t"),
-            ("Uncertainty deducted (t)", "uncertainty_deduction_t"),
-            ("Conservative (t)", "conservative_t"),
-            ("Retention discount (t)", "durability_discount_t"),
-            ("Durable (t)", "durable_t"),
-            ("Buffer withheld (t)", "buffer_withheld_t"),
-            ("Claimable (t)", "claimable_t"),
+            names::PERIOD,
+            names::STORED_T,
+            names::UNCERTAINTY_DEDUCTION_T,
+            names::CONSERVATIVE_T,
+            names::DURABILITY_DISCOUNT_T,
+            names::DURABLE_T,
+            names::BUFFER_WITHHELD_T,
+            names::CLAIMABLE_T,
         ]),
     );
     for (b, c) in claims {
@@ -212,13 +213,13 @@ pub fn pool_table(figures: &ProjectFigures, pool: &BufferPool, events: &[PoolEve
         "buffer_pool",
         format!("Buffer pool, project {}", project.code),
         columns(&[
-            ("Event", "event"),
-            ("Buffer contributed (t)", "buffer_contributed_t"),
-            ("Claimable issued (t)", "claimable_issued_t"),
-            ("Reversal (t)", "reversal_t"),
-            ("Buffer cancelled (t)", "buffer_cancelled_t"),
-            ("Claimable cancelled (t)", "claimable_cancelled_t"),
-            ("Shortfall (t)", "shortfall_t"),
+            names::EVENT,
+            names::BUFFER_WITHHELD_T,
+            names::CLAIMABLE_T,
+            names::REVERSED_T,
+            names::CANCELLED_FROM_BUFFER_T,
+            names::CANCELLED_FROM_CLAIMABLE_T,
+            names::SHORTFALL_T,
         ]),
     );
     for ev in events {

@@ -7,6 +7,7 @@ use crate::chem::mineral::{CO2_PER_C, Redox, Route, co2_content, uptake};
 use crate::error::{Error, Result};
 use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError, VolumeMass};
 use crate::quantity::{MassReading, MassUnit};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
@@ -70,11 +71,11 @@ pub fn convert(a: ConvertArgs) -> Result<Report> {
         "conversion",
         "Conversion",
         columns(&[
-            ("Quantity", "quantity"),
-            ("Species", "species"),
-            ("Result", "result"),
-            ("Unit", "unit"),
-            ("How", "method"),
+            names::QUANTITY,
+            names::SPECIES,
+            names::RESULT,
+            names::UNIT,
+            names::HOW,
         ]),
     );
     t.push(vec![

@@ -2,6 +2,7 @@
 
 use super::run_line;
 use crate::error::{Error, Result};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
@@ -170,7 +171,7 @@ fn tour_table(db: &str) -> Table {
     let mut t = Table::new(
         "more",
         "The detailed tables",
-        columns(&[("Command", "command"), ("Shows", "shows")]),
+        columns(&[names::COMMAND, names::SHOWS]),
     );
     for (words, shows) in TOUR {
         let words: Vec<String> = words

@@ -5,6 +5,7 @@ use crate::error::{Error, Result};
 use crate::quantity::conditions::{
     PRESSURE_UNITS, TEMPERATURE_UNITS, atmosphere, parse_pressure, parse_temperature,
 };
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 use uom::si::pressure::pascal;
@@ -55,12 +56,12 @@ pub fn density(a: DensityArgs) -> Result<Report> {
         "density",
         "CO2 density",
         columns(&[
-            ("Temperature (K)", "temperature_k"),
-            ("Pressure (MPa)", "pressure_mpa"),
-            ("Density (kg/m³)", "density_kg_m3"),
-            ("Phase", "phase"),
-            ("Z", "compressibility_z"),
-            ("Ideal-gas density (kg/m³)", "ideal_gas_density_kg_m3"),
+            names::TEMPERATURE_K,
+            names::PRESSURE_MPA,
+            names::DENSITY_KG_PER_M3,
+            names::PHASE,
+            names::COMPRESSIBILITY_Z,
+            names::IDEAL_GAS_DENSITY_KG_PER_M3,
         ]),
     );
     table.push(vec![

@@ -9,6 +9,7 @@ use crate::import::meter_csv::ColumnMap;
 use crate::import::plan::{Options, Plan, plan};
 use crate::ledger::{EntryKind, Hash, Site};
 use crate::quantity::volume::DensityMethod;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
@@ -186,14 +187,14 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
             a.meter, a.project
         ),
         columns(&[
-            ("Import", "import"),
-            ("File", "file"),
-            ("Line", "line"),
-            ("Timestamp", "timestamp"),
-            ("Quantity", "quantity"),
-            ("Unit", "unit"),
-            ("CO2 fraction", "co2_fraction"),
-            ("CO2 (t)", "co2_t"),
+            names::IMPORT,
+            names::FILE,
+            names::LINE,
+            names::TIMESTAMP,
+            names::QUANTITY,
+            names::UNIT,
+            names::CO2_FRACTION,
+            names::CO2_T,
         ]),
     );
     for (id, file, w) in found {

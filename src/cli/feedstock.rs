@@ -12,6 +12,7 @@ use crate::accounting::weathering::removal::Cation;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::feedstock::Feedstock;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, Subcommand};
 
@@ -170,21 +171,21 @@ fn list_table(project: &str, list: &[Feedstock], analysed: &[Analysed]) -> Table
         "feedstocks",
         format!("Feedstocks, project {project}"),
         columns(&[
-            ("Code", "code"),
-            ("Oxides", "oxides"),
-            ("", "oxide_unit"),
-            ("Elements", "elements"),
-            ("", "element_unit"),
-            ("Density", "density"),
-            ("d80", "d80"),
-            ("Ca (mol/t)", "ca_mol_per_t"),
-            ("Mg (mol/t)", "mg_mol_per_t"),
-            ("Na (mol/t)", "na_mol_per_t"),
-            ("K (mol/t)", "k_mol_per_t"),
-            ("Ti (mol/kg)", "ti_mol_per_kg"),
-            ("Zr (mol/kg)", "zr_mol_per_kg"),
-            ("Potential (kg CO2/t)", "potential_kg_co2_per_t"),
-            ("Registered (UTC)", "registered_at"),
+            names::CODE,
+            names::OXIDES,
+            names::OXIDE_UNIT.programs(),
+            names::ELEMENTS,
+            names::ELEMENT_UNIT.programs(),
+            names::DENSITY,
+            names::D80,
+            names::CA_MOL_PER_T,
+            names::MG_MOL_PER_T,
+            names::NA_MOL_PER_T,
+            names::K_MOL_PER_T,
+            names::TI_MOL_PER_KG,
+            names::ZR_MOL_PER_KG,
+            names::POTENTIAL_KG_CO2_PER_T,
+            names::REGISTERED_AT,
         ]),
     );
     let given = |pairs: &[(String, String)], unit: &str| {

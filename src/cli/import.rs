@@ -16,6 +16,7 @@ use crate::ledger::append::{Appended, SealRule, append};
 use crate::ledger::{Entry, EntryKind, Reading, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::{BYTES_PER_ENTRY, NewImport, Tx, disk_error, room_for};
 use chrono::NaiveDate;
@@ -292,14 +293,14 @@ impl Summary {
             "import",
             format!("Import into project {project}, by meter"),
             columns(&[
-                ("Meter", "meter"),
-                ("Site", "site"),
-                ("First day", "first_day"),
-                ("Last day", "last_day"),
-                ("Days", "days"),
-                ("Readings", "readings"),
-                ("CO2 (t)", "co2_t"),
-                ("Seq range", "seq_range"),
+                names::METER,
+                names::SITE,
+                names::FIRST_DAY,
+                names::LAST_DAY,
+                names::DAYS,
+                names::READINGS,
+                names::CO2_T,
+                names::SEQ_RANGE,
             ]),
         );
         for ((meter, site), m) in self.by {

@@ -9,6 +9,7 @@ use crate::ledger::correction::effective;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::{Mass, MassReading};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use chrono::Datelike;
 use clap::Args;
@@ -117,17 +118,17 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         "meters",
         format!("Meters by quarter, {}, project {}", a.year, a.project),
         columns(&[
-            ("Meter", "meter"),
-            ("Site", "site"),
-            ("Kind", "kind"),
-            ("Quarter", "quarter"),
-            ("Meter type", "meter_type"),
-            ("Entries", "entries"),
-            ("Quantity read", "quantity"),
-            ("Unit", "quantity_unit"),
-            ("CO2 fraction (mean)", "co2_fraction_mean"),
-            ("Conversion", "conversion"),
-            ("CO2 (t)", "co2_t"),
+            names::METER,
+            names::SITE,
+            names::KIND,
+            names::QUARTER,
+            names::METER_TYPE,
+            names::ENTRIES,
+            names::QUANTITY_READ,
+            names::UNIT,
+            names::CO2_FRACTION_MEAN,
+            names::CONVERSION,
+            names::CO2_T,
         ]),
     );
     for ((meter, bucket), r) in &rows {

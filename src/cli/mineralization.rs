@@ -12,6 +12,7 @@ use crate::accounting::tracer::{CampaignStatistics, Mineralized, OutOfRange};
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::period::Grouping;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
@@ -89,16 +90,16 @@ fn samples_table(figures: &ProjectFigures) -> Table {
         "tracer_samples",
         format!("Tracer samples, project {}", project.code),
         columns(&[
-            ("Date", "date"),
-            ("Well", "site"),
-            ("Tracer ratio X", "tracer_ratio"),
-            ("DIC sample", "dic_sample"),
-            ("DIC background", "dic_background"),
-            ("DIC injectate", "dic_injectate"),
-            ("Unit", "dic_unit"),
-            ("Mineralized fraction", "mineralized_fraction"),
-            ("Finding", "finding"),
-            ("Seq", "seq"),
+            names::DATE,
+            names::WELL,
+            names::TRACER_RATIO,
+            names::DIC_SAMPLE,
+            names::DIC_BACKGROUND,
+            names::DIC_INJECTATE,
+            names::DIC_UNIT,
+            names::MINERALIZED_FRACTION,
+            names::FINDING,
+            names::SEQ,
         ]),
     );
     let mut samples: Vec<&SampleRead> = figures.samples().iter().collect();
@@ -150,14 +151,14 @@ fn campaigns_table(figures: &ProjectFigures) -> Table {
         "campaigns",
         format!("Tracer campaigns, project {}", project.code),
         columns(&[
-            ("Date", "date"),
-            ("Wells", "wells"),
-            ("Mean fraction", "mineralized_fraction"),
-            ("Std dev", "mineralized_fraction_sd"),
-            ("Min", "mineralized_fraction_min"),
-            ("Max", "mineralized_fraction_max"),
-            ("Outside [0, 1]", "out_of_range"),
-            ("Applied", "applied"),
+            names::DATE,
+            names::WELLS,
+            names::MINERALIZED_FRACTION_MEAN,
+            names::MINERALIZED_FRACTION_SD,
+            names::MINERALIZED_FRACTION_MIN,
+            names::MINERALIZED_FRACTION_MAX,
+            names::OUT_OF_RANGE,
+            names::APPLIED,
         ]),
     );
     let latest = campaigns.iter().rev().find(|c| c.fraction().is_some());
@@ -205,18 +206,18 @@ fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
             project.code
         ),
         columns(&[
-            ("Period", "period"),
-            ("Injected (t)", "injected_t"),
-            ("Leakage (t)", "leakage_t"),
-            ("Stored (t)", "stored_t"),
-            ("Campaign", "campaign"),
-            ("Wells", "wells"),
-            ("Fraction (mean)", "mineralized_fraction"),
-            ("Std dev", "mineralized_fraction_sd"),
-            ("Mineralized (t)", "mineralized_t"),
-            ("Still dissolved (t)", "dissolved_t"),
-            ("Not yet sampled (t)", "not_yet_sampled_t"),
-            ("Cumulative mineralized (t)", "cumulative_mineralized_t"),
+            names::PERIOD,
+            names::INJECTED_T,
+            names::SURFACE_LEAKAGE_T,
+            names::STORED_T,
+            names::CAMPAIGN,
+            names::WELLS,
+            names::MINERALIZED_FRACTION_MEAN,
+            names::MINERALIZED_FRACTION_SD,
+            names::MINERALIZED_T,
+            names::STILL_DISSOLVED_T,
+            names::NOT_YET_SAMPLED_T,
+            names::CUMULATIVE_MINERALIZED_T,
         ]),
     );
     for l in &lines {
@@ -296,14 +297,14 @@ pub fn carbonation_balance(figures: &ProjectFigures, grouping: Grouping) -> Resu
             project.code
         ),
         columns(&[
-            ("Period", "period"),
-            ("Dry feed (t)", "fed_t"),
-            ("Product (t)", "product_t"),
-            ("Stored (t)", "stored_t"),
-            ("Cumulative stored (t)", "cumulative_stored_t"),
-            ("Project emissions (t)", "emissions_t"),
-            ("Net (t)", "net_t"),
-            ("Cumulative net (t)", "cumulative_net_t"),
+            names::PERIOD,
+            names::DRY_FEED_T,
+            names::PRODUCT_T,
+            names::STORED_T,
+            names::CUMULATIVE_STORED_T,
+            names::EMISSIONS_T,
+            names::NET_T,
+            names::CUMULATIVE_NET_T,
         ]),
     );
     for l in figures.carbonation(grouping) {

@@ -4,7 +4,8 @@ use crate::chem::formula::Formula;
 use crate::chem::mineral::{Redox, Route, uptake};
 use crate::chem::oxides::{OxideComposition, RenforthParameters, Term, renforth, steinour};
 use crate::error::{Error, Result};
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::names;
+use crate::report::{Cell, Column, Report, Table, columns};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -76,7 +77,7 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
             "steinour",
             "Steinour formula (as used by Huntzinger et al. 2009)".into(),
         ),
-        ("CO2 (wt%)", "co2_wt_pct", 3),
+        (names::CO2_WT_PCT, 3),
         &s.terms,
         s.co2_wt_pct,
     );
@@ -90,7 +91,7 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
             "renforth",
             format!("Modified Steinour formula (Renforth 2019), η = {eta}"),
         ),
-        ("CO2 (kg/t)", "co2_kg_per_t", 1),
+        (names::CO2_KG_PER_T, 1),
         &r.terms,
         r.kg_co2_per_t,
     );
@@ -106,19 +107,14 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
 /// the total.
 fn terms_table(
     (id, title): (&'static str, String),
-    (label, key, decimals): (&'static str, &'static str, usize),
+    (figure, decimals): (Column, usize),
     terms: &[Term],
     total: f64,
 ) -> Table {
     let mut t = Table::new(
         id,
         title,
-        columns(&[
-            ("Term", "term"),
-            ("Given (wt%)", "wt_pct"),
-            ("Coefficient", "coefficient"),
-            (label, key),
-        ]),
+        columns(&[names::TERM, names::GIVEN_WT_PCT, names::COEFFICIENT, figure]),
     );
     for x in terms {
         t.push(vec![
@@ -150,12 +146,12 @@ fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {
         "mineral",
         format!("CO2 uptake of {text} (M = {:.3} g/mol)", carb.molar_mass),
         columns(&[
-            ("Cation", "cation"),
-            ("Charge", "charge"),
-            ("mol per mol", "mol_per_mol"),
-            ("Counted", "counted"),
-            ("Carbonate route (t CO2/t)", "carbonate_t_per_t"),
-            ("Bicarbonate route (t CO2/t)", "bicarbonate_t_per_t"),
+            names::CATION,
+            names::CHARGE,
+            names::MOL_PER_MOL,
+            names::COUNTED,
+            names::CARBONATE_ROUTE_T_CO2_PER_T,
+            names::BICARBONATE_ROUTE_T_CO2_PER_T,
         ]),
     );
     for (c, b) in carb.cations.iter().zip(&bicarb.cations) {

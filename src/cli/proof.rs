@@ -8,6 +8,7 @@ use crate::ledger::canonical::encode;
 use crate::ledger::merkle::{RangeHashes, inclusion_ranges};
 use crate::ledger::proof::{FORMAT, InclusionProof, Proven};
 use crate::ledger::seal::Seal;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 use std::path::PathBuf;
@@ -135,15 +136,15 @@ fn proven_table(p: &Proven, path_len: usize, result: &str) -> Table {
         "inclusion_proof",
         format!("Inclusion proof, project {} seq {}", p.project, p.seq),
         columns(&[
-            ("Project", "project"),
-            ("Seq", "seq"),
-            ("Leaf", "leaf_head"),
-            ("", "leaf_hash"),
-            ("Tree size", "tree_size"),
-            ("Tree head", "root_head"),
-            ("", "root"),
-            ("Path hashes", "audit_path_len"),
-            ("Result", "result"),
+            names::PROJECT,
+            names::SEQ,
+            names::LEAF_HEAD,
+            names::LEAF_HASH.programs(),
+            names::TREE_SIZE,
+            names::TREE_HEAD,
+            names::ROOT.programs(),
+            names::PATH_HASHES,
+            names::RESULT,
         ]),
     );
     t.push(vec![

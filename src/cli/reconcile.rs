@@ -16,6 +16,7 @@ use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::{Decimal, Mass, MassReading, MassUnit};
+use crate::report::names;
 use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
@@ -188,13 +189,13 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
             a.project
         ),
         columns(&[
-            ("Period", "period"),
-            ("Quantity", "quantity"),
-            ("Ledger (t)", "ledger_t"),
-            ("Report (t)", "report_t"),
-            ("Difference (t)", "difference_t"),
-            ("Difference (%)", "difference_pct"),
-            ("Note", "note"),
+            names::PERIOD,
+            names::QUANTITY,
+            names::LEDGER_T,
+            names::REPORT_T,
+            names::DIFFERENCE_T,
+            names::DIFFERENCE_PCT,
+            names::NOTE,
         ]),
     );
     for l in &r.lines {
@@ -226,12 +227,12 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         "materiality",
         format!("Materiality by reporting year, project {}", a.project),
         columns(&[
-            ("Year", "year"),
-            ("Stored, ledger (t)", "ledger_stored_t"),
-            ("Misstatement (t)", "misstatement_t"),
-            ("Threshold (%)", "threshold_pct"),
-            ("Threshold (t)", "threshold_t"),
-            ("Verdict", "verdict"),
+            names::YEAR,
+            names::STORED_LEDGER_T,
+            names::MISSTATEMENT_T,
+            names::THRESHOLD_PCT,
+            names::THRESHOLD_T,
+            names::VERDICT,
         ]),
     );
     let mut material = false;
@@ -281,13 +282,13 @@ fn recompute_table<'a>(
         "recompute",
         format!("Imported entries recomputed from raw readings, project {project}"),
         columns(&[
-            ("Seq", "seq"),
-            ("Meter", "meter"),
-            ("Day", "day"),
-            ("Entry (t)", "entry_t"),
-            ("Readings (t)", "readings_t"),
-            ("Rows", "rows"),
-            ("Result", "result"),
+            names::SEQ,
+            names::METER,
+            names::DAY,
+            names::ENTRY_T,
+            names::READINGS_T,
+            names::ROWS,
+            names::RESULT,
         ]),
     );
     let mut checked = 0;

@@ -13,6 +13,7 @@ use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::volume::DensityMethod;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use chrono::NaiveDate;
@@ -898,14 +899,14 @@ fn recorded_table(s: &SealedEntry) -> Table {
         "entry",
         format!("Entry {} seq {}", e.project, e.seq),
         columns(&[
-            ("Seq", "seq"),
-            ("Kind", "kind"),
-            ("Site", "site"),
-            ("Period", "period"),
-            ("CO2 (t)", "co2_t"),
-            ("Replaces", "corrects"),
-            ("Key", "key"),
-            ("Chain head", "chain_hash"),
+            names::SEQ,
+            names::KIND,
+            names::SITE,
+            names::PERIOD,
+            names::CO2_T,
+            names::CORRECTS,
+            names::KEY,
+            names::CHAIN_HASH,
         ]),
     );
     t.push(vec![

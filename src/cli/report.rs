@@ -17,7 +17,8 @@ use crate::ledger::SealedEntry;
 use crate::ledger::period::Grouping;
 use crate::ledger::seal::{Seal, late_for};
 use crate::report::html::{Page, Section, page};
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::names;
+use crate::report::{Cell, Column, Report, Table, columns};
 use chrono::Datelike;
 use clap::Args;
 use std::path::PathBuf;
@@ -37,7 +38,7 @@ pub struct ReportArgs {
 /// Keeps the rows of a table whose period falls in `year` (a table without a period column is
 /// kept whole). An all-periods total no longer adds up to the rows kept, so it goes too.
 fn within_year(mut t: Table, year: i32) -> Table {
-    let Some(col) = t.columns.iter().position(|c| c.key == "period") else {
+    let Some(col) = t.columns.iter().position(|c| c.key == names::PERIOD.key) else {
         return t;
     };
     let year = year.to_string();
@@ -64,7 +65,7 @@ fn pick(t: &Table, id: &'static str, title: String, keys: &[&str]) -> Table {
     let mut out = Table::new(
         id,
         title,
-        idx.iter().map(|&i| t.columns[i].clone()).collect(),
+        idx.iter().map(|&i| t.columns[i]).collect(),
     );
     for r in &t.rows {
         out.push(idx.iter().map(|&i| r[i].clone()).collect());
@@ -168,13 +169,23 @@ fn sections(
                 "claims" if n == 0 => claims.tables.push(t),
                 "buffer_pool" if n == 0 => pool.tables.push(t),
                 "balance" => {
-                    if t.columns.iter().any(|c| c.key == "stored_u_t") {
+                    // Subpart RR's figure is sequestered, ISO 27916's stored.
+                    let figures = [
+                        [names::STORED_T, names::STORED_U_T, names::STORED_U_PCT],
+                        [
+                            names::SEQUESTERED_T,
+                            names::SEQUESTERED_U_T,
+                            names::SEQUESTERED_U_PCT,
+                        ],
+                    ];
+                    let has = |c: &Column| t.columns.iter().any(|k| k.key == c.key);
+                    if let Some([figure, u, pct]) = figures.iter().find(|f| has(&f[1])) {
                         let title = format!("Uncertainty of the stored figure, {}", t.title);
                         uncertainty.tables.push(pick(
                             &t,
                             "uncertainty",
                             title,
-                            &["period", "stored_t", "stored_u_t", "stored_u_pct"],
+                            &[names::PERIOD.key, figure.key, u.key, pct.key],
                         ));
                     }
                     bal.tables.push(t);
@@ -292,12 +303,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
     let mut t = Table::new(
         "report",
         "Report written",
-        columns(&[
-            ("File", "file"),
-            ("Sections", "sections"),
-            ("Tables", "tables"),
-            ("Bytes", "bytes"),
-        ]),
+        columns(&[names::FILE, names::SECTIONS, names::TABLES, names::BYTES]),
     );
     t.push(vec![
         Cell::text(a.out.display().to_string()),

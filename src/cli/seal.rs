@@ -11,6 +11,7 @@ use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::period::Grouping;
 use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
 use crate::ledger::{Entry, Period, SealedEntry};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use clap::Args;
@@ -101,16 +102,16 @@ pub fn seal_table(project: &str, seals: &[(Seal, SealedEntry)]) -> Table {
         "seals",
         format!("Seals, project {project}"),
         columns(&[
-            ("Seq", "seq"),
-            ("Period", "period"),
-            ("Entries", "tree_size"),
-            ("Tree head", "root_head"),
-            ("", "root"),
-            ("Stored (t)", "stored_t"),
-            ("Conservative (t)", "conservative_t"),
-            ("Claimable (t)", "claimable_t"),
-            ("Sealed (UTC)", "sealed_at"),
-            ("", "chain_hash"),
+            names::SEQ,
+            names::PERIOD,
+            names::TREE_SIZE,
+            names::TREE_HEAD,
+            names::ROOT.programs(),
+            names::STORED_T,
+            names::CONSERVATIVE_T,
+            names::CLAIMABLE_T,
+            names::SEALED_AT,
+            names::CHAIN_HASH.programs(),
         ]),
     );
     for (s, e) in seals {

@@ -9,6 +9,7 @@ use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::{Setting, SettingName, in_force};
 use crate::quantity::Decimal;
 use crate::quantity::fraction::parse_uncertainty;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use chrono::NaiveDate;
 use clap::Args;
@@ -158,11 +159,11 @@ pub fn settings_table(
         "settings",
         format!("Settings, project {project}"),
         columns(&[
-            ("Setting", "setting"),
-            ("Value", "value"),
-            ("In force from", "from"),
-            ("Recorded (UTC)", "recorded_at"),
-            ("In force today", "in_force_today"),
+            names::SETTING,
+            names::VALUE,
+            names::IN_FORCE_FROM,
+            names::RECORDED_AT,
+            names::IN_FORCE_TODAY,
         ]),
     );
     let today = as_of.date_naive();

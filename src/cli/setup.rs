@@ -5,6 +5,7 @@ use crate::error::{Error, Result};
 use crate::ledger::{Method, Project, Site, SiteKind};
 use crate::quantity::area::Area;
 use crate::quantity::fraction::parse_uncertainty;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
 use clap::{Args, Subcommand};
@@ -147,13 +148,13 @@ fn projects_table(projects: &[Project]) -> Table {
         "projects",
         "Projects",
         columns(&[
-            ("Code", "code"),
-            ("Name", "name"),
-            ("Method", "method"),
-            ("Operator", "operator"),
-            ("Permit", "permit_ref"),
-            ("Permitted capacity (t)", "permit_capacity_t"),
-            ("Annual maximum (t)", "permit_annual_t"),
+            names::CODE,
+            names::NAME,
+            names::METHOD,
+            names::OPERATOR,
+            names::PERMIT,
+            names::PERMITTED_CAPACITY_T,
+            names::ANNUAL_MAXIMUM_T,
         ]),
     );
     for p in projects {
@@ -266,11 +267,11 @@ fn sites_table(project: &str, sites: &[Site]) -> Table {
         "sites",
         format!("Sites, project {project}"),
         columns(&[
-            ("Code", "code"),
-            ("Kind", "kind"),
-            ("Area", "area"),
-            ("Uncertainty (95 %)", "uncertainty"),
-            ("Registered (UTC)", "registered_at"),
+            names::CODE,
+            names::KIND,
+            names::AREA,
+            names::UNCERTAINTY_95_PCT,
+            names::REGISTERED_AT,
         ]),
     );
     for s in sites {

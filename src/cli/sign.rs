@@ -11,6 +11,7 @@ use crate::ledger::signature::{
     Role, Signed, Statement, fingerprint, hex, key_file_text, parse_key_file, sign as sign_with,
 };
 use crate::ledger::{Hash, SealedEntry};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use clap::{Args, Subcommand, ValueEnum};
@@ -70,10 +71,7 @@ fn key_table(public_key: &[u8; 32], file: &Path) -> Table {
     let mut t = Table::new(
         "key",
         format!("Key {}", file.display()),
-        columns(&[
-            ("Public key (ed25519)", "public_key"),
-            ("Fingerprint", "fingerprint"),
-        ]),
+        columns(&[names::PUBLIC_KEY, names::FINGERPRINT]),
     );
     t.push(vec![
         Cell::text(hex(public_key)),
@@ -281,19 +279,19 @@ fn statements_table(project: &str, judged: &[Judged]) -> Table {
         "statements",
         format!("Signed statements, project {project}"),
         columns(&[
-            ("Seq", "seq"),
-            ("Period", "period"),
-            ("Role", "role"),
-            ("Key", "fingerprint"),
-            ("", "public_key"),
-            ("Statement", "statement"),
-            ("Signed (UTC)", "signed_at"),
-            ("Seal", "seal_seq"),
-            ("", "tree_size"),
-            ("", "root"),
-            ("Signature", "signature_check"),
-            ("Seal still matches", "seal_matches"),
-            ("", "signature"),
+            names::SEQ,
+            names::PERIOD,
+            names::ROLE,
+            names::FINGERPRINT,
+            names::PUBLIC_KEY.programs(),
+            names::STATEMENT,
+            names::SIGNED_AT,
+            names::SEAL_SEQ,
+            names::TREE_SIZE.programs(),
+            names::ROOT.programs(),
+            names::SIGNATURE_CHECK,
+            names::SEAL_MATCHES,
+            names::SIGNATURE.programs(),
         ]),
     );
     for j in judged {

@@ -8,6 +8,7 @@ use super::view::load;
 use crate::accounting::project_view::{ProjectFigures, TotalsLine};
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use chrono::{DateTime, NaiveDate, Utc};
 use clap::Args;
@@ -99,20 +100,20 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             None => "Totals across projects".to_string(),
         },
         columns(&[
-            ("Project", "project"),
-            ("Year", "year"),
-            ("Method", "method"),
-            ("Operator", "operator"),
-            ("Permit", "permit_ref"),
-            ("Received (t)", "received_t"),
-            ("Injected (t)", "injected_t"),
-            ("Stored (t)", "stored_t"),
-            ("Conservative (t)", "conservative_t"),
-            ("Durable (t)", "durable_t"),
-            ("Buffer (t)", "buffer_t"),
-            ("Claimable (t)", "claimable_t"),
-            ("Reversed (t)", "reversed_t"),
-            ("Permit headroom (t)", "headroom_t"),
+            names::PROJECT,
+            names::YEAR,
+            names::METHOD,
+            names::OPERATOR,
+            names::PERMIT,
+            names::RECEIVED_T,
+            names::INJECTED_T,
+            names::STORED_T,
+            names::CONSERVATIVE_T,
+            names::DURABLE_T,
+            names::BUFFER_HELD_T,
+            names::CLAIMABLE_AFTER_REVERSALS_T,
+            names::REVERSED_T,
+            names::HEADROOM_T,
         ]),
     );
     let mut all = TotalsLine::default();

@@ -5,6 +5,7 @@ use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::ledger::seal_check::SealCheck;
 use crate::ledger::{EntryKind, Project};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use clap::Args;
@@ -45,14 +46,14 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         "verify",
         "Ledger verification",
         columns(&[
-            ("Project", "project"),
-            ("Sites", "sites"),
-            ("Entries", "entries"),
-            ("Seals", "seals"),
-            ("Statements", "statements"),
-            ("Chain head", "chain_head"),
-            ("", "chain_hash"),
-            ("Result", "result"),
+            names::PROJECT,
+            names::SITES,
+            names::ENTRIES,
+            names::SEALS,
+            names::STATEMENTS,
+            names::CHAIN_HEAD,
+            names::CHAIN_HASH.programs(),
+            names::RESULT,
         ]),
     );
     store.read(|tx| {

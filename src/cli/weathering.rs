@@ -17,6 +17,7 @@ use crate::accounting::weathering::three_end_member::Resolution;
 use crate::error::{Error, Result};
 use crate::ledger::period::Grouping;
 use crate::ledger::{Method, Project, SiteKind};
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
@@ -244,24 +245,24 @@ fn campaign_table(
             project.code
         ),
         columns(&[
-            ("Field", "field"),
-            ("Sampled", "sampled"),
-            ("", "baseline"),
-            ("Cores (seq)", "cores"),
-            ("Feedstock", "feedstock"),
-            ("Applied (t)", "applied_t"),
-            ("Rate (t/ha)", "rate_t_per_ha"),
-            ("Found (t/ha)", "found_t_per_ha"),
-            ("Potential (t)", "potential_t"),
-            ("Dissolved", "dissolved_fraction"),
-            ("Gross (t)", "gross_t"),
-            ("Strong acid (t)", "strong_acid_t"),
-            ("Cation retention (t)", "cation_retention_t"),
-            ("Secondary carbonate (t)", "secondary_carbonate_t"),
-            ("Ocean re-equilibration (t)", "ocean_reequilibration_t"),
-            ("Emissions (t)", "emissions_t"),
-            ("Net (t)", "net_t"),
-            ("", "finding"),
+            names::FIELD,
+            names::SAMPLED,
+            names::BASELINE.programs(),
+            names::CORES_SEQ,
+            names::FEEDSTOCK,
+            names::APPLIED_T,
+            names::RATE_T_PER_HA,
+            names::FOUND_T_PER_HA,
+            names::POTENTIAL_T,
+            names::DISSOLVED_FRACTION,
+            names::GROSS_T,
+            names::STRONG_ACID_T,
+            names::CATION_RETENTION_T,
+            names::SECONDARY_CARBONATE_T,
+            names::OCEAN_RE_EQUILIBRATION_T,
+            names::EMISSIONS_T,
+            names::NET_T,
+            names::FINDING.programs(),
         ]),
     );
     let mut findings = Vec::new();
@@ -349,17 +350,17 @@ pub fn balance(figures: &ProjectFigures, grouping: Grouping) -> Result<Report> {
         "balance",
         format!("Enhanced weathering by {by}, project {}", project.code),
         columns(&[
-            ("Period", "period"),
-            ("Applied (t)", "applied_t"),
-            ("Gross (t)", "gross_t"),
-            ("Strong acid (t)", "strong_acid_t"),
-            ("Cation retention (t)", "cation_retention_t"),
-            ("Secondary carbonate (t)", "secondary_carbonate_t"),
-            ("Ocean re-equilibration (t)", "ocean_reequilibration_t"),
-            ("Removal (t)", "removal_t"),
-            ("Emissions (t)", "emissions_t"),
-            ("Net (t)", "net_t"),
-            ("Cumulative net (t)", "cumulative_net_t"),
+            names::PERIOD,
+            names::APPLIED_T,
+            names::GROSS_T,
+            names::STRONG_ACID_T,
+            names::CATION_RETENTION_T,
+            names::SECONDARY_CARBONATE_T,
+            names::OCEAN_RE_EQUILIBRATION_T,
+            names::REMOVAL_T,
+            names::EMISSIONS_T,
+            names::NET_T,
+            names::CUMULATIVE_NET_T,
         ]),
     );
     for r in &roll {

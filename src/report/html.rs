@@ -244,17 +244,13 @@ fn write_table(out: &mut String, t: &Table) -> std::fmt::Result {
 mod tests {
     use super::*;
     use crate::quantity::Mass;
-    use crate::report::columns;
+    use crate::report::{columns, names};
 
     fn sample() -> Page {
         let mut t = Table::new(
             "balance",
             "Mass <balance> & more",
-            columns(&[
-                ("Period", "period"),
-                ("Stored (t)", "stored_t"),
-                ("", "stored_g"),
-            ]),
+            columns(&[names::PERIOD, names::STORED_T, names::STORED_G.programs()]),
         );
         t.push(vec![
             Cell::text("2026-Q1"),

@@ -4,6 +4,7 @@ pub mod chart;
 mod fit;
 pub mod html;
 pub mod layout;
+pub mod names;
 mod people;
 pub mod render;
 pub mod table;

@@ -129,19 +129,19 @@ pub fn report(r: &Report, layout: Layout) -> String {
 mod tests {
     use super::*;
     use crate::quantity::Mass;
-    use crate::report::{Cell, columns};
+    use crate::report::{Cell, columns, names};
 
     fn wide_table() -> Table {
         let mut t = Table::new(
             "balance",
             "Mass balance by quarter, project TFS",
             columns(&[
-                ("Period", "period"),
-                ("Injected (t)", "injected_t"),
-                ("Surface leakage (t)", "surface_leakage_t"),
-                ("Cumulative sequestered (t)", "cumulative_sequestered_t"),
-                ("Headroom (t)", "headroom_t"),
-                ("", "detail_g"),
+                names::PERIOD,
+                names::INJECTED_T,
+                names::SURFACE_LEAKAGE_T,
+                names::CUMULATIVE_SEQUESTERED_T,
+                names::HEADROOM_T,
+                names::STORED_G.programs(),
             ]),
         );
         for (p, g) in [("2026-Q1", 166_108_635_000), ("2026-Q2", 2_333_891_365_123)] {

@@ -123,13 +123,21 @@ fn json_rows(t: &Table) -> Value {
     )
 }
 
-/// One table: an array of row objects; several: an object of table id → rows.
+/// One table: an array of row objects; several: an object of table id → rows; several that
+/// share an id (the demo's balance of each project): an array of {table, title, rows}, so
+/// none is lost.
 fn json(r: &Report) -> String {
+    let ids: std::collections::HashSet<&str> = r.tables.iter().map(|t| t.id).collect();
     let v = match r.tables.as_slice() {
         [one] => json_rows(one),
-        many => Value::Object(
+        many if ids.len() == many.len() => Value::Object(
             many.iter()
                 .map(|t| (t.id.to_string(), json_rows(t)))
+                .collect(),
+        ),
+        many => Value::Array(
+            many.iter()
+                .map(|t| serde_json::json!({"table": t.id, "title": t.title, "rows": json_rows(t)}))
                 .collect(),
         ),
     };

@@ -37,7 +37,8 @@ impl Cell {
 }
 
 /// A column: the label people read (with its unit) and the key programs read (carrying it too).
-#[derive(Debug, Clone, PartialEq)]
+/// Every column is a name from [`super::names`].
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Column {
     pub label: &'static str,
     pub key: &'static str,
@@ -45,16 +46,27 @@ pub struct Column {
     pub people: bool,
 }
 
-/// Shorthand for a column list; a label of "" marks a column for programs only.
-pub fn columns(pairs: &[(&'static str, &'static str)]) -> Vec<Column> {
-    pairs
-        .iter()
-        .map(|&(label, key)| Column {
+impl Column {
+    pub const fn new(label: &'static str, key: &'static str) -> Column {
+        Column {
             label,
             key,
-            people: !label.is_empty(),
-        })
-        .collect()
+            people: true,
+        }
+    }
+
+    /// The same name, in JSON and CSV only.
+    pub const fn programs(self) -> Column {
+        Column {
+            people: false,
+            ..self
+        }
+    }
+}
+
+/// A table's columns, in order.
+pub fn columns(names: &[Column]) -> Vec<Column> {
+    names.to_vec()
 }
 
 /// A titled table with notes printed beneath it.
