@@ -5,7 +5,7 @@
 
 mod common;
 
-use common::{Ledger, NOW, Run};
+use common::{Ledger, Run};
 use serde_json::Value;
 use sinkbook::report::names;
 
@@ -228,20 +228,5 @@ fn writing_commands_name_their_tables_too() {
     );
     assert_eq!(tables, 1);
     // The short demo, in a temporary ledger of its own.
-    let demo = |args: &[&str]| {
-        let o = assert_cmd::Command::cargo_bin("sinkbook")
-            .unwrap()
-            .env("SINKBOOK_NOW", NOW)
-            .env_remove("SINKBOOK_DB")
-            .env_remove("COLUMNS")
-            .args(args)
-            .output()
-            .unwrap();
-        Run {
-            code: o.status.code().unwrap_or(-1),
-            out: String::from_utf8(o.stdout).unwrap(),
-            err: String::from_utf8(o.stderr).unwrap(),
-        }
-    };
-    assert!(check(&demo, &["demo"]) > 5);
+    assert!(check(&common::run_without_ledger, &["demo"]) > 5);
 }

@@ -62,11 +62,7 @@ fn pick(t: &Table, id: &'static str, title: String, keys: &[&str]) -> Table {
         .iter()
         .filter_map(|k| t.columns.iter().position(|c| c.key == *k))
         .collect();
-    let mut out = Table::new(
-        id,
-        title,
-        idx.iter().map(|&i| t.columns[i]).collect(),
-    );
+    let mut out = Table::new(id, title, idx.iter().map(|&i| t.columns[i]).collect());
     for r in &t.rows {
         out.push(idx.iter().map(|&i| r[i].clone()).collect());
     }

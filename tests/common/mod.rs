@@ -40,6 +40,29 @@ pub struct Run {
     pub err: String,
 }
 
+impl From<std::process::Output> for Run {
+    fn from(o: std::process::Output) -> Run {
+        Run {
+            code: o.status.code().unwrap_or(-1),
+            out: String::from_utf8(o.stdout).unwrap(),
+            err: String::from_utf8(o.stderr).unwrap(),
+        }
+    }
+}
+
+/// Runs sinkbook without a ledger (`demo` makes its own, `convert` needs none), clock pinned.
+pub fn run_without_ledger(args: &[&str]) -> Run {
+    let o = Command::cargo_bin("sinkbook")
+        .unwrap()
+        .env("SINKBOOK_NOW", NOW)
+        .env_remove("SINKBOOK_DB")
+        .env_remove("COLUMNS")
+        .args(args)
+        .output()
+        .unwrap();
+    Run::from(o)
+}
+
 impl Ledger {
     /// A new, initialised, empty ledger.
     pub fn new() -> Ledger {
@@ -155,11 +178,7 @@ impl Ledger {
             .args(args)
             .output()
             .unwrap();
-        Run {
-            code: o.status.code().unwrap_or(-1),
-            out: String::from_utf8(o.stdout).unwrap(),
-            err: String::from_utf8(o.stderr).unwrap(),
-        }
+        Run::from(o)
     }
 
     /// Runs and insists on exit 0; returns stdout.
