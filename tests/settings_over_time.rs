@@ -53,8 +53,8 @@ fn a_buffer_from_april_leaves_a_january_claim_whole() {
     // The totals make their claims the same way: 39.4 t of buffer, 985 + 354.6 = 1 339.6 t.
     let t = l.json(&["totals"]);
     let tfs = &t.as_array().unwrap()[0];
-    assert_eq!(tfs["buffer_t"], 39.4);
-    assert_eq!(tfs["claimable_t"], 1339.6);
+    assert_eq!(tfs["buffer_held_t"], 39.4);
+    assert_eq!(tfs["claimable_after_reversals_t"], 1339.6);
 }
 
 #[test]
@@ -81,7 +81,7 @@ fn setting_no_buffer_in_august_keeps_what_was_withheld() {
         .find(|r| r["event"] == "pool now")
         .unwrap()
         .clone();
-    assert_eq!(now["buffer_contributed_t"], 98.5);
+    assert_eq!(now["buffer_withheld_t"], 98.5);
 }
 
 #[test]
