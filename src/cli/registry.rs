@@ -4,6 +4,7 @@ use super::Context;
 use super::sign::judge_all;
 use crate::error::{Error, Result};
 use crate::ledger::signature::Role;
+use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::RoleKind;
 use clap::{Args, Subcommand};
@@ -65,13 +66,13 @@ fn operators(ctx: &Context) -> Result<Report> {
         "operators",
         "Operators, projects and their last seals".to_string(),
         columns(&[
-            ("Operator", "operator"),
-            ("Project", "project"),
-            ("Method", "method"),
-            ("Last seal", "last_seal"),
-            ("Sealed (UTC)", "sealed_at"),
-            ("Entries sealed", "tree_size"),
-            ("Verifier's statement", "verifier_statement"),
+            names::OPERATOR,
+            names::PROJECT,
+            names::METHOD,
+            names::LAST_SEAL,
+            names::SEALED_AT,
+            names::TREE_SIZE,
+            names::VERIFIER_STATEMENT,
         ]),
     );
     ctx.open()?.read(|tx| {

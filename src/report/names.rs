@@ -105,6 +105,7 @@ names! {
     KEY = "Key", "key";
     KIND = "Kind", "kind";
     LAST_DAY = "Last day", "last_day";
+    LAST_SEAL = "Last seal", "last_seal";
     LEAF_HASH = "Leaf hash", "leaf_hash";
     LEAF_HEAD = "Leaf head", "leaf_head";
     LEAKS_AND_VENTS_INJECTION_T = "Leaks and vents, injection (t)", "leaks_and_vents_injection_t";
@@ -224,6 +225,7 @@ names! {
     UNIT = "Unit", "unit";
     VALUE = "Value", "value";
     VERDICT = "Verdict", "verdict";
+    VERIFIER_STATEMENT = "Verifier statement", "verifier_statement";
     WELL = "Well", "well";
     WELLS = "Wells", "wells";
     YEAR = "Year", "year";
