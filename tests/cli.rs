@@ -180,17 +180,7 @@ fn corrections_replace_and_can_be_corrected() {
 fn correcting_an_entry_of_another_project_is_refused() {
     let l = Ledger::with_tfs();
     sample(&l);
-    l.ok(&[
-        "project",
-        "add",
-        "KRE",
-        "--name",
-        "Kestrel Ridge EOR",
-        "--method",
-        "eor",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
+    l.add_kre(&[]);
     let r = l.run(&["correct", "KRE", "2", "--mass", "1 t", "--reason", "x"]);
     assert_eq!(r.code, 1);
     assert!(

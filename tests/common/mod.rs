@@ -145,8 +145,7 @@ impl Ledger {
 
     /// Registers the EOR project KRE with the sites given as (code, kind).
     pub fn add_kre(&self, sites: &[(&str, &str)]) {
-        let l = self;
-        l.ok(&[
+        self.ok(&[
             "project",
             "add",
             "KRE",
@@ -158,7 +157,7 @@ impl Ledger {
             "Northdeep Storage Cooperative",
         ]);
         for (site, kind) in sites {
-            l.ok(&["site", "add", "KRE", site, "--kind", kind]);
+            self.ok(&["site", "add", "KRE", site, "--kind", kind]);
         }
     }
 
