@@ -21,7 +21,7 @@ fn op() -> impl Strategy<Value = Op> {
 }
 
 fn line(db: &Path, words: &[&str]) -> String {
-    let now = DateTime::parse_from_rfc3339("2026-12-01T09:00:00Z")
+    let now = DateTime::parse_from_rfc3339("2027-01-15T09:00:00Z")
         .unwrap()
         .to_utc();
     let words: Vec<String> = words.iter().map(|w| w.to_string()).collect();

@@ -155,6 +155,8 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
             "0.01%",
             "--horizon",
             "100",
+            "--from",
+            "2026-01-01",
         ],
     );
     month(&l, "W1", 1, "1000 t");
@@ -180,7 +182,7 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
         "{human}"
     );
     // Temporary storage in tonne-years (Moura-Costa & Wilson 2000): 20 of 55 years → 363.64 t per 1000.
-    l.ok(&["project", "set", "P", "--years-held", "20"]);
+    l.set("P", &["--years-held", "20", "--from", "2026-01-01"]);
     let t = &l.json(&["balance", "P", "--by", "year"])["claims"][0];
     assert!((t["durable_t"].as_f64().unwrap() - 920.0 * 20.0 / 55.0).abs() < 1e-6);
 }
@@ -274,12 +276,12 @@ fn totals_as_of_reproduce_an_earlier_table_byte_for_byte() {
         "1%",
     ]);
     month(&l, "W1", 1, "1000 t");
-    let then = l.ok(&["totals", "--as-of", "2026-12-01"]);
-    // Later entries, a correction, a new setting and a new project, all recorded on 2 December.
+    let then = l.ok(&["totals", "--as-of", "2027-01-15"]);
+    // Later entries, a correction, a new setting and a new project, all recorded on 16 January.
     let later = |args: &[&str]| {
         let o = assert_cmd::Command::cargo_bin("sinkbook")
             .unwrap()
-            .env("SINKBOOK_NOW", "2026-12-02T10:00:00Z")
+            .env("SINKBOOK_NOW", "2027-01-16T10:00:00Z")
             .arg("--db")
             .arg(&l.path)
             .args(args)
@@ -315,7 +317,7 @@ fn totals_as_of_reproduce_an_earlier_table_byte_for_byte() {
         "--operator",
         "Other Operator",
     ]);
-    assert_eq!(l.ok(&["totals", "--as-of", "2026-12-01"]), then);
+    assert_eq!(l.ok(&["totals", "--as-of", "2027-01-15"]), then);
     let now = l.json(&["totals"]);
     assert_eq!(now[0]["stored_t"], 1400.0);
     let filtered = l.json(&["totals", "--operator", "Other Operator"]);

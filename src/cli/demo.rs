@@ -194,7 +194,12 @@ pub struct DemoArgs {
     full: bool,
 }
 
+/// The sample projects play the year 2026 to its end (entries dated in December, the year sealed),
+/// so the demo records them as of this time, or at the real clock once it is later.
+const DEMO_CLOCK: &str = "2027-01-15T09:00:00Z";
+
 pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Report> {
+    let now = now.max(DateTime::parse_from_rfc3339(DEMO_CLOCK).map_or(now, |t| t.to_utc()));
     let (mut report, place) = match db {
         Some(path) => {
             let shown = path.display().to_string();
@@ -213,7 +218,10 @@ pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Rep
     };
     report.lines.insert(
         0,
-        format!("Demo ledger built {place} from the sample projects (invented data, see sample-projects/README.md)."),
+        format!(
+            "Demo ledger built {place} from the sample projects (invented data, see sample-projects/README.md), recorded as of {}.",
+            now.format("%Y-%m-%d %H:%M UTC")
+        ),
     );
     Ok(report)
 }

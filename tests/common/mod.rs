@@ -7,7 +7,7 @@ pub mod registry;
 use assert_cmd::Command;
 use std::path::PathBuf;
 
-pub const NOW: &str = "2026-12-01T09:00:00Z";
+pub const NOW: &str = "2027-01-15T09:00:00Z";
 
 /// A reference check whose tool is missing: with `CI=true` a failure that names the tool and
 /// how to install it (a check that did not run must not pass); elsewhere a printed skip.
