@@ -144,7 +144,7 @@ fn a_later_bundle_extends_the_copy_and_a_fork_is_refused() {
 
     // The operator goes on: a new site, a setting, more entries.
     operator.ok(&["site", "add", "TFS", "TF-I3", "--kind", "injection-well"]);
-    operator.ok(&["project", "set", "TFS", "--annual-leak", "0.01%"]);
+    operator.ok(&["project", "set", "TFS", "--assumed-annual-loss", "0.01%"]);
     let r = operator.inject("TF-I3", "1500 t", "2026-06-01", "2026-06-30", "later");
     assert_eq!(r.code, 0, "{}", r.err);
     let b2 = export(&operator, "TFS", "b2.bundle");
@@ -166,7 +166,7 @@ fn a_later_bundle_extends_the_copy_and_a_fork_is_refused() {
     // A fork: the same beginning, then other entries, more of them than the copy holds.
     let fork = small_tfs();
     fork.ok(&["site", "add", "TFS", "TF-I3", "--kind", "injection-well"]);
-    fork.ok(&["project", "set", "TFS", "--annual-leak", "0.01%"]);
+    fork.ok(&["project", "set", "TFS", "--assumed-annual-loss", "0.01%"]);
     for (i, mass) in ["1499 t", "10 t"].iter().enumerate() {
         let r = fork.inject(
             "TF-I3",

@@ -109,7 +109,7 @@ fn a_backdated_setting_is_said_so_and_never_reaches_into_a_sealed_period() {
     );
     inject(&l, "1000 t", "2026-01-01", "2026-01-31");
     assert_eq!(claim(&l, "2026"), (985.0, 98.5, 886.5));
-    let note = "Backdated setting: buffer = 0.1 recorded 2026-04-15 takes effect from 2026-01-01; claim period 2026 uses it.";
+    let note = "Backdated setting: buffer = 10 % recorded 2026-04-15 takes effect from 2026-01-01; claim period 2026 uses it.";
     let balance = l.ok(&["balance", "TFS"]);
     assert!(balance.contains(note), "{balance}");
     let totals = l.ok(&["totals"]);
@@ -151,4 +151,57 @@ fn a_backdated_setting_is_said_so_and_never_reaches_into_a_sealed_period() {
     let r = l.run(&["project", "set", "TFS", "--claim-period", "quarter"]);
     assert_eq!(r.code, 1, "{}", r.out);
     assert!(r.err.contains("--claim-period"), "{}", r.err);
+}
+
+#[test]
+fn settings_show_as_given_under_the_name_of_what_they_are() {
+    // The retention model's yearly loss is an assumption, so it is set and shown as one; the
+    // option's earlier spelling still records the same setting. Shares show in per cent
+    // (0.01 % stored as the exact decimal 0.0001), horizons in years.
+    let l = Ledger::with_tfs();
+    l.set(
+        "TFS",
+        &[
+            "--assumed-annual-loss",
+            "0.01%",
+            "--buffer",
+            "5%",
+            "--from",
+            "2026-01-01",
+        ],
+    );
+    l.set(
+        "TFS",
+        &[
+            "--annual-leak",
+            "0.02%",
+            "--horizon",
+            "100",
+            "--from",
+            "2026-07-01",
+        ],
+    );
+    let rows = l.json(&["project", "show", "TFS"])["settings"].clone();
+    let shown: Vec<(String, String, String)> = rows
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| {
+            let s = |k: &str| r[k].as_str().unwrap().to_string();
+            (s("setting"), s("value"), s("in_force_from"))
+        })
+        .collect();
+    let want = |a: &str, b: &str, c: &str| (a.to_string(), b.to_string(), c.to_string());
+    assert_eq!(
+        shown,
+        vec![
+            want("buffer", "5 %", "2026-01-01"),
+            want("assumed annual loss", "0.01 %", "2026-01-01"),
+            want("assumed annual loss", "0.02 %", "2026-07-01"),
+            want("horizon", "100 years", "2026-07-01"),
+        ]
+    );
+    let help = l.ok(&["project", "set", "--help"]);
+    assert!(help.contains("--assumed-annual-loss"), "{help}");
+    assert!(!help.contains("--annual-leak"), "{help}");
 }

@@ -151,7 +151,7 @@ fn the_chain_from_stored_to_claimable_and_the_deduction_rule() {
         &[
             "--buffer",
             "10%",
-            "--annual-leak",
+            "--assumed-annual-loss",
             "0.01%",
             "--horizon",
             "100",

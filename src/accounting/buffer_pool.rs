@@ -42,7 +42,7 @@ pub struct Reversal {
 pub struct BufferPool {
     contributed: Mass,
     cancelled: Mass,
-    claimable_issued: Mass,
+    claimable_counted: Mass,
     claimable_cancelled: Mass,
     shortfall: Mass,
 }
@@ -52,7 +52,7 @@ impl BufferPool {
         Self::default()
     }
 
-    /// Adds one claim's buffer contribution and the claimable tonnes issued with it.
+    /// Adds one claim's buffer contribution and the claimable tonnes counted with it.
     pub fn add_claim(
         &mut self,
         buffer_withheld: Mass,
@@ -67,9 +67,9 @@ impl BufferPool {
             }
         }
         let contributed = add(self.contributed, buffer_withheld, "buffer contributed")?;
-        let claimable_issued = add(self.claimable_issued, claimable, "claimable issued")?;
+        let claimable_counted = add(self.claimable_counted, claimable, "claimable counted")?;
         self.contributed = contributed;
-        self.claimable_issued = claimable_issued;
+        self.claimable_counted = claimable_counted;
         Ok(())
     }
 
@@ -82,7 +82,7 @@ impl BufferPool {
         let rest = loss - buffer_cancelled;
         let claimable_cancelled = rest.min(self.claimable_left());
         let shortfall = rest - claimable_cancelled;
-        // Only the shortfall total can outgrow what was contributed and issued.
+        // Only the shortfall total can outgrow what was contributed and counted.
         self.shortfall = add(self.shortfall, shortfall, "shortfall")?;
         self.cancelled += buffer_cancelled;
         self.claimable_cancelled += claimable_cancelled;
@@ -109,8 +109,9 @@ impl BufferPool {
         self.contributed - self.cancelled
     }
 
-    pub fn claimable_issued(&self) -> Mass {
-        self.claimable_issued
+    /// Claimable tonnes counted by the claims so far.
+    pub fn claimable_counted(&self) -> Mass {
+        self.claimable_counted
     }
 
     /// Claimable tonnes cancelled once the pool ran dry.
@@ -118,9 +119,9 @@ impl BufferPool {
         self.claimable_cancelled
     }
 
-    /// Claimable tonnes still standing: issued − cancelled.
+    /// Claimable tonnes still standing: counted − cancelled.
     pub fn claimable_left(&self) -> Mass {
-        self.claimable_issued - self.claimable_cancelled
+        self.claimable_counted - self.claimable_cancelled
     }
 
     /// Losses no tonnes were left to cover, summed over all reversals.
@@ -206,7 +207,7 @@ mod tests {
             (t(300), t(250), t(50))
         );
         assert_eq!(
-            (p.claimable_issued(), p.claimable_cancelled()),
+            (p.claimable_counted(), p.claimable_cancelled()),
             (t(2_700), t(10))
         );
     }
@@ -223,7 +224,7 @@ mod tests {
         let e = p.add_claim(t(1), Mass::from_grams(i64::MAX)).unwrap_err();
         assert_eq!(
             e.to_string(),
-            "claimable issued is too large for the ledger"
+            "claimable counted is too large for the ledger"
         );
         let e = p.reverse(Mass::ZERO).unwrap_err();
         assert_eq!(

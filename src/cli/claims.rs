@@ -128,7 +128,7 @@ pub fn backdated_notes(figures: &ProjectFigures, periods: &[Bucket]) -> Vec<Stri
     for (s, used) in figures.backdated(periods) {
         let recorded = s.recorded_at.format("%Y-%m-%d").to_string();
         let from = s.from().to_string();
-        let value = format!("{} = {}", s.name, s.value);
+        let value = format!("{} = {}", s.name.label(), s.shown());
         match groups
             .iter_mut()
             .find(|g| g.0 == recorded && g.1 == from && g.2 == used)
@@ -255,7 +255,7 @@ pub fn pool_table(figures: &ProjectFigures, pool: &BufferPool, events: &[PoolEve
     t.push(vec![
         Cell::text("pool now"),
         Cell::Tonnes(pool.contributed()),
-        Cell::Tonnes(pool.claimable_issued()),
+        Cell::Tonnes(pool.claimable_counted()),
         Cell::Empty,
         Cell::Tonnes(pool.cancelled()),
         Cell::Tonnes(pool.claimable_cancelled()),

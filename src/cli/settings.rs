@@ -21,9 +21,15 @@ pub struct ProjectSet {
     /// Share of durable tonnes withheld into the buffer pool, e.g. 10%
     #[arg(long, allow_hyphen_values = true)]
     pub buffer: Option<String>,
-    /// Retention model: constant annual leak fraction, e.g. 0.01%
-    #[arg(long, value_name = "FRACTION", allow_hyphen_values = true)]
-    pub annual_leak: Option<String>,
+    /// Retention model: the share of the stored CO2 assumed lost each year, e.g. 0.01% (a
+    /// modelling assumption, not a measured leak; record measured leaks with `record leakage`)
+    #[arg(
+        long,
+        value_name = "FRACTION",
+        alias = "annual-leak",
+        allow_hyphen_values = true
+    )]
+    pub assumed_annual_loss: Option<String>,
     /// Retention model: horizon in years [default: 100]
     #[arg(long, value_name = "YEARS", allow_hyphen_values = true)]
     pub horizon: Option<String>,
@@ -71,8 +77,8 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
     if let Some(b) = &a.buffer {
         values.push((SettingName::Buffer, share("--buffer", b)?));
     }
-    if let Some(r) = &a.annual_leak {
-        values.push((SettingName::AnnualLeak, share("--annual-leak", r)?));
+    if let Some(r) = &a.assumed_annual_loss {
+        values.push((SettingName::AnnualLeak, share("--assumed-annual-loss", r)?));
     }
     if let Some(h) = &a.horizon {
         values.push((SettingName::Horizon, years("--horizon", h)?));
@@ -92,7 +98,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
     }
     if values.is_empty() {
         return Err(Error::Refused(
-            "nothing to set: give --buffer, --annual-leak, --horizon, --years-held, --equivalence-years or --claim-period".into(),
+            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years or --claim-period".into(),
         ));
     }
     let today = ctx.now.date_naive();
@@ -173,8 +179,8 @@ pub fn settings_table(
     for s in &held {
         let now = in_force(&owned, s.name, today).is_some_and(|f| f.seq == s.seq);
         t.push(vec![
-            Cell::text(s.name.name()),
-            Cell::text(&s.value),
+            Cell::text(s.name.label()),
+            Cell::text(s.shown()),
             Cell::text(s.from().to_string()),
             Cell::text(s.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
             Cell::text(if now { "yes" } else { "" }),

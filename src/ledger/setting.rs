@@ -4,6 +4,7 @@
 //! force on its last day.
 
 use super::project::named_enum;
+use crate::quantity::Decimal;
 use chrono::{DateTime, NaiveDate, Utc};
 
 named_enum! {
@@ -11,7 +12,8 @@ named_enum! {
     SettingName {
         /// Share of the durable tonnes withheld into the buffer pool (e.g. `10%`).
         Buffer => "buffer",
-        /// Constant annual leak fraction of the retention model (e.g. `0.01%`).
+        /// The retention model's assumed share of the stored CO2 lost each year (e.g. `0.01%`);
+        /// an assumption of the model, not a measured leak. Its stored name is kept from v1.
         AnnualLeak => "annual-leak",
         /// Horizon of the retention model, in years.
         Horizon => "horizon",
@@ -21,6 +23,20 @@ named_enum! {
         EquivalenceYears => "equivalence-years",
         /// The one granularity at which the project's claims are made: month, quarter or year.
         ClaimPeriod => "claim-period",
+    }
+}
+
+impl SettingName {
+    /// The name people read: the retention model's yearly loss is an assumption, not a leak.
+    pub fn label(self) -> &'static str {
+        match self {
+            Self::Buffer => "buffer",
+            Self::AnnualLeak => "assumed annual loss",
+            Self::Horizon => "horizon",
+            Self::YearsHeld => "years held",
+            Self::EquivalenceYears => "equivalence years",
+            Self::ClaimPeriod => "claim period",
+        }
     }
 }
 
@@ -42,6 +58,24 @@ impl Setting {
     pub fn from(&self) -> NaiveDate {
         self.effective
             .unwrap_or_else(|| self.recorded_at.date_naive())
+    }
+
+    /// The value as people give it: shares in per cent, durations in years. Shares are stored
+    /// as exact decimals (0.05), so the per cent is exact too.
+    pub fn shown(&self) -> String {
+        let per_cent = || {
+            let d = Decimal::parse(&self.value).ok()?;
+            d.checked_mul(Decimal::parse("100").ok()?)
+        };
+        match self.name {
+            SettingName::Buffer | SettingName::AnnualLeak => {
+                per_cent().map_or_else(|| self.value.clone(), |p| format!("{p} %"))
+            }
+            SettingName::Horizon | SettingName::YearsHeld | SettingName::EquivalenceYears => {
+                format!("{} years", self.value)
+            }
+            SettingName::ClaimPeriod => self.value.clone(),
+        }
     }
 
     /// Whether it takes effect before the day it was recorded.
