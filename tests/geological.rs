@@ -146,6 +146,65 @@ fn volumetric_meters_and_the_meter_table() {
 }
 
 #[test]
+fn a_meter_read_on_both_bases_has_a_row_for_each() {
+    // FM-101 in January at 0.985 by mass, in February at 0.97 by mole (with its 3 % N2): a
+    // mean of the two fractions would mix bases, so the quarter has a row for each basis.
+    let l = Ledger::with_tfs();
+    let record = |fraction: &[&str], from: &str, to: &str| {
+        let mut args = vec![
+            "record",
+            "injection",
+            "TFS",
+            "--site",
+            "TF-I1",
+            "--meter",
+            "FM-101",
+            "--mass",
+            "1000 t",
+            "--from",
+            from,
+            "--to",
+            to,
+        ];
+        args.extend_from_slice(fraction);
+        l.ok(&args);
+    };
+    record(&["--co2-fraction", "0.985"], "2026-01-01", "2026-01-31");
+    record(
+        &[
+            "--co2-fraction",
+            "0.97",
+            "--co2-basis",
+            "mol",
+            "--impurities",
+            "N2=0.03",
+        ],
+        "2026-02-01",
+        "2026-02-28",
+    );
+    let m = l.json(&["meters", "TFS", "--year", "2026"]);
+    let rows: Vec<(String, f64, f64)> = m
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| {
+            (
+                r["co2_basis"].as_str().unwrap().to_string(),
+                r["co2_fraction_mean"].as_f64().unwrap(),
+                r["quantity_read"].as_f64().unwrap(),
+            )
+        })
+        .collect();
+    assert_eq!(
+        rows,
+        vec![
+            ("mass".into(), 0.985, 1000.0),
+            ("mole".into(), 0.97, 1000.0)
+        ]
+    );
+}
+
+#[test]
 fn leak_by_rate_backdated_to_the_last_clear_survey() {
     let l = Ledger::with_tfs();
     l.ok(&[

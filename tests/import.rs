@@ -347,3 +347,47 @@ fn sqlite(l: &Ledger) -> impl Fn(&[&str]) + '_ {
         assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     }
 }
+
+#[test]
+fn a_meter_day_is_one_kind_of_reading_and_its_volumes_keep_their_conditions() {
+    // FM-201 reads 100 Mscf (60 °F, 14.696 psia) at 06:00 and 2 000 Sm3 (15 °C, 101.325 kPa)
+    // at 07:00 of the same day: two volumes at different conditions do not add, so the second
+    // row is refused; a mass row on that meter-day is refused the same way.
+    let l = Ledger::with_tfs();
+    let f = write(
+        &l,
+        "mixed.csv",
+        b"timestamp,site,quantity,unit,co2_fraction,meter\n\
+          2026-05-01T06:00:00Z,TF-I2,100,Mscf,0.99,FM-201\n\
+          2026-05-01T07:00:00Z,TF-I2,2000,Sm3,0.99,FM-201\n\
+          2026-05-01T08:00:00Z,TF-I2,3,t,0.99,FM-201\n",
+    );
+    let r = l.run(&["import", "TFS", &f]);
+    assert_eq!(r.code, 1);
+    for why in [
+        "line 3: meter FM-201 on 2026-05-01 reads volumes at 288.706 K, 101.325 kPa in earlier rows (line 2), here volumes at 288.150 K, 101.325 kPa",
+        "line 4: meter FM-201 on 2026-05-01 reads volumes at 288.706 K, 101.325 kPa in earlier rows (line 2), here mass",
+    ] {
+        assert!(r.err.contains(why), "{why}\n{}", r.err);
+    }
+    assert_eq!(l.count("TFS"), 0);
+    // Skipping them, the day is the 100 Mscf = 2 831.684659 m³ alone, its conditions recorded
+    // with it and named in the meters table's unit.
+    assert_eq!(l.run(&["import", "TFS", &f, "--skip-bad"]).code, 0);
+    let e = entries(&l);
+    let reading = e[0]["reading"].as_array().unwrap();
+    let field = |k: &str| {
+        reading
+            .iter()
+            .find(|p| p[0] == k)
+            .map(|p| p[1].as_str().unwrap().to_string())
+    };
+    assert_eq!(field("volume_m3").as_deref(), Some("2831.684659"));
+    assert_eq!(
+        field("reference_conditions").as_deref(),
+        Some("288.706 K, 101.325 kPa")
+    );
+    let m = l.json(&["meters", "TFS", "--year", "2026"]);
+    assert_eq!(m[0]["unit"], "m³ at 288.706 K, 101.325 kPa");
+    assert_eq!(m[0]["co2_basis"], "mole");
+}

@@ -52,6 +52,28 @@ fn conversion(e: &Entry) -> String {
     }
 }
 
+/// The basis of an entry's CO2 fraction: as recorded, else as its meter type implies (an
+/// imported mass reading's fraction is by mass, a volume's by mole).
+fn basis(e: &Entry) -> &'static str {
+    match (e.reading.get("co2_basis"), e.reading.get("meter_type")) {
+        (Some("mol"), _) | (None, Some("volumetric")) => "mole",
+        _ => "mass",
+    }
+}
+
+/// The unit of an entry's metered quantity: tonnes, or m³ at the reference conditions the
+/// entry recorded (standard volumes are never bare).
+fn unit(e: &Entry) -> String {
+    match (
+        e.reading.get("meter_type"),
+        e.reading.get("reference_conditions"),
+    ) {
+        (Some("volumetric"), Some(c)) => format!("m³ at {c}"),
+        (Some("volumetric"), None) => "m³ (reference conditions not recorded)".into(),
+        _ => "t".into(),
+    }
+}
+
 /// The metered quantity of an entry: grams for a mass meter, m³ for a volumetric one.
 fn metered_quantity(e: &Entry) -> Option<f64> {
     match e.reading.get("meter_type")? {
@@ -77,7 +99,8 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         known_project(tx, &a.project)?;
         tx.entries(&a.project)
     })?;
-    let mut rows: BTreeMap<(String, Bucket), Row> = BTreeMap::new();
+    // A row is one meter's quarter in one unit and one basis, so no cell mixes unlike figures.
+    let mut rows: BTreeMap<(String, Bucket, String, &str), Row> = BTreeMap::new();
     for e in effective(&all) {
         let Some(q) = metered_quantity(e) else {
             continue;
@@ -98,7 +121,9 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
                 .num_days() as f64
                 + 1.0;
             let share = q * days / total_days;
-            let r = rows.entry((meter.clone(), bucket)).or_default();
+            let r = rows
+                .entry((meter.clone(), bucket, unit(e), basis(e)))
+                .or_default();
             r.site = e.site.clone();
             r.kind = Some(e.kind);
             r.meter_type = e.reading.get("meter_type").unwrap_or("").to_string();
@@ -127,15 +152,16 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             names::QUANTITY_READ,
             names::UNIT,
             names::CO2_FRACTION_MEAN,
+            names::CO2_BASIS,
             names::CONVERSION,
             names::CO2_T,
         ]),
     );
-    for ((meter, bucket), r) in &rows {
-        let (quantity, unit) = if r.meter_type == "volumetric" {
-            (r.quantity, "m³ (std)")
+    for ((meter, bucket, unit, basis), r) in &rows {
+        let quantity = if r.meter_type == "volumetric" {
+            r.quantity
         } else {
-            (r.quantity / 1e6, "t")
+            r.quantity / 1e6
         };
         t.push(vec![
             Cell::text(meter),
@@ -154,11 +180,12 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
                 },
                 4,
             ),
+            Cell::text(*basis),
             Cell::text(&r.conversion),
             Cell::Tonnes(r.co2),
         ]);
     }
-    t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it. Entries spanning quarters are split by days.");
+    t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it, by mass or by mole as the basis says (a meter read on both bases has a row for each). Entries spanning quarters are split by days.");
     let mut report = Report::default().table(t);
     report.warnings = hand_corrections(&all, effective(&all))
         .into_iter()

@@ -10,6 +10,7 @@ use crate::quantity::{Decimal, Fraction, Mass, MassUnit};
 use chrono::{DateTime, NaiveDate};
 use std::collections::HashMap;
 use std::fmt;
+use std::sync::Arc;
 
 /// The columns sinkbook reads, by their default header names.
 const REQUIRED: [&str; 5] = ["timestamp", "site", "quantity", "unit", "co2_fraction"];
@@ -91,12 +92,13 @@ impl fmt::Display for RowError {
 }
 
 /// What a meter read before the CO2 fraction, in whole units so a day's sum is exact.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq, Eq)]
 pub enum Metered {
     /// Grams of stream, from a mass meter.
     StreamGrams(i64),
-    /// Cubic centimetres of gas at the unit's reference conditions, from a volumetric meter.
-    VolumeCm3(i64),
+    /// Cubic centimetres of gas at the unit's reference conditions (as the ledger writes
+    /// them), from a volumetric meter.
+    VolumeCm3(i64, Arc<str>),
 }
 
 /// One accepted reading: where it came from and the grams of CO2 it comes to. Borrows its
@@ -123,7 +125,11 @@ pub struct MeterRow<'a> {
 #[derive(Debug, Clone)]
 enum UnitFactor {
     Mass(Decimal),
-    Volume { kg_per_unit: f64, m3_per_unit: f64 },
+    Volume {
+        kg_per_unit: f64,
+        m3_per_unit: f64,
+        conditions: Arc<str>,
+    },
 }
 
 /// Turns the fields of a row into a reading, caching each unit's factor.
@@ -157,6 +163,7 @@ impl Converter {
                 Ok(UnitFactor::Volume {
                     kg_per_unit: m.kg,
                     m3_per_unit: m.m3,
+                    conditions: v.conditions.to_string().into(),
                 })
             })
             .clone()
@@ -195,10 +202,11 @@ impl Converter {
             UnitFactor::Volume {
                 kg_per_unit,
                 m3_per_unit,
+                conditions,
             } => {
                 let cm3 = whole(q.to_f64() * m3_per_unit * 1e6).ok_or_else(too_large)?;
                 let co2 = co2_of_stream_kg(q.to_f64() * kg_per_unit, f).ok_or_else(too_large)?;
-                (Metered::VolumeCm3(cm3), cm3 as f64, co2)
+                (Metered::VolumeCm3(cm3, conditions), cm3 as f64, co2)
             }
         };
         Ok(MeterRow {
@@ -405,7 +413,10 @@ mod tests {
         let expected = 100.0 * 1000.0 * 0.028316846592 * 1.8682 * 1000.0 * 0.99;
         assert_eq!(r.co2.grams(), round_half_even_f64(expected));
         // 100 Mscf = 2831.6846592 m³ exactly, in cm³.
-        assert_eq!(r.metered, Metered::VolumeCm3(2_831_684_659));
+        assert_eq!(
+            r.metered,
+            Metered::VolumeCm3(2_831_684_659, "288.706 K, 101.325 kPa".into())
+        );
         assert_eq!(c.units.len(), 1);
     }
 

@@ -5,6 +5,7 @@ use crate::ledger::{Entry, EntryKind, Evidence, Hash, Period, Reading};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
 use chrono::{DateTime, NaiveDate, Utc};
+use std::sync::Arc;
 
 /// One meter's readings of one day. Every sum is of integers, so it does not depend on the
 /// order of the rows.
@@ -17,10 +18,10 @@ pub struct MeterDay {
     pub rows: u64,
     pub first_line: u64,
     pub last_line: u64,
-    mass_rows: u64,
-    volume_rows: u64,
     stream_grams: i64,
     volume_cm3: i64,
+    /// The reference conditions of the day's volumes: one meter-day is one kind of reading.
+    conditions: Option<Arc<str>>,
     weighted_fraction: i128,
 }
 
@@ -44,25 +45,46 @@ impl MeterDay {
             rows: 0,
             first_line: line,
             last_line: line,
-            mass_rows: 0,
-            volume_rows: 0,
             stream_grams: 0,
             volume_cm3: 0,
+            conditions: None,
             weighted_fraction: 0,
+        }
+    }
+
+    /// Why `r` cannot join this day, if it cannot: a meter-day is one kind of reading — mass,
+    /// or volume at one set of reference conditions — so its sum and its mean concentration
+    /// are of like quantities.
+    pub fn mismatch(&self, r: &MeterRow<'_>) -> Option<String> {
+        let earlier = format!(
+            "meter {} on {} reads {} in earlier rows (line {})",
+            self.meter,
+            self.day,
+            match &self.conditions {
+                Some(c) => format!("volumes at {c}"),
+                None => "mass".into(),
+            },
+            self.first_line
+        );
+        match (&r.metered, &self.conditions) {
+            _ if self.rows == 0 => None,
+            (Metered::StreamGrams(_), None) => None,
+            (Metered::VolumeCm3(_, c), Some(day)) if c == day => None,
+            (Metered::StreamGrams(_), Some(_)) => Some(format!("{earlier}, here mass")),
+            (Metered::VolumeCm3(_, c), _) => Some(format!("{earlier}, here volumes at {c}")),
         }
     }
 
     /// Adds a row; None when a sum would leave the ledger's range.
     pub fn add(&mut self, r: &MeterRow<'_>) -> Option<()> {
         self.co2 = self.co2.checked_add(r.co2).filter(|m| m.within_limit())?;
-        match r.metered {
+        match &r.metered {
             Metered::StreamGrams(g) => {
-                self.mass_rows += 1;
-                self.stream_grams = self.stream_grams.checked_add(g)?;
+                self.stream_grams = self.stream_grams.checked_add(*g)?;
             }
-            Metered::VolumeCm3(v) => {
-                self.volume_rows += 1;
-                self.volume_cm3 = self.volume_cm3.checked_add(v)?;
+            Metered::VolumeCm3(v, c) => {
+                self.volume_cm3 = self.volume_cm3.checked_add(*v)?;
+                self.conditions = Some(c.clone());
             }
         }
         self.weighted_fraction = self.weighted_fraction.checked_add(r.weighted_fraction)?;
@@ -73,10 +95,10 @@ impl MeterDay {
     }
 
     fn meter_type(&self) -> &'static str {
-        match (self.mass_rows, self.volume_rows) {
-            (_, 0) => "mass",
-            (0, _) => "volumetric",
-            _ => "mixed",
+        if self.conditions.is_some() {
+            "volumetric"
+        } else {
+            "mass"
         }
     }
 
@@ -89,14 +111,15 @@ impl MeterDay {
         r.push("lines", format!("{}-{}", self.first_line, self.last_line));
         r.push("readings", self.rows.to_string());
         r.push("meter_type", self.meter_type());
-        if self.mass_rows > 0 {
+        if self.conditions.is_none() {
             r.push("mass", Mass::from_grams(self.stream_grams).to_string());
         }
-        if self.volume_rows > 0 {
+        if let Some(c) = &self.conditions {
             r.push("volume_m3", millionths(i128::from(self.volume_cm3)));
+            r.push("reference_conditions", c.as_ref());
         }
         let read = i128::from(self.stream_grams) + i128::from(self.volume_cm3);
-        if read > 0 && self.meter_type() != "mixed" {
+        if read > 0 {
             // Σ read × fraction × 10⁶ over Σ read, to six decimals, rounded half to even.
             let mean = div_half_even(self.weighted_fraction, read);
             r.push("co2_fraction_mean", millionths(mean));

@@ -160,17 +160,21 @@ impl Rollup<'_> {
             self.bad.push(refuse(why));
             return Ok(());
         }
-        m.days
+        let day = m
+            .days
             .entry(r.day)
-            .or_insert_with(|| MeterDay::new(r.day, r.site, meter, r.line))
-            .add(&r)
-            .ok_or_else(|| {
-                Error::field(
-                    "FILE",
-                    self.opts.file_name,
-                    "totals too large for the ledger",
-                )
-            })?;
+            .or_insert_with(|| MeterDay::new(r.day, r.site, meter, r.line));
+        if let Some(why) = day.mismatch(&r) {
+            self.bad.push(refuse(why));
+            return Ok(());
+        }
+        day.add(&r).ok_or_else(|| {
+            Error::field(
+                "FILE",
+                self.opts.file_name,
+                "totals too large for the ledger",
+            )
+        })?;
         self.accepted += 1;
         if self.opts.watch == Some((r.meter, r.day)) {
             self.watched.push(WatchedRow {

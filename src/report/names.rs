@@ -36,6 +36,7 @@ names! {
     CHARGE = "Charge", "charge";
     CLAIMABLE_AFTER_REVERSALS_T = "Claimable after reversals (t)", "claimable_after_reversals_t";
     CLAIMABLE_T = "Claimable (t)", "claimable_t";
+    CO2_BASIS = "CO2 basis", "co2_basis";
     CO2_FRACTION = "CO2 fraction", "co2_fraction";
     CO2_FRACTION_MEAN = "CO2 fraction (mean)", "co2_fraction_mean";
     CO2_G = "CO2 (g)", "co2_g";
