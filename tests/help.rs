@@ -1,7 +1,10 @@
 //! Every command's `--help` explains every option and ends with an example.
 
+mod common;
+
 use clap::{CommandFactory, Parser};
 use sinkbook::cli::Cli;
+use std::process::Command;
 
 /// Walks the command tree: arguments without help, commands without an example.
 fn walk(cmd: &clap::Command, path: &str, missing: &mut Vec<String>) {
@@ -111,6 +114,50 @@ fn completions_name_every_command_for_each_shell() {
         .output()
         .unwrap();
     assert_eq!(bad.status.code(), Some(2));
+}
+
+/// Runs `program args… file` on `text` written to a file; None when the program is missing.
+fn check_with(program: &str, args: &[&str], text: &str) -> Option<std::process::Output> {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("script");
+    std::fs::write(&file, text).unwrap();
+    Command::new(program).args(args).arg(&file).output().ok()
+}
+
+#[test]
+fn each_shell_parses_its_completion_script() {
+    // The shells' own syntax checks: bash -n, zsh -n and fish --no-execute read the script
+    // without running it (.ci/run installs zsh and fish).
+    for (shell, args) in [
+        ("bash", &["-n"][..]),
+        ("zsh", &["-n"][..]),
+        ("fish", &["--no-execute"][..]),
+    ] {
+        let script = sinkbook(&["completions", shell]);
+        match check_with(shell, args, &script) {
+            None => common::tool_missing(shell),
+            Some(o) => assert!(
+                o.status.success() && o.stderr.is_empty(),
+                "{shell} does not parse its completion script: {}",
+                String::from_utf8_lossy(&o.stderr)
+            ),
+        }
+    }
+}
+
+#[test]
+fn groff_reads_the_man_page_without_a_warning() {
+    // groff with every warning on (-ww), output discarded (-z): any complaint about the roff
+    // the page is written in lands on stderr.
+    let page = sinkbook(&["manual"]);
+    match check_with("groff", &["-man", "-Tutf8", "-ww", "-z"], &page) {
+        None => common::tool_missing("groff"),
+        Some(o) => assert!(
+            o.status.success() && o.stderr.is_empty(),
+            "groff warns: {}",
+            String::from_utf8_lossy(&o.stderr)
+        ),
+    }
 }
 
 #[test]

@@ -42,11 +42,22 @@ pub fn completions(a: CompletionsArgs) -> Result<Report> {
     text(out)
 }
 
-/// The man page (roff), with a section for every command.
+/// The man page (roff), with a section for every command. Characters beyond ASCII (°, ³, –)
+/// are written as roff's `\[uXXXX]` escapes, which every troff reads whatever its input
+/// encoding.
 pub fn manual(_: ManualArgs) -> Result<Report> {
     let mut out = Vec::new();
     clap_mangen::Man::new(Cli::command())
         .render(&mut out)
         .map_err(|e| Error::Refused(format!("manual: {e}")))?;
-    text(out)
+    let mut report = text(out)?;
+    report.text = report.text.map(|t| {
+        t.chars()
+            .map(|c| match c {
+                c if c.is_ascii() => c.to_string(),
+                c => format!("\\[u{:04X}]", u32::from(c)),
+            })
+            .collect()
+    });
+    Ok(report)
 }
