@@ -270,8 +270,77 @@ fn leak_by_rate_backdated_to_the_last_clear_survey() {
     ]);
     assert_eq!(r.code, 1);
     assert!(
+        r.err.contains(
+            "no survey of this site up to 2026-06-24 found no leak and no injection is recorded"
+        ),
+        "{}",
         r.err
-            .contains("no survey of this site up to 2026-06-24 found no leak"),
+    );
+}
+
+#[test]
+fn a_leak_of_unknown_start_does_not_begin_before_injection() {
+    // The last clear survey at TF-M1 was on 15 March, before TF-I1 first injected on 1 April:
+    // the leak starts on 1 April (EU 2018/2066 Annex IV §23 B.3: the latest of the last survey
+    // without leakage and the start of injection). 1 April to 30 April is 30 days × 24 h ×
+    // 0.01 t/h = 7.2 t.
+    let l = Ledger::with_tfs();
+    l.ok(&[
+        "record",
+        "survey",
+        "TFS",
+        "--site",
+        "TF-M1",
+        "--date",
+        "2026-03-15",
+        "--result",
+        "no-leak",
+    ]);
+    assert_eq!(
+        l.inject("TF-I1", "5000 t", "2026-04-01", "2026-04-30", "apr")
+            .code,
+        0
+    );
+    let leak = |site: &str, to: &str| {
+        l.run(&[
+            "record",
+            "leakage",
+            "TFS",
+            "--site",
+            site,
+            "--pathway",
+            "TF-M1 annulus",
+            "--rate",
+            "0.01 t/h",
+            "--since-last-survey",
+            "--to",
+            to,
+        ])
+    };
+    let r = leak("TF-M1", "2026-04-30");
+    assert_eq!(r.code, 0, "{}", r.err);
+    let e = l.json(&["entries", "TFS"]);
+    let last = e.as_array().unwrap().last().unwrap();
+    assert_eq!(last["period_from"], "2026-04-01");
+    assert_eq!(last["co2_g"], 7_200_000);
+    let reading = last["reading"].as_array().unwrap();
+    assert!(
+        reading.contains(&serde_json::json!([
+            "backdated_to_injection_start",
+            "2026-04-01"
+        ])),
+        "{reading:?}"
+    );
+    // A site never surveyed: the start of injection alone bounds it, 1 to 10 April = 2.4 t.
+    let r = leak("TF-I2", "2026-04-10");
+    assert_eq!(r.code, 0, "{}", r.err);
+    let e = l.json(&["entries", "TFS"]);
+    assert_eq!(e.as_array().unwrap().last().unwrap()["co2_g"], 2_400_000);
+    // A leak said to end before injection began is refused, naming the day injection began.
+    let r = leak("TF-M1", "2026-03-31");
+    assert_eq!(r.code, 1);
+    assert!(
+        r.err.contains("--to \"2026-03-31\"") && r.err.contains("injection began on 2026-04-01"),
         "{}",
         r.err
     );

@@ -4,7 +4,49 @@
 use crate::ledger::Period;
 use crate::quantity::mass::split_number_unit;
 use crate::quantity::{Decimal, Mass, MassUnit};
+use chrono::NaiveDate;
 use std::fmt;
+
+/// What the start of a leak whose start is unknown was taken from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum LeakStart {
+    /// The last survey of the site that found no leak.
+    LastClearSurvey(NaiveDate),
+    /// The first day of injection: nothing stored leaks before it.
+    InjectionBegan(NaiveDate),
+}
+
+impl LeakStart {
+    pub fn day(self) -> NaiveDate {
+        match self {
+            Self::LastClearSurvey(d) | Self::InjectionBegan(d) => d,
+        }
+    }
+
+    /// The reading field that records it.
+    pub fn field(self) -> &'static str {
+        match self {
+            Self::LastClearSurvey(_) => "backdated_to_survey",
+            Self::InjectionBegan(_) => "backdated_to_injection_start",
+        }
+    }
+}
+
+/// The start of a leak whose start is unknown, as Regulation (EU) 2018/2066 Annex IV §23 B.3
+/// sets it: the latest of the last survey without leakage and the start of injection (other
+/// evidence is given as `--from`); None when neither is known. A survey day and the start of
+/// injection on the same day are one start, taken as the survey's.
+pub fn unknown_leak_start(
+    last_clear_survey: Option<NaiveDate>,
+    injection_began: Option<NaiveDate>,
+) -> Option<LeakStart> {
+    match (last_clear_survey, injection_began) {
+        (Some(s), Some(i)) if i > s => Some(LeakStart::InjectionBegan(i)),
+        (Some(s), _) => Some(LeakStart::LastClearSurvey(s)),
+        (None, Some(i)) => Some(LeakStart::InjectionBegan(i)),
+        (None, None) => None,
+    }
+}
 
 /// An average leak rate: a mass per hour or per day.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -71,6 +113,33 @@ impl fmt::Display for LeakRate {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn an_unknown_start_is_the_later_of_the_clear_survey_and_injection() {
+        let d = |s: &str| s.parse::<NaiveDate>().unwrap();
+        // A survey before injection began bounds nothing: the leak starts with injection.
+        assert_eq!(
+            unknown_leak_start(Some(d("2025-11-02")), Some(d("2026-01-01"))),
+            Some(LeakStart::InjectionBegan(d("2026-01-01")))
+        );
+        assert_eq!(
+            unknown_leak_start(Some(d("2026-03-15")), Some(d("2026-01-01"))),
+            Some(LeakStart::LastClearSurvey(d("2026-03-15")))
+        );
+        assert_eq!(
+            unknown_leak_start(Some(d("2026-01-01")), Some(d("2026-01-01"))),
+            Some(LeakStart::LastClearSurvey(d("2026-01-01")))
+        );
+        assert_eq!(
+            unknown_leak_start(None, Some(d("2026-01-01"))),
+            Some(LeakStart::InjectionBegan(d("2026-01-01")))
+        );
+        assert_eq!(
+            unknown_leak_start(Some(d("2026-03-15")), None),
+            Some(LeakStart::LastClearSurvey(d("2026-03-15")))
+        );
+        assert_eq!(unknown_leak_start(None, None), None);
+    }
     use crate::ledger::period::parse_date;
 
     #[test]

@@ -7,7 +7,7 @@ use crate::accounting::metering::{Basis, MeterInput, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
-use crate::ledger::correction::{self, effective};
+use crate::ledger::correction;
 use crate::ledger::seal::{Replaced, late_replaces};
 use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
 use crate::quantity::Mass;
@@ -226,7 +226,8 @@ pub struct LeakageArgs {
     /// Average leak rate, e.g. "2.5 t/h" or "40 kg/d": emitted = rate × 24 h × days, both dates included
     #[arg(long, allow_hyphen_values = true)]
     pub rate: Option<String>,
-    /// Start unknown: backdate to the last survey of the site that found no leak
+    /// Start unknown: backdate to the later of the last survey of the site that found no leak
+    /// and the first day of injection (EU 2018/2066 Annex IV §23 B.3)
     #[arg(long)]
     pub since_last_survey: bool,
 }
@@ -617,18 +618,30 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
         }
         (Some(f), false) => inputs::date("--from", f)?,
         (None, true) => {
-            let survey = ctx
+            let (survey, injection) = ctx
                 .open()?
-                .read(|tx| last_clear_survey(tx, &b.project, &b.site, to))?;
-            let d = survey.ok_or_else(|| {
+                .read(|tx| leak_bounds(tx, &b.project, &b.site, to))?;
+            let start = leakage::unknown_leak_start(survey, injection).ok_or_else(|| {
                 Error::field(
                     "--since-last-survey",
                     &b.site,
-                    format!("no survey of this site up to {to} found no leak: give --from"),
+                    format!(
+                        "no survey of this site up to {to} found no leak and no injection is recorded: give --from"
+                    ),
                 )
             })?;
-            extra.push(("backdated_to_survey", d.to_string()));
-            d
+            if start.day() > to {
+                return Err(Error::field(
+                    "--to",
+                    &to.to_string(),
+                    format!(
+                        "injection began on {}: a leak of what was stored cannot end before it",
+                        start.day()
+                    ),
+                ));
+            }
+            extra.push((start.field(), start.day().to_string()));
+            start.day()
         }
         (None, false) => {
             return Err(Error::Refused(
@@ -669,20 +682,34 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     commit(ctx, entry, b.key.clone(), false)
 }
 
-/// The date of the latest no-leak survey of a site on or before `to`.
-fn last_clear_survey(
+/// What bounds a leak's unknown start: the latest no-leak survey of the site on or before
+/// `to`, and the first day of the project's injection; read in one pass over the chain.
+fn leak_bounds(
     tx: &mut Tx<'_>,
     project: &str,
     site: &str,
     to: NaiveDate,
-) -> Result<Option<NaiveDate>> {
+) -> Result<(Option<NaiveDate>, Option<NaiveDate>)> {
     known_project(tx, project)?;
-    let all = tx.entries(project)?;
-    Ok(effective(&all)
-        .filter(|e| e.kind == EntryKind::Survey && e.site == site && e.period.to <= to)
-        .filter(|e| e.reading.get("result") == Some("no-leak"))
-        .map(|e| e.period.to)
-        .max())
+    let (mut survey, mut injection) = (None::<NaiveDate>, None::<NaiveDate>);
+    tx.for_each_effective_entry(project, None, |s| {
+        let e = &s.entry;
+        match e.kind {
+            EntryKind::Survey
+                if e.site == site
+                    && e.period.to <= to
+                    && e.reading.get("result") == Some("no-leak") =>
+            {
+                survey = survey.max(Some(e.period.to));
+            }
+            EntryKind::Injection => {
+                injection = Some(injection.map_or(e.period.from, |d| d.min(e.period.from)));
+            }
+            _ => {}
+        }
+        Ok(())
+    })?;
+    Ok((survey, injection))
 }
 
 /// The quantity of a correction: what it gives, and for the rest the corrected reading's own
