@@ -86,7 +86,7 @@ pub fn entries(ctx: &Context, a: EntriesArgs) -> Result<Report> {
         })
     })?;
     if any_replaced {
-        t.note("Entries with a \"Replaced by\" seq are kept for the record; reports count the entry that replaces them.");
+        t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
     }
     Ok(Report::default().table(t))
 }
