@@ -55,11 +55,14 @@ fn application_id(path: &Path, conn: &mut SqliteConnection) -> Result<i32> {
         .map_err(|e| Error::Refused(format!("{} is not a sinkbook ledger ({e})", path.display())))
 }
 
-/// WAL with full sync: a committed command survives a power cut. The larger page cache keeps a
-/// big import's B-tree pages in memory until its single commit.
+/// WAL with full sync: a committed command survives a power cut. Recursive triggers make the
+/// rows an INSERT OR REPLACE would delete fire the tables' append-only DELETE triggers (the
+/// BEFORE INSERT triggers refuse it on connections of other tools too). The larger page cache
+/// keeps a big import's B-tree pages in memory until its single commit.
 fn configure(path: &Path, conn: &mut SqliteConnection) -> Result<()> {
     conn.batch_execute(
-        "PRAGMA journal_mode = WAL; PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON; PRAGMA cache_size = -32768;",
+        "PRAGMA journal_mode = WAL; PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON; \
+         PRAGMA recursive_triggers = ON; PRAGMA cache_size = -32768;",
     )
     .map_err(|e| store_error(path, e))?;
     conn.run_pending_migrations(MIGRATIONS)
