@@ -14,6 +14,35 @@ pub fn seal(entry: Entry, prev: Hash) -> SealedEntry {
     SealedEntry { entry, leaf, chain }
 }
 
+/// Refuses entries to be appended after `last` (the chain's last seq and its recorded_at) that
+/// were recorded before it or before the entry ahead of them: recorded_at never decreases along
+/// a chain, whatever clock the writer was given (`SINKBOOK_NOW` included).
+pub fn in_time_order(
+    project: &str,
+    last: Option<(u64, DateTime<Utc>)>,
+    new: &[SealedEntry],
+) -> Result<(), String> {
+    let mut before = last;
+    for s in new {
+        if let Some((seq, at)) = before
+            && s.entry.recorded_at < at
+        {
+            return Err(format!(
+                "recorded_at {} is before the chain tip's recorded_at {} (project {project} seq {seq}): \
+                 a chain's recorded times never run backwards; nothing written",
+                rfc3339(s.entry.recorded_at),
+                rfc3339(at)
+            ));
+        }
+        before = Some((s.entry.seq, s.entry.recorded_at));
+    }
+    Ok(())
+}
+
+fn rfc3339(t: DateTime<Utc>) -> String {
+    t.to_rfc3339_opts(chrono::SecondsFormat::AutoSi, true)
+}
+
 /// The first thing found wrong in a stored chain.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Finding {

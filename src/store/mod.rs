@@ -287,8 +287,14 @@ impl Tx<'_> {
         }
     }
 
-    /// Appends sealed entries; the caller has linked them to the chain tip.
+    /// Appends sealed entries; the caller has linked them to the chain tip. Every writer comes
+    /// through here, so here the chain's recorded times are kept in order.
     pub fn append(&mut self, sealed: &[SealedEntry]) -> Result<()> {
+        if let Some(first) = sealed.first() {
+            let project = &first.entry.project;
+            let last = self.last_recorded(project)?;
+            crate::ledger::chain::in_time_order(project, last, sealed).map_err(Error::Refused)?;
+        }
         let rows: Vec<EntryRow> = sealed.iter().map(EntryRow::from_sealed).collect();
         for chunk in rows.chunks(1000) {
             on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
@@ -296,6 +302,20 @@ impl Tx<'_> {
                 .execute(c))?;
         }
         Ok(())
+    }
+
+    /// The seq and recorded_at of a project's last entry.
+    fn last_recorded(
+        &mut self,
+        project: &str,
+    ) -> Result<Option<(u64, chrono::DateTime<chrono::Utc>)>> {
+        let last: Option<(i64, chrono::NaiveDateTime)> = entries::table
+            .filter(entries::project.eq(project))
+            .order(entries::seq.desc())
+            .select((entries::seq, entries::recorded_at))
+            .first(self.conn)
+            .optional()?;
+        Ok(last.map(|(seq, at)| (seq as u64, at.and_utc())))
     }
 
     /// The role the entries appended in this transaction record: the registry's login role,
