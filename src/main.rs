@@ -1,7 +1,7 @@
 use clap::Parser;
 use sinkbook::cli::{Cli, run};
 use sinkbook::report::{Layout, Terminal, render_with};
-use std::io::IsTerminal;
+use std::io::{IsTerminal, Write};
 use std::process::ExitCode;
 
 /// The command's one reading of the clock: `SINKBOOK_NOW` (RFC 3339) if set, else the system's,
@@ -29,6 +29,13 @@ fn terminal(wide: bool) -> Terminal {
     }
 }
 
+/// Writes the rendered report; a closed pipe or a full disk is an error to report, not a panic.
+fn write_out(text: &str) -> std::io::Result<()> {
+    let mut out = std::io::stdout().lock();
+    out.write_all(text.as_bytes())?;
+    out.flush()
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let format = cli.format;
@@ -45,7 +52,12 @@ fn main() -> ExitCode {
             for w in &report.warnings {
                 eprintln!("sinkbook: warning: {w}");
             }
-            print!("{}", render_with(&report, format, layout));
+            if let Err(e) = write_out(&render_with(&report, format, layout)) {
+                eprintln!(
+                    "sinkbook: standard output: {e} (the command completed; its output was not written in full)"
+                );
+                return ExitCode::from(1);
+            }
             ExitCode::from(report.exit_code)
         }
         Err(e) => {

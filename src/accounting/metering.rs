@@ -4,7 +4,7 @@
 
 use crate::chem::gas_mix::{Balance, StreamComposition};
 use crate::error::{Error, Result};
-use crate::ledger::Reading;
+use crate::ledger::{Reading, bounds};
 use crate::quantity::mass::{MassError, grams_of_f64};
 use crate::quantity::volume::{DensityMethod, StandardVolume};
 use crate::quantity::{Decimal, Fraction, Mass, MassReading};
@@ -132,6 +132,7 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             .map(Mass::from_grams)
             .filter(|m| m.within_limit())
             .ok_or_else(|| Error::field("--mass", text, MassError::TooLarge))?;
+            bounds::grams(grams).map_err(|e| Error::field("--mass", text, e))?;
             Ok(Measured { reading: r, mass: grams })
         }
         (None, Some(text)) => {
@@ -157,6 +158,7 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("conversions", CONVERSIONS);
             let mass = co2_of_stream_kg(vm.kg, f)
                 .ok_or_else(|| Error::field("--volume", text, MassError::TooLarge))?;
+            bounds::grams(mass).map_err(|e| Error::field("--volume", text, e))?;
             Ok(Measured { reading: r, mass })
         }
     }

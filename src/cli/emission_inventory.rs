@@ -285,7 +285,11 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
         )));
     }
     commit_with(ctx, b.key.clone(), false, |tx| {
-        let period = period(required(&b.from, "--from")?, required(&b.to, "--to")?)?;
+        let period = period(
+            required(&b.from, "--from")?,
+            required(&b.to, "--to")?,
+            ctx.now.date_naive(),
+        )?;
         let mut reading = Reading::default();
         reading.push("stage", stage.name());
         let computed = match stage {

@@ -1,6 +1,7 @@
 //! Turning option values into typed values, with errors that name the option and the value.
 
 use crate::error::{Error, Result};
+use crate::ledger::bounds;
 use crate::ledger::period::parse_date;
 use crate::quantity::{Mass, MassReading};
 use chrono::NaiveDate;
@@ -8,6 +9,7 @@ use chrono::NaiveDate;
 pub fn mass(field: &str, text: &str) -> Result<(MassReading, Mass)> {
     let r = MassReading::parse(text).map_err(|e| Error::field(field, text, e))?;
     let m = r.to_mass().map_err(|e| Error::field(field, text, e))?;
+    bounds::grams(m).map_err(|e| Error::field(field, text, e))?;
     Ok((r, m))
 }
 
@@ -15,12 +17,30 @@ pub fn date(field: &str, text: &str) -> Result<NaiveDate> {
     parse_date(text).map_err(|e| Error::field(field, text, e))
 }
 
+/// A date activity took place: from 1900 to `today`, the ledger's clock.
+pub fn activity_date(field: &str, text: &str, today: NaiveDate) -> Result<NaiveDate> {
+    let d = date(field, text)?;
+    bounds::activity_date(d, today).map_err(|e| Error::field(field, text, e))?;
+    Ok(d)
+}
+
 pub fn code(field: &str, text: &str) -> Result<()> {
     crate::ledger::project::check_code(text).map_err(|e| Error::field(field, text, e))
 }
 
-/// Free text that goes into the ledger: no control characters, which would garble reports.
+/// Free text that goes into the ledger: at most [`bounds::TEXT_MAX`] characters, no control
+/// characters, which would garble reports.
 pub fn text(field: &str, value: &str) -> Result<()> {
+    text_of_at_most(field, value, bounds::TEXT_MAX)
+}
+
+/// A signed statement: free text of at most [`bounds::STATEMENT_MAX`] characters.
+pub fn statement(field: &str, value: &str) -> Result<()> {
+    text_of_at_most(field, value, bounds::STATEMENT_MAX)
+}
+
+fn text_of_at_most(field: &str, value: &str, max: usize) -> Result<()> {
+    bounds::text(value, max).map_err(|e| Error::field(field, &bounds::shown(value), e))?;
     if value.trim().is_empty() {
         return Err(Error::field(field, value, "must not be empty"));
     }

@@ -389,9 +389,10 @@ const KIND_FIELDS: &[&str] = &[
     "stage",
 ];
 
-pub(super) fn period(from: &str, to: &str) -> Result<Period> {
-    let f = inputs::date("--from", from)?;
-    let t = inputs::date("--to", to)?;
+/// The period of an activity, both ends within the window of activity dates (up to `today`).
+pub(super) fn period(from: &str, to: &str, today: NaiveDate) -> Result<Period> {
+    let f = inputs::activity_date("--from", from, today)?;
+    let t = inputs::activity_date("--to", to, today)?;
     Period::new(f, t).map_err(|e| Error::field("--to", to, e))
 }
 
@@ -447,7 +448,11 @@ pub(super) fn metered(
     for (n, v) in extra {
         reading.push(n, v.clone());
     }
-    let p = period(required(&b.from, "--from")?, required(&b.to, "--to")?)?;
+    let p = period(
+        required(&b.from, "--from")?,
+        required(&b.to, "--to")?,
+        ctx.now.date_naive(),
+    )?;
     draft(kind, b, reading, m.mass, p, ctx)
 }
 
@@ -509,7 +514,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
         }
         RecordCommand::Leakage(a) => return leakage_record(ctx, a),
         RecordCommand::Calibration(a) => {
-            let d = inputs::date("--date", &a.date)?;
+            let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
             let u = parse_uncertainty(&a.uncertainty)
                 .map_err(|e| Error::field("--uncertainty", &a.uncertainty, e))?;
             let mut reading = Reading::default();
@@ -538,7 +543,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             )
         }
         RecordCommand::Reversal(a) => {
-            let d = inputs::date("--date", &a.date)?;
+            let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
             inputs::text("--reason", &a.reason)?;
             let (m, mass) = inputs::mass("--mass", &a.mass)?;
             let mut reading = Reading::default();
@@ -558,7 +563,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             (e, a.key, false)
         }
         RecordCommand::Survey(a) => {
-            let d = inputs::date("--date", &a.date)?;
+            let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
             let mut reading = Reading::default();
             reading.push(
                 "result",
@@ -608,7 +613,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
 fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     inputs::text("--pathway", &a.pathway)?;
     let b = &a.base;
-    let to = inputs::date("--to", required(&b.to, "--to")?)?;
+    let to = inputs::activity_date("--to", required(&b.to, "--to")?, ctx.now.date_naive())?;
     let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
     let from = match (&b.from, a.since_last_survey) {
         (Some(_), true) => {
@@ -616,7 +621,7 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
                 "give --from or --since-last-survey, not both".into(),
             ));
         }
-        (Some(f), false) => inputs::date("--from", f)?,
+        (Some(f), false) => inputs::activity_date("--from", f, ctx.now.date_naive())?,
         (None, true) => {
             let (survey, injection) = ctx
                 .open()?
@@ -762,9 +767,112 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     })
 }
 
+/// The options of `correct` that restate what the `record` command of each kind takes; the
+/// rest (--reason, --site, --from, --to, --key, --note) apply to every kind.
+fn correctable(kind: EntryKind) -> &'static [&'static str] {
+    match kind {
+        EntryKind::Survey => &[],
+        EntryKind::Calibration => &["--uncertainty", "--meter"],
+        EntryKind::Reversal => &["--mass"],
+        k if super::record_rock::is_rock_record(k) => &[],
+        _ => &[
+            "--mass",
+            "--volume",
+            "--co2-fraction",
+            "--co2-basis",
+            "--density",
+            "--impurities",
+            "--uncertainty",
+            "--meter",
+        ],
+    }
+}
+
+/// The kind-specific options a correction gives, with their values.
+fn kind_options(a: &CorrectArgs) -> Vec<(&'static str, String)> {
+    let q = &a.quantity;
+    let texts = [
+        ("--mass", q.mass.clone()),
+        ("--volume", q.volume.clone()),
+        ("--co2-fraction", q.co2_fraction.clone()),
+        ("--co2-basis", q.co2_basis.and_then(|b| option_value(&b))),
+        ("--density", q.density.and_then(|d| option_value(&d))),
+        ("--impurities", q.impurities.clone()),
+        ("--uncertainty", q.uncertainty.clone()),
+        ("--meter", a.meter.clone()),
+    ];
+    texts
+        .into_iter()
+        .filter_map(|(o, v)| v.map(|v| (o, v)))
+        .collect()
+}
+
+/// How a value of an enumerated option is spelled on the command line.
+fn option_value(v: &impl ValueEnum) -> Option<String> {
+    v.to_possible_value().map(|p| p.get_name().to_string())
+}
+
+/// Refuses options that do not belong to the corrected entry's kind (a survey has no mass).
+fn refuse_foreign_options(a: &CorrectArgs, target: &Entry) -> Result<()> {
+    let allowed = correctable(target.kind);
+    match kind_options(a)
+        .into_iter()
+        .find(|(o, _)| !allowed.contains(o))
+    {
+        None => Ok(()),
+        Some((option, value)) => Err(Error::field(
+            option,
+            &value,
+            format!(
+                "does not belong to a {} entry (seq {}); a {} correction takes {}",
+                target.kind,
+                target.seq,
+                target.kind,
+                if allowed.is_empty() {
+                    "none of the quantity options".to_string()
+                } else {
+                    allowed.join(", ")
+                }
+            ),
+        )),
+    }
+}
+
+/// The reading of a correction of a calibration or a reversal: the recorded reading with the
+/// one value the options restate.
+fn restated_single(a: &CorrectArgs, target: &Entry) -> Result<Option<(Reading, Mass)>> {
+    let q = &a.quantity;
+    let (name, value, mass) = match (target.kind, &q.uncertainty, &q.mass) {
+        (EntryKind::Calibration, Some(u), _) => {
+            let d = parse_uncertainty(u).map_err(|e| Error::field("--uncertainty", u, e))?;
+            ("uncertainty", d.to_string(), target.mass)
+        }
+        (EntryKind::Reversal, _, Some(m)) => {
+            let (r, mass) = inputs::mass("--mass", m)?;
+            ("mass", r.to_string(), mass)
+        }
+        _ => return Ok(None),
+    };
+    let mut reading = target.reading.clone();
+    match reading.0.iter_mut().find(|(n, _)| n == name) {
+        Some(slot) => slot.1 = value,
+        None => reading.push(name, value),
+    }
+    Ok(Some((reading, mass)))
+}
+
 /// The correction of `target` the options describe.
 fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
-    let (reading, mass) = if a.quantity.is_given() || a.quantity.co2_fraction.is_some() {
+    let restates = a.quantity.is_given() || a.quantity.co2_fraction.is_some();
+    let single = if super::record_rock::is_rock_record(target.kind) && restates {
+        None
+    } else {
+        refuse_foreign_options(&a, &target)?;
+        restated_single(&a, &target)?
+    };
+    let (reading, mass) = if let Some(r) = single {
+        r
+    } else if restates {
         if super::record_rock::is_rock_record(target.kind) {
             return Err(Error::field(
                 "seq",
@@ -792,7 +900,7 @@ fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
     Ok(Entry {
         seq: 0,
         site: a.site.unwrap_or(target.site.clone()),
-        period: period(&from, &to)?,
+        period: period(&from, &to, ctx.now.date_naive())?,
         reading,
         mass,
         recorded_at: ctx.now,
@@ -863,6 +971,7 @@ pub(super) fn commit_with(
             AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
             AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
             AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
+            AppendError::OutOfBounds(b) => Error::Refused(b.to_string()),
         })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {

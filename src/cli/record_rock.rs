@@ -227,7 +227,7 @@ fn entry(
 /// to refuse impossible input, and again by every report from the reading.
 pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     let kind = EntryKind::TracerSample;
-    let date = inputs::date("--date", &a.date)?;
+    let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     let x = ri::number("--tracer-ratio", &a.tracer_ratio)?;
     let dic = [
         ("--dic-sample", &a.dic_sample),
@@ -308,8 +308,8 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     let before = ri::share("--co2-before", &a.co2_before)?;
     let after = ri::share("--co2-after", &a.co2_after)?;
     let period = Period::new(
-        inputs::date("--from", &a.from)?,
-        inputs::date("--to", &a.to)?,
+        inputs::activity_date("--from", &a.from, ctx.now.date_naive())?,
+        inputs::activity_date("--to", &a.to, ctx.now.date_naive())?,
     )
     .map_err(|e| Error::field("--to", &a.to, e))?;
     let result = uptake(fed_g.tonnes(), before.to_f64(), after.to_f64()).map_err(|e| {
@@ -386,7 +386,7 @@ pub fn field_area(site: &Site) -> Result<f64> {
 /// Feedstock spread on a field: no CO2 of its own (0 g); the rock's mass is in the reading.
 pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
     let kind = EntryKind::Application;
-    let date = inputs::date("--date", &a.date)?;
+    let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     let (rock, rock_g) = inputs::mass("--mass", &a.mass)?;
     commit_with(ctx, a.entry.key.clone(), false, |tx| {
         let site = context(
@@ -503,7 +503,7 @@ fn soil_density(option: &str, text: &str) -> Result<Measure> {
 /// A soil core: its depth, bulk density and elements, checked; a baseline may not follow feedstock.
 pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
     let kind = EntryKind::SoilSample;
-    let date = inputs::date("--date", &a.date)?;
+    let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     let (depth, _) = ri::depth("--depth", &a.depth)?;
     let rho = soil_density("--bulk-density", &a.bulk_density)?;
     let unit = conc_unit(&a.unit).map_err(|e| Error::field("--unit", &a.unit, e))?;

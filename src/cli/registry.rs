@@ -130,7 +130,10 @@ fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {
         (Some(o), _) if o.trim().is_empty() => {
             return Err(Error::field("--operator", &o, "must name an operator"));
         }
-        (Some(o), _) => RoleKind::Operator(o),
+        (Some(o), _) => {
+            super::inputs::text("--operator", &o)?;
+            RoleKind::Operator(o)
+        }
         (None, true) => RoleKind::Verifier,
         (None, false) => RoleKind::Regulator,
     };

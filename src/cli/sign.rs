@@ -134,7 +134,7 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
     let (label, period) =
         parse_period(&a.period).map_err(|e| Error::field("--period", &a.period, e))?;
     let key = read_key(&a.key)?;
-    super::inputs::text("--statement", &a.statement)?;
+    super::inputs::statement("--statement", &a.statement)?;
     let role = match a.role {
         RoleArg::Operator => Role::Operator,
         RoleArg::Verifier => Role::Verifier,

@@ -183,6 +183,8 @@ impl Converter {
         if site.is_empty() {
             return Err("site is empty".into());
         }
+        crate::ledger::bounds::text(meter, crate::ledger::bounds::TEXT_MAX)
+            .map_err(|e| format!("meter {:?}: {e}", crate::ledger::bounds::shown(meter)))?;
         let q = Decimal::parse(quantity).map_err(|e| format!("quantity {quantity:?}: {e}"))?;
         if q.to_f64() < 0.0 {
             return Err(format!("quantity {quantity:?}: must not be negative"));

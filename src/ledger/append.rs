@@ -1,6 +1,7 @@
 //! Appending to a chain: checking a new entry against its project and site, and deciding
 //! what a re-submitted idempotency key means.
 
+use super::bounds::{self, OutOfBounds};
 use super::canonical::encode;
 use super::chain::seal;
 use super::entry::{Entry, SealedEntry};
@@ -35,6 +36,8 @@ pub enum AppendError {
     BeyondLimit { project: String },
     /// The entry is dated in a sealed period.
     Sealed(SealRefusal),
+    /// A text of the entry is too long, or its period leaves the window of activity dates.
+    OutOfBounds(OutOfBounds),
 }
 
 /// What the project's seals say about a new entry: the seals, whether it may go in late, the
@@ -68,6 +71,7 @@ impl std::fmt::Display for AppendError {
                 "project {project}'s entries would sum to more than the largest mass the ledger keeps (1,000,000 Mt, 10^18 g); nothing written"
             ),
             Self::Sealed(r) => r.fmt(f),
+            Self::OutOfBounds(b) => b.fmt(f),
         }
     }
 }
@@ -114,6 +118,7 @@ pub fn append(
     holder: Option<SealedEntry>,
     rule: SealRule<'_>,
 ) -> Result<Appended, AppendError> {
+    bounds::entry(&entry, rule.today).map_err(AppendError::OutOfBounds)?;
     let allowed = entry.kind.site_kinds();
     if !allowed.contains(&site.kind) {
         return Err(AppendError::WrongSiteKind {

@@ -2,6 +2,7 @@
 //! periods. Pure: no database, files, printing or clock.
 
 pub mod append;
+pub mod bounds;
 pub mod canonical;
 pub mod chain;
 pub mod correction;

@@ -1,0 +1,131 @@
+//! The bounds every value is held to before it goes into the ledger, in one place: free text
+//! has a length, activity dates a window (from 1900 to the ledger's clock). Without them one
+//! absurd value (a 10 MB meter name, a period of a hundred thousand years) costs gigabytes or
+//! hours in every later report.
+
+use super::entry::Entry;
+use crate::quantity::Mass;
+use chrono::NaiveDate;
+
+/// Characters a free-text field (a name, note, reason, meter, pathway, key ...) may hold.
+pub const TEXT_MAX: usize = 200;
+
+/// Characters a signed statement may hold: a paragraph or two of a verifier's opinion.
+pub const STATEMENT_MAX: usize = 2_000;
+
+/// The earliest activity date the ledger takes.
+pub const EARLIEST: NaiveDate = NaiveDate::from_ymd_opt(1900, 1, 1).expect("a calendar date");
+
+/// Characters of a refused value an error message repeats.
+const SHOWN: usize = 40;
+
+/// Refuses text longer than `max` characters.
+pub fn text(value: &str, max: usize) -> Result<(), String> {
+    let n = value.chars().count();
+    if n > max {
+        return Err(format!("is {n} characters long; at most {max} are kept"));
+    }
+    Ok(())
+}
+
+/// The value as an error message repeats it: whole when short, else its start and length.
+pub fn shown(value: &str) -> String {
+    if value.chars().count() <= SHOWN {
+        return value.to_string();
+    }
+    let head: String = value.chars().take(SHOWN).collect();
+    format!("{head}…")
+}
+
+/// Refuses a reading whose CO2 rounds to 0 g: the ledger keeps whole grams, and a reading that
+/// holds none is refused like a zero.
+pub fn grams(m: Mass) -> Result<(), String> {
+    if m.grams() == 0 {
+        return Err("rounds to 0 g of CO2: a reading must hold at least 1 g".into());
+    }
+    Ok(())
+}
+
+/// Refuses an activity date before [`EARLIEST`] or after `today`, the ledger's clock: nothing
+/// happens in the future, and nothing the ledger counts happened before 1900.
+pub fn activity_date(d: NaiveDate, today: NaiveDate) -> Result<(), String> {
+    if d < EARLIEST {
+        return Err(format!(
+            "is before {EARLIEST}, the earliest date the ledger takes"
+        ));
+    }
+    if d > today {
+        return Err(format!(
+            "is after the ledger's clock ({today}): activity cannot be recorded before it happens"
+        ));
+    }
+    Ok(())
+}
+
+/// A field of an entry that is out of bounds: which, its value, and why.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct OutOfBounds {
+    /// The option the field comes from (`--note`, `--from`, `--pathway` ...).
+    pub option: String,
+    pub value: String,
+    pub why: String,
+}
+
+impl std::fmt::Display for OutOfBounds {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{} {:?}: {}", self.option, shown(&self.value), self.why)
+    }
+}
+
+/// Checks every free-text field and both ends of the period of an entry about to be appended,
+/// whichever command or file it came from. The reading's own fields are named by the option
+/// they come from (`pathway` → `--pathway`).
+pub fn entry(e: &Entry, today: NaiveDate) -> Result<(), OutOfBounds> {
+    let out = |option: &str, value: &str, why: String| OutOfBounds {
+        option: option.to_string(),
+        value: value.to_string(),
+        why,
+    };
+    let texts = [
+        ("--key", Some(e.key.as_str())),
+        ("--meter", e.meter.as_deref()),
+        ("--note", e.note.as_deref()),
+        ("--reason", e.reason.as_deref()),
+    ];
+    for (option, value) in texts {
+        if let Some(v) = value {
+            text(v, TEXT_MAX).map_err(|why| out(option, v, why))?;
+        }
+    }
+    for (name, v) in &e.reading.0 {
+        text(v, TEXT_MAX).map_err(|why| out(&format!("--{}", name.replace('_', "-")), v, why))?;
+    }
+    for (option, d) in [("--from", e.period.from), ("--to", e.period.to)] {
+        activity_date(d, today).map_err(|why| out(option, &d.to_string(), why))?;
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn text_is_counted_in_characters() {
+        assert!(text(&"é".repeat(200), TEXT_MAX).is_ok());
+        let e = text(&"é".repeat(201), TEXT_MAX).unwrap_err();
+        assert_eq!(e, "is 201 characters long; at most 200 are kept");
+        assert_eq!(shown(&"x".repeat(41)), format!("{}…", "x".repeat(40)));
+        assert_eq!(shown("short"), "short");
+    }
+
+    #[test]
+    fn dates_from_1900_to_the_clock() {
+        let d = |s| NaiveDate::parse_from_str(s, "%Y-%m-%d").unwrap();
+        let today = d("2027-01-15");
+        assert!(activity_date(d("1900-01-01"), today).is_ok());
+        assert!(activity_date(today, today).is_ok());
+        assert!(activity_date(d("1899-12-31"), today).is_err());
+        assert!(activity_date(d("2027-01-16"), today).is_err());
+    }
+}
