@@ -393,7 +393,7 @@ fn permits_warn_refuse_and_flag() {
         "{}",
         r.err
     );
-    let r = inj("100 t", "2027-02-10", &[]);
+    let r = inj("100 t", "2027-01-12", &[]);
     assert_eq!(r.code, 1);
     assert!(
         r.err.contains(
@@ -402,7 +402,7 @@ fn permits_warn_refuse_and_flag() {
         "{}",
         r.err
     );
-    let r = inj("100 t", "2027-02-10", &["--over-permit"]);
+    let r = inj("100 t", "2027-01-12", &["--over-permit"]);
     assert_eq!(r.code, 0, "{}", r.err);
     assert!(r.err.contains("recorded over the permit"), "{}", r.err);
     let b = l.ok(&["balance", "SML", "--by", "year"]);

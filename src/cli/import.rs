@@ -12,7 +12,7 @@ use crate::import::meter_day::{MeterDay, Source};
 use crate::import::overlap::{self, Covered};
 use crate::import::plan::{Options, Plan};
 use crate::import::plan_file;
-use crate::ledger::append::{Appended, SealRule, append};
+use crate::ledger::append::{AppendError, Appended, SealRule, append};
 use crate::ledger::{Entry, EntryKind, Reading, SealedEntry, Site};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
@@ -131,7 +131,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             for (d, c) in days.iter().zip(corrects) {
                 let replaced = c.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
                 let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
-                match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, &sites[&d.site], tip, None, rule).map_err(|e| Error::field("FILE", &file_name, e))? {
+                match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, &sites[&d.site], tip, None, rule).map_err(|e| refused_row(&file_name, e))? {
                     Appended::New(s) | Appended::Existing(s) => {
                         tip = (tip.0 + 1, s.chain);
                         summary.add(d, &s);
@@ -161,6 +161,17 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         Ok(report)
     })
     .map_err(disk_error)
+}
+
+/// An append refused for one of the file's meter-days; a day out of the window is named as
+/// the file's day, not as an option the file does not have.
+fn refused_row(file_name: &str, e: AppendError) -> Error {
+    match e {
+        AppendError::OutOfBounds(b) if b.option == "--from" || b.option == "--to" => {
+            Error::Refused(format!("{file_name}: meter-day {}: {}", b.value, b.why))
+        }
+        e => Error::field("FILE", file_name, e),
+    }
 }
 
 fn listed<T: ToString>(items: &[T]) -> String {

@@ -65,6 +65,9 @@ impl From<DieselError> for Error {
             {
                 Error::Refused(format!("{REFUSED} ({})", info.message()))
             }
+            DieselError::DatabaseError(_, info) if super::connection::damaged(info.message()) => {
+                Error::Inconsistent(format!("the ledger file is damaged ({})", info.message()))
+            }
             _ => Error::Store(format!("ledger database error: {e}")),
         }
     }

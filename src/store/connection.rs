@@ -33,7 +33,40 @@ struct Line {
 }
 
 fn store_error(path: &Path, e: impl std::fmt::Display) -> Error {
-    Error::Store(format!("ledger {}: {e}", path.display()))
+    let m = e.to_string();
+    if damaged(&m) {
+        return damaged_file(path, m);
+    }
+    Error::Store(format!("ledger {}: {m}", path.display()))
+}
+
+/// SQLite's words for a file whose pages do not hold together.
+pub(super) fn damaged(message: &str) -> bool {
+    message.contains("database disk image is malformed")
+        || message.contains("file is not a database")
+}
+
+fn damaged_file(path: &Path, why: impl std::fmt::Display) -> Error {
+    Error::Inconsistent(format!(
+        "ledger file {} is damaged ({why}): restore it from a copy; nothing was read or written",
+        path.display()
+    ))
+}
+
+/// The first bytes of every SQLite file.
+const SQLITE_HEADER: &[u8; 16] = b"SQLite format 3\0";
+
+/// The length of SQLite's file header, in which the application_id stands.
+const HEADER_LEN: u64 = 100;
+
+/// Whether the file starts as a SQLite file does, and its length: a SQLite file that SQLite
+/// cannot read is a damaged ledger, anything else is not a ledger at all.
+fn sqlite_file(path: &Path) -> Option<u64> {
+    use std::io::Read;
+    let mut f = std::fs::File::open(path).ok()?;
+    let mut head = [0u8; 16];
+    f.read_exact(&mut head).ok()?;
+    (&head == SQLITE_HEADER).then(|| f.metadata().map(|m| m.len()).unwrap_or(0))
 }
 
 fn connect(path: &Path) -> Result<SqliteConnection> {
@@ -47,12 +80,23 @@ fn connect(path: &Path) -> Result<SqliteConnection> {
     Ok(conn)
 }
 
-/// The file's application_id; a file that is not SQLite at all is refused here.
+/// The file's application_id; a file that is not SQLite at all is refused here, and a SQLite
+/// file cut short of its header, or that SQLite cannot read, is damaged.
 fn application_id(path: &Path, conn: &mut SqliteConnection) -> Result<i32> {
+    let sqlite = sqlite_file(path);
+    if let Some(len) = sqlite.filter(|len| *len < HEADER_LEN) {
+        return Err(damaged_file(
+            path,
+            format!("{len} bytes, shorter than SQLite's {HEADER_LEN}-byte header"),
+        ));
+    }
     diesel::sql_query("PRAGMA application_id")
         .get_result::<AppId>(conn)
         .map(|r| r.application_id)
-        .map_err(|e| Error::Refused(format!("{} is not a sinkbook ledger ({e})", path.display())))
+        .map_err(|e| match sqlite {
+            Some(_) => damaged_file(path, e),
+            None => Error::Refused(format!("{} is not a sinkbook ledger ({e})", path.display())),
+        })
 }
 
 /// WAL with full sync: a committed command survives a power cut. Recursive triggers make the

@@ -84,8 +84,18 @@ impl Tx<'_> {
             ))
             .load_iter::<(EntryRow, Option<i64>, Option<String>, Option<i64>), _>(self.conn)?;
         let mut walk = ChainWalk::new(project);
+        let mut last_seq: Option<i64> = None;
+        let mut undecoded = None;
         for row in rows {
-            let (row, replaced_by, target_kind, first_corrector) = row?;
+            let (row, replaced_by, target_kind, first_corrector) = match row {
+                Ok(r) => r,
+                Err(e @ diesel::result::Error::DeserializationError(_)) => {
+                    undecoded = Some(e);
+                    break;
+                }
+                Err(e) => return Err(e.into()),
+            };
+            last_seq = Some(row.seq);
             let bad = |what: String| {
                 Error::Inconsistent(format!("project {project} seq {}: {what}", row.seq))
             };
@@ -108,7 +118,40 @@ impl Tx<'_> {
                 })?;
             }
         }
-        Ok(walk.finish())
+        match undecoded {
+            None => Ok(walk.finish()),
+            Some(e) => Err(self.undecodable(project, last_seq, &e)),
+        }
+    }
+
+    /// A stored row whose fields no longer decode (a byte changed in a text): named by its seq,
+    /// the one after the last row that decoded.
+    fn undecodable(
+        &mut self,
+        project: &str,
+        after: Option<i64>,
+        e: &diesel::result::Error,
+    ) -> Error {
+        let seq: Option<i64> = entries::table
+            .filter(
+                entries::project
+                    .eq(project)
+                    .and(entries::seq.gt(after.unwrap_or(-1))),
+            )
+            .order(entries::seq)
+            .select(entries::seq)
+            .first(self.conn)
+            .optional()
+            .ok()
+            .flatten();
+        let at = match (seq, after) {
+            (Some(s), _) => format!("seq {s}"),
+            (None, Some(a)) => format!("the row after seq {a}"),
+            (None, None) => "its first row".to_string(),
+        };
+        Error::Inconsistent(format!(
+            "project {project} {at}: a stored field does not decode ({e})"
+        ))
     }
 }
 
