@@ -10,6 +10,11 @@ use chrono::NaiveDate;
 /// Characters a free-text field (a name, note, reason, meter, pathway, key ...) may hold.
 pub const TEXT_MAX: usize = 200;
 
+/// Characters one value of an entry's reading may hold. Free-text options are held to
+/// [`TEXT_MAX`] where they are given; a value composed from several of them (a calculation
+/// spelled out with its factor's source) may run longer.
+pub const READING_MAX: usize = 1_000;
+
 /// Characters a signed statement may hold: a paragraph or two of a verifier's opinion.
 pub const STATEMENT_MAX: usize = 2_000;
 
@@ -77,9 +82,9 @@ impl std::fmt::Display for OutOfBounds {
     }
 }
 
-/// Checks every free-text field and both ends of the period of an entry about to be appended,
-/// whichever command or file it came from. The reading's own fields are named by the option
-/// they come from (`pathway` → `--pathway`).
+/// Checks every free-text field, each value of the reading and both ends of the period of an
+/// entry about to be appended, whichever command or file it came from. The reading's values
+/// are named by the option they come from (`pathway` → `--pathway`).
 pub fn entry(e: &Entry, today: NaiveDate) -> Result<(), OutOfBounds> {
     let out = |option: &str, value: &str, why: String| OutOfBounds {
         option: option.to_string(),
@@ -98,7 +103,8 @@ pub fn entry(e: &Entry, today: NaiveDate) -> Result<(), OutOfBounds> {
         }
     }
     for (name, v) in &e.reading.0 {
-        text(v, TEXT_MAX).map_err(|why| out(&format!("--{}", name.replace('_', "-")), v, why))?;
+        text(v, READING_MAX)
+            .map_err(|why| out(&format!("--{}", name.replace('_', "-")), v, why))?;
     }
     for (option, d) in [("--from", e.period.from), ("--to", e.period.to)] {
         activity_date(d, today).map_err(|why| out(option, &d.to_string(), why))?;
