@@ -15,6 +15,14 @@ fn reports(l: &Ledger) -> Vec<String> {
         for args in [
             vec!["entries", p],
             vec!["balance", p, "--by", "quarter"],
+            vec![
+                "balance",
+                p,
+                "--through",
+                "2026-06-30",
+                "--as-of",
+                "2027-01-31",
+            ],
             vec!["meters", p],
         ] {
             let mut words = vec!["--format", "json"];
@@ -27,6 +35,7 @@ fn reports(l: &Ledger) -> Vec<String> {
         vec!["totals"],
         vec!["totals", "--by", "year"],
         vec!["totals", "--as-of", "2026-07-01"],
+        vec!["totals", "--by", "year", "--through", "2026-06-30"],
         vec!["totals", "--permit", "NSC-SA-0041"],
         vec!["project", "list"],
     ] {
@@ -455,6 +464,22 @@ fn an_operator_s_bundle_from_its_ledger_file_loads_and_shows_in_the_regulator_s_
     assert!(r.out.contains("1 new entries"), "{}", r.out);
     let watcher = as_role(&registry, &regulator);
     assert_eq!(stored_t(&watcher), stored_t(&file));
+    // The regulator's activity through 15 January: 1200 t × 0.985 = 1182 t over 31 days, 15
+    // of them: 17,730,000,000 / 31 = 571,935,483.87 g, and the other 16 days 610,064,516.13 g;
+    // the left-over gram goes to the larger remainder, the first part.
+    let v: serde_json::Value = serde_json::from_str(&watcher.ok(&[
+        "--format",
+        "json",
+        "totals",
+        "--by",
+        "year",
+        "--through",
+        "2026-01-15",
+    ]))
+    .unwrap();
+    assert_eq!(v[0]["project"], "TFS");
+    assert_eq!(v[0]["year"], "2026");
+    assert_eq!(v[0]["injected_t"].as_f64(), Some(571.935484));
 
     file.inject("TF-I1", "900 t", "2026-02-01", "2026-02-28", "feb");
     let r = load(&nsc, &send("tfs-2.bundle"));

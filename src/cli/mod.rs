@@ -6,6 +6,7 @@ mod bundle_load;
 mod chart;
 mod claims;
 mod convert;
+mod dates;
 mod demo;
 mod density;
 mod evidence;

@@ -77,6 +77,7 @@ fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Re
             by: By::Quarter,
             method,
             deduct_excess_over: None,
+            dates: Default::default(),
         },
     )
 }

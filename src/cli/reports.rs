@@ -2,10 +2,11 @@
 
 use super::Context;
 use super::claims::{claims_table, deduction_rule, pool_table, uncertainty_note};
+use super::dates::DateArgs;
 use super::setup::known_project;
-use super::view::load;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
 use crate::accounting::claims::PoolEvent;
+use crate::accounting::project_view::ProjectFigures;
 use crate::error::Result;
 use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind, Method, Project};
@@ -113,23 +114,36 @@ pub struct BalanceArgs {
     /// the whole uncertainty]
     #[arg(long, value_name = "SHARE")]
     pub deduct_excess_over: Option<String>,
+    #[command(flatten)]
+    pub dates: DateArgs,
 }
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
-    let figures = ctx.open()?.read(|tx| load(tx, &a.project, None))?;
+    let dates = a.dates.read()?;
+    let figures = ctx.open()?.read(|tx| dates.load(tx, &a.project))?;
     let grouping = Grouping::from(a.by);
-    match figures.project().method {
-        Method::BasaltMineralization => {
-            return super::mineralization::balance(&figures, grouping);
-        }
+    let mut report = match figures.project().method {
+        Method::BasaltMineralization => super::mineralization::balance(&figures, grouping)?,
         Method::ExSituMineralization => {
-            return super::mineralization::carbonation_balance(&figures, grouping);
+            super::mineralization::carbonation_balance(&figures, grouping)?
         }
-        Method::EnhancedWeathering => {
-            return super::weathering::balance(&figures, grouping);
+        Method::EnhancedWeathering => super::weathering::balance(&figures, grouping)?,
+        Method::SalineAquifer | Method::DepletedField | Method::Eor => {
+            geological_balance(&figures, grouping, &a)?
         }
-        Method::SalineAquifer | Method::DepletedField | Method::Eor => {}
+    };
+    if let Some(t) = report.tables.first_mut() {
+        dates.mark(t, "it");
     }
+    Ok(report)
+}
+
+/// The mass balance of an injection project, its leakage, claims and buffer pool.
+fn geological_balance(
+    figures: &ProjectFigures,
+    grouping: Grouping,
+    a: &BalanceArgs,
+) -> Result<Report> {
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let project = figures.project();
     let lines = figures.geological(grouping, a.method);

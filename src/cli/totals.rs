@@ -1,16 +1,15 @@
 //! `totals`: the regulator's view across every project of the ledger — cumulative received,
 //! injected, stored, conservative, durable, buffer, claimable, reversed and permit headroom —
-//! as the ledger held it at the end of any date.
+//! for activity through any date, as the ledger held it at the end of any date.
 
 use super::Context;
 use super::claims::{backdated_notes, deduction_rule};
-use super::view::load;
+use super::dates::DateArgs;
 use crate::accounting::project_view::{ProjectFigures, TotalsLine};
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
-use chrono::{DateTime, NaiveDate, Utc};
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -27,9 +26,8 @@ pub struct TotalsArgs {
     /// One line per project and year instead of one per project
     #[arg(long, value_enum)]
     pub by: Option<TotalsBy>,
-    /// What the ledger held at the end of this date (UTC); entries recorded later are left out
-    #[arg(long, value_name = "DATE")]
-    pub as_of: Option<String>,
+    #[command(flatten)]
+    pub dates: DateArgs,
     /// Deduct only the share of the uncertainty above this threshold
     #[arg(long, value_name = "SHARE")]
     pub deduct_excess_over: Option<String>,
@@ -40,19 +38,8 @@ pub enum TotalsBy {
     Year,
 }
 
-/// The end of a calendar day in UTC.
-pub fn end_of(d: NaiveDate) -> DateTime<Utc> {
-    d.and_hms_micro_opt(23, 59, 59, 999_999)
-        .expect("valid time")
-        .and_utc()
-}
-
 pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
-    let as_of = a
-        .as_of
-        .as_deref()
-        .map(|d| super::inputs::date("--as-of", d).map(end_of))
-        .transpose()?;
+    let dates = a.dates.read()?;
     if let Some(m) = &a.method {
         Method::from_name(m).ok_or_else(|| {
             Error::field(
@@ -73,7 +60,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         })?;
         let mut views = Vec::new();
         for p in projects {
-            let wanted = as_of.is_none_or(|t| p.registered_at <= t)
+            let wanted = dates.as_of.is_none_or(|t| p.registered_at <= t)
                 && a.operator
                     .as_ref()
                     .is_none_or(|o| o.eq_ignore_ascii_case(&p.operator))
@@ -84,7 +71,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
                         .is_some_and(|p| p.eq_ignore_ascii_case(r))
                 });
             if wanted {
-                views.push(load(tx, &p.code, as_of)?);
+                views.push(dates.load(tx, &p.code)?);
             }
         }
         Ok(views)
@@ -92,13 +79,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let by_year = a.by.is_some();
     let mut t = Table::new(
         "totals",
-        match as_of {
-            Some(t) => format!(
-                "Totals across projects, as the ledger held them at {}",
-                t.format("%Y-%m-%d %H:%M:%S UTC")
-            ),
-            None => "Totals across projects".to_string(),
-        },
+        "Totals across projects",
         columns(&[
             names::PROJECT,
             names::YEAR,
@@ -159,6 +140,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     if !by_year {
         t.note("Buffer and claimable are net of what reversals cancelled (buffer first, then claimable), in the year of the reversal, so the years add up to the project's line.");
     }
+    dates.mark(&mut t, "them");
     Ok(Report::default().table(t))
 }
 

@@ -6,12 +6,23 @@ use crate::accounting::project_view::{ProjectFigures, ProjectView, Registrations
 use crate::error::Result;
 use crate::ledger::correction::effective;
 use crate::store::Tx;
-use chrono::{DateTime, Utc};
+use chrono::{DateTime, NaiveDate, Utc};
 
 /// A project as the ledger holds it, or held it at `as_of`: with a date, later entries,
 /// corrections, sites, settings and feedstocks are left out, so a past report can be
 /// reproduced exactly. Without one, everything recorded counts, whatever the clock says.
 pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result<ProjectFigures> {
+    load_through(tx, code, as_of, None)
+}
+
+/// [`load`], counting activity only up to and including `through` (the view splits entries
+/// spanning it by days).
+pub fn load_through(
+    tx: &mut Tx<'_>,
+    code: &str,
+    as_of: Option<DateTime<Utc>>,
+    through: Option<NaiveDate>,
+) -> Result<ProjectFigures> {
     let project = known_project(tx, code)?;
     let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
     let mut sites = tx.sites(code)?;
@@ -25,7 +36,8 @@ pub fn load(tx: &mut Tx<'_>, code: &str, as_of: Option<DateTime<Utc>>) -> Result
         sites,
         settings,
         feedstocks,
-    })?;
+    })?
+    .through(through);
     let mut entries = tx.entries(code)?;
     entries.retain(|s| held(s.entry.recorded_at));
     for e in effective(&entries) {

@@ -135,11 +135,33 @@ pub fn apportion(grams: i64, period: Period, grouping: Grouping) -> Vec<(Bucket,
             None => break,
         }
     }
+    split_by_days(grams, &spans)
+}
+
+/// The grams of a period's days up to and including `day`, split from the rest as
+/// [`apportion`] splits a period between buckets: by days, in whole grams, largest remainder,
+/// a tie to the earlier part. All of them when the period ends by `day`, none when it starts
+/// after it.
+pub fn share_through(grams: i64, period: Period, day: NaiveDate) -> i64 {
+    if period.to <= day {
+        return grams;
+    }
+    if period.from > day {
+        return 0;
+    }
+    let before = (day - period.from).num_days() + 1;
+    let after = (period.to - day).num_days();
+    split_by_days(grams, &[(true, before), (false, after)])[0].1
+}
+
+/// Splits whole grams over parts of a period by their days, exactly (largest remainder, ties to
+/// the earlier part).
+fn split_by_days<K: Copy>(grams: i64, spans: &[(K, i64)]) -> Vec<(K, i64)> {
     if spans.len() == 1 {
         return vec![(spans[0].0, grams)];
     }
-    let total = i128::from(period.days());
-    let mut parts: Vec<(Bucket, i64, i128)> = spans
+    let total: i128 = spans.iter().map(|s| i128::from(s.1)).sum();
+    let mut parts: Vec<(K, i64, i128)> = spans
         .iter()
         .map(|&(b, days)| {
             let share = i128::from(grams) * i128::from(days);
@@ -210,6 +232,22 @@ mod tests {
     }
 
     #[test]
+    fn share_through_splits_as_apportion_does() {
+        // 40 days, 30 in June: 985 t × 30/40 = 738.75 t exactly.
+        let p = Period::new(d("2026-06-01"), d("2026-07-10")).unwrap();
+        assert_eq!(share_through(985_000_000, p, d("2026-06-30")), 738_750_000);
+        // At a quarter's end it is the quarters' split: 1 day of 10 is 100,000 g of 1,000,001.
+        let q = Period::new(d("2026-03-31"), d("2026-04-09")).unwrap();
+        assert_eq!(share_through(1_000_001, q, d("2026-03-31")), 100_000);
+        // 985,000 g over 3 days, 1 day through: 328,333⅓ and 656,666⅔; the left gram goes to
+        // the larger remainder, the later part.
+        let r = Period::new(d("2026-06-30"), d("2026-07-02")).unwrap();
+        assert_eq!(share_through(985_000, r, d("2026-06-30")), 328_333);
+        assert_eq!(share_through(985_000, r, d("2026-07-02")), 985_000);
+        assert_eq!(share_through(985_000, r, d("2026-06-29")), 0);
+    }
+
+    #[test]
     fn refuses_backwards_period() {
         assert!(Period::new(d("2026-02-01"), d("2026-01-31")).is_err());
         assert!(parse_date("2026-13-01").is_err());
@@ -224,6 +262,13 @@ mod tests {
             for grouping in [Grouping::Month, Grouping::Quarter, Grouping::Year] {
                 let parts = apportion(g, p, grouping);
                 proptest::prop_assert_eq!(parts.iter().map(|x| x.1).sum::<i64>(), g);
+            }
+            // Cut at a quarter's end inside the period, the part up to it is the first
+            // quarter's share when the period touches two quarters.
+            let end = Grouping::Quarter.bucket(p.from).last_day();
+            let quarters = apportion(g, p, Grouping::Quarter);
+            if quarters.len() == 2 {
+                proptest::prop_assert_eq!(share_through(g, p, end), quarters[0].1);
             }
         }
     }

@@ -14,6 +14,7 @@ mod ex_situ;
 mod geological;
 mod reported;
 mod series;
+mod through;
 mod totals;
 mod weathering;
 
@@ -64,6 +65,8 @@ pub struct ProjectView {
     batches: Vec<(usize, Batch)>,
     applications: Vec<Application>,
     cores: Vec<Core>,
+    /// Count activity only up to this day (`--through`).
+    through: Option<NaiveDate>,
 }
 
 impl ProjectView {
@@ -83,15 +86,35 @@ impl ProjectView {
             batches: Vec::new(),
             applications: Vec::new(),
             cores: Vec::new(),
+            through: None,
         })
+    }
+
+    /// Counts activity only up to and including `day` (see [`through`]); claim periods take
+    /// the settings in force on their last day or on `day`, whichever is earlier.
+    pub fn through(mut self, day: Option<NaiveDate>) -> ProjectView {
+        self.through = day;
+        self
     }
 
     /// Takes one effective entry; its reading is decoded now, once.
     pub fn add(&mut self, e: &Entry) -> Result<(), ViewError> {
+        let whole = e;
+        let e = match self.through {
+            Some(day) => match through::entry_through(whole, day) {
+                Some(e) => e,
+                None => return Ok(()),
+            },
+            None => std::borrow::Cow::Borrowed(whole),
+        };
+        let e = e.as_ref();
         match e.kind {
             EntryKind::TracerSample => self.samples.push(SampleRead::of(e)?),
             EntryKind::Carbonation => {
-                let b = evidence::batch_of(e)?;
+                let mut b = evidence::batch_of(e)?;
+                if let Some(day) = self.through {
+                    b = through::batch_through(b, whole.period, day);
+                }
                 self.batches.push((self.entries.len(), b));
             }
             EntryKind::Application => self.applications.push(evidence::application_of(e)?),
@@ -150,8 +173,21 @@ impl ProjectFigures {
     }
 
     /// The claim rules of a period: the settings in force on its last day.
+    /// With `--through`, the settings in force on that day where it comes first.
     pub fn rules(&self, period: Bucket, deduction: DeductionRule) -> ClaimRules {
-        self.rules_on(period.last_day(), deduction)
+        self.rules_on(self.settings_day(period), deduction)
+    }
+
+    /// The day a period's claim reads its settings on: its last day, or the `--through` day
+    /// where that comes first.
+    fn settings_day(&self, period: Bucket) -> NaiveDate {
+        let last = period.last_day();
+        self.view.through.map_or(last, |t| t.min(last))
+    }
+
+    /// The day activity is counted up to (`--through`), if any.
+    pub fn through(&self) -> Option<NaiveDate> {
+        self.view.through
     }
 
     /// The claim rules of the settings in force on `day`.
@@ -165,7 +201,7 @@ impl ProjectFigures {
         let mut used: Vec<(&Setting, Vec<Bucket>)> = Vec::new();
         for p in periods {
             for name in SettingName::ALL {
-                let Some(s) = in_force(&self.view.settings, *name, p.last_day()) else {
+                let Some(s) = in_force(&self.view.settings, *name, self.settings_day(*p)) else {
                     continue;
                 };
                 if !s.backdated() {

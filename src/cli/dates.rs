@@ -1,0 +1,78 @@
+//! The two dates a report can be asked at, never confused: `--as-of` is knowledge time (what
+//! the ledger held at the end of that day: entries, settings and registrations recorded later
+//! are left out, whatever days they cover) and `--through` is activity time (what happened up
+//! to and including that day, as the ledger holds it now: entries spanning it count for their
+//! days up to it).
+
+use super::view::load_through;
+use crate::accounting::project_view::ProjectFigures;
+use crate::error::Result;
+use crate::report::Table;
+use crate::store::Tx;
+use chrono::{DateTime, NaiveDate, Utc};
+use clap::Args;
+
+#[derive(Debug, Default, Args)]
+pub struct DateArgs {
+    /// What the ledger held at the end of this date (UTC): entries recorded later are left
+    /// out, whatever days they cover (knowledge time)
+    #[arg(long, value_name = "DATE")]
+    pub as_of: Option<String>,
+    /// Activity up to and including this date: entries spanning it count for their days up to
+    /// it (activity time)
+    #[arg(long, value_name = "DATE")]
+    pub through: Option<String>,
+}
+
+/// `--as-of` and `--through`, read.
+#[derive(Debug, Clone, Copy)]
+pub struct Dates {
+    pub as_of: Option<DateTime<Utc>>,
+    pub through: Option<NaiveDate>,
+}
+
+/// The end of a calendar day in UTC.
+fn end_of(d: NaiveDate) -> DateTime<Utc> {
+    d.and_hms_micro_opt(23, 59, 59, 999_999)
+        .expect("valid time")
+        .and_utc()
+}
+
+impl DateArgs {
+    pub fn read(&self) -> Result<Dates> {
+        let date = |field: &str, d: &Option<String>| {
+            d.as_deref()
+                .map(|d| super::inputs::date(field, d))
+                .transpose()
+        };
+        Ok(Dates {
+            as_of: date("--as-of", &self.as_of)?.map(end_of),
+            through: date("--through", &self.through)?,
+        })
+    }
+}
+
+impl Dates {
+    /// A project's figures at these dates.
+    pub fn load(&self, tx: &mut Tx<'_>, code: &str) -> Result<ProjectFigures> {
+        load_through(tx, code, self.as_of, self.through)
+    }
+
+    /// Marks the first table of a report with the dates asked: its title says "activity
+    /// through D" and "as the ledger held `held` at T", and a note says how `--through`
+    /// counted.
+    pub fn mark(&self, t: &mut Table, held: &str) {
+        if let Some(d) = self.through {
+            t.title += &format!(", activity through {d}");
+        }
+        if let Some(at) = self.as_of {
+            t.title += &format!(
+                ", as the ledger held {held} at {}",
+                at.format("%Y-%m-%d %H:%M:%S UTC")
+            );
+        }
+        if let Some(d) = self.through {
+            t.note(format!("Activity through {d}: an entry spanning that day counts for its days up to it, split by days as periods split entries; claims take the settings in force on that day where their period ends later."));
+        }
+    }
+}
