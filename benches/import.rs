@@ -7,6 +7,8 @@
 //! `cargo bench --bench import` (needs `sqlite3` and `/usr/bin/time` for the baseline and the
 //! memory figure; says so when they are missing).
 
+mod common;
+
 use std::io::Write;
 use std::path::Path;
 use std::process::Command;
@@ -31,77 +33,17 @@ fn many_per_day(path: &Path) {
     }
 }
 
-/// 1,000 mass meters on two wells, one daily total each for 1,000 days from 2023-04-01.
-fn one_per_day(path: &Path) {
-    let mut f = std::io::BufWriter::new(std::fs::File::create(path).unwrap());
-    writeln!(f, "timestamp,site,quantity,unit,co2_fraction,meter").unwrap();
-    let start = chrono::NaiveDate::from_ymd_opt(2023, 4, 1).unwrap();
-    for d in 0..1_000 {
-        let day = start + chrono::Duration::days(d);
-        for m in 0..1_000u64 {
-            let site = if m % 2 == 0 { "TF-I1" } else { "TF-I2" };
-            writeln!(
-                f,
-                "{day},{site},{}.{},t,0.985,FM-{m:04}",
-                10 + (m * 7 + d as u64) % 90,
-                m % 10
-            )
-            .unwrap();
-        }
-    }
-}
-
-fn sinkbook(db: &Path, args: &[&str]) -> std::process::Output {
-    let o = Command::new(env!("CARGO_BIN_EXE_sinkbook"))
-        .arg("--db")
-        .arg(db)
-        .args(args)
-        .output()
-        .unwrap();
-    assert!(
-        o.status.success(),
-        "sinkbook {args:?}: {}",
-        String::from_utf8_lossy(&o.stderr)
-    );
-    o
-}
-
 fn timed(mut cmd: Command) -> (f64, std::process::Output) {
     let t = Instant::now();
     let o = cmd.output().unwrap();
     (t.elapsed().as_secs_f64(), o)
 }
 
-/// A ledger with project TFS and its two injection wells.
-fn ledger(db: &Path) {
-    sinkbook(db, &["init"]);
-    sinkbook(
-        db,
-        &[
-            "project",
-            "add",
-            "TFS",
-            "--name",
-            "Tamsin Flats Storage",
-            "--method",
-            "saline-aquifer",
-            "--operator",
-            "Northdeep Storage Cooperative",
-        ],
-    );
-    for well in ["TF-I1", "TF-I2"] {
-        sinkbook(
-            db,
-            &["site", "add", "TFS", well, "--kind", "injection-well"],
-        );
-    }
-}
-
 /// Imports `csv` into a new ledger and the shell's `.import` into a plain table; prints both
 /// and their ratio, and the import's peak memory. Returns the ledger.
 fn measure(dir: &Path, tag: &str, name: &str, csv: &Path) -> std::path::PathBuf {
     let db = dir.join(format!("{tag}.db"));
-    ledger(&db);
+    common::ledger(&db);
     let have_time = Path::new("/usr/bin/time").exists();
     let mut cmd = if have_time {
         let mut c = Command::new("/usr/bin/time");
@@ -181,13 +123,13 @@ fn main() {
         &many,
     );
     let t = Instant::now();
-    sinkbook(&db, &["balance", "TFS", "--by", "quarter"]);
+    common::sinkbook(&db, &["balance", "TFS", "--by", "quarter"]);
     println!(
         "  balance --by quarter {:>7.3} s  (target < 0.1 s)",
         t.elapsed().as_secs_f64()
     );
     let one = dir.path().join("one-per-day.csv");
-    one_per_day(&one);
+    common::one_per_day(&one, ROWS);
     measure(
         dir.path(),
         "one",

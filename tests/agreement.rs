@@ -58,7 +58,7 @@ fn chart_balance_totals_and_reconcile_agree_on_every_demo_project() {
             .collect();
         assert_eq!(from_totals, balance, "{code}: totals against balance");
         // chart: the stored series is the running sum of the same figures.
-        let svg = demo.dir.path().join(format!("{code}.svg"));
+        let svg = demo.dir().join(format!("{code}.svg"));
         let chart = demo.json(&[
             "chart",
             code,
@@ -92,7 +92,7 @@ fn chart_balance_totals_and_reconcile_agree_on_every_demo_project() {
             );
         }
         // reconcile: the ledger's stored figure against a report naming every year.
-        let report = demo.dir.path().join(format!("{code}.csv"));
+        let report = demo.dir().join(format!("{code}.csv"));
         let mut csv = String::from("period,quantity,value,unit\n");
         for year in balance.keys() {
             csv.push_str(&format!("{year},stored,0,t\n"));

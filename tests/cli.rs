@@ -32,23 +32,23 @@ fn sample(l: &Ledger) {
 fn record_entries_and_balance_tables() {
     let l = Ledger::with_tfs();
     sample(&l);
-    insta::assert_snapshot!("entries_table", l.ok(&["entries", "TFS"]));
-    insta::assert_snapshot!(
+    crate::snapshot!("entries_table", l.ok(&["entries", "TFS"]));
+    crate::snapshot!(
         "balance_quarter",
         l.ok(&["balance", "TFS", "--by", "quarter"])
     );
-    insta::assert_snapshot!("balance_month", l.ok(&["balance", "TFS", "--by", "month"]));
-    insta::assert_snapshot!(
+    crate::snapshot!("balance_month", l.ok(&["balance", "TFS", "--by", "month"]));
+    crate::snapshot!(
         "balance_year_json",
         l.ok(&["--format", "json", "balance", "TFS", "--by", "year"])
     );
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "balance_quarter_csv",
         l.ok(&["--format", "csv", "balance", "TFS"])
     );
-    insta::assert_snapshot!("projects_table", l.ok(&["project", "list"]));
-    insta::assert_snapshot!("project_show", l.ok(&["project", "show", "TFS"]));
-    insta::assert_snapshot!("verify_table", l.ok(&["verify"]));
+    crate::snapshot!("projects_table", l.ok(&["project", "list"]));
+    crate::snapshot!("project_show", l.ok(&["project", "show", "TFS"]));
+    crate::snapshot!("verify_table", l.ok(&["verify"]));
 }
 
 #[test]
@@ -173,7 +173,7 @@ fn corrections_replace_and_can_be_corrected() {
         35_640_000_000i64 + (25_202_400_000i64 * 985 / 1000) + (37_072_900_000i64 * 985 / 1000);
     assert_eq!(b["balance"][0]["period"], "2026-Q1");
     assert_eq!(b["balance"][0]["injected_t"], q1 as f64 / 1e6);
-    insta::assert_snapshot!("entries_with_corrections", l.ok(&["entries", "TFS"]));
+    crate::snapshot!("entries_with_corrections", l.ok(&["entries", "TFS"]));
 }
 
 #[test]
@@ -222,7 +222,7 @@ fn demo_builds_and_prints_its_tables() {
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     let out = String::from_utf8(o.stdout).unwrap();
     let out = out.replace(&db.display().to_string(), "[DB]");
-    insta::assert_snapshot!("demo", out);
+    crate::snapshot!("demo", out);
     // The sample projects' annual tables, pinned beside the quarterly ones the demo prints.
     for project in ["TFS", "KRE"] {
         let o = assert_cmd::Command::cargo_bin("sinkbook")
@@ -232,7 +232,7 @@ fn demo_builds_and_prints_its_tables() {
             .output()
             .unwrap();
         assert!(o.status.success());
-        insta::assert_snapshot!(
+        crate::snapshot!(
             format!("sample_{project}_year"),
             String::from_utf8(o.stdout).unwrap()
         );
@@ -262,7 +262,7 @@ fn demo_without_db_uses_a_temporary_file() {
     assert!(o.status.success());
     // The overview: projects, one balance per project by year, totals, and where the detail is.
     let out = String::from_utf8(o.stdout).unwrap();
-    insta::assert_snapshot!("demo_overview", out);
+    crate::snapshot!("demo_overview", out.clone());
     for title in [
         "Mass balance (40 CFR 98.443) by year, project TFS",
         "Mass balance (40 CFR 98.443) by year, project KRE",

@@ -81,11 +81,11 @@ fn iso_27916_counts_recycled_once() {
     assert_eq!(y["losses_from_eor_complex_t"], 6.0);
     assert_eq!(y["stored_t"], 972.6);
     assert_eq!(y["recycled_t"], 300.0);
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "kre_iso27916_year",
         l.ok(&["balance", "KRE", "--by", "year", "--method", "iso27916"])
     );
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "kre_rr_quarter",
         l.ok(&["balance", "KRE", "--by", "quarter"])
     );
@@ -139,7 +139,7 @@ fn volumetric_meters_and_the_meter_table() {
     assert_eq!(m[0]["quantity_read"], 20000.0);
     assert_eq!(m[1]["meter_type"], "volumetric");
     assert_eq!(m[1]["co2_fraction_mean"], 0.99);
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "tfs_meters_2026",
         l.ok(&["meters", "TFS", "--year", "2026"])
     );

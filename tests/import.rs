@@ -290,7 +290,8 @@ fn an_open_quote_is_counted_with_every_line_it_swallows() {
 
 #[test]
 fn readings_are_read_back_from_the_kept_file_and_a_changed_byte_is_caught() {
-    let l = Ledger::with_tfs();
+    // A ledger file: the kept bytes are changed through the sqlite3 shell.
+    let l = common::on_file(Ledger::with_tfs);
     let f = write(&l, "may.csv", b"timestamp,site,quantity,unit,co2_fraction,meter\n2026-05-01T06:00:00Z,TF-I2,310,t,0.99,FM-201\n2026-05-01T18:00:00Z,TF-I2,290,t,0.99,FM-201\n2026-05-02T06:00:00Z,TF-I2,305,t,0.99,FM-201\n");
     l.ok(&["import", "TFS", &f]);
     let out = l.ok(&[

@@ -5,12 +5,11 @@
 mod common;
 
 use std::collections::HashMap;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
-/// A ledger built by `demo` from the sample projects.
+/// A ledger built by `demo --full` from the sample projects, on the backend under test.
 struct Demo {
-    _dir: tempfile::TempDir,
-    db: PathBuf,
+    ledger: common::Ledger,
 }
 
 fn sinkbook(columns: Option<&str>) -> assert_cmd::Command {
@@ -39,15 +38,24 @@ fn full_demo(db: &Path, columns: Option<&str>) -> String {
 
 impl Demo {
     fn new() -> Demo {
-        let dir = tempfile::tempdir().unwrap();
-        let db = dir.path().join("demo.db");
-        full_demo(&db, None);
-        Demo { _dir: dir, db }
+        let ledger = unmade();
+        full_demo(&ledger.path, None);
+        Demo { ledger }
     }
 
     fn run(&self, columns: Option<&str>, args: &[&str]) -> String {
-        stdout(sinkbook(columns).arg("--db").arg(&self.db).args(args))
+        stdout(
+            sinkbook(columns)
+                .arg("--db")
+                .arg(&self.ledger.path)
+                .args(args),
+        )
     }
+}
+
+/// Where a demo ledger goes: a new file or an empty PostgreSQL database.
+fn unmade() -> common::Ledger {
+    common::Ledger::unmade(common::on_postgres(), "demo.db")
 }
 
 fn columns(line: &str) -> usize {
@@ -105,16 +113,16 @@ fn tables_at_80_120_and_unlimited_width() {
                 let longest = out.lines().map(columns).max().unwrap();
                 assert!(longest <= w.parse().unwrap(), "{name} at {w}:\n{out}");
             }
-            insta::assert_snapshot!(format!("{name}_{width}"), out);
+            crate::snapshot!(format!("{name}_{width}"), out);
         }
     }
 }
 
 #[test]
 fn every_table_of_the_demo_fits_100_columns_and_no_number_is_broken() {
-    let dir = tempfile::tempdir().unwrap();
-    let narrow = full_demo(&dir.path().join("narrow.db"), Some("100"));
-    let full = full_demo(&dir.path().join("full.db"), None);
+    let (a, b) = (unmade(), unmade());
+    let narrow = full_demo(&a.path, Some("100"));
+    let full = full_demo(&b.path, None);
     let drawn = tables(&narrow);
     assert!(drawn.len() > 20, "{} tables", drawn.len());
     for table in &drawn {
@@ -190,11 +198,11 @@ fn at_terminal(db: &Path, no_color: bool) -> Option<String> {
 #[test]
 fn a_terminal_gets_its_width_and_bold_titles_unless_no_color() {
     let demo = Demo::new();
-    let Some(styled) = at_terminal(&demo.db, false) else {
+    let Some(styled) = at_terminal(&demo.ledger.path, false) else {
         return;
     };
     assert!(styled.starts_with("\x1b[1mMass balance"), "{styled}");
-    let plain = at_terminal(&demo.db, true).unwrap();
+    let plain = at_terminal(&demo.ledger.path, true).unwrap();
     assert!(!plain.contains('\x1b'), "{plain}");
     assert_eq!(plain, styled.replace("\x1b[1m", "").replace("\x1b[0m", ""));
     assert_eq!(

@@ -49,7 +49,7 @@ fn every_entry_proves_and_every_altered_field_fails() {
         let r = check(&l, &file);
         assert_eq!(r.code, 0, "{}", r.err);
         if seq == 4 {
-            insta::assert_snapshot!("check_proof", r.out);
+            crate::snapshot!("check_proof", r.out);
         }
         let v: serde_json::Value =
             serde_json::from_str(&std::fs::read_to_string(&file).unwrap()).unwrap();

@@ -4,8 +4,8 @@
 
 mod common;
 
-use common::Ledger;
 use common::registry::{self, psql};
+use common::{Ledger, without_role_and_hashes};
 
 /// Every report the sample scripts lead to, as JSON, with the ledger's location blanked.
 fn reports(l: &Ledger) -> Vec<String> {
@@ -44,32 +44,6 @@ fn reports(l: &Ledger) -> Vec<String> {
         all.push(l.ok(&words).replace(&place, "DB"));
     }
     all
-}
-
-/// What legitimately differs between the backends. An entry appended to the registry names the
-/// role that wrote it (`postgres` here; canonical encoding v2), so its leaf hash, and the chain
-/// and tree heads over it, differ from the file's v1 entries: this sets the role back to the
-/// file's none and blanks every SHA-256 (64 hex digits, or the 12 a chain head is shown by),
-/// leaving every other byte to compare.
-fn without_role_and_hashes(report: &str) -> String {
-    let report = report.replace("\"recorded_by\": \"postgres\"", "\"recorded_by\": null");
-    let mut out = String::with_capacity(report.len());
-    let mut run = String::new();
-    for c in report.chars().chain(std::iter::once(' ')) {
-        if c.is_ascii_hexdigit() && !c.is_ascii_uppercase() {
-            run.push(c);
-            continue;
-        }
-        out.push_str(if [12, 64].contains(&run.len()) {
-            "SHA-256"
-        } else {
-            &run
-        });
-        run.clear();
-        out.push(c);
-    }
-    out.pop();
-    out
 }
 
 #[test]

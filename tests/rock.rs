@@ -160,7 +160,7 @@ fn campaigns_apply_to_co2_injected_before_them() {
     let m = l.json(&["balance", "CRB"]);
     assert_eq!(grams(&m[1]["mineralized_t"]), 273_243_750); // 280.25 × 0.975
     assert_eq!(m[1]["campaign"], "2025-08-01");
-    insta::assert_snapshot!("mineralization_tables", l.ok(&["mineralization", "CRB"]));
+    crate::snapshot!("mineralization_tables", l.ok(&["mineralization", "CRB"]));
 }
 
 #[test]
@@ -338,7 +338,7 @@ fn carbonation_balance_by_period_and_no_uptake_finding() {
         feb - grams(&b[1]["emissions_t"]),
         "net = stored − emissions"
     );
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "carbonation_balance",
         l.ok(&["balance", "XSM", "--by", "month"])
     );
@@ -630,7 +630,7 @@ fn gross_to_net_term_by_term() {
         .map(|(mol_t, z)| 500.0 * mol_t * z * M_CO2)
         .sum();
     assert!((full / 1e6 - pot_kg_t * 0.5).abs() < 1e-6);
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "weathering_deductions",
         l.ok(&[
             "weathering",
@@ -766,13 +766,13 @@ fn weathering_table_and_balance_by_year() {
     let total = rows.last().unwrap();
     assert_eq!(total["field"], "total");
     assert_eq!(grams(&total["net_t"]), grams(&y[1]["cumulative_net_t"]));
-    insta::assert_snapshot!("weathering_table", l.ok(&["weathering", "EVW"]));
-    insta::assert_snapshot!(
+    crate::snapshot!("weathering_table", l.ok(&["weathering", "EVW"]));
+    crate::snapshot!(
         "weathering_balance",
         l.ok(&["balance", "EVW", "--by", "year"])
     );
-    insta::assert_snapshot!("feedstock_list", l.ok(&["feedstock", "list", "EVW"]));
-    insta::assert_snapshot!(
+    crate::snapshot!("feedstock_list", l.ok(&["feedstock", "list", "EVW"]));
+    crate::snapshot!(
         "weathering_one_field_tau",
         l.ok(&["weathering", "EVW", "--site", "EV-F2", "--method", "tau"])
     );
@@ -949,7 +949,7 @@ fn records_are_idempotent_and_corrections_need_a_new_reading() {
 fn tampered_feedstock_is_caught_by_verify() {
     use diesel::connection::SimpleConnection;
     use diesel::{Connection, SqliteConnection};
-    let l = evw();
+    let l = common::on_file(evw);
     assert_eq!(l.run(&["verify"]).code, 0);
     SqliteConnection::establish(l.path.to_str().unwrap())
         .unwrap()
@@ -972,7 +972,7 @@ fn tampered_feedstock_is_caught_by_verify() {
 fn feedstock_table_is_append_only() {
     use diesel::connection::SimpleConnection;
     use diesel::{Connection, SqliteConnection};
-    let l = evw();
+    let l = common::on_file(evw);
     let mut c = SqliteConnection::establish(l.path.to_str().unwrap()).unwrap();
     for sql in [
         "UPDATE feedstocks SET density = '3 t/m3'",

@@ -62,9 +62,7 @@ fn python_recomputes_every_seal_root_of_the_demo() {
         eprintln!("skipped: python3 not available, the independent seal-root check did not run");
         return;
     }
-    let l = Ledger::new();
-    std::fs::remove_file(&l.path).unwrap();
-    l.ok(&["demo"]);
+    let l = Ledger::demo();
     l.ok(&["seal", "KRE", "--period", "2026-Q1"]);
     l.ok(&["seal", "KRE", "--period", "2026-Q2"]);
     let projects = l.json(&["project", "list"]);
@@ -137,7 +135,7 @@ fn a_seal_fixes_its_tree_head_and_figures() {
     );
     // 2 × 1000 t at 98.5 % CO2 — computed.
     assert_eq!(s[0]["stored_t"], 1970.0);
-    insta::assert_snapshot!(
+    crate::snapshot!(
         "seal_table",
         l.run_at(LATER, &["seal", "TFS", "--period", "2026-Q2"]).out
     );

@@ -95,13 +95,14 @@ fn keys_are_private_and_never_overwritten() {
 #[test]
 fn statements_are_listed_with_their_checks() {
     let (l, _, _) = sealed_and_signed();
-    insta::assert_snapshot!("statements", l.ok(&["statements", "TFS"]));
+    crate::snapshot!("statements", l.ok(&["statements", "TFS"]));
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "verify", "TFS"])).unwrap();
     assert_eq!(v[0]["statements"], 2);
     assert_eq!(v[0]["seals"], 1);
 }
 
+/// The ledger file's SQLite, to alter rows as a forger would.
 fn raw(l: &Ledger) -> SqliteConnection {
     SqliteConnection::establish(l.path.to_str().unwrap()).unwrap()
 }
@@ -118,7 +119,7 @@ fn an_altered_statement_or_seal_is_caught() {
             "seq 0",
         ),
     ] {
-        let (l, _, _) = sealed_and_signed();
+        let (l, _, _) = common::on_file(sealed_and_signed);
         raw(&l).batch_execute(sql).unwrap();
         let r = l.run(&["verify"]);
         assert_eq!(r.code, 3, "after {sql}: {}", r.out);
@@ -130,7 +131,7 @@ fn an_altered_statement_or_seal_is_caught() {
 fn a_forged_signature_is_caught() {
     // A changed signature breaks the row hash; one that also recomputed the row hash would still
     // fail the ed25519 check (unit tests in src/ledger/signature.rs).
-    let (l, _, _) = sealed_and_signed();
+    let (l, _, _) = common::on_file(sealed_and_signed);
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "statements", "TFS"])).unwrap();
     let sig = v[1]["signature"].as_str().unwrap();
@@ -156,7 +157,7 @@ fn a_forged_signature_is_caught() {
 fn operators_list_each_project_s_last_seal_and_its_verifier_s_statement() {
     let (l, op, _) = sealed_and_signed();
     l.add_kre(&[]);
-    insta::assert_snapshot!("registry_operators", l.ok(&["registry", "operators"]));
+    crate::snapshot!("registry_operators", l.ok(&["registry", "operators"]));
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "registry", "operators"])).unwrap();
     assert_eq!(v[0]["project"], "KRE");

@@ -6,8 +6,10 @@ use common::Ledger;
 use diesel::connection::SimpleConnection;
 use diesel::{Connection, SqliteConnection};
 
+/// A ledger file (these tests rewrite its SQLite rows and bytes directly; the registry's
+/// refusals are tests/registry.rs's) with six entries.
 fn ledger_with_entries() -> Ledger {
-    let l = Ledger::with_tfs();
+    let l = common::on_file(Ledger::with_tfs);
     for m in 1..=6 {
         let r = l.inject(
             "TF-I1",

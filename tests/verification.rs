@@ -322,7 +322,7 @@ fn totals_as_of_reproduce_an_earlier_table_byte_for_byte() {
     assert_eq!(now[0]["stored_t"], 1400.0);
     let filtered = l.json(&["totals", "--operator", "Other Operator"]);
     assert_eq!(filtered[0]["project"], "Q");
-    insta::assert_snapshot!("totals_as_of", then);
+    crate::snapshot!("totals_as_of", then);
 }
 
 #[test]
@@ -345,7 +345,7 @@ fn reconciliation_verdicts_and_exit_codes() {
     let r = l.run(&["reconcile", "P", &ok]);
     assert_eq!(r.code, 0, "{}", r.err);
     assert!(r.out.contains("within materiality"));
-    insta::assert_snapshot!("reconcile_within", r.out);
+    crate::snapshot!("reconcile_within", r.out);
     // 7 000 t off → material at 5 % (6 000 t): exit 4.
     let bad = report("2026,stored,113000,t\n");
     let r = l.run(&["reconcile", "P", &bad]);
@@ -483,7 +483,7 @@ fn bad_settings_and_reversals_are_refused() {
 #[test]
 fn a_weathering_project_reconciles_its_net_removal() {
     let demo = Demo::new();
-    let (dir, run) = (&demo.dir, |args: &[&str]| demo.run(args));
+    let (dir, run) = (demo.dir(), |args: &[&str]| demo.run(args));
     let b: Value = serde_json::from_slice(
         &run(&["--format", "json", "balance", "EVW", "--by", "year"]).stdout,
     )
@@ -497,7 +497,7 @@ fn a_weathering_project_reconciles_its_net_removal() {
         .as_f64()
         .unwrap();
     // A report 1 % under the ledger's 2026 net removal: within materiality.
-    let report = dir.path().join("evw.csv");
+    let report = dir.join("evw.csv");
     std::fs::write(
         &report,
         format!(
@@ -550,7 +550,7 @@ fn a_weathering_project_reconciles_its_net_removal() {
 #[test]
 fn a_basalt_project_reconciles_its_mineralized_tonnes() {
     let demo = Demo::new();
-    let (dir, run) = (&demo.dir, |args: &[&str]| demo.run(args));
+    let (dir, run) = (demo.dir(), |args: &[&str]| demo.run(args));
     let m: Value = serde_json::from_slice(
         &run(&["--format", "json", "mineralization", "CRB", "--by", "year"]).stdout,
     )
@@ -563,7 +563,7 @@ fn a_basalt_project_reconciles_its_mineralized_tonnes() {
         .unwrap()["mineralized_t"]
         .as_f64()
         .unwrap();
-    let report = dir.path().join("crb.csv");
+    let report = dir.join("crb.csv");
     // The same figure as the mineralization table: no difference, the year judged on it.
     std::fs::write(
         &report,

@@ -28,9 +28,81 @@ pub struct Ledger {
     pub registry: Option<registry::Database>,
 }
 
-/// Whether the tests run against PostgreSQL (`SINKBOOK_TEST_BACKEND=postgres`).
+/// Whether the ledgers made now go to PostgreSQL: `SINKBOOK_TEST_BACKEND=postgres`, outside
+/// [`on_file`].
 pub fn on_postgres() -> bool {
-    std::env::var("SINKBOOK_TEST_BACKEND").as_deref() == Ok("postgres")
+    !FILE_ONLY.get() && std::env::var("SINKBOOK_TEST_BACKEND").as_deref() == Ok("postgres")
+}
+
+thread_local! {
+    static FILE_ONLY: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
+}
+
+/// Makes the ledgers `make` makes SQLite files whatever the backend under test: for what only a
+/// file has (raw SQLite access to tamper with it, damaged bytes, a file that goes missing).
+pub fn on_file<T>(make: impl FnOnce() -> T) -> T {
+    let before = FILE_ONLY.replace(true);
+    let made = make();
+    FILE_ONLY.set(before);
+    made
+}
+
+/// What legitimately differs between the backends. An entry appended to the registry names the
+/// role that wrote it (`postgres` here; canonical encoding v2), so its leaf hash, and the chain
+/// and tree heads over it, differ from the file's v1 entries: this sets the role back to the
+/// file's none and blanks every SHA-256 (64 hex digits, or the 12 a chain head is shown by),
+/// leaving every other byte to compare.
+pub fn without_role_and_hashes(report: &str) -> String {
+    let report = report.replace("\"recorded_by\": \"postgres\"", "\"recorded_by\": null");
+    let mut out = String::with_capacity(report.len());
+    let mut run = String::new();
+    for c in report.chars().chain(std::iter::once(' ')) {
+        if c.is_ascii_hexdigit() && !c.is_ascii_uppercase() {
+            run.push(c);
+            continue;
+        }
+        out.push_str(if [12, 64].contains(&run.len()) {
+            "SHA-256"
+        } else {
+            &run
+        });
+        run.clear();
+        out.push(c);
+    }
+    out.pop();
+    out
+}
+
+/// Pins `value` by the insta snapshot `name` of the calling test file. On PostgreSQL
+/// (`SINKBOOK_TEST_BACKEND=postgres`) the same stored snapshot must match byte for byte but for
+/// the hashes [`without_role_and_hashes`] blanks: entries appended there name the role that
+/// wrote them, so their hashes differ from a file's. Snapshots are written on the file backend.
+#[macro_export]
+macro_rules! snapshot {
+    ($name:expr, $value:expr $(,)?) => {{
+        let value: String = $value;
+        if $crate::common::on_postgres() {
+            $crate::common::same_as_stored(module_path!(), &$name, &value);
+        } else {
+            insta::assert_snapshot!($name, value);
+        }
+    }};
+}
+
+/// `value` against the stored snapshot `name` of test file `module`, hashes aside.
+pub fn same_as_stored(module: &str, name: &str, value: &str) {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/snapshots")
+        .join(format!("{}__{name}.snap", module.replace("::", "__")));
+    let text = std::fs::read_to_string(&path)
+        .unwrap_or_else(|e| panic!("snapshot {}: {e}", path.display()));
+    let stored = text.splitn(3, "---\n").nth(2).expect("an insta snapshot");
+    assert_eq!(
+        without_role_and_hashes(value.trim_end()),
+        without_role_and_hashes(stored.trim_end()),
+        "{} on PostgreSQL, hashes aside",
+        path.display()
+    );
 }
 
 /// Output of one run: exit code, stdout, stderr.
@@ -229,27 +301,32 @@ impl Ledger {
     }
 }
 
-/// A ledger built by `demo` from the sample projects, with the clock pinned.
+/// A ledger built by `demo` from the sample projects (on the backend under test), read
+/// through whole process outputs.
 pub struct Demo {
-    pub dir: tempfile::TempDir,
+    pub ledger: Ledger,
 }
 
 impl Demo {
     pub fn new() -> Demo {
-        let d = Demo {
-            dir: tempfile::tempdir().unwrap(),
-        };
-        assert!(d.run(&["demo"]).status.success());
-        d
+        Demo {
+            ledger: Ledger::demo(),
+        }
+    }
+
+    /// The ledger's temporary folder, for the files a test writes beside it.
+    pub fn dir(&self) -> &std::path::Path {
+        self.ledger.dir.path()
     }
 
     pub fn run(&self, args: &[&str]) -> std::process::Output {
         Command::cargo_bin("sinkbook")
             .unwrap()
             .env("SINKBOOK_NOW", NOW)
+            .env_remove("SINKBOOK_DB")
             .env_remove("COLUMNS")
             .arg("--db")
-            .arg(self.dir.path().join("demo.db"))
+            .arg(&self.ledger.path)
             .args(args)
             .output()
             .unwrap()
