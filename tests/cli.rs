@@ -209,8 +209,8 @@ fn periods_spanning_quarters_are_split_by_days() {
 
 #[test]
 fn demo_builds_and_prints_its_tables() {
-    let dir = tempfile::tempdir().unwrap();
-    let db = dir.path().join("demo.db");
+    let ledger = common::Ledger::unmade(common::on_postgres(), "demo.db");
+    let db = &ledger.path;
     let o = assert_cmd::Command::cargo_bin("sinkbook")
         .unwrap()
         .env("SINKBOOK_NOW", common::NOW)

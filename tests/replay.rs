@@ -1,6 +1,8 @@
 //! Property: replaying the same records and corrections into a fresh ledger gives the same
 //! balances and the same chain head, and the balance equals the sum of the latest readings.
 
+mod common;
+
 use chrono::DateTime;
 use proptest::prelude::*;
 use sinkbook::cli::run_line;
@@ -114,9 +116,9 @@ proptest! {
 
     #[test]
     fn replay_is_deterministic_and_sums_the_latest(ops in proptest::collection::vec(op(), 1..20)) {
-        let dir = tempfile::tempdir().unwrap();
-        let a = replay(&dir.path().join("a.db"), &ops);
-        let b = replay(&dir.path().join("b.db"), &ops);
+        let (first, second) = (common::Ledger::unmade(common::on_postgres(), "a.db"), common::Ledger::unmade(common::on_postgres(), "b.db"));
+        let a = replay(&first.path, &ops);
+        let b = replay(&second.path, &ops);
         prop_assert_eq!(&a, &b);
         let balance: serde_json::Value = serde_json::from_str(&a.0).unwrap();
         let stored = balance["balance"][0]["cumulative_sequestered_t"].as_f64().unwrap_or(0.0);
