@@ -210,7 +210,7 @@ fn periods_spanning_quarters_are_split_by_days() {
 #[test]
 fn demo_builds_and_prints_its_tables() {
     let ledger = common::Ledger::unmade(common::on_postgres(), "demo.db");
-    let db = &ledger.path;
+    let db = ledger.path.clone();
     let o = assert_cmd::Command::cargo_bin("sinkbook")
         .unwrap()
         .env("SINKBOOK_NOW", common::NOW)

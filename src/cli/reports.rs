@@ -154,19 +154,19 @@ fn geological_balance(
     };
     permit_notes(&mut t, project, &lines, figures.entries());
     t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
-    t.note(uncertainty_note(&figures));
+    t.note(uncertainty_note(figures));
     let mut report = Report::default().table(t);
     if let Some(l) = leakage_table(project, figures.entries()) {
         report = report.table(l);
     }
     // Claims are made per claim period whatever --by shows the balance by.
     let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
-    report = report.table(claims_table(&figures, &period_claims, deduction));
+    report = report.table(claims_table(figures, &period_claims, deduction));
     let buffered = period_claims
         .iter()
         .any(|(b, _)| figures.rules(*b, deduction).buffer_share > 0.0);
     if buffered || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
-        report = report.table(pool_table(&figures, &pool, &events));
+        report = report.table(pool_table(figures, &pool, &events));
     }
     Ok(report)
 }
