@@ -185,10 +185,6 @@ impl ProjectFigures {
         self.view.through.map_or(last, |t| t.min(last))
     }
 
-    /// The day activity is counted up to (`--through`), if any.
-    pub fn through(&self) -> Option<NaiveDate> {
-        self.view.through
-    }
 
     /// The claim rules of the settings in force on `day`.
     pub fn rules_on(&self, day: NaiveDate, deduction: DeductionRule) -> ClaimRules {
