@@ -9,8 +9,9 @@ use diesel::connection::SimpleConnection;
 use diesel::{Connection, SqliteConnection};
 use std::path::Path;
 
+/// A ledger file (these tests cut its bytes and alter its SQLite rows) with six entries.
 fn ledger_with_entries() -> Ledger {
-    let l = Ledger::with_tfs();
+    let l = common::on_file(Ledger::with_tfs);
     for m in 1..=6 {
         let r = l.inject(
             "TF-I1",

@@ -89,9 +89,10 @@ fn replacing(
     )
 }
 
-/// The demo's ledger (every table but signatures filled) plus the operator's signed statement.
+/// The demo's ledger (every table but signatures filled) plus the operator's signed statement,
+/// in a file (these tests run SQLite's own REPLACE on it).
 fn every_table_filled() -> Ledger {
-    let l = Ledger::demo();
+    let l = common::on_file(Ledger::demo);
     let key = l.dir.path().join("operator.key");
     l.ok(&["key", "new", "--out", key.to_str().unwrap()]);
     l.ok(&[
