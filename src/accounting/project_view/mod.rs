@@ -185,7 +185,6 @@ impl ProjectFigures {
         self.view.through.map_or(last, |t| t.min(last))
     }
 
-
     /// The claim rules of the settings in force on `day`.
     pub fn rules_on(&self, day: NaiveDate, deduction: DeductionRule) -> ClaimRules {
         rules(&self.view.settings, day, deduction)
