@@ -157,7 +157,11 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
                 ));
             }
         };
-        let seq = tx.signatures(&a.project)?.len() as u64;
+        // After the last one held (a copy loaded through a seal may lack some between).
+        let seq = tx
+            .signatures(&a.project)?
+            .last()
+            .map_or(0, |s| s.seq + 1);
         let s = sign_with(
             seq,
             Signed {
