@@ -240,18 +240,16 @@ impl Checker {
         if self.last_signature.is_some_and(|l| seq <= l) {
             return Err(format!("signature seq {seq} out of order (seqs ascend)"));
         }
-        s.verify().map_err(|e| format!("signature seq {seq}: {e}"))?;
+        s.verify()
+            .map_err(|e| format!("signature seq {seq}: {e}"))?;
         let g = &s.signed;
         let seals = self.seals.as_ref().map_or(&[][..], SealCheck::checked);
-        let seal = seals
-            .iter()
-            .find(|x| x.seq == g.seal_seq)
-            .ok_or_else(|| {
-                format!(
-                    "signature seq {seq} signs seal seq {}, which is no seal of the bundle",
-                    g.seal_seq
-                )
-            })?;
+        let seal = seals.iter().find(|x| x.seq == g.seal_seq).ok_or_else(|| {
+            format!(
+                "signature seq {seq} signs seal seq {}, which is no seal of the bundle",
+                g.seal_seq
+            )
+        })?;
         if (seal.tree_size, seal.root, seal.label.as_str())
             != (g.tree_size, g.root, g.period.as_str())
         {

@@ -16,7 +16,9 @@ use std::path::{Path, PathBuf};
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
     /// Write a project's registration, settings, imported files, entries and signed statements to one file
-    #[command(after_help = "Example: sinkbook bundle export TFS --out tfs-2026.bundle --through-seal 738")]
+    #[command(
+        after_help = "Example: sinkbook bundle export TFS --out tfs-2026.bundle --through-seal 738"
+    )]
     Export(ExportArgs),
     /// Check every hash, the chain, the seals, the signatures and the tree head of a bundle, without a ledger (exit 3 if damaged)
     #[command(after_help = "Example: sinkbook bundle check tfs.bundle")]
@@ -99,7 +101,11 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
                         &n.to_string(),
                         format!(
                             "is not the seq of a seal of project {code} (its seals: {})",
-                            if seqs.is_empty() { "none".to_string() } else { seqs.join(", ") }
+                            if seqs.is_empty() {
+                                "none".to_string()
+                            } else {
+                                seqs.join(", ")
+                            }
                         ),
                     )
                 })?;

@@ -317,7 +317,11 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
                 file.display()
             )));
         }
-        Ok((c.project, c.trailer, (loader.new_entries, loader.new_signatures)))
+        Ok((
+            c.project,
+            c.trailer,
+            (loader.new_entries, loader.new_signatures),
+        ))
     })?;
     let mut table = summary_table(
         "Bundle loaded",
