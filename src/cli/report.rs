@@ -9,6 +9,7 @@ use super::meters::{MetersArgs, meters};
 use super::reports::{BalanceArgs, By, balance};
 use super::seal::seal_table;
 use super::setup::{ProjectCommand, project};
+use super::sign::{Judged, judge_all, statements_table};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
@@ -81,10 +82,11 @@ fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Re
     )
 }
 
-/// The sections of the page, in reading order.
-/// The seals and the late adjustments the ledger holds of a project.
+/// The seals, the statements signed over them (each judged again) and the late adjustments the
+/// ledger holds of a project.
 struct Sealed {
     seals: Vec<(Seal, SealedEntry)>,
+    statements: Vec<Judged>,
     late: Vec<SealedEntry>,
 }
 
@@ -129,9 +131,24 @@ fn seal_sections(code: &str, year: i32, sealed: Sealed) -> (Section, Section) {
         ));
     }
     if !year_seals.is_empty() {
-        seal = seal
-            .table(seal_table(code, &year_seals))
-            .text("Signed statements: none recorded over these seals yet.");
+        seal = seal.table(seal_table(code, &year_seals));
+        let over: Vec<Judged> = sealed
+            .statements
+            .into_iter()
+            .filter(|j| {
+                year_seals
+                    .iter()
+                    .any(|(s, _)| s.seq == j.statement.signed.seal_seq)
+            })
+            .collect();
+        seal = if over.is_empty() {
+            seal.text("Signed statements: none recorded over these seals yet.")
+        } else {
+            seal.text(
+                "The statements signed over these seals, each signature checked again and the seal it names recomputed from the entries as the ledger holds them now.",
+            )
+            .table(statements_table(code, &over))
+        };
     }
     (late, seal)
 }
@@ -268,7 +285,16 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             }
             Ok(())
         })?;
-        Ok((view, tip, Sealed { seals, late }))
+        let statements = judge_all(tx, &a.project)?;
+        Ok((
+            view,
+            tip,
+            Sealed {
+                seals,
+                statements,
+                late,
+            },
+        ))
     })?;
     let p = view.project();
     let page_doc = Page {

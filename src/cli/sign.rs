@@ -278,7 +278,7 @@ pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
     Ok(Report::default().table(statements_table(&a.project, &judged)))
 }
 
-fn statements_table(project: &str, judged: &[Judged]) -> Table {
+pub fn statements_table(project: &str, judged: &[Judged]) -> Table {
     let mut t = Table::new(
         "statements",
         format!("Signed statements, project {project}"),
