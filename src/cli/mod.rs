@@ -11,6 +11,7 @@ mod density;
 mod evidence;
 mod import;
 mod inputs;
+mod late;
 mod meters;
 mod potential;
 mod progress;

@@ -6,6 +6,7 @@ use super::setup::known_project;
 use super::view::load;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
 use crate::accounting::claims::PoolEvent;
+use crate::accounting::project_view::ProjectFigures;
 use crate::error::Result;
 use crate::ledger::period::Grouping;
 use crate::ledger::{Entry, EntryKind, Method, Project};
@@ -117,16 +118,26 @@ pub struct BalanceArgs {
 
 pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     let figures = ctx.open()?.read(|tx| load(tx, &a.project, None))?;
+    let late = super::late::late_table(figures.entries().map(|e| (a.project.as_str(), e)));
+    let mut report = method_balance(&figures, a)?;
+    if let Some(t) = late {
+        report = report.table(t);
+    }
+    Ok(report)
+}
+
+/// The balance tables of the project's method.
+fn method_balance(figures: &ProjectFigures, a: BalanceArgs) -> Result<Report> {
     let grouping = Grouping::from(a.by);
     match figures.project().method {
         Method::BasaltMineralization => {
-            return super::mineralization::balance(&figures, grouping);
+            return super::mineralization::balance(figures, grouping);
         }
         Method::ExSituMineralization => {
-            return super::mineralization::carbonation_balance(&figures, grouping);
+            return super::mineralization::carbonation_balance(figures, grouping);
         }
         Method::EnhancedWeathering => {
-            return super::weathering::balance(&figures, grouping);
+            return super::weathering::balance(figures, grouping);
         }
         Method::SalineAquifer | Method::DepletedField | Method::Eor => {}
     }
@@ -140,19 +151,19 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     };
     permit_notes(&mut t, project, &lines, figures.entries());
     t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
-    t.note(uncertainty_note(&figures));
+    t.note(uncertainty_note(figures));
     let mut report = Report::default().table(t);
     if let Some(l) = leakage_table(project, figures.entries()) {
         report = report.table(l);
     }
     // Claims are made per claim period whatever --by shows the balance by.
     let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
-    report = report.table(claims_table(&figures, &period_claims, deduction));
+    report = report.table(claims_table(figures, &period_claims, deduction));
     let buffered = period_claims
         .iter()
         .any(|(b, _)| figures.rules(*b, deduction).buffer_share > 0.0);
     if buffered || !events.iter().all(|e| matches!(e, PoolEvent::Claim { .. })) {
-        report = report.table(pool_table(&figures, &pool, &events));
+        report = report.table(pool_table(figures, &pool, &events));
     }
     Ok(report)
 }
