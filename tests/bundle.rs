@@ -309,7 +309,7 @@ fn signatures_travel_and_are_checked() {
     let file = export(&l, "TFS", "signed.bundle");
     let checked = l.ok(&["bundle", "check", file.to_str().unwrap()]);
     assert!(
-        checked.contains("whole: 1 seals, 2 signed statements"),
+        checked.contains("whole: 1 seal, 2 signed statements"),
         "{checked}"
     );
     let copy = Ledger::new();
@@ -427,7 +427,7 @@ fn export_through_a_seal_stops_at_it_and_a_later_bundle_extends_it() {
     );
     let checked = l.ok(&["bundle", "check", out.to_str().unwrap()]);
     assert!(
-        checked.contains("whole: 1 seals, 2 signed statements"),
+        checked.contains("whole: 1 seal, 2 signed statements"),
         "{checked}"
     );
 
@@ -448,4 +448,46 @@ fn export_through_a_seal_stops_at_it_and_a_later_bundle_extends_it() {
         std::fs::read(&full).unwrap(),
         std::fs::read(export(&copy, "TFS", "copy.bundle")).unwrap()
     );
+}
+
+/// The signature lines as docs/bundle-format.md describes them, checked by Python alone
+/// (hashlib for the row hash; the `cryptography` package's ed25519 for the signature), with
+/// nothing of sinkbook's code.
+#[test]
+fn python_checks_the_signature_lines_from_the_format_alone() {
+    let has = std::process::Command::new("python3")
+        .args(["-c", "import cryptography"])
+        .output()
+        .is_ok_and(|o| o.status.success());
+    if !has {
+        common::tool_missing("python3 with the cryptography package (pip install cryptography)");
+        return;
+    }
+    let l = signed_tfs();
+    let file = export(&l, "TFS", "signed.bundle");
+    let run = |bytes: &[u8]| {
+        use std::io::Write;
+        let mut child = std::process::Command::new("python3")
+            .arg(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/tests/recompute_signature.py"
+            ))
+            .stdin(std::process::Stdio::piped())
+            .stdout(std::process::Stdio::piped())
+            .stderr(std::process::Stdio::piped())
+            .spawn()
+            .unwrap();
+        child.stdin.take().unwrap().write_all(bytes).unwrap();
+        common::Run::from(child.wait_with_output().unwrap())
+    };
+    let text = std::fs::read_to_string(&file).unwrap();
+    let r = run(text.as_bytes());
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(r.out, "signature 0 ok\nsignature 1 ok\n");
+    // The same script fails on an altered statement: it checks something.
+    let altered = text.replace("reviewed by the verifier.", "reviewed by the verifier!");
+    assert_ne!(altered, text);
+    let r = run(altered.as_bytes());
+    assert_eq!(r.code, 1, "{}", r.out);
+    assert!(r.err.contains("signature 1: row_hash differs"), "{}", r.err);
 }

@@ -122,24 +122,29 @@ fn check(run: &dyn Fn(&[&str]) -> Run, args: &[&str]) -> usize {
 #[test]
 fn every_report_names_its_columns_alike_for_people_and_programs() {
     let l = Ledger::demo();
-    let sealed: Value =
-        serde_json::from_str(&l.ok(&["--format", "json", "seal", "TFS", "--period", "2026"]))
-            .unwrap();
-    let seal = sealed[0]["seq"].to_string();
+    // The demo sealed TFS's 2026 and signed it; a late adjustment gives balance and totals their
+    // late table.
+    let statements: Value =
+        serde_json::from_str(&l.ok(&["--format", "json", "statements", "TFS"])).unwrap();
+    let seal = statements[0]["seal_seq"].to_string();
     let key = l.dir.path().join("operator.key");
     let key = key.to_str().unwrap();
     l.ok(&["key", "new", "--out", key]);
     l.ok(&[
-        "sign",
+        "--late",
+        "record",
+        "injection",
         "TFS",
-        "--period",
-        "2026",
-        "--role",
-        "operator",
-        "--key",
-        key,
-        "--statement",
-        "Figures as reported",
+        "--site",
+        "TF-I1",
+        "--mass",
+        "12 t",
+        "--co2-fraction",
+        "0.99",
+        "--from",
+        "2026-12-30",
+        "--to",
+        "2026-12-30",
     ]);
     let file = |name: &str| l.dir.path().join(name).display().to_string();
     let (proof, bundle) = (file("proof-table.json"), file("tfs-table.bundle"));

@@ -220,12 +220,18 @@ fn check(file: &Path) -> Result<Report> {
         &c.project,
         &c.trailer,
         &format!(
-            "whole: {} seals, {} signed statements",
-            c.seals, c.signatures
+            "whole: {}, {}",
+            counted(c.seals, "seal"),
+            counted(c.signatures, "signed statement")
         ),
     );
     table.note("Checked: every line in its one spelling and in order; every registration, entry and statement against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; every statement's ed25519 signature over its bytes and the seal it names holding the tree head it signed; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
     Ok(Report::default().table(table))
+}
+
+/// `1 seal`, `2 seals`.
+fn counted(n: usize, what: &str) -> String {
+    format!("{n} {what}{}", if n == 1 { "" } else { "s" })
 }
 
 pub fn summary_table(title: &str, file: &str, project: &str, t: &Trailer, result: &str) -> Table {

@@ -96,10 +96,6 @@ const TOUR: &[(&[&str], &str)] = &[
         &["balance", "EVW", "--by", "year"],
         "EVW: net removal by year, claims",
     ),
-    (
-        &["statements", "TFS"],
-        "TFS: the statements signed over the 2026 seal, each checked again",
-    ),
     (&["verify"], "every hash and the ledger's structure checked"),
     (&["totals"], "totals across projects"),
 ];

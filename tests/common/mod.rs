@@ -63,6 +63,19 @@ pub fn run_without_ledger(args: &[&str]) -> Run {
     Run::from(o)
 }
 
+/// The demo's output with the temporary folder it kept the report page in masked as
+/// `[REPORTS]` (its name is random).
+pub fn mask_reports(out: &str) -> String {
+    const FOLDER: &str = "sinkbook-demo-reports-";
+    let mut out = out.to_string();
+    while let Some(at) = out.find(FOLDER) {
+        let start = out[..at].rfind(char::is_whitespace).map_or(0, |i| i + 1);
+        let end = (at + FOLDER.len() + 6).min(out.len());
+        out.replace_range(start..end, "[REPORTS]");
+    }
+    out
+}
+
 impl Ledger {
     /// A new, initialised, empty ledger.
     pub fn new() -> Ledger {
@@ -172,6 +185,9 @@ impl Ledger {
             .env("SINKBOOK_NOW", now)
             .env_remove("SINKBOOK_DB")
             .env_remove("COLUMNS")
+            // What the binary keeps in a temporary folder (the demo's report page) goes in the
+            // test's own, removed with it.
+            .env("TMPDIR", self.dir.path())
             .arg("--db")
             .arg(&self.path)
             .args(args)
@@ -248,6 +264,7 @@ impl Demo {
             .unwrap()
             .env("SINKBOOK_NOW", NOW)
             .env_remove("COLUMNS")
+            .env("TMPDIR", self.dir.path())
             .arg("--db")
             .arg(self.dir.path().join("demo.db"))
             .args(args)
