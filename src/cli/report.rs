@@ -152,6 +152,7 @@ fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
     seal
 }
 
+/// The sections of the page, in reading order.
 fn sections(
     ctx: &Context,
     a: &ReportArgs,
