@@ -234,7 +234,9 @@ fn writing_commands_name_their_tables_too() {
     );
     assert_eq!(tables, 1);
     // The short demo, in a temporary ledger of its own.
-    assert!(check(&common::run_without_ledger, &["demo"]) > 5);
+    let tmp = tempfile::tempdir().unwrap();
+    let demo = |a: &[&str]| common::run_without_ledger_in(tmp.path(), a);
+    assert!(check(&demo, &["demo"]) > 5);
 }
 
 /// README sections whose example sessions their owners have yet to re-run: skipped by heading

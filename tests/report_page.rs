@@ -54,7 +54,7 @@ fn the_demo_writes_the_annual_page_and_prints_where() {
     let dir = tempfile::tempdir().unwrap();
     let db = dir.path().join("demo.db");
     let db = db.to_str().unwrap();
-    let r = common::run_without_ledger(&["--db", db, "demo"]);
+    let r = common::run_without_ledger_in(dir.path(), &["--db", db, "demo"]);
     assert_eq!(r.code, 0, "{}", r.err);
     let line = r
         .out
@@ -67,6 +67,7 @@ fn the_demo_writes_the_annual_page_and_prints_where() {
         .unwrap();
     let page = Path::new(path);
     assert!(page.ends_with("tfs-2026.html"), "{path}");
+    assert!(page.starts_with(dir.path()), "{path} is not in TMPDIR");
     let html = std::fs::read_to_string(page).expect("the printed page exists");
     let folder = page.parent().unwrap().to_path_buf();
     std::fs::remove_dir_all(&folder).unwrap();

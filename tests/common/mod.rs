@@ -52,9 +52,16 @@ impl From<std::process::Output> for Run {
 
 /// Runs sinkbook without a ledger (`demo` makes its own, `convert` needs none), clock pinned.
 pub fn run_without_ledger(args: &[&str]) -> Run {
+    run_without_ledger_in(&std::env::temp_dir(), args)
+}
+
+/// `run_without_ledger` with the binary's temporary folders (the demo keeps its report page's)
+/// made in `tmp`.
+pub fn run_without_ledger_in(tmp: &std::path::Path, args: &[&str]) -> Run {
     let o = Command::cargo_bin("sinkbook")
         .unwrap()
         .env("SINKBOOK_NOW", NOW)
+        .env("TMPDIR", tmp)
         .env_remove("SINKBOOK_DB")
         .env_remove("COLUMNS")
         .args(args)
