@@ -3,6 +3,9 @@
 
 mod common;
 use common::Ledger;
+use sinkbook::bundle::{Item, Line};
+use sinkbook::ledger::Hash;
+use sinkbook::ledger::signature::{self, Signed, Statement};
 use std::path::{Path, PathBuf};
 
 fn export(l: &Ledger, project: &str, name: &str) -> PathBuf {
@@ -87,9 +90,56 @@ fn sample_report(l: &Ledger) -> String {
     p.to_str().unwrap().to_string()
 }
 
+/// A new key file for `role`, beside the ledger.
+fn key(l: &Ledger, role: &str) -> String {
+    let path = l.dir.path().join(format!("{role}.key"));
+    let p = path.to_str().unwrap().to_string();
+    l.ok(&["key", "new", "--out", &p]);
+    p
+}
+
+/// Signs `period` as `role` with a new key.
+fn sign(l: &Ledger, period: &str, role: &str) {
+    let k = key(l, &format!("{role}-{period}"));
+    l.ok(&[
+        "sign",
+        "TFS",
+        "--period",
+        period,
+        "--role",
+        role,
+        "--key",
+        &k,
+        "--statement",
+        &format!("{period} reviewed by the {role}."),
+    ]);
+}
+
+/// `small_tfs` with April sealed (seq 4) and signed by the operator and a verifier.
+fn signed_tfs() -> Ledger {
+    let l = small_tfs();
+    l.ok(&["seal", "TFS", "--period", "2026-04"]);
+    sign(&l, "2026-04", "operator");
+    sign(&l, "2026-04", "verifier");
+    l
+}
+
+/// The byte ranges of the lines of `text` whose type is `kind`.
+fn lines_of(text: &str, kind: &str) -> Vec<std::ops::Range<usize>> {
+    let mut at = 0;
+    let mut out = Vec::new();
+    for line in text.split_inclusive('\n') {
+        if line.starts_with(&format!("{{\"type\":\"{kind}\"")) {
+            out.push(at..at + line.len());
+        }
+        at += line.len();
+    }
+    out
+}
+
 #[test]
 fn every_flipped_byte_is_caught_and_load_writes_nothing() {
-    let l = small_tfs();
+    let l = signed_tfs();
     let file = export(&l, "TFS", "tfs.bundle");
     let bytes = std::fs::read(&file).unwrap();
     let text = String::from_utf8(bytes.clone()).unwrap();
@@ -98,16 +148,21 @@ fn every_flipped_byte_is_caught_and_load_writes_nothing() {
         "\"reading\"",
         "\"setting\"",
         "\"entry\"",
+        "\"signature\"",
         "\"trailer\"",
     ] {
         assert!(text.contains(kind), "the bundle holds no {kind} line");
     }
+    let signatures = lines_of(&text, "signature");
+    assert_eq!(signatures.len(), 2, "{text}");
+    let mut in_signatures = 0;
     let target = Ledger::new();
     let before = projects_json(&target);
     let flipped = l.dir.path().join("flipped.bundle");
     let positions = 240.min(bytes.len());
     for k in 0..positions {
         let at = k * (bytes.len() - 1) / (positions - 1);
+        in_signatures += signatures.iter().filter(|r| r.contains(&at)).count();
         let mut b = bytes.clone();
         b[at] ^= 0x01;
         std::fs::write(&flipped, &b).unwrap();
@@ -122,6 +177,10 @@ fn every_flipped_byte_is_caught_and_load_writes_nothing() {
         let r = load(&target, &flipped);
         assert_eq!(r.code, 3, "byte {at} flipped: load said {}", r.err);
     }
+    assert!(
+        in_signatures >= 10,
+        "only {in_signatures} flipped bytes fell in the signature lines"
+    );
     assert_eq!(
         projects_json(&target),
         before,
@@ -242,4 +301,193 @@ fn a_missing_file_is_refused_and_a_cut_bundle_is_damaged() {
     let r = l.run(&["bundle", "check", cut.to_str().unwrap()]);
     assert_eq!(r.code, 3, "{}", r.err);
     assert!(r.err.contains("seq 1 where 0 was due"), "{}", r.err);
+}
+
+#[test]
+fn signatures_travel_and_are_checked() {
+    let l = signed_tfs();
+    let file = export(&l, "TFS", "signed.bundle");
+    let checked = l.ok(&["bundle", "check", file.to_str().unwrap()]);
+    assert!(
+        checked.contains("whole: 1 seal, 2 signed statements"),
+        "{checked}"
+    );
+    let copy = Ledger::new();
+    let r = load(&copy, &file);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert!(r.out.contains("2 new statements"), "{}", r.out);
+    copy.ok(&["verify"]);
+    let statements = |l: &Ledger| l.ok(&["--format", "json", "statements", "TFS"]);
+    assert_eq!(statements(&l), statements(&copy));
+    assert_eq!(statements(&copy).matches("\"yes\"").count(), 2);
+    assert_eq!(
+        std::fs::read(&file).unwrap(),
+        std::fs::read(export(&copy, "TFS", "again.bundle")).unwrap()
+    );
+
+    // Altered and given a row hash to match, so only the checks of the signature and of the
+    // seal it names can catch it: another key's public key; a head the seal does not hold,
+    // properly signed by a key of its own.
+    let text = std::fs::read_to_string(&file).unwrap();
+    let ranges = lines_of(&text, "signature");
+    let statement = |r: &std::ops::Range<usize>| match Line::parse(text[r.clone()].trim_end())
+        .unwrap()
+        .to_item("TFS")
+        .unwrap()
+    {
+        Item::Signature(s) => s,
+        other => panic!("{other:?}"),
+    };
+    let (first, second) = (statement(&ranges[0]), statement(&ranges[1]));
+    let other_key = Statement {
+        public_key: first.public_key,
+        ..second.clone()
+    };
+    let key = ed25519_dalek::SigningKey::from_bytes(&[5u8; 32]);
+    let wrong_head = signature::sign(
+        1,
+        Signed {
+            root: Hash::of(b"another head"),
+            ..second.signed.clone()
+        },
+        &key,
+    );
+    for (s, says) in [
+        (other_key, "signature seq 1: signature does not verify"),
+        (
+            wrong_head,
+            "signature seq 1 signed period 2026-04, 4 entries",
+        ),
+    ] {
+        let bad = l.dir.path().join("altered.bundle");
+        let altered = format!(
+            "{}{}{}",
+            &text[..ranges[1].start],
+            Line::signature(&s).to_text(),
+            &text[ranges[1].end..]
+        );
+        std::fs::write(&bad, altered).unwrap();
+        let r = l.run(&["bundle", "check", bad.to_str().unwrap()]);
+        assert_eq!(r.code, 3, "{}", r.err);
+        assert!(r.err.contains(says), "{}", r.err);
+    }
+}
+
+#[test]
+fn export_through_a_seal_stops_at_it_and_a_later_bundle_extends_it() {
+    let l = signed_tfs();
+    let r = l.inject("TF-I2", "10 t", "2026-06-01", "2026-06-30", "after-seal");
+    assert_eq!(r.code, 0, "{}", r.err);
+    l.ok(&["seal", "TFS", "--period", "2026-06"]);
+    sign(&l, "2026-06", "operator");
+    assert_eq!(
+        l.count("TFS"),
+        7,
+        "seqs 0-3, seal 4, the June entry 5, seal 6"
+    );
+
+    let bad = l.run(&[
+        "bundle",
+        "export",
+        "TFS",
+        "--out",
+        "x.bundle",
+        "--through-seal",
+        "3",
+    ]);
+    assert_eq!(bad.code, 1, "{}", bad.err);
+    assert!(
+        bad.err.contains("--through-seal") && bad.err.contains("its seals: 4, 6"),
+        "{}",
+        bad.err
+    );
+
+    let out = l.dir.path().join("april.bundle");
+    l.ok(&[
+        "bundle",
+        "export",
+        "TFS",
+        "--out",
+        out.to_str().unwrap(),
+        "--through-seal",
+        "4",
+    ]);
+    let text = std::fs::read_to_string(&out).unwrap();
+    assert!(text.starts_with(r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[4]}"#), "{text}");
+    let entries = lines_of(&text, "entry");
+    assert_eq!(entries.len(), 5, "entries 0 to 4");
+    assert!(text[entries[4].clone()].starts_with(r#"{"type":"entry","seq":4,"kind":"seal""#));
+    // Only the two statements over seal 4; the one over seal 6 stays out.
+    let signatures = lines_of(&text, "signature");
+    assert_eq!(signatures.len(), 2);
+    assert!(
+        signatures
+            .iter()
+            .all(|r| text[r.clone()].contains(r#""seal_seq":4,"#))
+    );
+    let checked = l.ok(&["bundle", "check", out.to_str().unwrap()]);
+    assert!(
+        checked.contains("whole: 1 seal, 2 signed statements"),
+        "{checked}"
+    );
+
+    let copy = Ledger::new();
+    let r = load(&copy, &out);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(copy.count("TFS"), 5);
+    let full = export(&l, "TFS", "full.bundle");
+    let r = load(&copy, &full);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert!(
+        r.out.contains("2 new entries, 1 new statements"),
+        "{}",
+        r.out
+    );
+    copy.ok(&["verify"]);
+    assert_eq!(
+        std::fs::read(&full).unwrap(),
+        std::fs::read(export(&copy, "TFS", "copy.bundle")).unwrap()
+    );
+}
+
+/// The signature lines as docs/bundle-format.md describes them, checked by Python alone
+/// (hashlib for the row hash; the `cryptography` package's ed25519 for the signature), with
+/// nothing of sinkbook's code.
+#[test]
+fn python_checks_the_signature_lines_from_the_format_alone() {
+    let has = std::process::Command::new("python3")
+        .args(["-c", "import cryptography"])
+        .output()
+        .is_ok_and(|o| o.status.success());
+    if !has {
+        common::tool_missing("python3 with the cryptography package (pip install cryptography)");
+        return;
+    }
+    let l = signed_tfs();
+    let file = export(&l, "TFS", "signed.bundle");
+    let run = |bytes: &[u8]| {
+        use std::io::Write;
+        let mut child = std::process::Command::new("python3")
+            .arg(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/tests/recompute_signature.py"
+            ))
+            .stdin(std::process::Stdio::piped())
+            .stdout(std::process::Stdio::piped())
+            .stderr(std::process::Stdio::piped())
+            .spawn()
+            .unwrap();
+        child.stdin.take().unwrap().write_all(bytes).unwrap();
+        common::Run::from(child.wait_with_output().unwrap())
+    };
+    let text = std::fs::read_to_string(&file).unwrap();
+    let r = run(text.as_bytes());
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(r.out, "signature 0 ok\nsignature 1 ok\n");
+    // The same script fails on an altered statement: it checks something.
+    let altered = text.replace("reviewed by the verifier.", "reviewed by the verifier!");
+    assert_ne!(altered, text);
+    let r = run(altered.as_bytes());
+    assert_eq!(r.code, 1, "{}", r.out);
+    assert!(r.err.contains("signature 1: row_hash differs"), "{}", r.err);
 }

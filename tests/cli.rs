@@ -215,13 +215,14 @@ fn demo_builds_and_prints_its_tables() {
         .unwrap()
         .env("SINKBOOK_NOW", common::NOW)
         .env_remove("COLUMNS")
+        .env("TMPDIR", ledger.dir.path())
         .args(["demo", "--full", "--db"])
         .arg(&db)
         .output()
         .unwrap();
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     let out = String::from_utf8(o.stdout).unwrap();
-    let out = out.replace(&db.display().to_string(), "[DB]");
+    let out = common::mask_reports(&out.replace(&db.display().to_string(), "[DB]"));
     crate::snapshot!("demo", out);
     // The sample projects' annual tables, pinned beside the quarterly ones the demo prints.
     for project in ["TFS", "KRE"] {
@@ -249,19 +250,20 @@ fn demo_builds_and_prints_its_tables() {
 
 #[test]
 fn demo_without_db_uses_a_temporary_file() {
-    let dir = tempfile::tempdir().unwrap();
+    let (dir, tmp) = (tempfile::tempdir().unwrap(), tempfile::tempdir().unwrap());
     let o = assert_cmd::Command::cargo_bin("sinkbook")
         .unwrap()
         .current_dir(dir.path())
         .env_remove("SINKBOOK_DB")
         .env("SINKBOOK_NOW", common::NOW)
         .env_remove("COLUMNS")
+        .env("TMPDIR", tmp.path())
         .arg("demo")
         .output()
         .unwrap();
     assert!(o.status.success());
     // The overview: projects, one balance per project by year, totals, and where the detail is.
-    let out = String::from_utf8(o.stdout).unwrap();
+    let out = common::mask_reports(&String::from_utf8(o.stdout).unwrap());
     crate::snapshot!("demo_overview", out.clone());
     for title in [
         "Mass balance (40 CFR 98.443) by year, project TFS",
@@ -285,4 +287,15 @@ fn demo_without_db_uses_a_temporary_file() {
         0,
         "demo left files in the working directory"
     );
+    // Only the folder of the report page it printed is kept, holding the page alone.
+    let kept: Vec<_> = std::fs::read_dir(tmp.path())
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .collect();
+    assert_eq!(kept.len(), 1, "{kept:?}");
+    let pages: Vec<_> = std::fs::read_dir(&kept[0])
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
+    assert_eq!(pages, ["tfs-2026.html"]);
 }

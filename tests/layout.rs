@@ -32,8 +32,14 @@ fn stdout(c: &mut assert_cmd::Command) -> String {
 
 /// The whole demo, printed into a fresh ledger at `db`, with the path masked.
 fn full_demo(db: &Path, columns: Option<&str>) -> String {
-    stdout(sinkbook(columns).args(["demo", "--full", "--db"]).arg(db))
-        .replace(&db.display().to_string(), "[DB]")
+    let tmp = db.parent().expect("the ledger is in a folder");
+    let out = stdout(
+        sinkbook(columns)
+            .env("TMPDIR", tmp)
+            .args(["demo", "--full", "--db"])
+            .arg(db),
+    );
+    common::mask_reports(&out.replace(&db.display().to_string(), "[DB]"))
 }
 
 impl Demo {

@@ -6,10 +6,26 @@ use common::Ledger;
 use std::path::Path;
 use std::process::Command;
 
-/// The page of TFS's 2026 from the demo ledger, sealed, and the seal's root.
+/// The root of the seal the demo put on TFS's 2026, and the statements signed over it, from
+/// `statements --format json`.
+fn demo_seal(statements_json: &str) -> (String, Vec<String>) {
+    let v: serde_json::Value = serde_json::from_str(statements_json).unwrap();
+    let rows = v.as_array().expect("one table of statements");
+    assert_eq!(rows.len(), 2, "{statements_json}");
+    let root = rows[0]["root"].as_str().unwrap().to_string();
+    assert!(rows.iter().all(|r| r["root"] == root.as_str()));
+    let said = rows
+        .iter()
+        .map(|r| r["statement"].as_str().unwrap().to_string())
+        .collect();
+    (root, said)
+}
+
+/// The page of TFS's 2026 from the demo ledger (sealed and signed by the demo), and the checks
+/// that it holds the seal's root and the statements over it.
 fn tfs_page() -> (Ledger, String) {
     let l = Ledger::demo();
-    let sealed = l.ok(&["--format", "json", "seal", "TFS", "--period", "2026"]);
+    let (root, said) = demo_seal(&l.ok(&["--format", "json", "statements", "TFS"]));
     let out = l.dir.path().join("tfs-2026.html");
     let printed = l.ok(&[
         "report",
@@ -21,16 +37,63 @@ fn tfs_page() -> (Ledger, String) {
     ]);
     assert!(printed.contains("Report written"), "{printed}");
     let html = std::fs::read_to_string(&out).unwrap();
-    let v: serde_json::Value = serde_json::from_str(&sealed).unwrap();
-    let root = v[0]["root"]
-        .as_str()
-        .expect("seal prints its root")
-        .to_string();
     assert!(
         html.contains(&root),
         "the seal's root {root} is not on the page"
     );
+    for s in said {
+        assert!(html.contains(&s), "statement {s:?} is not on the page");
+    }
     (l, html)
+}
+
+/// The demo's own page: the demo prints where it kept it, and it holds the seal's root and the
+/// operator's and the verifier's statements, each still valid over the seal.
+#[test]
+fn the_demo_writes_the_annual_page_and_prints_where() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("demo.db");
+    let db = db.to_str().unwrap();
+    let r = common::run_without_ledger_in(dir.path(), &["--db", db, "demo"]);
+    assert_eq!(r.code, 0, "{}", r.err);
+    let line = r
+        .out
+        .lines()
+        .find(|l| l.starts_with("Annual report page written to "))
+        .unwrap_or_else(|| panic!("the demo names no report page: {}", r.out));
+    let path = line["Annual report page written to ".len()..]
+        .split(" (kept")
+        .next()
+        .unwrap();
+    let page = Path::new(path);
+    assert!(page.ends_with("tfs-2026.html"), "{path}");
+    assert!(page.starts_with(dir.path()), "{path} is not in TMPDIR");
+    let html = std::fs::read_to_string(page).expect("the printed page exists");
+    let folder = page.parent().unwrap().to_path_buf();
+    std::fs::remove_dir_all(&folder).unwrap();
+
+    let statements =
+        common::run_without_ledger(&["--db", db, "--format", "json", "statements", "TFS"]);
+    assert_eq!(statements.code, 0, "{}", statements.err);
+    let (root, said) = demo_seal(&statements.out);
+    let doc = parse(&html);
+    let body = text_of(doc.root_element());
+    assert!(body.contains(&format!("root {root}")), "seal root missing");
+    let table = doc
+        .descendants()
+        .find(|n| n.attribute("id") == Some("table-statements"))
+        .expect("a table of statements");
+    let rows: Vec<String> = table
+        .descendants()
+        .filter(|n| n.has_tag_name("tr"))
+        .skip(1)
+        .map(text_of)
+        .collect();
+    assert_eq!(rows.len(), 2, "{rows:?}");
+    for (row, (role, s)) in rows.iter().zip(["operator", "verifier"].iter().zip(&said)) {
+        assert!(row.contains(role) && row.contains(s.as_str()), "{row}");
+        assert!(row.contains("valid") && row.contains("yes"), "{row}");
+    }
 }
 
 fn parse(html: &str) -> roxmltree::Document<'_> {

@@ -231,3 +231,102 @@ fn sealed_periods_refuse_or_take_late_adjustments() {
     );
     l.ok(&["verify"]);
 }
+
+/// A late injection after the year is sealed: balance, totals and the annual page list it in
+/// their own late-adjustment lines, it counts in the period it was recorded in, and every figure
+/// of the sealed year stays as sealed.
+#[test]
+fn late_adjustments_have_their_own_lines_and_leave_the_sealed_year_alone() {
+    let l = sealed_tfs();
+    let seal = l.json(&["seal", "TFS", "--period", "2026"]);
+    let before = l.json(&["balance", "TFS", "--by", "year"]);
+    let totals_before = l.json(&["totals", "--by", "year"]);
+    assert!(before.get("late_adjustments").is_none(), "{before}");
+    let r = l.run_at(
+        LATER,
+        &[
+            "--late",
+            "record",
+            "injection",
+            "TFS",
+            "--site",
+            "TF-I2",
+            "--mass",
+            "50 t",
+            "--co2-fraction",
+            "0.985",
+            "--from",
+            "2026-03-01",
+            "--to",
+            "2026-03-31",
+            "--key",
+            "late-march",
+        ],
+    );
+    assert_eq!(r.code, 0, "{}", r.err);
+
+    let after = l.json(&["balance", "TFS", "--by", "year"]);
+    let rows = after["balance"].as_array().unwrap();
+    assert_eq!(rows[0]["period"], "2026");
+    assert_eq!(
+        rows[0], before["balance"][0],
+        "the sealed year's row changed"
+    );
+    // The sealed year's figures are the seal's: 2 × 1000 t at 98.5 % — computed: 1970 t.
+    assert_eq!(rows[0]["sequestered_t"], seal[0]["stored_t"]);
+    assert_eq!(rows[0]["sequestered_t"], 1970.0);
+    // The late 50 t at 98.5 % (computed: 49.25 t) counts in 2027, the year it was recorded.
+    assert_eq!(rows[1]["period"], "2027");
+    assert_eq!(rows[1]["sequestered_t"], 49.25);
+    let late = after["late_adjustments"].as_array().expect("a late table");
+    assert_eq!(late.len(), 1, "{late:?}");
+    let line = &late[0];
+    assert_eq!(
+        line["seq"], 3,
+        "entries 0, 1, the seal 2, then the late one"
+    );
+    assert_eq!(line["sealed_period"], "2026");
+    assert_eq!(line["kind"], "injection");
+    assert_eq!(line["period_from"], "2026-03-01");
+    assert_eq!(line["period_to"], "2026-03-31");
+    assert_eq!(line["entry_t"], 49.25);
+    assert_eq!(line["recorded_at"], "2027-02-10 08:00:00");
+    let table = l.ok(&["balance", "TFS", "--by", "year"]);
+    assert!(table.contains("Late adjustments"), "{table}");
+
+    let totals = l.json(&["totals", "--by", "year"]);
+    // One table prints as its rows; more, as an object of tables by id.
+    let year = |t: &serde_json::Value, y: &str| {
+        t.get("totals")
+            .unwrap_or(t)
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|r| r["project"] == "TFS" && r["year"] == y)
+            .cloned()
+    };
+    assert_eq!(year(&totals, "2026"), year(&totals_before, "2026"));
+    assert!(year(&totals_before, "2026").is_some());
+    assert_eq!(totals["late_adjustments"][0]["project"], "TFS");
+    assert_eq!(totals["late_adjustments"][0]["seq"], 3);
+
+    let page = l.dir.path().join("tfs-2026.html");
+    l.ok(&[
+        "report",
+        "TFS",
+        "--year",
+        "2026",
+        "--out",
+        page.to_str().unwrap(),
+    ]);
+    let html = std::fs::read_to_string(&page).unwrap();
+    let at = html
+        .find(r#"<table id="table-late_adjustments""#)
+        .expect("the page's late adjustments table");
+    let end = at + html[at..].find("</table>").unwrap();
+    let row = &html[at..end];
+    for cell in ["2026-03-01", "2026-03-31", "49.250", "2027-02-10 08:00:00"] {
+        assert!(row.contains(cell), "{cell} not in {row}");
+    }
+    l.ok(&["verify"]);
+}

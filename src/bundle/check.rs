@@ -7,6 +7,7 @@ use crate::ledger::Hash;
 use crate::ledger::chain::seal;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal_check::SealCheck;
+use crate::ledger::signature::Statement;
 use sha2::{Digest, Sha256};
 
 /// Where a line may stand: each kind of line after the kinds before it.
@@ -20,6 +21,7 @@ enum Stage {
     Feedstocks,
     Imports,
     Entries,
+    Signatures,
     Done,
 }
 
@@ -37,6 +39,10 @@ pub struct Checker {
     /// The seals the header lists, checked as the entries stream by; then how many there were.
     seals: Option<SealCheck>,
     sealed: usize,
+    /// The seq of the last signature line: seqs ascend (a bundle through a seal leaves out the
+    /// statements over later seals, so they need not be dense).
+    last_signature: Option<u64>,
+    signatures: usize,
     /// The import whose bytes are being read: the next part due, the bytes so far, their hash.
     import: Option<(Import, i64, i64, Sha256)>,
 }
@@ -56,6 +62,8 @@ impl Default for Checker {
             import: None,
             seals: None,
             sealed: 0,
+            last_signature: None,
+            signatures: 0,
         }
     }
 }
@@ -86,6 +94,7 @@ impl Checker {
             Item::Feedstock(_) => Stage::Feedstocks,
             Item::Import(_) | Item::Evidence(_) => Stage::Imports,
             Item::Entry(_) => Stage::Entries,
+            Item::Signature(_) => Stage::Signatures,
             Item::Trailer(_) => Stage::Done,
         };
         self.order(stage, &item)?;
@@ -127,6 +136,7 @@ impl Checker {
                 *bytes += p.bytes.len() as i64;
             }
             Item::Entry(s) => self.link(s)?,
+            Item::Signature(s) => self.signature(s)?,
             Item::Trailer(t) => self.close(t)?,
             Item::Project(_) => {}
         }
@@ -223,6 +233,47 @@ impl Checker {
         Ok(())
     }
 
+    /// A statement over one of the bundle's seals: its seq after the one before, its ed25519
+    /// signature over the signed bytes, and the seal it names holding what it signed.
+    fn signature(&mut self, s: &Statement) -> Result<(), String> {
+        let seq = s.seq;
+        if self.last_signature.is_some_and(|l| seq <= l) {
+            return Err(format!("signature seq {seq} out of order (seqs ascend)"));
+        }
+        s.verify()
+            .map_err(|e| format!("signature seq {seq}: {e}"))?;
+        let g = &s.signed;
+        let seals = self.seals.as_ref().map_or(&[][..], SealCheck::checked);
+        let seal = seals.iter().find(|x| x.seq == g.seal_seq).ok_or_else(|| {
+            format!(
+                "signature seq {seq} signs seal seq {}, which is no seal of the bundle",
+                g.seal_seq
+            )
+        })?;
+        if (seal.tree_size, seal.root, seal.label.as_str())
+            != (g.tree_size, g.root, g.period.as_str())
+        {
+            return Err(format!(
+                "signature seq {seq} signed period {}, {} entries, head {}; seal seq {} holds period {}, {} entries, head {}",
+                g.period,
+                g.tree_size,
+                g.root.head(),
+                seal.seq,
+                seal.label,
+                seal.tree_size,
+                seal.root.head()
+            ));
+        }
+        self.last_signature = Some(seq);
+        self.signatures += 1;
+        Ok(())
+    }
+
+    /// How many signed statements the bundle holds, each checked.
+    pub fn signatures(&self) -> usize {
+        self.signatures
+    }
+
     /// How many seals the bundle holds, each checked.
     pub fn seals(&self) -> usize {
         self.sealed
@@ -287,6 +338,7 @@ fn kind_name(item: &Item) -> &'static str {
         Item::Import(_) => "import",
         Item::Evidence(_) => "evidence",
         Item::Entry(_) => "entry",
+        Item::Signature(_) => "signature",
         Item::Trailer(_) => "trailer",
     }
 }

@@ -2,11 +2,14 @@
 //! A line is read back only if writing it again gives the same bytes and the ledger value it
 //! holds gives the same line, so a bundle has exactly one spelling of its content.
 
-use crate::ledger::canonical::{encode_feedstock, encode_project, encode_setting, encode_site};
+use crate::ledger::canonical::{
+    encode_feedstock, encode_project, encode_setting, encode_signature_row, encode_site,
+};
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::hash::leaf_hash;
 use crate::ledger::period::parse_date;
 use crate::ledger::setting::{Setting, SettingName};
+use crate::ledger::signature::{Role, Signed, Statement, hex};
 use crate::ledger::{
     Entry, EntryKind, Evidence, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site,
     SiteKind,
@@ -109,6 +112,21 @@ pub enum Line {
         recorded_by: Option<String>,
         leaf_hash: String,
         chain_hash: String,
+    },
+    /// A statement signed over one of the bundle's seals, as the ledger's signatures table keeps
+    /// it (docs/ledger-format.md gives the bytes signed and hashed).
+    Signature {
+        seq: u64,
+        seal_seq: u64,
+        period: String,
+        tree_size: u64,
+        root: String,
+        role: String,
+        statement: String,
+        signed_at: String,
+        public_key: String,
+        signature: String,
+        row_hash: String,
     },
     /// The last line: what came before it, its tree head, and a digest of its bytes.
     Trailer {
@@ -234,6 +252,23 @@ impl Line {
         }
     }
 
+    pub fn signature(s: &Statement) -> Line {
+        let g = &s.signed;
+        Line::Signature {
+            seq: s.seq,
+            seal_seq: g.seal_seq,
+            period: g.period.clone(),
+            tree_size: g.tree_size,
+            root: g.root.to_hex(),
+            role: g.role.name().into(),
+            statement: g.statement.clone(),
+            signed_at: time_text(g.signed_at),
+            public_key: hex(&s.public_key),
+            signature: hex(&s.signature),
+            row_hash: leaf_hash(&encode_signature_row(s)).to_hex(),
+        }
+    }
+
     /// The line as written: compact JSON, fields in declaration order, then a newline.
     pub fn to_text(&self) -> String {
         let mut s = serde_json::to_string(self).expect("bundle lines serialize");
@@ -269,6 +304,9 @@ pub enum Item {
     /// An entry as stored, its leaf hash checked against its content (the chain link is the
     /// reader's to check: it needs the entry before).
     Entry(SealedEntry),
+    /// A statement whose row hash is its content's (its signature and the seal it names are the
+    /// checker's to judge).
+    Signature(Statement),
     Trailer(Trailer),
 }
 
@@ -349,6 +387,14 @@ fn unhex(s: &str) -> Result<Vec<u8>, String> {
         .collect()
 }
 
+/// Lowercase hex of exactly N bytes.
+fn fixed<const N: usize>(field: &str, s: &str) -> Result<[u8; N], String> {
+    unhex(s)
+        .map_err(|e| format!("{field}: {e}"))?
+        .try_into()
+        .map_err(|_| format!("{field}: not {N} bytes"))
+}
+
 impl Trailer {
     pub fn to_line(&self) -> Line {
         Line::Trailer {
@@ -376,6 +422,7 @@ impl Line {
             Item::Import(i) => i.to_line(),
             Item::Evidence(p) => p.to_line(),
             Item::Entry(e) => Line::entry(e),
+            Item::Signature(s) => Line::signature(s),
             Item::Trailer(t) => t.to_line(),
         };
         if &again != self {
@@ -521,6 +568,41 @@ impl Line {
                 bytes: unhex(&bytes)?,
             }),
             entry @ Line::Entry { .. } => Item::Entry(entry_value(entry, project)?),
+            Line::Signature {
+                seq,
+                seal_seq,
+                period,
+                tree_size,
+                root,
+                role,
+                statement,
+                signed_at,
+                public_key,
+                signature,
+                row_hash,
+            } => {
+                let s = Statement {
+                    seq,
+                    signed: Signed {
+                        project: project.into(),
+                        seal_seq,
+                        period,
+                        tree_size,
+                        root: hash("root", &root)?,
+                        role: named("role", &role, Role::from_name)?,
+                        statement,
+                        signed_at: time("signed_at", &signed_at)?,
+                    },
+                    public_key: fixed("public_key", &public_key)?,
+                    signature: fixed("signature", &signature)?,
+                };
+                row_hash_matches(
+                    &format!("signature {seq}"),
+                    &encode_signature_row(&s),
+                    &row_hash,
+                )?;
+                Item::Signature(s)
+            }
             Line::Trailer {
                 lines,
                 entries,

@@ -15,10 +15,12 @@ use std::path::{Path, PathBuf};
 
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
-    /// Write a project's registration, settings, imported files and entries to one file
-    #[command(after_help = "Example: sinkbook bundle export TFS --out tfs.bundle")]
+    /// Write a project's registration, settings, imported files, entries and signed statements to one file
+    #[command(
+        after_help = "Example: sinkbook bundle export TFS --out tfs-2026.bundle --through-seal 738"
+    )]
     Export(ExportArgs),
-    /// Check every hash, the chain and the tree head of a bundle, without a ledger (exit 3 if damaged)
+    /// Check every hash, the chain, the seals, the signatures and the tree head of a bundle, without a ledger (exit 3 if damaged)
     #[command(after_help = "Example: sinkbook bundle check tfs.bundle")]
     Check {
         /// The bundle file to check
@@ -39,6 +41,10 @@ pub struct ExportArgs {
     /// The bundle file to write
     #[arg(long)]
     pub out: PathBuf,
+    /// Stop at the seal entry with this seq: its entries 0 to N, the registrations recorded by
+    /// the seal's time, the statements signed over the seals it holds
+    #[arg(long, value_name = "N")]
+    pub through_seal: Option<u64>,
 }
 
 pub fn bundle(ctx: &Context, c: BundleCommand) -> Result<Report> {
@@ -84,23 +90,50 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     let code = a.project.clone();
     ctx.open()?.read(|tx| {
         let p = known_project(tx, &code)?;
-        let seals: Vec<u64> = tx
-            .seal_entries(&code)?
+        let all = tx.seal_entries(&code)?;
+        let (last, until) = match a.through_seal {
+            None => (u64::MAX, None),
+            Some(n) => {
+                let seal = all.iter().find(|s| s.entry.seq == n).ok_or_else(|| {
+                    let seqs: Vec<String> = all.iter().map(|s| s.entry.seq.to_string()).collect();
+                    Error::field(
+                        "--through-seal",
+                        &n.to_string(),
+                        format!(
+                            "is not the seq of a seal of project {code} (its seals: {})",
+                            if seqs.is_empty() {
+                                "none".to_string()
+                            } else {
+                                seqs.join(", ")
+                            }
+                        ),
+                    )
+                })?;
+                (n, Some(seal.entry.recorded_at))
+            }
+        };
+        // Registrations as they stood when the seal was recorded.
+        let by = |t: chrono::DateTime<chrono::Utc>| until.is_none_or(|u| t <= u);
+        let seals: Vec<u64> = all
             .iter()
             .map(|s| s.entry.seq)
+            .filter(|&s| s <= last)
             .collect();
         w.put(&Line::header(&code, &seals))?;
         w.put(&Line::project(&p))?;
-        for s in tx.sites(&code)? {
-            w.put(&Line::site(&s))?;
+        for s in tx.sites(&code)?.iter().filter(|s| by(s.registered_at)) {
+            w.put(&Line::site(s))?;
         }
-        for s in tx.settings(&code)? {
-            w.put(&Line::setting(&s))?;
+        for s in tx.settings(&code)?.iter().take_while(|s| by(s.recorded_at)) {
+            w.put(&Line::setting(s))?;
         }
-        for f in tx.feedstocks(&code)? {
-            w.put(&Line::feedstock(&f))?;
+        for f in tx.feedstocks(&code)?.iter().filter(|f| by(f.registered_at)) {
+            w.put(&Line::feedstock(f))?;
         }
         for i in tx.bundle_imports(&code)? {
+            if !by(i.imported_at) {
+                continue;
+            }
             let import = Import {
                 file_name: i.file_name,
                 file_sha256: i.file_sha256,
@@ -118,7 +151,13 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
                 w.put(&EvidencePart { part, bytes }.to_line())?;
             }
         }
-        tx.each_entry(&code, |s| w.put(&Line::entry(&s)))
+        tx.each_entry_through(&code, last, |s| w.put(&Line::entry(&s)))?;
+        for s in tx.signatures(&code)? {
+            if seals.contains(&s.signed.seal_seq) {
+                w.put(&Line::signature(&s))?;
+            }
+        }
+        Ok(())
     })?;
     let trailer = w.checker.trailer();
     w.put(&trailer)?;
@@ -144,11 +183,16 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
 }
 
+/// What a whole bundle was found to hold.
+pub struct Checked {
+    pub project: String,
+    pub trailer: Trailer,
+    pub seals: usize,
+    pub signatures: usize,
+}
+
 /// Reads a bundle through the checker, handing each checked line's value to `f`.
-pub fn read_checked(
-    path: &Path,
-    mut f: impl FnMut(&Item) -> Result<()>,
-) -> Result<(String, Trailer)> {
+pub fn read_checked(path: &Path, mut f: impl FnMut(&Item) -> Result<()>) -> Result<Checked> {
     let name = path.display().to_string();
     let mut checker = Checker::default();
     each_line(path, |n, text| {
@@ -160,20 +204,34 @@ pub fn read_checked(
     let t = checker
         .finish()
         .map_err(|e| Error::Inconsistent(format!("bundle {name}: {e}")))?;
-    Ok((checker.project().to_string(), t))
+    Ok(Checked {
+        project: checker.project().to_string(),
+        trailer: t,
+        seals: checker.seals(),
+        signatures: checker.signatures(),
+    })
 }
 
 fn check(file: &Path) -> Result<Report> {
-    let (project, t) = read_checked(file, |_| Ok(()))?;
+    let c = read_checked(file, |_| Ok(()))?;
     let mut table = summary_table(
         "Bundle check",
         &file.display().to_string(),
-        &project,
-        &t,
-        "whole",
+        &c.project,
+        &c.trailer,
+        &format!(
+            "whole: {}, {}",
+            counted(c.seals, "seal"),
+            counted(c.signatures, "signed statement")
+        ),
     );
-    table.note("Checked: every line in its one spelling and in order; every registration and entry against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
+    table.note("Checked: every line in its one spelling and in order; every registration, entry and statement against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; every statement's ed25519 signature over its bytes and the seal it names holding the tree head it signed; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
     Ok(Report::default().table(table))
+}
+
+/// `1 seal`, `2 seals`.
+fn counted(n: usize, what: &str) -> String {
+    format!("{n} {what}{}", if n == 1 { "" } else { "s" })
 }
 
 pub fn summary_table(title: &str, file: &str, project: &str, t: &Trailer, result: &str) -> Table {

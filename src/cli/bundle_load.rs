@@ -11,6 +11,7 @@ use crate::error::{Error, Result};
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::merkle::{RangeHashes, TreeBuilder, consistency_ranges, verify_consistency};
 use crate::ledger::setting::Setting;
+use crate::ledger::signature::Statement;
 use crate::ledger::{Hash, Project, SealedEntry, Site};
 use crate::report::Report;
 use crate::store::{BundleImport, NewImport, Tx};
@@ -23,6 +24,7 @@ struct Held {
     settings: Vec<Setting>,
     feedstocks: Vec<Feedstock>,
     imports: Vec<BundleImport>,
+    signatures: Vec<Statement>,
     entries: u64,
     root: Hash,
 }
@@ -34,12 +36,14 @@ struct Loader {
     matched_sites: usize,
     matched_feedstocks: usize,
     matched_imports: usize,
+    matched_signatures: usize,
     next_import_id: i64,
     /// The import being read: its id in this ledger (None: already held, its bytes skipped).
     import: Option<(Option<i64>, Import)>,
     entries: Vec<SealedEntry>,
     proof: RangeHashes,
     new_entries: u64,
+    new_signatures: u64,
 }
 
 fn not_extension(project: &str, what: impl std::fmt::Display) -> Error {
@@ -78,6 +82,7 @@ impl Loader {
             settings: tx.settings(code)?,
             feedstocks: tx.feedstocks(code)?,
             imports: tx.bundle_imports(code)?,
+            signatures: tx.signatures(code)?,
             project,
             entries: tree.size(),
             root: tree.root(),
@@ -153,6 +158,21 @@ impl Loader {
                         tx.append(&self.entries)?;
                         self.entries.clear();
                     }
+                }
+            }
+            Item::Signature(s) => {
+                // A statement names its seal entry: the entries go in first.
+                tx.append(&self.entries)?;
+                self.entries.clear();
+                let held = self
+                    .held
+                    .as_ref()
+                    .map(|h| h.signatures.iter().find(|x| x.seq == s.seq));
+                if already_held(held, s, code, || format!("signature {}", s.seq))? {
+                    self.matched_signatures += 1;
+                } else {
+                    tx.add_signature(s)?;
+                    self.new_signatures += 1;
                 }
             }
             Item::Trailer(t) => {
@@ -236,6 +256,10 @@ impl Loader {
                 h.imports.len() != self.matched_imports,
                 "an import the ledger holds",
             ),
+            (
+                h.signatures.len() != self.matched_signatures,
+                "a signed statement the ledger holds",
+            ),
         ];
         if let Some((_, what)) = missing.iter().find(|(m, _)| *m) {
             return Err(not_extension(code, format!("the bundle lacks {what}")));
@@ -263,7 +287,7 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
     // A first reading checks the whole file and learns its size, which the consistency proof
     // needs before the entries stream by; the second, inside the transaction, checks it all
     // again while writing, so a file changed in between writes nothing.
-    let (_, first) = read_checked(file, |_| Ok(()))?;
+    let first = read_checked(file, |_| Ok(()))?.trailer;
     let mut store = ctx.open()?;
     let (project, trailer, new) = store.write(|tx| {
         let mut loader = Loader {
@@ -272,33 +296,39 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
             matched_sites: 0,
             matched_feedstocks: 0,
             matched_imports: 0,
+            matched_signatures: 0,
             next_import_id: tx.next_import_id()?,
             import: None,
             entries: Vec::new(),
             proof: RangeHashes::new(Vec::new()),
             new_entries: 0,
+            new_signatures: 0,
         };
         let mut code = String::new();
-        let (project, t) = read_checked(file, |item| {
+        let c = read_checked(file, |item| {
             if let Item::Header { project, .. } = item {
                 code = project.clone();
             }
             loader.item(tx, &code, item)
         })?;
-        if t != first {
+        if c.trailer != first {
             return Err(Error::Inconsistent(format!(
                 "bundle {} changed while it was being loaded; nothing written",
                 file.display()
             )));
         }
-        Ok((project, t, loader.new_entries))
+        Ok((
+            c.project,
+            c.trailer,
+            (loader.new_entries, loader.new_signatures),
+        ))
     })?;
     let mut table = summary_table(
         "Bundle loaded",
         &file.display().to_string(),
         &project,
         &trailer,
-        &format!("{new} new entries"),
+        &format!("{} new entries, {} new statements", new.0, new.1),
     );
     table.note("Loaded in one transaction after checking the whole file; a project already held is extended only when an RFC 6962 consistency proof shows its entries are the bundle's first ones.");
     Ok(Report::default().table(table))

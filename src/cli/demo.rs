@@ -123,6 +123,56 @@ fn io(e: std::io::Error) -> Error {
     Error::Store(format!("demo: could not write the sample files: {e}"))
 }
 
+/// The folders the scripts name besides `$SAMPLES`: `$KEYS`, for the key files the demo makes
+/// (private to the user, removed when the demo ends), and `$REPORTS`, where the report pages go
+/// (kept, so they can be opened after the demo).
+struct Folders {
+    samples: tempfile::TempDir,
+    keys: tempfile::TempDir,
+    reports: tempfile::TempDir,
+}
+
+impl Folders {
+    fn new() -> Result<Folders> {
+        let dir = |prefix: &str, private: bool| {
+            let mut b = tempfile::Builder::new();
+            b.prefix(prefix);
+            #[cfg(unix)]
+            if private {
+                use std::os::unix::fs::PermissionsExt;
+                b.permissions(std::fs::Permissions::from_mode(0o700));
+            }
+            #[cfg(not(unix))]
+            let _ = private;
+            b.tempdir().map_err(io)
+        };
+        Ok(Folders {
+            samples: dir("sinkbook-demo-samples-", false)?,
+            keys: dir("sinkbook-demo-keys-", true)?,
+            reports: dir("sinkbook-demo-reports-", false)?,
+        })
+    }
+
+    /// A script's word with the folders in place of their names.
+    fn substitute(&self, word: &str) -> String {
+        let shown = |d: &tempfile::TempDir| d.path().display().to_string();
+        word.replace("$SAMPLES", &shown(&self.samples))
+            .replace("$KEYS", &shown(&self.keys))
+            .replace("$REPORTS", &shown(&self.reports))
+    }
+
+    /// Keeps the report folder and names the pages in it.
+    fn keep_reports(self) -> Result<Vec<String>> {
+        let dir = self.reports.keep();
+        let mut pages: Vec<String> = std::fs::read_dir(&dir)
+            .map_err(io)?
+            .map(|e| e.map(|e| e.path().display().to_string()).map_err(io))
+            .collect::<Result<_>>()?;
+        pages.sort();
+        Ok(pages)
+    }
+}
+
 /// Runs every sample script into a ledger at `db`, then reports on it: an overview, or with
 /// `full` every table of the tour. `db_shown` is how the commands listed name the ledger.
 fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -> Result<Report> {
@@ -134,21 +184,20 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
             "already exists; the demo builds a fresh ledger",
         ));
     }
-    let samples = tempfile::tempdir().map_err(io)?;
+    let folders = Folders::new()?;
     for (name, text) in SAMPLES {
-        std::fs::write(samples.path().join(name), text).map_err(io)?;
+        std::fs::write(folders.samples.path().join(name), text).map_err(io)?;
     }
-    let dir = samples.path().display().to_string();
     for (name, text) in SAMPLES.iter().filter(|(n, _)| n.ends_with(".sinkbook")) {
         for (n, line) in script_lines(text) {
-            let words = shlex::split(&line.replace("$SAMPLES", &dir))
+            let words = shlex::split(&folders.substitute(line))
                 .ok_or_else(|| Error::Refused(format!("{name} line {n}: unbalanced quotes")))?;
             run_line(&words, db, now)
                 .map_err(|e| Error::Refused(format!("{name} line {n}: {e}")))?;
         }
     }
     let run = |words: &[&str]| {
-        let words: Vec<String> = words.iter().map(|w| w.replace("$SAMPLES", &dir)).collect();
+        let words: Vec<String> = words.iter().map(|w| folders.substitute(w)).collect();
         run_line(&words, db, now)
     };
     let mut report = Report::default();
@@ -156,14 +205,20 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
         for (words, _) in TOUR {
             report.extend(run(words)?);
         }
-        return Ok(report);
+    } else {
+        for (words, keep) in OVERVIEW {
+            let mut part = run(words)?;
+            part.tables.truncate(*keep);
+            report.extend(part);
+        }
+        report = report.table(tour_table(db_shown));
     }
-    for (words, keep) in OVERVIEW {
-        let mut part = run(words)?;
-        part.tables.truncate(*keep);
-        report.extend(part);
+    for page in folders.keep_reports()? {
+        report = report.line(format!(
+            "Annual report page written to {page} (kept; open it in a browser, or print it)."
+        ));
     }
-    Ok(report.table(tour_table(db_shown)))
+    Ok(report)
 }
 
 /// The commands that print the detailed tables, as a person would type them after `--db`.

@@ -12,6 +12,7 @@ mod density;
 mod evidence;
 mod import;
 mod inputs;
+mod late;
 mod meters;
 mod potential;
 mod progress;

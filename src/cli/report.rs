@@ -5,10 +5,12 @@
 use super::Context;
 use super::chart::line_chart;
 use super::claims::{deduction_rule, uncertainty_note};
+use super::late::late_table;
 use super::meters::{MetersArgs, meters};
 use super::reports::{BalanceArgs, By, balance};
 use super::seal::seal_table;
 use super::setup::{ProjectCommand, project};
+use super::sign::{Judged, judge_all, statements_table};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
@@ -82,34 +84,33 @@ fn balance_report(ctx: &Context, code: &str, method: BalanceMethod) -> Result<Re
     )
 }
 
-/// The sections of the page, in reading order.
-/// The seals and the late adjustments the ledger holds of a project.
+/// The seals and the statements signed over them (each judged again) the ledger holds of a
+/// project.
 struct Sealed {
     seals: Vec<(Seal, SealedEntry)>,
-    late: Vec<SealedEntry>,
+    statements: Vec<Judged>,
 }
 
-/// The year's seals with their full tree heads, and every late adjustment in its own lines.
-fn seal_sections(code: &str, year: i32, sealed: Sealed) -> (Section, Section) {
-    let mut late = Section::new("late-adjustments", "Late adjustments");
-    if sealed.late.is_empty() {
-        late = late.text(format!(
-            "No late adjustments: nothing was recorded into a sealed period of project {code}."
-        ));
+/// The late adjustments to the year's sealed periods, in their own table.
+fn late_section(view: &ProjectFigures, year: i32) -> Section {
+    let code = &view.project().code;
+    let year_text = year.to_string();
+    let late = late_table(
+        view.entries()
+            .filter(|e| late_for(e).is_some_and(|p| p.starts_with(&year_text)))
+            .map(|e| (code.as_str(), e)),
+    );
+    let s = Section::new("late-adjustments", "Late adjustments");
+    match late {
+        Some(t) => s.table(t),
+        None => s.text(format!(
+            "No late adjustments: nothing was recorded into a sealed period of {code} {year}."
+        )),
     }
-    for e in &sealed.late {
-        let x = &e.entry;
-        late = late.text(format!(
-            "Seq {}: {} at {}, {}, {} t, recorded {} as a late adjustment to sealed period {}; the sealed figures stand.",
-            x.seq,
-            x.kind.name(),
-            x.site,
-            x.period,
-            crate::report::render::tonnes_text(x.mass),
-            x.recorded_at.format("%Y-%m-%d"),
-            late_for(x).unwrap_or("?"),
-        ));
-    }
+}
+
+/// The year's seals with their full tree heads and the statements signed over them.
+fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
     let year_seals: Vec<(Seal, SealedEntry)> = sealed
         .seals
         .into_iter()
@@ -130,13 +131,29 @@ fn seal_sections(code: &str, year: i32, sealed: Sealed) -> (Section, Section) {
         ));
     }
     if !year_seals.is_empty() {
-        seal = seal
-            .table(seal_table(code, &year_seals))
-            .text("Signed statements: none recorded over these seals yet.");
+        seal = seal.table(seal_table(code, &year_seals));
+        let over: Vec<Judged> = sealed
+            .statements
+            .into_iter()
+            .filter(|j| {
+                year_seals
+                    .iter()
+                    .any(|(s, _)| s.seq == j.statement.signed.seal_seq)
+            })
+            .collect();
+        seal = if over.is_empty() {
+            seal.text("Signed statements: none recorded over these seals yet.")
+        } else {
+            seal.text(
+                "The statements signed over these seals, each signature checked again and the seal it names recomputed from the entries as the ledger holds them now.",
+            )
+            .table(statements_table(code, &over))
+        };
     }
-    (late, seal)
+    seal
 }
 
+/// The sections of the page, in reading order.
 fn sections(
     ctx: &Context,
     a: &ReportArgs,
@@ -227,7 +244,8 @@ fn sections(
     let reconciliations = Section::new("reconciliations", "Reconciliations").text(
         "The ledger keeps no reconciliations: the reconcile command compares the ledger with a monitoring report and records nothing, so none can be shown here.",
     );
-    let (late, seal) = seal_sections(code, a.year, sealed);
+    let late = late_section(view, a.year);
+    let seal = seal_section(code, a.year, sealed);
     Ok(vec![
         first,
         bal,
@@ -262,14 +280,8 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
                     .map_err(Error::Inconsistent)
             })
             .collect::<Result<Vec<_>>>()?;
-        let mut late = Vec::new();
-        tx.each_entry(&a.project, |e| {
-            if late_for(&e.entry).is_some() {
-                late.push(e);
-            }
-            Ok(())
-        })?;
-        Ok((view, tip, Sealed { seals, late }))
+        let statements = judge_all(tx, &a.project)?;
+        Ok((view, tip, Sealed { seals, statements }))
     })?;
     let p = view.project();
     let page_doc = Page {

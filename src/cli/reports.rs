@@ -135,6 +135,9 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }
+    if let Some(t) = super::late::late_table(figures.entries().map(|e| (a.project.as_str(), e))) {
+        report = report.table(t);
+    }
     Ok(report)
 }
 

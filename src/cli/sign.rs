@@ -157,7 +157,11 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
                 ));
             }
         };
-        let seq = tx.signatures(&a.project)?.len() as u64;
+        // After the last one held (a copy loaded through a seal may lack some between).
+        let seq = tx
+            .signatures(&a.project)?
+            .last()
+            .map_or(0, |s| s.seq + 1);
         let s = sign_with(
             seq,
             Signed {
@@ -274,7 +278,7 @@ pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
     Ok(Report::default().table(statements_table(&a.project, &judged)))
 }
 
-fn statements_table(project: &str, judged: &[Judged]) -> Table {
+pub fn statements_table(project: &str, judged: &[Judged]) -> Table {
     let mut t = Table::new(
         "statements",
         format!("Signed statements, project {project}"),

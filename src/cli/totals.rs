@@ -141,7 +141,16 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         t.note("Buffer and claimable are net of what reversals cancelled (buffer first, then claimable), in the year of the reversal, so the years add up to the project's line.");
     }
     dates.mark(&mut t, "them");
-    Ok(Report::default().table(t))
+    let late = super::late::late_table(
+        views
+            .iter()
+            .flat_map(|v| v.entries().map(move |e| (v.project().code.as_str(), e))),
+    );
+    let mut report = Report::default().table(t);
+    if let Some(l) = late {
+        report = report.table(l);
+    }
+    Ok(report)
 }
 
 /// A filter that matches no project is refused, listing the values the ledger knows

@@ -87,6 +87,11 @@ impl SealCheck {
         Ok(())
     }
 
+    /// The seals checked so far.
+    pub fn checked(&self) -> &[Seal] {
+        &self.seals
+    }
+
     /// The seals checked; an error when a listed seal never came past.
     pub fn finish(self) -> Result<Vec<Seal>, (u64, String)> {
         match self.expected.get(self.seals.len()) {

@@ -180,6 +180,7 @@ names! {
     SEAL_MATCHES = "Seal matches", "seal_matches";
     SEAL_SEQ = "Seal seq", "seal_seq";
     SEALED_AT = "Sealed (UTC)", "sealed_at";
+    SEALED_PERIOD = "Sealed period", "sealed_period";
     SEALS = "Seals", "seals";
     SECONDARY_CARBONATE_T = "Secondary carbonate (t)", "secondary_carbonate_t";
     SECTIONS = "Sections", "sections";

@@ -27,10 +27,21 @@ impl Tx<'_> {
     pub fn each_entry(
         &mut self,
         project: &str,
+        f: impl FnMut(SealedEntry) -> Result<()>,
+    ) -> Result<()> {
+        self.each_entry_through(project, u64::MAX, f)
+    }
+
+    /// `each_entry`, up to and including seq `last`.
+    pub fn each_entry_through(
+        &mut self,
+        project: &str,
+        last: u64,
         mut f: impl FnMut(SealedEntry) -> Result<()>,
     ) -> Result<()> {
+        let last = i64::try_from(last).unwrap_or(i64::MAX);
         let rows = entries::table
-            .filter(entries::project.eq(project))
+            .filter(entries::project.eq(project).and(entries::seq.le(last)))
             .order(entries::seq)
             .select(EntryRow::as_select())
             .load_iter::<EntryRow, DefaultLoadingMode>(self.conn)?;

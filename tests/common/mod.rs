@@ -124,15 +124,35 @@ impl From<std::process::Output> for Run {
 
 /// Runs sinkbook without a ledger (`demo` makes its own, `convert` needs none), clock pinned.
 pub fn run_without_ledger(args: &[&str]) -> Run {
+    run_without_ledger_in(&std::env::temp_dir(), args)
+}
+
+/// `run_without_ledger` with the binary's temporary folders (the demo keeps its report page's)
+/// made in `tmp`.
+pub fn run_without_ledger_in(tmp: &std::path::Path, args: &[&str]) -> Run {
     let o = Command::cargo_bin("sinkbook")
         .unwrap()
         .env("SINKBOOK_NOW", NOW)
+        .env("TMPDIR", tmp)
         .env_remove("SINKBOOK_DB")
         .env_remove("COLUMNS")
         .args(args)
         .output()
         .unwrap();
     Run::from(o)
+}
+
+/// The demo's output with the temporary folder it kept the report page in masked as
+/// `[REPORTS]` (its name is random).
+pub fn mask_reports(out: &str) -> String {
+    const FOLDER: &str = "sinkbook-demo-reports-";
+    let mut out = out.to_string();
+    while let Some(at) = out.find(FOLDER) {
+        let start = out[..at].rfind(char::is_whitespace).map_or(0, |i| i + 1);
+        let end = (at + FOLDER.len() + 6).min(out.len());
+        out.replace_range(start..end, "[REPORTS]");
+    }
+    out
 }
 
 impl Ledger {
@@ -244,6 +264,9 @@ impl Ledger {
             .env("SINKBOOK_NOW", now)
             .env_remove("SINKBOOK_DB")
             .env_remove("COLUMNS")
+            // What the binary keeps in a temporary folder (the demo's report page) goes in the
+            // test's own, removed with it.
+            .env("TMPDIR", self.dir.path())
             .arg("--db")
             .arg(&self.path)
             .args(args)
@@ -325,6 +348,7 @@ impl Demo {
             .env("SINKBOOK_NOW", NOW)
             .env_remove("SINKBOOK_DB")
             .env_remove("COLUMNS")
+            .env("TMPDIR", self.dir())
             .arg("--db")
             .arg(&self.ledger.path)
             .args(args)

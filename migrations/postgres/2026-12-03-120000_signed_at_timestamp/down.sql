@@ -1,1 +1,0 @@
--- A ledger is never migrated down.
