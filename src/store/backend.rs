@@ -49,7 +49,9 @@ impl From<DieselError> for Error {
             DieselError::DatabaseError(DatabaseErrorKind::SerializationFailure, _) => {
                 Error::Store(format!("{BUSY} ({e})"))
             }
-            DieselError::DatabaseError(_, info) if info.message().starts_with("deadlock detected") => {
+            DieselError::DatabaseError(_, info)
+                if info.message().starts_with("deadlock detected") =>
+            {
                 Error::Store(format!("{BUSY} ({e})"))
             }
             DieselError::DatabaseError(_, info)
@@ -212,7 +214,10 @@ mod tests {
             Box::new("canceling statement due to lock timeout".to_string()),
         );
         let timeout = Error::from(timeout);
-        assert!(waited_out(&timeout) && !is_busy(&timeout), "PostgreSQL's 55P03");
+        assert!(
+            waited_out(&timeout) && !is_busy(&timeout),
+            "PostgreSQL's 55P03"
+        );
         let deadlock = DieselError::DatabaseError(
             DatabaseErrorKind::Unknown,
             Box::new("deadlock detected".to_string()),

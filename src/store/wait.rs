@@ -99,7 +99,9 @@ mod tests {
 
     #[test]
     fn what_is_not_a_duration_is_refused_naming_the_option_and_value() {
-        for bad in ["", "30", "s", "1.5s", "-1s", "30 s", "2d", "10sec", "+3s", "25h"] {
+        for bad in [
+            "", "30", "s", "1.5s", "-1s", "30 s", "2d", "10sec", "+3s", "25h",
+        ] {
             let e = Wait::parse(bad).unwrap_err();
             assert!(
                 matches!(&e, Error::Refused(m) if m.starts_with(&format!("--wait {bad:?}: "))),
