@@ -1,16 +1,23 @@
 //! Crashes and full disks during an import. The planner's fault point
 //! (`SINKBOOK_FAULT_AFTER_ROWS`, a test hook) aborts the process after N rows, for N spread over
-//! the file; a file-size limit (RLIMIT_FSIZE with SIGXFSZ ignored) stands for a full disk. After
-//! each, the ledger file is whole (SQLite's integrity check), `verify` passes, and the ledger is
-//! exactly as before the import or as after the whole import, nothing in between (on the
-//! registry too, for the crash: the full disk is a file's).
+//! the file; a real SIGKILL stops it at moments spread over its run; a file-size limit
+//! (RLIMIT_FSIZE with SIGXFSZ ignored) stands for a full disk. After each, the ledger file is
+//! whole (SQLite's integrity check), `verify` passes, and the ledger is exactly as before the
+//! import or as after the whole import, nothing in between (the fault point on the backend under
+//! test; the kill and the full disk on a ledger file, whose bytes they watch or limit).
 
 mod common;
 use common::{Ledger, NOW};
-use std::process::{Command, Output};
+use std::path::Path;
+use std::process::{Child, Command, Output, Stdio};
+use std::time::Instant;
 
 const ROWS: u64 = 1_500;
 const POINTS: u64 = 60;
+/// Rows of the large meter file, and the kills of an import of it that come while it runs, at
+/// moments spread over it, besides the one as its commit is written.
+const LARGE_ROWS: u64 = 60_000;
+const KILL_MOMENTS: u32 = 12;
 
 /// 1,500 readings of two meters over 15 days, a row every few minutes.
 fn meter_file(l: &Ledger) -> String {
@@ -109,13 +116,11 @@ fn an_import_stopped_at_any_row_leaves_the_ledger_before_or_after() {
     assert_eq!(completed, 1);
 }
 
-#[test]
-fn a_full_disk_is_said_plainly_and_leaves_the_ledger_as_it_was() {
-    // A limit on the size of the files the process writes: a ledger file's.
-    let l = common::on_file(tfs_with_one_entry);
-    let before = state(&l);
+/// 60,000 readings of one meter over 25 days of March, a row every 36 seconds: a file whose
+/// import takes long enough to be interrupted and writes megabytes.
+fn large_meter_file(l: &Ledger) -> std::path::PathBuf {
     let mut csv = String::from("timestamp,site,quantity,unit,co2_fraction\n");
-    for i in 0..60_000u64 {
+    for i in 0..LARGE_ROWS {
         csv.push_str(&format!(
             "2026-03-{:02}T{:02}:{:02}:{:02}Z,TF-I1,{}.5,kg,0.99\n",
             1 + i / 2400,
@@ -127,6 +132,116 @@ fn a_full_disk_is_said_plainly_and_leaves_the_ledger_as_it_was() {
     }
     let file = l.dir.path().join("march.csv");
     std::fs::write(&file, csv).unwrap();
+    file
+}
+
+/// `sinkbook import TFS FILE` started as a child process, its output discarded.
+fn spawn_import(l: &Ledger, file: &Path) -> Child {
+    Command::new(assert_cmd::cargo::cargo_bin("sinkbook"))
+        .env("SINKBOOK_NOW", NOW)
+        .arg("--db")
+        .arg(&l.path)
+        .arg("import")
+        .arg("TFS")
+        .arg(file)
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .unwrap()
+}
+
+/// The bytes the ledger holds on disk: its file and its write-ahead log.
+fn bytes_on_disk(l: &Ledger) -> u64 {
+    let wal = l.path.with_extension("db-wal");
+    [&l.path, &wal]
+        .iter()
+        .map(|p| std::fs::metadata(p).map(|m| m.len()).unwrap_or(0))
+        .sum()
+}
+
+/// One import of the large file into a fresh ledger, killed (SIGKILL) once `moment` says so
+/// unless it ended first; then the ledger must be whole, verify, and equal `before` or `after`.
+/// Returns whether the kill came while the import ran, and whether it left the ledger as before.
+fn kill_import(
+    file: &Path,
+    before: &str,
+    after: &str,
+    moment: impl Fn(&Ledger, &mut Child),
+) -> (bool, bool) {
+    let l = common::on_file(tfs_with_one_entry);
+    let mut child = spawn_import(&l, file);
+    moment(&l, &mut child);
+    let ran = child.try_wait().unwrap().is_none();
+    if ran {
+        child.kill().unwrap();
+    }
+    child.wait().unwrap();
+    let now = state(&l);
+    assert!(
+        now == before || now == after,
+        "killed {}: the ledger is neither as before nor as after the import",
+        if ran {
+            "while it ran"
+        } else {
+            "after it ended"
+        }
+    );
+    (ran, now == before)
+}
+
+/// A real `kill -9` of an import of the large file at moments spread over the time an import
+/// takes (the first at once; an import that ends before its moment shortens the span for the
+/// moments after it), until `KILL_MOMENTS` kills came while it ran; and once as soon as the
+/// ledger's bytes on disk have grown by 64 KiB (its single commit being written: the import
+/// keeps its pages in memory until then).
+#[test]
+fn an_import_killed_at_any_moment_leaves_the_ledger_before_or_after() {
+    let whole = common::on_file(tfs_with_one_entry);
+    let file = large_meter_file(&whole);
+    let before = state(&whole);
+    let started = Instant::now();
+    assert!(spawn_import(&whole, &file).wait().unwrap().success());
+    let mut span = started.elapsed();
+    let after = state(&whole);
+    assert_ne!(before, after);
+
+    let (mut landed, mut tries, mut as_before) = (0, 0, 0);
+    while landed < KILL_MOMENTS && tries < 3 * KILL_MOMENTS {
+        let delay = span * landed / KILL_MOMENTS;
+        tries += 1;
+        match kill_import(&file, &before, &after, |_, _| std::thread::sleep(delay)) {
+            (true, unchanged) => {
+                landed += 1;
+                as_before += u32::from(unchanged);
+            }
+            (false, _) => span = delay,
+        }
+    }
+    let (grown, grown_before) = kill_import(&file, &before, &after, |l, child| {
+        let from = bytes_on_disk(l);
+        while bytes_on_disk(l) < from + 65_536 && child.try_wait().unwrap().is_none() {
+            std::thread::yield_now();
+        }
+    });
+    let left = |unchanged: bool| if unchanged { "as before" } else { "as after" };
+    eprintln!(
+        "{landed} kills while the import ran, at moments spread over it ({tries} tries): {as_before} left the ledger as before, {} as after; one as its commit was written ({}): {}",
+        landed - as_before,
+        if grown {
+            "while it ran"
+        } else {
+            "after it ended"
+        },
+        left(grown_before)
+    );
+    assert_eq!(landed, KILL_MOMENTS, "in {tries} tries");
+}
+
+#[test]
+fn a_full_disk_is_said_plainly_and_leaves_the_ledger_as_it_was() {
+    let l = common::on_file(tfs_with_one_entry);
+    let before = state(&l);
+    let file = large_meter_file(&l);
     // A 1 MiB limit on the size of any file the import writes, the signal ignored so the
     // write fails with EFBIG as it would on a full disk.
     let script = "ulimit -f 2048; trap '' XFSZ; exec \"$0\" --db \"$1\" import TFS \"$2\"";

@@ -89,44 +89,14 @@ fn the_sample_projects_report_byte_for_byte_the_same_on_both_backends() {
     assert_eq!(roles(&server), ["\"postgres\"".to_string()].into());
 }
 
-/// Four writers, sixty records each, into one project at once. A writer that waits longer than
-/// the database lets it (SQLite's 5 s busy timeout, on a loaded machine) tries again by itself:
-/// every record is kept, in one dense chain.
-fn four_writers(l: &Ledger) {
-    std::thread::scope(|s| {
-        for w in 0..4 {
-            s.spawn(move || {
-                for i in 0..60 {
-                    let day = format!("2026-{:02}-{:02}", 1 + i / 28, 1 + i % 28);
-                    let r = l.inject("TF-I1", "10 t", &day, &day, &format!("w{w}-{i}"));
-                    assert_eq!(r.code, 0, "writer {w} record {i}: {}", r.err);
-                }
-            });
-        }
-    });
-    let out = l.ok(&["--format", "json", "entries", "TFS"]);
-    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
-    let seqs: Vec<u64> = v
-        .as_array()
-        .unwrap()
-        .iter()
-        .map(|e| e["seq"].as_u64().unwrap())
-        .collect();
-    assert_eq!(seqs, (0..240).collect::<Vec<u64>>(), "seqs are dense");
-    l.ok(&["verify"]);
-}
-
+/// The concurrency suite's four writers of sixty records into one project (tests/concurrency.rs
+/// runs it on the backend under test), here always on the registry.
 #[test]
 fn four_concurrent_writers_keep_one_dense_chain_on_postgres() {
     if !registry::available() {
         return;
     }
-    four_writers(&Ledger::with_tfs_on(true));
-}
-
-#[test]
-fn four_concurrent_writers_keep_one_dense_chain_on_sqlite() {
-    four_writers(&Ledger::with_tfs_on(false));
+    common::writers::record_at_once(&Ledger::with_tfs_on(true), &[("TFS", "TF-I1")], 4, 60);
 }
 
 #[test]
@@ -340,10 +310,10 @@ fn both_backends_list_the_same_migration_versions() {
 }
 
 /// Another session holds TFS's chain (the lock every append takes) while a record is tried with
-/// a lock timeout of 0.2 s: each try is turned away, the command tries again after growing
-/// pauses, then gives up with one line and writes nothing.
+/// `--wait 200ms`: the server's lock timeout ends the wait, and the command gives up with one
+/// line naming the wait, writing nothing.
 #[test]
-fn a_record_kept_waiting_by_a_held_chain_retries_then_gives_up_in_one_line() {
+fn a_record_kept_waiting_by_a_held_chain_past_its_wait_gives_up_in_one_line() {
     if !registry::available() {
         return;
     }
@@ -370,20 +340,30 @@ fn a_record_kept_waiting_by_a_held_chain_retries_then_gives_up_in_one_line() {
     while psql("postgres", &db.name, held).1.trim() != "1" {
         std::thread::sleep(std::time::Duration::from_millis(50));
     }
-    let waiting = Ledger {
-        dir: tempfile::tempdir().unwrap(),
-        path: format!("{}?options=-c%20lock_timeout%3D200ms", db.url()).into(),
-        registry: None,
-    };
-    let r = waiting.inject("TF-I1", "10 t", "2026-01-01", "2026-01-01", "k1");
+    let r = l.run(&[
+        "--wait",
+        "200ms",
+        "record",
+        "injection",
+        "TFS",
+        "--site",
+        "TF-I1",
+        "--mass",
+        "10 t",
+        "--co2-fraction",
+        "0.985",
+        "--from",
+        "2026-01-01",
+        "--to",
+        "2026-01-01",
+    ]);
     holder.kill().unwrap();
     holder.wait().unwrap();
     assert_eq!(r.code, 1, "{}", r.out);
     assert_eq!(r.err.lines().count(), 1, "one line: {}", r.err);
     assert!(
-        r.err.contains("the ledger is busy")
-            && r.err.contains("lock timeout")
-            && r.err.contains("tried 5 times, pausing 1.5 s in all")
+        r.err.contains("waited 200ms for another writer to finish")
+            && r.err.contains("--wait")
             && r.err.contains("nothing was written"),
         "{}",
         r.err

@@ -32,7 +32,7 @@ fn line(db: &Path, words: &[&str]) -> String {
 
 /// Replays the ops; returns (balance JSON, verify JSON, expected total grams).
 fn replay(db: &Path, ops: &[Op]) -> (String, String, i64) {
-    sinkbook::store::Store::init(db).unwrap();
+    sinkbook::store::Store::init(db, sinkbook::store::Wait::default()).unwrap();
     line(
         db,
         &[

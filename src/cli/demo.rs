@@ -176,7 +176,7 @@ impl Folders {
 /// Runs every sample script into a ledger at `db`, then reports on it: an overview, or with
 /// `full` every table of the tour. `db_shown` is how the commands listed name the ledger.
 fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -> Result<Report> {
-    let (_, created) = Store::init(db)?;
+    let (_, created) = Store::init(db, crate::store::Wait::default())?;
     if !created {
         return Err(Error::field(
             "--db",

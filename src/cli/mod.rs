@@ -40,7 +40,7 @@ mod weathering;
 
 use crate::error::Result;
 use crate::report::{Format, Report};
-use crate::store::Store;
+use crate::store::{Store, Wait};
 use chrono::{DateTime, Utc};
 use clap::{Parser, Subcommand};
 use std::path::{Path, PathBuf};
@@ -69,6 +69,10 @@ pub struct Cli {
     /// Tables at full width even at a terminal (by default they fit its width or COLUMNS)
     #[arg(long, global = true)]
     pub wide: bool,
+    /// How long a write waits for another writer (a long import) to finish: 500ms, 30s, 2m;
+    /// reads never wait
+    #[arg(long, global = true, value_name = "DURATION", default_value = crate::store::wait::DEFAULT)]
+    pub wait: String,
     #[command(subcommand)]
     pub command: Command,
 }
@@ -197,11 +201,13 @@ pub struct Context {
     pub now: DateTime<Utc>,
     /// `--late`: admit what falls in a sealed period as a late adjustment.
     pub late: bool,
+    /// `--wait`: how long a write waits for another writer.
+    pub wait: Wait,
 }
 
 impl Context {
     pub fn open(&self) -> Result<Store> {
-        Store::open(&self.db)
+        Store::open(&self.db, self.wait)
     }
 }
 
@@ -212,6 +218,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)),
         now,
         late: cli.late,
+        wait: Wait::parse(&cli.wait)?,
     };
     match cli.command {
         Command::Init => setup::init(&ctx),

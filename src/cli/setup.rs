@@ -11,7 +11,7 @@ use crate::store::Store;
 use clap::{Args, Subcommand};
 
 pub fn init(ctx: &Context) -> Result<Report> {
-    let (_, created) = Store::init(&ctx.db)?;
+    let (_, created) = Store::init(&ctx.db, ctx.wait)?;
     let what = if created {
         "created ledger"
     } else {

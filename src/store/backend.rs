@@ -2,6 +2,7 @@
 //! server (the shared registry). One connection type for both, so every query is written once;
 //! the few statements diesel cannot build for both at once go through `on_backend!`.
 
+use super::Wait;
 use crate::error::{Error, Result};
 use diesel::connection::{AnsiTransactionManager, Connection, TransactionManager};
 use diesel::pg::PgConnection;
@@ -29,10 +30,13 @@ macro_rules! on_backend {
 }
 pub(crate) use on_backend;
 
-/// Marks a store error worth another attempt: a deadlock, a serialization failure, a lock that
-/// timed out (PostgreSQL 40P01, 40001, 55P03) or a SQLite file another writer held past the busy
-/// timeout, all of which leave the database as it was.
+/// Marks a store error worth another attempt: a deadlock or a serialization failure
+/// (PostgreSQL 40P01, 40001), which leave the database as it was.
 const BUSY: &str = "the ledger is busy";
+
+/// Marks a lock another writer held past `--wait`: SQLite's busy timeout, PostgreSQL's lock
+/// timeout (55P03). The wait the user chose has run out, so the write is not tried again.
+const WAITED: &str = "another writer holds the ledger";
 
 /// How many times a write turned away for contention is tried in all, and the pause before the
 /// second try, doubled before each later one (0.1 + 0.2 + 0.4 + 0.8 s).
@@ -46,8 +50,12 @@ impl From<DieselError> for Error {
                 Error::Store(format!("{BUSY} ({e})"))
             }
             DieselError::DatabaseError(_, info)
+                if info.message().starts_with("deadlock detected") =>
+            {
+                Error::Store(format!("{BUSY} ({e})"))
+            }
+            DieselError::DatabaseError(_, info)
                 if [
-                    "deadlock detected",
                     "canceling statement due to lock timeout",
                     "could not obtain lock",
                     "database is locked",
@@ -55,7 +63,7 @@ impl From<DieselError> for Error {
                 .iter()
                 .any(|m| info.message().starts_with(m)) =>
             {
-                Error::Store(format!("{BUSY} ({e})"))
+                Error::Store(format!("{WAITED} ({e})"))
             }
             DieselError::DatabaseError(_, info)
                 if info
@@ -80,12 +88,19 @@ fn is_busy(e: &Error) -> bool {
     matches!(e, Error::Store(m) if m.starts_with(BUSY))
 }
 
+fn waited_out(e: &Error) -> bool {
+    matches!(e, Error::Store(m) if m.starts_with(WAITED))
+}
+
 /// Runs `f` in one transaction: on SQLite taken at once (BEGIN IMMEDIATE), so two writers never
-/// fork a chain; on PostgreSQL the appends lock their project's chain instead. A transaction
-/// turned away for contention left nothing behind, so it is run again from the start, after a
-/// pause that doubles each time; after `ATTEMPTS` tries the command ends with one line saying so.
+/// fork a chain; on PostgreSQL the appends lock their project's chain instead. Either waits
+/// at most `wait` (set on the connection) for another writer, then ends with one line saying
+/// so. A transaction turned away for a deadlock left nothing behind, so it is run again from
+/// the start, after a pause that doubles each time; after `ATTEMPTS` tries the command ends
+/// with one line saying so.
 pub fn write<T>(
     conn: &mut Conn,
+    wait: Wait,
     project: &RefCell<Option<String>>,
     mut f: impl FnMut(&mut Conn) -> Result<T>,
 ) -> Result<T> {
@@ -99,6 +114,7 @@ pub fn write<T>(
         done = transaction(conn, true, &mut f);
     }
     match done {
+        Err(e) if waited_out(&e) => Err(wait.ran_out()),
         Err(e) if is_busy(&e) => Err(Error::Store(format!(
             "{e}; tried {ATTEMPTS} times, pausing {:.1} s in all between tries; nothing was written, try again later",
             (pause - FIRST_PAUSE).as_secs_f64()
@@ -192,11 +208,20 @@ mod tests {
             DatabaseErrorKind::Unknown,
             Box::new("database is locked".to_string()),
         );
-        assert!(is_busy(&Error::from(locked)), "SQLite's busy file");
+        assert!(waited_out(&Error::from(locked)), "SQLite's busy file");
         let timeout = DieselError::DatabaseError(
             DatabaseErrorKind::Unknown,
             Box::new("canceling statement due to lock timeout".to_string()),
         );
-        assert!(is_busy(&Error::from(timeout)), "PostgreSQL's 55P03");
+        let timeout = Error::from(timeout);
+        assert!(
+            waited_out(&timeout) && !is_busy(&timeout),
+            "PostgreSQL's 55P03"
+        );
+        let deadlock = DieselError::DatabaseError(
+            DatabaseErrorKind::Unknown,
+            Box::new("deadlock detected".to_string()),
+        );
+        assert!(is_busy(&Error::from(deadlock)), "PostgreSQL's 40P01");
     }
 }

@@ -1,6 +1,7 @@
 //! Opening a ledger file: refusing files that are not ledgers, setting the pragmas every
 //! connection needs, applying the embedded migrations.
 
+use super::Wait;
 use crate::error::{Error, Result};
 use diesel::connection::SimpleConnection;
 use diesel::prelude::*;
@@ -69,13 +70,14 @@ fn sqlite_file(path: &Path) -> Option<u64> {
     (&head == SQLITE_HEADER).then(|| f.metadata().map(|m| m.len()).unwrap_or(0))
 }
 
-fn connect(path: &Path) -> Result<SqliteConnection> {
+fn connect(path: &Path, wait: Wait) -> Result<SqliteConnection> {
     let url = path
         .to_str()
         .ok_or_else(|| Error::field("--db", &path.display().to_string(), "is not valid UTF-8"))?;
     let mut conn = SqliteConnection::establish(url).map_err(|e| store_error(path, e))?;
-    // Wait for another writer rather than failing at once; set first, before anything reads.
-    conn.batch_execute("PRAGMA busy_timeout = 5000;")
+    // Wait for another writer as long as --wait says rather than failing at once; set first,
+    // before anything reads. Readers take no lock a writer holds (WAL), so only writers wait.
+    conn.batch_execute(&format!("PRAGMA busy_timeout = {};", wait.millis()))
         .map_err(|e| store_error(path, e))?;
     Ok(conn)
 }
@@ -115,14 +117,14 @@ fn configure(path: &Path, conn: &mut SqliteConnection) -> Result<()> {
 }
 
 /// Opens an existing ledger.
-pub fn open(path: &Path) -> Result<SqliteConnection> {
+pub fn open(path: &Path, wait: Wait) -> Result<SqliteConnection> {
     if !path.is_file() {
         return Err(Error::Refused(format!(
             "ledger {} does not exist (create it with `sinkbook init`, or name another with --db or SINKBOOK_DB)",
             path.display()
         )));
     }
-    let mut conn = connect(path)?;
+    let mut conn = connect(path, wait)?;
     let id = application_id(path, &mut conn)?;
     if id != APPLICATION_ID {
         return Err(Error::Refused(format!(
@@ -136,9 +138,9 @@ pub fn open(path: &Path) -> Result<SqliteConnection> {
 
 /// Creates a ledger, or opens one that exists. An empty SQLite file may become a ledger; a file
 /// that holds anything else is refused untouched.
-pub fn create(path: &Path) -> Result<(SqliteConnection, bool)> {
+pub fn create(path: &Path, wait: Wait) -> Result<(SqliteConnection, bool)> {
     if path.is_file() {
-        let mut conn = connect(path)?;
+        let mut conn = connect(path, wait)?;
         let id = application_id(path, &mut conn)?;
         if id == APPLICATION_ID {
             configure(path, &mut conn)?;
@@ -155,7 +157,7 @@ pub fn create(path: &Path) -> Result<(SqliteConnection, bool)> {
         }
         drop(conn);
     }
-    let mut conn = connect(path)?;
+    let mut conn = connect(path, wait)?;
     conn.batch_execute(&format!("PRAGMA application_id = {APPLICATION_ID};"))
         .map_err(|e| store_error(path, e))?;
     configure(path, &mut conn)?;

@@ -10,6 +10,7 @@ mod postgres;
 mod rows;
 pub mod schema;
 mod stream;
+pub mod wait;
 
 use crate::error::{Error, Result};
 use crate::ledger::{Hash, Project, SealedEntry, Site};
@@ -28,11 +29,13 @@ pub use imports::{
 };
 pub use postgres::RoleKind;
 pub use stream::ChainRow;
+pub use wait::Wait;
 
 /// An open ledger: a SQLite file, or the shared registry when `--db` is a `postgres://` URL.
 pub struct Store {
     conn: Conn,
     path: PathBuf,
+    wait: Wait,
 }
 
 /// Access to the ledger inside one transaction.
@@ -45,29 +48,33 @@ pub struct Tx<'a> {
 
 impl Store {
     /// Creates a ledger at `path` (or opens it, if it already is one). Returns whether it was new.
-    pub fn init(path: &Path) -> Result<(Store, bool)> {
+    /// A write waits at most `wait` for another writer to finish.
+    pub fn init(path: &Path, wait: Wait) -> Result<(Store, bool)> {
         let (conn, created) = match postgres::url(path) {
-            Some(url) => postgres::create(url).map(|(c, new)| (Conn::Pg(c), new))?,
-            None => connection::create(path).map(|(c, new)| (Conn::Sqlite(c), new))?,
+            Some(url) => postgres::create(url, wait).map(|(c, new)| (Conn::Pg(c), new))?,
+            None => connection::create(path, wait).map(|(c, new)| (Conn::Sqlite(c), new))?,
         };
         Ok((
             Store {
                 conn,
                 path: path.to_path_buf(),
+                wait,
             },
             created,
         ))
     }
 
-    /// Opens an existing ledger; any other file is refused.
-    pub fn open(path: &Path) -> Result<Store> {
+    /// Opens an existing ledger; any other file is refused. A write waits at most `wait` for
+    /// another writer to finish; a read never waits for one.
+    pub fn open(path: &Path, wait: Wait) -> Result<Store> {
         let conn = match postgres::url(path) {
-            Some(url) => Conn::Pg(postgres::open(url)?),
-            None => Conn::Sqlite(connection::open(path)?),
+            Some(url) => Conn::Pg(postgres::open(url, wait)?),
+            None => Conn::Sqlite(connection::open(path, wait)?),
         };
         Ok(Store {
             conn,
             path: path.to_path_buf(),
+            wait,
         })
     }
 
@@ -80,7 +87,7 @@ impl Store {
     /// for contention (see `backend::write`).
     pub fn write<T>(&mut self, mut f: impl FnMut(&mut Tx<'_>) -> Result<T>) -> Result<T> {
         let project = RefCell::new(None);
-        backend::write(&mut self.conn, &project, |conn| {
+        backend::write(&mut self.conn, self.wait, &project, |conn| {
             f(&mut Tx {
                 conn,
                 writing: true,

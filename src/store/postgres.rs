@@ -1,6 +1,7 @@
 //! Opening the shared registry on a PostgreSQL server: the URL, the session settings every
 //! connection needs, the embedded migrations, and the lock that keeps each project's chain whole.
 
+use super::Wait;
 use crate::error::{Error, Result};
 use diesel::connection::SimpleConnection;
 use diesel::pg::PgConnection;
@@ -27,15 +28,15 @@ struct Exists {
     exists: bool,
 }
 
-/// Connects and sets the session: UTC, a bounded wait for locks, no chatter on standard error.
-/// A lock timeout the URL (`?options=-c%20lock_timeout%3D2s`) or the role already sets is kept;
-/// none (PostgreSQL's default) becomes 30 s.
-fn connect(url: &str) -> Result<PgConnection> {
+/// Connects and sets the session: UTC, no chatter on standard error, and locks (a project's
+/// chain above all) waited for as long as `--wait` says; PostgreSQL reads take no such lock.
+/// A lock timeout of 0 would wait for ever, so `--wait 0s` waits the least the server counts.
+fn connect(url: &str, wait: Wait) -> Result<PgConnection> {
     let mut conn = PgConnection::establish(url).map_err(|e| store_error(url, e))?;
-    conn.batch_execute(
-        "SET TIME ZONE 'UTC'; SET client_min_messages = warning; \
-         SELECT set_config('lock_timeout', '30s', false) WHERE current_setting('lock_timeout') = '0';",
-    )
+    conn.batch_execute(&format!(
+        "SET TIME ZONE 'UTC'; SET client_min_messages = warning; SET lock_timeout = '{}ms';",
+        wait.millis().max(1)
+    ))
     .map_err(|e| store_error(url, e))?;
     Ok(conn)
 }
@@ -54,8 +55,8 @@ fn migrate(url: &str, conn: &mut PgConnection) -> Result<()> {
 }
 
 /// Opens an existing registry; a database without the ledger's tables is refused.
-pub fn open(url: &str) -> Result<PgConnection> {
-    let mut conn = connect(url)?;
+pub fn open(url: &str, wait: Wait) -> Result<PgConnection> {
+    let mut conn = connect(url, wait)?;
     if !is_registry(url, &mut conn)? {
         return Err(Error::Refused(format!(
             "{url} holds no sinkbook registry (create it with `sinkbook init --db {url}`)"
@@ -74,8 +75,8 @@ pub fn open(url: &str) -> Result<PgConnection> {
 
 /// Creates the registry's tables, roles and policies in the database, or opens it if they are
 /// there. Returns whether it was new.
-pub fn create(url: &str) -> Result<(PgConnection, bool)> {
-    let mut conn = connect(url)?;
+pub fn create(url: &str, wait: Wait) -> Result<(PgConnection, bool)> {
+    let mut conn = connect(url, wait)?;
     let existed = is_registry(url, &mut conn)?;
     migrate(url, &mut conn)?;
     Ok((conn, !existed))

@@ -157,7 +157,7 @@ impl Tx<'_> {
 
 #[cfg(test)]
 mod tests {
-    use super::super::Store;
+    use super::super::{Store, Wait};
     use crate::ledger::chain::seal;
     use crate::ledger::period::parse_date;
     use crate::ledger::{
@@ -174,7 +174,7 @@ mod tests {
     /// corrects seq 3.
     fn ledger() -> (tempfile::TempDir, Store) {
         let dir = tempfile::tempdir().unwrap();
-        let (mut store, _) = Store::init(&dir.path().join("l.db")).unwrap();
+        let (mut store, _) = Store::init(&dir.path().join("l.db"), Wait::default()).unwrap();
         store
             .write(|tx| {
                 tx.add_project(&Project {

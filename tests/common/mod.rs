@@ -3,6 +3,7 @@
 #![allow(dead_code)]
 
 pub mod registry;
+pub mod writers;
 
 use assert_cmd::Command;
 use std::path::PathBuf;
