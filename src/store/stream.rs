@@ -14,8 +14,10 @@ use diesel::prelude::*;
 use diesel::sql_types::{BigInt, Nullable, Text, Timestamp};
 
 /// The seq of the entry that replaces this one, among corrections recorded by the bound time
-/// (every correction when it is NULL); found through the index on (project, corrects).
-const REPLACED_BY: &str = "(SELECT min(c.seq) FROM entries c \
+/// (every correction when it is NULL); found through the index on (project, corrects). The
+/// `+ 0` keeps SQLite's planner from answering `min(seq)` by walking the primary key in order,
+/// which scans the project's whole chain for every row (a report quadratic in its entries).
+const REPLACED_BY: &str = "(SELECT min(c.seq + 0) FROM entries c \
      WHERE c.project = entries.project AND c.corrects = entries.seq \
      AND c.recorded_at <= coalesce(";
 
@@ -23,9 +25,10 @@ const REPLACED_BY: &str = "(SELECT min(c.seq) FROM entries c \
 const TARGET_KIND: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
      (SELECT t.kind FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
 
-/// For a correction: the first entry that corrects the same target.
+/// For a correction: the first entry that corrects the same target (through the same index,
+/// for the same reason).
 const FIRST_CORRECTOR: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
-     (SELECT min(x.seq) FROM entries x WHERE x.project = entries.project AND x.corrects = entries.corrects) END";
+     (SELECT min(x.seq + 0) FROM entries x WHERE x.project = entries.project AND x.corrects = entries.corrects) END";
 
 /// One stored entry as read, with the seq of the entry that replaces it, if any.
 pub struct ChainRow<'a> {
