@@ -30,12 +30,13 @@ fn stdout(c: &mut assert_cmd::Command) -> String {
     String::from_utf8(o.stdout).unwrap()
 }
 
-/// The whole demo, printed into a fresh ledger at `db`, with the path masked.
-fn full_demo(db: &Path, columns: Option<&str>) -> String {
-    let tmp = db.parent().expect("the ledger is in a folder");
+/// The whole demo, printed into a fresh ledger, with its path masked; the page folder the demo
+/// keeps goes in the ledger's temporary folder.
+fn full_demo(ledger: &common::Ledger, columns: Option<&str>) -> String {
+    let db = &ledger.path;
     let out = stdout(
         sinkbook(columns)
-            .env("TMPDIR", tmp)
+            .env("TMPDIR", ledger.dir.path())
             .args(["demo", "--full", "--db"])
             .arg(db),
     );
@@ -45,7 +46,7 @@ fn full_demo(db: &Path, columns: Option<&str>) -> String {
 impl Demo {
     fn new() -> Demo {
         let ledger = unmade();
-        full_demo(&ledger.path, None);
+        full_demo(&ledger, None);
         Demo { ledger }
     }
 
@@ -127,8 +128,8 @@ fn tables_at_80_120_and_unlimited_width() {
 #[test]
 fn every_table_of_the_demo_fits_100_columns_and_no_number_is_broken() {
     let (a, b) = (unmade(), unmade());
-    let narrow = full_demo(&a.path, Some("100"));
-    let full = full_demo(&b.path, None);
+    let narrow = full_demo(&a, Some("100"));
+    let full = full_demo(&b, None);
     let drawn = tables(&narrow);
     assert!(drawn.len() > 20, "{} tables", drawn.len());
     for table in &drawn {
