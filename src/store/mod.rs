@@ -8,7 +8,7 @@ mod feedstocks;
 mod imports;
 mod postgres;
 mod rows;
-pub mod schema;
+mod schema;
 mod stream;
 pub mod wait;
 
