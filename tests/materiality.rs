@@ -7,40 +7,6 @@ mod common;
 use common::Ledger;
 use serde_json::Value;
 
-/// Project P (saline aquifer, Subpart RR) with well W1 injecting `monthly` tonnes each month of
-/// 2026, nothing lost: stored = injected every period.
-fn pilot(monthly: &str) -> Ledger {
-    let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "P",
-        "--name",
-        "Pilot",
-        "--method",
-        "saline-aquifer",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
-    for m in 1..=12 {
-        l.ok(&[
-            "record",
-            "injection",
-            "P",
-            "--site",
-            "W1",
-            "--mass",
-            monthly,
-            "--from",
-            &format!("2026-{m:02}-01"),
-            "--to",
-            &format!("2026-{m:02}-28"),
-        ]);
-    }
-    l
-}
-
 fn report(l: &Ledger, rows: &str) -> String {
     let p = l.dir.path().join("report.csv");
     std::fs::write(&p, format!("period,quantity,value,unit\n{rows}")).unwrap();
@@ -61,7 +27,7 @@ fn judged(l: &Ledger, args: &[&str]) -> (i32, Vec<Value>, Vec<Value>) {
 fn a_report_of_injected_alone_is_judged_and_material() {
     // 12 × 10 000 t = 120 000 t injected and stored. The report's 111 600 t is 7 % under:
     // 120 000 − 111 600 = 8 400 t misstated, over 5 % of 120 000 = 6 000 t → material, exit 4.
-    let l = pilot("10000 t");
+    let l = Ledger::with_pilot("10000 t");
     let (code, lines, years) = judged(&l, &[&report(&l, "2026,injected,111600,t\n")]);
     assert_eq!(code, 4);
     assert_eq!(lines[0]["note"], "counted");
@@ -78,7 +44,7 @@ fn a_report_of_injected_alone_is_judged_and_material() {
 fn a_period_the_report_leaves_out_is_not_reported_not_misstated() {
     // Each quarter stores 3 × 10 000 = 30 000 t. The report gives Q1 to Q3, exact, and no Q4:
     // Q4 is listed as not reported, the misstatement is 0 t → within, exit 0.
-    let l = pilot("10000 t");
+    let l = Ledger::with_pilot("10000 t");
     let rows = "2026-Q1,stored,30000,t\n2026-Q2,stored,30000,t\n2026-Q3,stored,30000,t\n";
     let (code, lines, years) = judged(&l, &[&report(&l, rows)]);
     assert_eq!(code, 0);
@@ -94,7 +60,7 @@ fn a_period_the_report_leaves_out_is_not_reported_not_misstated() {
 fn a_term_and_stored_over_one_quarter_count_once() {
     // Q1 given as 29 000 t injected and 29 000 t stored against the ledger's 30 000 t each: one
     // error seen twice, counted once (max(1 000, 1 000) = 1 000 t, not 2 000 t); Q2–Q4 exact.
-    let l = pilot("10000 t");
+    let l = Ledger::with_pilot("10000 t");
     let mut rows = String::from("2026-Q1,injected,29000,t\n2026-Q1,stored,29000,t\n");
     for q in 2..=4 {
         rows += &format!("2026-Q{q},injected,30000,t\n2026-Q{q},stored,30000,t\n");
@@ -111,7 +77,7 @@ fn a_term_and_stored_over_one_quarter_count_once() {
 fn a_report_with_nothing_assessable_exits_5() {
     // Subpart RR starts from injected: received is listed but is no term of stored, so a report
     // of received alone assesses nothing.
-    let l = pilot("10000 t");
+    let l = Ledger::with_pilot("10000 t");
     let file = report(&l, "2026,received,120000,t\n");
     let (code, lines, years) = judged(&l, &[&file]);
     assert_eq!(code, 5);
@@ -131,7 +97,7 @@ fn five_percent_of_stored_unless_the_programme_sets_another_level() {
     // 12 × 50 000 t = 600 000 t stored, the report 15 000 t (2.5 %) under. Stored tonnes above
     // 500 kt do not bring in the 2 % of Regulation (EU) 2018/2067 Art. 23, which is about
     // emissions: 5 % = 30 000 t → within. A programme's 2 % = 12 000 t → material.
-    let l = pilot("50000 t");
+    let l = Ledger::with_pilot("50000 t");
     let file = report(&l, "2026,stored,585000,t\n");
     let (code, _, years) = judged(&l, &[&file]);
     assert_eq!(code, 0);

@@ -11,39 +11,6 @@ use sha2::{Digest, Sha256};
 
 const BY: &str = "Thistlemoor Verification Partners";
 
-/// Project P with well W1 injecting 10 000 t in each month of 2026.
-fn pilot() -> Ledger {
-    let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "P",
-        "--name",
-        "Pilot",
-        "--method",
-        "saline-aquifer",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
-    for m in 1..=12 {
-        l.ok(&[
-            "record",
-            "injection",
-            "P",
-            "--site",
-            "W1",
-            "--mass",
-            "10000 t",
-            "--from",
-            &format!("2026-{m:02}-01"),
-            "--to",
-            &format!("2026-{m:02}-28"),
-        ]);
-    }
-    l
-}
-
 /// Writes a report; returns its path and the SHA-256 of its bytes.
 fn report(l: &Ledger, name: &str, rows: &str) -> (String, String) {
     let p = l.dir.path().join(name);
@@ -71,7 +38,7 @@ fn listed(l: &Ledger, args: &[&str]) -> (Vec<Value>, Vec<Value>, Vec<Value>) {
 
 #[test]
 fn a_recorded_reconciliation_is_listed_with_every_line() {
-    let l = pilot();
+    let l = Ledger::with_pilot("10000 t");
     // Q1 29 000 t against the ledger's 30 000 t: 1 000 t, within 5 % of 120 000 = 6 000 t.
     let (file, sha) = report(
         &l,
@@ -137,7 +104,7 @@ fn a_recorded_reconciliation_is_listed_with_every_line() {
 
 #[test]
 fn bad_input_records_nothing() {
-    let l = pilot();
+    let l = Ledger::with_pilot("10000 t");
     let (file, _) = report(&l, "r.csv", "2026,stored,120000,t\n");
     let long = "x".repeat(201);
     for (args, code, needle) in [
@@ -171,7 +138,7 @@ fn raw(l: &Ledger) -> SqliteConnection {
 
 /// A ledger file holding two recorded reconciliations of P.
 fn two_recorded() -> Ledger {
-    let l = common::on_file(pilot);
+    let l = common::on_file(|| Ledger::with_pilot("10000 t"));
     for name in ["a.csv", "b.csv"] {
         let (file, _) = report(&l, name, "2026,stored,120000,t\n");
         l.ok(&["reconcile", "P", &file, "--record"]);
@@ -341,6 +308,38 @@ fn bundles_carry_recorded_reconciliations_and_check_them() {
     assert!(
         r.err
             .contains("version 3 is not a version this build reads"),
+        "{}",
+        r.err
+    );
+}
+
+/// The reconciliation lines as docs/bundle-format.md describes them, their row hashes and run
+/// recomputed by Python's standard library alone, with nothing of sinkbook's code.
+#[test]
+fn python_checks_the_reconciliation_lines_from_the_format_alone() {
+    let has = std::process::Command::new("python3")
+        .arg("--version")
+        .output()
+        .is_ok_and(|o| o.status.success());
+    if !has {
+        common::tool_missing("python3");
+        return;
+    }
+    let l = two_recorded();
+    let file = l.dir.path().join("p.bundle");
+    l.ok(&["bundle", "export", "P", "--out", file.to_str().unwrap()]);
+    let run = |bytes: &[u8]| common::python("recompute_reconciliation.py", bytes);
+    let text = std::fs::read_to_string(&file).unwrap();
+    let r = run(text.as_bytes());
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(r.out, "reconciliation 0 ok\nreconciliation 1 ok\n");
+    // An altered report name in the second record: the script catches it.
+    let altered = text.replacen("\"report_name\":\"b.csv\"", "\"report_name\":\"c.csv\"", 1);
+    assert_ne!(altered, text);
+    let r = run(altered.as_bytes());
+    assert_eq!(r.code, 1, "{}", r.out);
+    assert!(
+        r.err.contains("reconciliation 1: row_hash differs"),
         "{}",
         r.err
     );

@@ -8,7 +8,7 @@ use super::reconciliations::{RecordArgs, record, recorded_table};
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
-    Figure, Judgement, MaterialityPolicy, Presence, Reconciliation, ReportedQuantity,
+    Figure, Granularity, Judgement, MaterialityPolicy, Presence, Reconciliation, ReportedQuantity,
     ReportingPeriod, Verdict, reconcile as reconcile_figures,
 };
 use crate::accounting::project_view::bearing;
@@ -200,7 +200,7 @@ fn compare(
     };
     let tip = tx.chain_tip(&a.project)?;
     let figures = &report.figures;
-    // The ledger's figures at each granularity and for each quantity the report uses, over the
+    // The ledger's figures for each quantity at each granularity the report gives it by, over the
     // report's years, so a period the report leaves out shows as not reported.
     let years: BTreeSet<i32> = figures.iter().map(|f| f.period.year()).collect();
     let quantities: BTreeSet<ReportedQuantity> = figures.iter().map(|f| f.quantity).collect();
@@ -216,6 +216,13 @@ fn compare(
     for g in granularities {
         ledger.extend(view.reported(g, a.method, &quantities, &years)?);
     }
+    // Only at the periods the report gives each quantity by: a report of quarterly stored and
+    // yearly injected is compared on those, not on yearly stored and quarterly injected too.
+    let given: BTreeSet<(ReportedQuantity, Granularity)> = figures
+        .iter()
+        .map(|f| (f.quantity, f.period.granularity()))
+        .collect();
+    ledger.retain(|f| given.contains(&(f.quantity, f.period.granularity())));
     // Each year's headline figures, the base of its threshold, whatever the report gives.
     let headlines: BTreeSet<ReportedQuantity> = [
         ReportedQuantity::Stored,
