@@ -413,7 +413,7 @@ fn export_through_a_seal_stops_at_it_and_a_later_bundle_extends_it() {
         "4",
     ]);
     let text = std::fs::read_to_string(&out).unwrap();
-    assert!(text.starts_with(r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[4]}"#), "{text}");
+    assert!(text.starts_with(r#"{"type":"header","format":"sinkbook-bundle","version":2,"project":"TFS","seals":[4]}"#), "{text}");
     let entries = lines_of(&text, "entry");
     assert_eq!(entries.len(), 5, "entries 0 to 4");
     assert!(text[entries[4].clone()].starts_with(r#"{"type":"entry","seq":4,"kind":"seal""#));
@@ -465,21 +465,7 @@ fn python_checks_the_signature_lines_from_the_format_alone() {
     }
     let l = signed_tfs();
     let file = export(&l, "TFS", "signed.bundle");
-    let run = |bytes: &[u8]| {
-        use std::io::Write;
-        let mut child = std::process::Command::new("python3")
-            .arg(concat!(
-                env!("CARGO_MANIFEST_DIR"),
-                "/tests/recompute_signature.py"
-            ))
-            .stdin(std::process::Stdio::piped())
-            .stdout(std::process::Stdio::piped())
-            .stderr(std::process::Stdio::piped())
-            .spawn()
-            .unwrap();
-        child.stdin.take().unwrap().write_all(bytes).unwrap();
-        common::Run::from(child.wait_with_output().unwrap())
-    };
+    let run = |bytes: &[u8]| common::python("recompute_signature.py", bytes);
     let text = std::fs::read_to_string(&file).unwrap();
     let r = run(text.as_bytes());
     assert_eq!(r.code, 0, "{}", r.err);

@@ -307,13 +307,14 @@ fn readings_are_read_back_from_the_kept_file_and_a_changed_byte_is_caught() {
         "{out}"
     );
     assert!(!out.contains("2026-05-02T06"), "{out}");
+    // The report agrees with the two meter-days: (310 + 290) × 0.99 + 305 × 0.99 = 895.95 t.
     let rec = l.ok(&[
         "reconcile",
         "TFS",
         &write(
             &l,
             "r.csv",
-            b"period,quantity,value,unit\n2026,injected,1,t\n",
+            b"period,quantity,value,unit\n2026,injected,895.95,t\n",
         ),
         "--recompute",
     ]);

@@ -183,6 +183,7 @@ fn every_report_names_its_columns_alike_for_people_and_programs() {
             "KRE",
             "sample-projects/kre-monitoring-report-2026.csv",
         ],
+        vec!["reconciliations", "TFS"],
         vec!["mineralization", "CRB", "--by", "year"],
         vec!["feedstock", "list", "EVW"],
         vec!["weathering", "EVW"],

@@ -454,3 +454,56 @@ fn an_operator_s_bundle_from_its_ledger_file_loads_and_shows_in_the_regulator_s_
         "{listed}"
     );
 }
+
+/// A verifier's role records a reconciliation under its own name; a regulator's may not, and no
+/// role may write one under another's name.
+#[test]
+fn a_verifier_s_role_records_a_reconciliation_under_its_own_name() {
+    if !registry::available() {
+        return;
+    }
+    let (l, [nsc, _other, verifier, regulator]) = registry_with_roles();
+    let db = l.registry.as_ref().unwrap();
+    l.inject("TF-I1", "10 t", "2026-01-01", "2026-01-01", "k1");
+    let report = l.dir.path().join("report.csv");
+    std::fs::write(
+        &report,
+        "period,quantity,value,unit\n2026-01,injected,9.85,t\n",
+    )
+    .unwrap();
+    let report = report.to_str().unwrap();
+    let r = as_role(&l, &verifier).run(&["reconcile", "TFS", report, "--record"]);
+    assert_eq!(r.code, 0, "the verifier records: {}", r.err);
+    let (_, by) = psql(
+        "postgres",
+        &db.name,
+        "SELECT recorded_by FROM reconciliations",
+    );
+    assert_eq!(
+        by.trim(),
+        verifier,
+        "the record names the role that wrote it"
+    );
+    let r = as_role(&l, &regulator).run(&["reconcile", "TFS", report, "--record"]);
+    assert_eq!(r.code, 1, "a regulator recorded: {}", r.out);
+    let forged = format!(
+        "INSERT INTO reconciliations SELECT project, 1, row_hash, report_name, report_sha256, \
+         method, materiality, basis, chain_size, chain_head, lines, years, verdict, role, by_name, \
+         '{verifier}', recorded_at, 'x' FROM reconciliations"
+    );
+    let (ok, err) = psql(&nsc, &db.name, &forged);
+    assert!(
+        !ok && err.contains(&format!(
+            "names {verifier} as the role that recorded it, but {nsc} is writing it"
+        )),
+        "a reconciliation under another role's name: {err}"
+    );
+    for sql in [
+        "UPDATE reconciliations SET verdict = 'x'",
+        "DELETE FROM reconciliations",
+    ] {
+        let (ok, err) = psql(&verifier, &db.name, sql);
+        assert!(!ok && err.contains("permission denied"), "{sql}: {err}");
+    }
+    assert_eq!(l.json(&["verify"])[0]["reconciliations"], 1);
+}

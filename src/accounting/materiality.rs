@@ -4,15 +4,18 @@
 //! Rules chosen here (docs/uncertainty.md, "Materiality", says why):
 //! - difference = ledger − report, so a positive difference is what the ledger states beyond the
 //!   report; its percentage is of the ledger figure.
-//! - a line present on one side only is kept, and its missing figure counts as zero.
-//! - a year's misstatement is the sum of |difference| over that year's `stored` lines, at one
-//!   granularity, so no tonne is counted twice.
+//! - every line is judged: the route's stored figure and every quantity it is computed from
+//!   count toward the misstatement, at the finest period the report gives; a period the report
+//!   leaves out is "not reported", never a misstatement; a report figure the ledger lacks
+//!   counts whole.
+//! - an error in a term shows in the stored figure too: where both cover one stretch of time,
+//!   the larger of the two sums counts, never both.
 //! - the threshold is a share of the ledger's stored total for the year: the ledger is the
 //!   operator's reported figure under verification.
 
 use crate::quantity::Mass;
 use std::cmp::Ordering;
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, BTreeSet};
 use std::fmt;
 use std::str::FromStr;
 
@@ -33,7 +36,6 @@ pub enum MaterialityError {
         field: &'static str,
         value: f64,
     },
-    LargeAbove(Mass),
     TooLarge {
         period: ReportingPeriod,
         quantity: ReportedQuantity,
@@ -56,7 +58,6 @@ impl fmt::Display for MaterialityError {
             Self::Fraction { field, value } => {
                 write!(f, "{field} is {value}: must be above 0 and below 1")
             }
-            Self::LargeAbove(m) => write!(f, "large_above is {m}: must not be negative"),
             Self::TooLarge { period, quantity } => {
                 write!(
                     f,
@@ -274,6 +275,49 @@ impl Presence {
     }
 }
 
+/// How a quantity bears on its year's misstatement, for one project's route and balance.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Bearing {
+    /// The figure the route claims: stored, or a rock route's mineralized tonnes or net removal.
+    Headline,
+    /// A term the stored figure is computed from.
+    Term,
+    /// Compared line by line, but no term of the stored figure (received under Subpart RR).
+    Listed,
+    /// The ledger keeps no such figure for this route.
+    NotKept,
+}
+
+/// Whether a line counts toward its year's misstatement, and if not, why.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Judgement {
+    Counted,
+    /// The ledger has the figure, the report gives none for the period.
+    NotReported,
+    /// Finer periods of the same quantity inside this one are counted instead.
+    FinerCounted,
+    /// Not a term of the stored figure.
+    NotATerm,
+    /// The ledger keeps no such figure.
+    NotKept,
+    /// The year is judged on another headline figure (one headline a year, so no tonne twice).
+    JudgedOn(ReportedQuantity),
+}
+
+impl Judgement {
+    /// The words the lines table shows.
+    pub fn text(self) -> String {
+        match self {
+            Self::Counted => "counted".into(),
+            Self::NotReported => "not reported".into(),
+            Self::FinerCounted => "not added: its finer periods are counted".into(),
+            Self::NotATerm => "not added: not a term of the stored figure".into(),
+            Self::NotKept => "this ledger keeps no such figure".into(),
+            Self::JudgedOn(q) => format!("not added: the year is judged on {q}"),
+        }
+    }
+}
+
 /// One (period, quantity) line compared.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct ReconciledLine {
@@ -286,41 +330,23 @@ pub struct ReconciledLine {
     /// `None` when there is one and the ledger figure is zero or missing, since no percentage
     /// of nothing is meaningful.
     pub difference_pct: Option<f64>,
+    pub judgement: Judgement,
 }
 
-/// The lines a year's misstatement adds up; named in the result so the output can say it.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum MisstatementRule {
-    /// |ledger − report| summed over the year's `stored` lines of this granularity: the finest
-    /// the two sides share, or the finest either has when they share none.
-    StoredLines(Granularity),
-}
-
-/// The materiality levels: shares of the year's stored total, overridable per programme.
+/// The materiality level: a share of the year's stored total.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct MaterialityPolicy {
-    pub standard: f64,
-    pub large: f64,
-    /// Above this annual stored total a project is large.
-    pub large_above: Mass,
+    pub share: f64,
 }
 
-/// 5 % of the reported total, 2 % for the largest (Regulation (EU) 2018/2067 Art. 23, read),
-/// where largest means above 500 kt a year (the category boundary from memory).
+/// 5 %: the level Regulation (EU) 2018/2067 Art. 23 sets for all but the largest installations
+/// (read). Its 2 % belongs to installations above 500 kt of annual *emissions* (category C, from
+/// memory), a boundary about emissions that stored tonnes do not cross, so it is never applied
+/// by stored tonnes; a programme that wants it says so (`--materiality 2%`).
 impl Default for MaterialityPolicy {
     fn default() -> Self {
-        Self {
-            standard: 0.05,
-            large: 0.02,
-            large_above: Mass::from_grams(500_000 * 1_000_000),
-        }
+        Self { share: 0.05 }
     }
-}
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum MaterialityCategory {
-    Standard,
-    Large,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -328,48 +354,78 @@ pub enum Verdict {
     /// The misstatement does not exceed the threshold.
     WithinMateriality,
     Material,
+    /// No line of the year counts: nothing was assessed.
+    NotAssessed,
+}
+
+impl Verdict {
+    pub fn text(self) -> &'static str {
+        match self {
+            Self::WithinMateriality => "within materiality",
+            Self::Material => "MATERIAL",
+            Self::NotAssessed => "not assessed",
+        }
+    }
 }
 
 /// One reporting year's verdict.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct YearVerdict {
     pub year: i32,
-    pub rule: MisstatementRule,
-    /// Lines added into the misstatement, and how many of them were one-sided.
+    /// The quantities whose lines were added, in their order.
+    pub counted: Vec<ReportedQuantity>,
+    /// Lines added into the misstatement.
     pub lines: usize,
-    pub one_sided: usize,
     pub misstatement: Mass,
-    /// The ledger's stored total over the same lines: the base of the threshold.
+    /// The ledger's stored total for the year (of the headline judged): the base of the threshold.
     pub ledger_total: Mass,
-    pub category: MaterialityCategory,
     pub threshold_share: f64,
     pub threshold: Mass,
     pub verdict: Verdict,
 }
 
-/// Every line, in (period, quantity) order, and a verdict for every year with `stored` lines.
+/// Every line, in (period, quantity) order, and a verdict for every year either side names.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Reconciliation {
     pub lines: Vec<ReconciledLine>,
     pub years: Vec<YearVerdict>,
 }
 
-/// Compares the two sides line by line and judges each year against `policy`.
+impl Reconciliation {
+    /// Material when any year is; not assessed when no year is; within materiality otherwise.
+    pub fn overall(&self) -> Verdict {
+        if self.years.iter().any(|y| y.verdict == Verdict::Material) {
+            Verdict::Material
+        } else if self.years.iter().all(|y| y.verdict == Verdict::NotAssessed) {
+            Verdict::NotAssessed
+        } else {
+            Verdict::WithinMateriality
+        }
+    }
+}
+
+/// The headline figures, in the order a year is judged on the first the report gives.
+const HEADLINE: [ReportedQuantity; 3] = [
+    ReportedQuantity::Stored,
+    ReportedQuantity::WeatheringNet,
+    ReportedQuantity::Mineralized,
+];
+
+/// Compares the two sides line by line and judges each year against `policy`. `bearing` says
+/// what each quantity is to the project's stored figure; `totals` holds the ledger's yearly
+/// headline figures, the base of each year's threshold.
 pub fn reconcile(
     ledger: &[Figure],
     report: &[Figure],
+    totals: &[Figure],
+    bearing: impl Fn(ReportedQuantity) -> Bearing,
     policy: &MaterialityPolicy,
 ) -> Result<Reconciliation, MaterialityError> {
-    for (field, value) in [
-        ("materiality_standard", policy.standard),
-        ("materiality_large", policy.large),
-    ] {
-        if !(value > 0.0 && value < 1.0) {
-            return Err(MaterialityError::Fraction { field, value });
-        }
-    }
-    if policy.large_above.grams() < 0 {
-        return Err(MaterialityError::LargeAbove(policy.large_above));
+    if !(policy.share > 0.0 && policy.share < 1.0) {
+        return Err(MaterialityError::Fraction {
+            field: "materiality",
+            value: policy.share,
+        });
     }
     let duplicate = |side, f: &Figure| MaterialityError::Duplicate {
         side,
@@ -397,11 +453,15 @@ pub fn reconcile(
         };
         pairs.insert(key, presence);
     }
-    let lines = pairs
+    let mut lines = pairs
         .into_iter()
-        .map(|((period, quantity), presence)| line(period, quantity, presence))
+        .map(|((period, quantity), presence)| line(period, quantity, presence, &bearing))
         .collect::<Result<Vec<_>, _>>()?;
-    let years = verdicts(&lines, policy)?;
+    let years: BTreeSet<i32> = lines.iter().map(|l| l.period.year()).collect();
+    let years = years
+        .into_iter()
+        .map(|y| judge_year(y, &mut lines, totals, &bearing, policy))
+        .collect::<Result<Vec<_>, _>>()?;
     Ok(Reconciliation { lines, years })
 }
 
@@ -409,6 +469,7 @@ fn line(
     period: ReportingPeriod,
     quantity: ReportedQuantity,
     presence: Presence,
+    bearing: &impl Fn(ReportedQuantity) -> Bearing,
 ) -> Result<ReconciledLine, MaterialityError> {
     let (l, r) = (presence.ledger(), presence.report());
     let difference = l
@@ -420,102 +481,155 @@ fn line(
         (_, 0) => None,
         (d, l) => Some(100.0 * d as f64 / l as f64),
     };
+    let judgement = match (bearing(quantity), presence) {
+        (Bearing::NotKept, _) => Judgement::NotKept,
+        (Bearing::Listed, _) => Judgement::NotATerm,
+        (_, Presence::LedgerOnly(_)) => Judgement::NotReported,
+        _ => Judgement::Counted,
+    };
     Ok(ReconciledLine {
         period,
         quantity,
         presence,
         difference: Mass::from_grams(difference),
         difference_pct,
+        judgement,
     })
 }
 
-fn verdicts(
-    lines: &[ReconciledLine],
-    policy: &MaterialityPolicy,
-) -> Result<Vec<YearVerdict>, MaterialityError> {
-    // A year is judged on its stored lines; a weathering or mineralization project that reports
-    // its net removal or mineralized tonnes instead is judged on those (one headline quantity a
-    // year, so no tonne counts twice).
-    const HEADLINE: [ReportedQuantity; 3] = [
-        ReportedQuantity::Stored,
-        ReportedQuantity::WeatheringNet,
-        ReportedQuantity::Mineralized,
-    ];
-    let mut by_year: BTreeMap<i32, Vec<&ReconciledLine>> = BTreeMap::new();
-    for l in lines.iter().filter(|l| HEADLINE.contains(&l.quantity)) {
-        by_year.entry(l.period.year()).or_default().push(l);
+/// Whether period `outer` holds period `inner` (a period holds itself).
+fn holds(outer: ReportingPeriod, inner: ReportingPeriod) -> bool {
+    use ReportingPeriod::{Month, Quarter, Year};
+    match (outer, inner) {
+        (Year(y), i) => i.year() == y,
+        (Quarter(y, q), Quarter(z, r)) => y == z && q == r,
+        (Quarter(y, q), Month(z, m)) => y == z && (m - 1) / 3 + 1 == q,
+        (Month(..), Month(..)) => outer == inner,
+        _ => false,
     }
-    by_year
-        .into_iter()
-        .map(|(year, all)| {
-            let q = HEADLINE
-                .iter()
-                .find(|q| all.iter().any(|l| l.quantity == **q))
-                .expect("lines of a headline quantity");
-            let chosen: Vec<&ReconciledLine> =
-                all.into_iter().filter(|l| l.quantity == *q).collect();
-            year_verdict(year, &chosen, policy)
-        })
-        .collect()
 }
 
-fn year_verdict(
+fn overlap(a: ReportingPeriod, b: ReportingPeriod) -> bool {
+    holds(a, b) || holds(b, a)
+}
+
+/// Settles which of year `year`'s lines count, and the year's verdict.
+fn judge_year(
     year: i32,
-    stored: &[&ReconciledLine],
+    lines: &mut [ReconciledLine],
+    totals: &[Figure],
+    bearing: &impl Fn(ReportedQuantity) -> Bearing,
     policy: &MaterialityPolicy,
 ) -> Result<YearVerdict, MaterialityError> {
-    let finest = |both_only: bool| {
-        stored
-            .iter()
-            .filter(|l| !both_only || matches!(l.presence, Presence::Both { .. }))
-            .map(|l| l.period.granularity())
-            .max()
-    };
-    let granularity = finest(true)
-        .or(finest(false))
-        .expect("a year is judged only when it has stored lines");
-    let counted: Vec<&&ReconciledLine> = stored
-        .iter()
-        .filter(|l| l.period.granularity() == granularity)
+    let idx: Vec<usize> = (0..lines.len())
+        .filter(|&i| lines[i].period.year() == year)
         .collect();
+    let counted = |l: &ReconciledLine| l.judgement == Judgement::Counted;
+    // One headline a year: the first the report gives.
+    let headline = HEADLINE.into_iter().find(|q| {
+        idx.iter()
+            .any(|&i| lines[i].quantity == *q && counted(&lines[i]))
+    });
+    for &i in &idx {
+        let l = &mut lines[i];
+        if let Some(h) = headline
+            && counted(l)
+            && bearing(l.quantity) == Bearing::Headline
+            && l.quantity != h
+        {
+            l.judgement = Judgement::JudgedOn(h);
+        }
+    }
+    // Finest periods first: a line whose period holds a finer counted line of its quantity is
+    // not added again.
+    let mut by_fineness = idx.clone();
+    by_fineness.sort_by_key(|&i| std::cmp::Reverse(lines[i].period.granularity()));
+    for (n, &i) in by_fineness.iter().enumerate() {
+        let covered = by_fineness[..n].iter().any(|&j| {
+            counted(&lines[j])
+                && lines[j].quantity == lines[i].quantity
+                && lines[j].period != lines[i].period
+                && holds(lines[i].period, lines[j].period)
+        });
+        if covered && counted(&lines[i]) {
+            lines[i].judgement = Judgement::FinerCounted;
+        }
+    }
+    let added: Vec<&ReconciledLine> = idx
+        .iter()
+        .map(|&i| &lines[i])
+        .filter(|l| counted(l))
+        .collect();
+    // Lines covering one stretch of time are one group: in it, the headline's differences and
+    // the terms' differences are two readings of one misstatement, so the larger counts.
+    let mut group: Vec<usize> = (0..added.len()).collect();
+    fn root(group: &[usize], mut i: usize) -> usize {
+        while group[i] != i {
+            i = group[i];
+        }
+        i
+    }
+    for a in 0..added.len() {
+        for b in a + 1..added.len() {
+            if overlap(added[a].period, added[b].period) {
+                let (ra, rb) = (root(&group, a), root(&group, b));
+                group[ra.max(rb)] = ra.min(rb);
+            }
+        }
+    }
     let too_large = |l: &ReconciledLine| MaterialityError::TooLarge {
         period: l.period,
         quantity: l.quantity,
     };
-    let (mut misstatement, mut ledger_total) = (0i64, 0i64);
-    for l in &counted {
-        misstatement = l
+    let mut sums: BTreeMap<usize, (i64, i64)> = BTreeMap::new();
+    for (n, l) in added.iter().enumerate() {
+        let r = root(&group, n);
+        let (h, t) = sums.entry(r).or_default();
+        let slot = if bearing(l.quantity) == Bearing::Headline {
+            h
+        } else {
+            t
+        };
+        *slot = l
             .difference
             .grams()
             .checked_abs()
-            .and_then(|d| misstatement.checked_add(d))
-            .ok_or_else(|| too_large(l))?;
-        ledger_total = ledger_total
-            .checked_add(l.presence.ledger().grams())
+            .and_then(|d| slot.checked_add(d))
             .ok_or_else(|| too_large(l))?;
     }
-    let base = Mass::from_grams(ledger_total.saturating_abs());
-    let (category, threshold_share) = if base > policy.large_above {
-        (MaterialityCategory::Large, policy.large)
-    } else {
-        (MaterialityCategory::Standard, policy.standard)
-    };
-    let threshold = base.scale(threshold_share);
+    let misstatement = sums
+        .values()
+        .try_fold(0i64, |acc, (h, t)| acc.checked_add(*h.max(t)))
+        .ok_or(MaterialityError::TooLarge {
+            period: ReportingPeriod::Year(year),
+            quantity: headline.unwrap_or(ReportedQuantity::Stored),
+        })?;
+    let base_quantity = headline.unwrap_or_else(|| {
+        HEADLINE
+            .into_iter()
+            .find(|q| bearing(*q) == Bearing::Headline)
+            .unwrap_or(ReportedQuantity::Stored)
+    });
+    let ledger_total = totals
+        .iter()
+        .find(|f| f.period == ReportingPeriod::Year(year) && f.quantity == base_quantity)
+        .map_or(Mass::ZERO, |f| f.mass);
+    let threshold = Mass::from_grams(ledger_total.grams().saturating_abs()).scale(policy.share);
     let misstatement = Mass::from_grams(misstatement);
+    let mut quantities: Vec<ReportedQuantity> = added.iter().map(|l| l.quantity).collect();
+    quantities.sort();
+    quantities.dedup();
     Ok(YearVerdict {
         year,
-        rule: MisstatementRule::StoredLines(granularity),
-        lines: counted.len(),
-        one_sided: counted
-            .iter()
-            .filter(|l| !matches!(l.presence, Presence::Both { .. }))
-            .count(),
+        lines: added.len(),
+        counted: quantities,
         misstatement,
-        ledger_total: Mass::from_grams(ledger_total),
-        category,
-        threshold_share,
+        ledger_total,
+        threshold_share: policy.share,
         threshold,
-        verdict: if misstatement > threshold {
+        verdict: if added.is_empty() {
+            Verdict::NotAssessed
+        } else if misstatement > threshold {
             Verdict::Material
         } else {
             Verdict::WithinMateriality
@@ -539,8 +653,38 @@ mod tests {
         }
     }
 
+    /// A saline-aquifer project under Subpart RR.
+    fn rr(q: ReportedQuantity) -> Bearing {
+        use ReportedQuantity as Q;
+        match q {
+            Q::Stored => Bearing::Headline,
+            Q::Injected | Q::Produced | Q::Leakage | Q::EquipmentLeak => Bearing::Term,
+            Q::Received => Bearing::Listed,
+            Q::Mineralized | Q::WeatheringNet => Bearing::NotKept,
+        }
+    }
+
+    fn run_with(ledger: &[Figure], report: &[Figure], totals: &[Figure]) -> Reconciliation {
+        reconcile(ledger, report, totals, rr, &MaterialityPolicy::default()).unwrap()
+    }
+
     fn run(ledger: &[Figure], report: &[Figure]) -> Reconciliation {
-        reconcile(ledger, report, &MaterialityPolicy::default()).unwrap()
+        let totals: Vec<Figure> = ledger
+            .iter()
+            .filter(|f| {
+                matches!(f.period, ReportingPeriod::Year(_)) && f.quantity.key() == "stored"
+            })
+            .copied()
+            .collect();
+        run_with(ledger, report, &totals)
+    }
+
+    fn find(r: &Reconciliation, p: &str, q: &str) -> ReconciledLine {
+        let (p, q) = (p.parse().unwrap(), q.parse().unwrap());
+        *r.lines
+            .iter()
+            .find(|l| l.period == p && l.quantity == q)
+            .unwrap()
     }
 
     #[test]
@@ -564,6 +708,10 @@ mod tests {
         v.sort();
         let v: Vec<String> = v.iter().map(|p| p.to_string()).collect();
         assert_eq!(v, ["2026", "2026-Q1", "2026-Q2", "2026-02", "2027"]);
+        assert!(holds(p("2026-Q2"), p("2026-06")));
+        assert!(!holds(p("2026-Q2"), p("2026-07")));
+        assert!(holds(p("2026"), p("2026-07")));
+        assert!(!holds(p("2026-07"), p("2026")));
     }
 
     #[test]
@@ -605,6 +753,7 @@ mod tests {
                 fig("2026-Q1", "stored", 99_000),
                 fig("2026-Q2", "leakage", 0),
                 fig("2026-Q2", "stored", 50_000),
+                fig("2026", "stored", 149_000),
             ],
             &[
                 fig("2026-Q1", "injected", 98_000),
@@ -613,75 +762,134 @@ mod tests {
                 fig("2026-Q3", "stored", 20_000),
             ],
         );
-        let find = |p: &str, q: &str| {
-            let (p, q) = (p.parse().unwrap(), q.parse().unwrap());
-            *r.lines
-                .iter()
-                .find(|l| l.period == p && l.quantity == q)
-                .unwrap()
-        };
-        let inj = find("2026-Q1", "injected");
+        let inj = find(&r, "2026-Q1", "injected");
         assert_eq!(inj.difference, t(2_000));
         assert_eq!(inj.difference_pct, Some(2.0));
-        assert_eq!(find("2026-Q1", "stored").difference_pct, Some(0.0));
+        assert_eq!(find(&r, "2026-Q1", "stored").difference_pct, Some(0.0));
         // Ledger figure zero, report not: a difference with no percentage.
-        let leak = find("2026-Q2", "leakage");
+        let leak = find(&r, "2026-Q2", "leakage");
         assert_eq!((leak.difference, leak.difference_pct), (t(-3), None));
-        // One-sided lines are kept, the missing side counted as zero.
-        let q2 = find("2026-Q2", "stored");
+        // A period the report leaves out is not reported, not misstated.
+        let q2 = find(&r, "2026-Q2", "stored");
         assert_eq!(q2.presence, Presence::LedgerOnly(t(50_000)));
-        assert_eq!((q2.difference, q2.difference_pct), (t(50_000), Some(100.0)));
-        let q3 = find("2026-Q3", "stored");
+        assert_eq!(q2.judgement, Judgement::NotReported);
+        // A report figure the ledger lacks counts whole.
+        let q3 = find(&r, "2026-Q3", "stored");
         assert_eq!(q3.presence, Presence::ReportOnly(t(20_000)));
         assert_eq!((q3.difference, q3.difference_pct), (t(-20_000), None));
-        assert_eq!(r.lines.len(), 5);
-        let y = r.years[0];
-        assert_eq!(y.rule, MisstatementRule::StoredLines(Granularity::Quarter));
-        assert_eq!((y.lines, y.one_sided), (3, 2));
-        assert_eq!(y.misstatement, t(70_000));
+        assert_eq!(q3.judgement, Judgement::Counted);
+        assert_eq!(r.lines.len(), 6);
+        let y = &r.years[0];
+        // Q1: stored 0 against injected 2 000 → 2 000; Q2: leakage 3 (no stored line counts
+        // there); Q3: stored 20 000. 2 000 + 3 + 20 000 = 22 003 t, over 5 % of 149 000 = 7 450.
+        assert_eq!(y.lines, 4);
+        assert_eq!(y.misstatement, t(22_003));
+        assert_eq!(y.threshold, Mass::from_grams(7_450 * 1_000_000));
         assert_eq!(y.verdict, Verdict::Material);
     }
 
     #[test]
-    fn five_percent_and_two_percent_thresholds() {
-        // Regulation (EU) 2018/2067 Art. 23 (read): materiality 5 % of the reported total, 2 %
-        // for the largest; the 500 kt a year boundary is from memory.
-        let year = |ledger_t, report_t| {
-            run(
+    fn a_report_of_injected_alone_is_judged() {
+        // The report gives only the year's injected tonnes, 7 % under the ledger's 100 000 t:
+        // 7 000 t misstated against 5 % of the ledger's 98 000 t stored = 4 900 t → material.
+        let r = run_with(
+            &[fig("2026", "injected", 100_000)],
+            &[fig("2026", "injected", 93_000)],
+            &[fig("2026", "stored", 98_000)],
+        );
+        assert_eq!(find(&r, "2026", "injected").judgement, Judgement::Counted);
+        let y = &r.years[0];
+        assert_eq!(y.counted, [ReportedQuantity::Injected]);
+        assert_eq!((y.misstatement, y.ledger_total), (t(7_000), t(98_000)));
+        assert_eq!(y.threshold, t(4_900));
+        assert_eq!(y.verdict, Verdict::Material);
+        assert_eq!(r.overall(), Verdict::Material);
+    }
+
+    #[test]
+    fn a_term_and_stored_over_one_period_count_once() {
+        // Q1: injected 1 000 t over, stored 1 000 t over (the same error): max(1 000, 1 000).
+        // Q2: injected and leakage each 500 t over, stored agrees (they offset): max(0, 1 000).
+        // 1 000 + 1 000 = 2 000 t.
+        let r = run_with(
+            &[
+                fig("2026-Q1", "injected", 51_000),
+                fig("2026-Q1", "stored", 51_000),
+                fig("2026-Q2", "injected", 50_500),
+                fig("2026-Q2", "leakage", 500),
+                fig("2026-Q2", "stored", 50_000),
+            ],
+            &[
+                fig("2026-Q1", "injected", 50_000),
+                fig("2026-Q1", "stored", 50_000),
+                fig("2026-Q2", "injected", 50_000),
+                fig("2026-Q2", "leakage", 0),
+                fig("2026-Q2", "stored", 50_000),
+            ],
+            &[fig("2026", "stored", 101_000)],
+        );
+        let y = &r.years[0];
+        assert_eq!(y.misstatement, t(2_000));
+        assert_eq!(y.lines, 5);
+        // 5 % of 101 000 = 5 050 t: within.
+        assert_eq!(y.verdict, Verdict::WithinMateriality);
+    }
+
+    #[test]
+    fn received_under_rr_is_listed_and_a_report_of_nothing_assessable_is_not_assessed() {
+        let r = run_with(
+            &[fig("2026", "received", 10_000)],
+            &[
+                fig("2026", "received", 5_000),
+                fig("2026", "weathering-net", 1),
+            ],
+            &[fig("2026", "stored", 9_000)],
+        );
+        assert_eq!(find(&r, "2026", "received").judgement, Judgement::NotATerm);
+        assert_eq!(
+            find(&r, "2026", "weathering-net").judgement,
+            Judgement::NotKept
+        );
+        assert_eq!(r.years[0].verdict, Verdict::NotAssessed);
+        assert_eq!(r.years[0].misstatement, Mass::ZERO);
+        assert_eq!(r.overall(), Verdict::NotAssessed);
+    }
+
+    #[test]
+    fn five_percent_unless_the_programme_sets_another_level() {
+        // Regulation (EU) 2018/2067 Art. 23 (read): 5 %; its 2 % is for installations above
+        // 500 kt of annual emissions, never applied by stored tonnes.
+        let year = |ledger_t, report_t, share| {
+            reconcile(
                 &[fig("2026", "stored", ledger_t)],
                 &[fig("2026", "stored", report_t)],
+                &[fig("2026", "stored", ledger_t)],
+                rr,
+                &MaterialityPolicy { share },
             )
+            .unwrap()
             .years[0]
+                .clone()
         };
-        let y = year(400_000, 381_000);
-        assert_eq!(y.category, MaterialityCategory::Standard);
+        let y = year(400_000, 381_000, 0.05);
         assert_eq!(y.threshold, t(20_000));
         assert_eq!(y.misstatement, t(19_000));
         assert_eq!(y.verdict, Verdict::WithinMateriality);
         // Exactly at the threshold is within; one tonne more is material.
-        assert_eq!(year(400_000, 380_000).verdict, Verdict::WithinMateriality);
-        assert_eq!(year(400_000, 379_999).verdict, Verdict::Material);
-        // 500 kt is not above 500 kt: still 5 %.
         assert_eq!(
-            year(500_000, 500_000).category,
-            MaterialityCategory::Standard
+            year(400_000, 380_000, 0.05).verdict,
+            Verdict::WithinMateriality
         );
-        let y = year(600_000, 585_000);
-        assert_eq!(y.category, MaterialityCategory::Large);
+        assert_eq!(year(400_000, 379_999, 0.05).verdict, Verdict::Material);
+        // 600 kt stored, 15 kt off: 2.5 %, within the default 5 % (30 kt) — stored tonnes
+        // above 500 kt do not tighten it; a programme's 2 % (12 kt) does.
+        assert_eq!(
+            year(600_000, 585_000, 0.05).verdict,
+            Verdict::WithinMateriality
+        );
+        let y = year(600_000, 585_000, 0.02);
         assert_eq!(y.threshold, t(12_000));
         assert_eq!(y.verdict, Verdict::Material);
-        // Overridden by the programme.
-        let policy = MaterialityPolicy {
-            large: 0.03,
-            ..MaterialityPolicy::default()
-        };
-        let r = reconcile(
-            &[fig("2026", "stored", 600_000)],
-            &[fig("2026", "stored", 585_000)],
-            &policy,
-        )
-        .unwrap();
-        assert_eq!(r.years[0].verdict, Verdict::WithinMateriality);
     }
 
     #[test]
@@ -698,20 +906,19 @@ mod tests {
             fig("2026-Q1", "stored", 100_000),
             fig("2026-Q2", "stored", 100_000),
             fig("2027-01", "stored", 5),
-            fig("2026-Q1", "injected", 1),
         ];
         let r = run(&ledger, &report);
-        let y = r.years[0];
-        assert_eq!(y.rule, MisstatementRule::StoredLines(Granularity::Quarter));
+        assert_eq!(
+            find(&r, "2026", "stored").judgement,
+            Judgement::FinerCounted
+        );
+        let y = &r.years[0];
         assert_eq!(y.misstatement, t(20_000));
         assert_eq!(y.ledger_total, t(200_000));
         assert_eq!(y.verdict, Verdict::Material);
         // 2027 has a report line only: the ledger total is zero and any misstatement material.
-        let y = r.years[1];
-        assert_eq!(
-            (y.year, y.rule),
-            (2027, MisstatementRule::StoredLines(Granularity::Month))
-        );
+        let y = &r.years[1];
+        assert_eq!((y.year, y.lines), (2027, 1));
         assert_eq!(
             (y.ledger_total, y.threshold, y.verdict),
             (Mass::ZERO, Mass::ZERO, Verdict::Material)
@@ -725,30 +932,22 @@ mod tests {
         let e = reconcile(
             &[fig("2026", "stored", 1), fig("2026", "stored", 2)],
             &[],
+            &[],
+            rr,
             &p,
         )
         .unwrap_err();
         assert_eq!(e.to_string(), "ledger has two lines for 2026 stored");
-        let bad = MaterialityPolicy { standard: 0.0, ..p };
-        let e = reconcile(&[], &[], &bad).unwrap_err();
+        let e = reconcile(&[], &[], &[], rr, &MaterialityPolicy { share: 0.0 }).unwrap_err();
         assert_eq!(
             e.to_string(),
-            "materiality_standard is 0: must be above 0 and below 1"
-        );
-        let bad = MaterialityPolicy {
-            large_above: t(-1),
-            ..p
-        };
-        let e = reconcile(&[], &[], &bad).unwrap_err();
-        assert_eq!(
-            e.to_string(),
-            "large_above is -1.000000 t: must not be negative"
+            "materiality is 0: must be above 0 and below 1"
         );
         let huge = |g| Figure {
             mass: Mass::from_grams(g),
             ..fig("2026", "stored", 0)
         };
-        let e = reconcile(&[huge(i64::MAX)], &[huge(-1)], &p).unwrap_err();
+        let e = reconcile(&[huge(i64::MAX)], &[huge(-1)], &[], rr, &p).unwrap_err();
         assert_eq!(
             e.to_string(),
             "the difference for 2026 stored is too large for the ledger"
@@ -786,7 +985,7 @@ mod tests {
 
         #[test]
         fn no_line_is_dropped_and_grams_are_exact(ledger in figures(), report in figures()) {
-            let r = reconcile(&ledger, &report, &MaterialityPolicy::default()).unwrap();
+            let r = run(&ledger, &report);
             for f in ledger.iter().chain(&report) {
                 proptest::prop_assert!(
                     r.lines.iter().any(|l| l.period == f.period && l.quantity == f.quantity)
@@ -797,11 +996,23 @@ mod tests {
                 - report.iter().map(|f| f.mass.grams()).sum::<i64>();
             proptest::prop_assert_eq!(diffs, sides);
             for y in &r.years {
+                let counted: i64 = r.lines.iter()
+                    .filter(|l| l.period.year() == y.year && l.judgement == Judgement::Counted)
+                    .map(|l| l.difference.grams().abs())
+                    .sum();
+                // Never more than every counted line added, never a line the report lacks.
                 proptest::prop_assert!(y.misstatement.grams() >= 0);
+                proptest::prop_assert!(y.misstatement.grams() <= counted);
+                proptest::prop_assert_eq!(y.verdict == Verdict::NotAssessed, y.lines == 0);
                 proptest::prop_assert_eq!(
                     y.verdict == Verdict::Material,
-                    y.misstatement > y.threshold
+                    y.lines > 0 && y.misstatement > y.threshold
                 );
+            }
+            for l in &r.lines {
+                if matches!(l.presence, Presence::LedgerOnly(_)) {
+                    proptest::prop_assert!(l.judgement != Judgement::Counted);
+                }
             }
         }
     }

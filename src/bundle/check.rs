@@ -6,6 +6,7 @@ use super::line::{Import, Item, Line, Trailer};
 use crate::ledger::Hash;
 use crate::ledger::chain::seal;
 use crate::ledger::merkle::TreeBuilder;
+use crate::ledger::reconciliation::{RecordRun, Recorded};
 use crate::ledger::seal_check::SealCheck;
 use crate::ledger::signature::Statement;
 use sha2::{Digest, Sha256};
@@ -22,6 +23,7 @@ enum Stage {
     Imports,
     Entries,
     Signatures,
+    Reconciliations,
     Done,
 }
 
@@ -43,6 +45,9 @@ pub struct Checker {
     /// statements over later seals, so they need not be dense).
     last_signature: Option<u64>,
     signatures: usize,
+    /// The header's version (1 has no reconciliation lines), and the run of records so far.
+    version: u32,
+    records: RecordRun,
     /// The import whose bytes are being read: the next part due, the bytes so far, their hash.
     import: Option<(Import, i64, i64, Sha256)>,
 }
@@ -64,6 +69,8 @@ impl Default for Checker {
             sealed: 0,
             last_signature: None,
             signatures: 0,
+            version: 0,
+            records: RecordRun::default(),
         }
     }
 }
@@ -95,11 +102,17 @@ impl Checker {
             Item::Import(_) | Item::Evidence(_) => Stage::Imports,
             Item::Entry(_) => Stage::Entries,
             Item::Signature(_) => Stage::Signatures,
+            Item::Reconciliation(_) => Stage::Reconciliations,
             Item::Trailer(_) => Stage::Done,
         };
         self.order(stage, &item)?;
         match &item {
-            Item::Header { project, seals, .. } => {
+            Item::Header {
+                version,
+                project,
+                seals,
+            } => {
+                self.version = *version;
                 self.project = project.clone();
                 self.seals = Some(SealCheck::new(seals.clone()));
             }
@@ -137,6 +150,7 @@ impl Checker {
             }
             Item::Entry(s) => self.link(s)?,
             Item::Signature(s) => self.signature(s)?,
+            Item::Reconciliation(r) => self.reconciliation(r)?,
             Item::Trailer(t) => self.close(t)?,
             Item::Project(_) => {}
         }
@@ -269,6 +283,33 @@ impl Checker {
         Ok(())
     }
 
+    /// A recorded reconciliation: after the one before it (seq, previous hash), and naming a
+    /// chain no longer than the bundle's, whose head it is when as long.
+    fn reconciliation(&mut self, r: &Recorded) -> Result<(), String> {
+        if self.version < 2 {
+            return Err(
+                "a reconciliation line in a version 1 bundle (they begin with version 2)".into(),
+            );
+        }
+        self.records.push(r, r.row_hash())?;
+        let seq = r.seq;
+        if r.chain_size > self.next_seq
+            || (r.chain_size == self.next_seq && r.chain_head != self.prev_chain)
+        {
+            return Err(format!(
+                "reconciliation seq {seq} names a chain of {} entries with head {}, which the bundle's entries do not give",
+                r.chain_size,
+                r.chain_head.head()
+            ));
+        }
+        Ok(())
+    }
+
+    /// How many recorded reconciliations the bundle holds, each checked.
+    pub fn reconciliations(&self) -> u64 {
+        self.records.head().0
+    }
+
     /// How many signed statements the bundle holds, each checked.
     pub fn signatures(&self) -> usize {
         self.signatures
@@ -339,6 +380,7 @@ fn kind_name(item: &Item) -> &'static str {
         Item::Evidence(_) => "evidence",
         Item::Entry(_) => "entry",
         Item::Signature(_) => "signature",
+        Item::Reconciliation(_) => "reconciliation",
         Item::Trailer(_) => "trailer",
     }
 }

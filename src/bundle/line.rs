@@ -3,11 +3,13 @@
 //! holds gives the same line, so a bundle has exactly one spelling of its content.
 
 use crate::ledger::canonical::{
-    encode_feedstock, encode_project, encode_setting, encode_signature_row, encode_site,
+    encode_feedstock, encode_project, encode_reconciliation, encode_setting, encode_signature_row,
+    encode_site,
 };
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::hash::leaf_hash;
 use crate::ledger::period::parse_date;
+use crate::ledger::reconciliation::{Recorded, RecordedLine, RecordedYear};
 use crate::ledger::setting::{Setting, SettingName};
 use crate::ledger::signature::{Role, Signed, Statement, hex};
 use crate::ledger::{
@@ -20,8 +22,11 @@ use serde::{Deserialize, Serialize};
 
 /// The format's name in the header line.
 pub const FORMAT: &str = "sinkbook-bundle";
-/// The version this build writes and reads.
-pub const VERSION: u32 = 1;
+/// The version this build writes. Version 2 added the reconciliation lines; a version 1
+/// bundle (which has none) is still read.
+pub const VERSION: u32 = 2;
+/// The versions this build reads.
+pub const READS: [u32; 2] = [1, 2];
 
 /// Pairs of text, as readings and analyses keep them.
 type Pairs = Vec<(String, String)>;
@@ -128,6 +133,27 @@ pub enum Line {
         signature: String,
         row_hash: String,
     },
+    /// A reconciliation recorded against the project, as the ledger's reconciliations table
+    /// keeps it (docs/ledger-format.md gives the bytes hashed).
+    Reconciliation {
+        seq: u64,
+        previous: String,
+        report_name: String,
+        report_sha256: String,
+        method: String,
+        materiality: String,
+        basis: String,
+        chain_size: u64,
+        chain_head: String,
+        lines: Vec<RecordedLine>,
+        years: Vec<RecordedYear>,
+        verdict: String,
+        role: String,
+        by: Option<String>,
+        recorded_by: Option<String>,
+        recorded_at: String,
+        row_hash: String,
+    },
     /// The last line: what came before it, its tree head, and a digest of its bytes.
     Trailer {
         lines: u64,
@@ -168,12 +194,39 @@ fn row_hash_matches(what: &str, bytes: &[u8], stored: &str) -> Result<(), String
 }
 
 impl Line {
+    /// The header this build writes.
     pub fn header(project: &str, seals: &[u64]) -> Line {
+        Line::header_of(VERSION, project, seals)
+    }
+
+    fn header_of(version: u32, project: &str, seals: &[u64]) -> Line {
         Line::Header {
             format: FORMAT.into(),
-            version: VERSION,
+            version,
             project: project.into(),
             seals: seals.to_vec(),
+        }
+    }
+
+    pub fn reconciliation(r: &Recorded) -> Line {
+        Line::Reconciliation {
+            seq: r.seq,
+            previous: r.previous.to_hex(),
+            report_name: r.report_name.clone(),
+            report_sha256: r.report_sha256.to_hex(),
+            method: r.method.clone(),
+            materiality: r.materiality.clone(),
+            basis: r.basis.clone(),
+            chain_size: r.chain_size,
+            chain_head: r.chain_head.to_hex(),
+            lines: r.lines.clone(),
+            years: r.years.clone(),
+            verdict: r.verdict.clone(),
+            role: r.role.name().into(),
+            by: r.by.clone(),
+            recorded_by: r.recorded_by.clone(),
+            recorded_at: time_text(r.recorded_at),
+            row_hash: r.row_hash().to_hex(),
         }
     }
 
@@ -307,6 +360,9 @@ pub enum Item {
     /// A statement whose row hash is its content's (its signature and the seal it names are the
     /// checker's to judge).
     Signature(Statement),
+    /// A recorded reconciliation whose row hash is its content's (the run of records is the
+    /// checker's to follow).
+    Reconciliation(Recorded),
     Trailer(Trailer),
 }
 
@@ -414,7 +470,11 @@ impl Line {
     pub fn to_item(&self, project: &str) -> Result<Item, String> {
         let item = self.value(project)?;
         let again = match &item {
-            Item::Header { project, seals, .. } => Line::header(project, seals),
+            Item::Header {
+                version,
+                project,
+                seals,
+            } => Line::header_of(*version, project, seals),
             Item::Project(p) => Line::project(p),
             Item::Site(s) => Line::site(s),
             Item::Setting(s) => Line::setting(s),
@@ -423,6 +483,7 @@ impl Line {
             Item::Evidence(p) => p.to_line(),
             Item::Entry(e) => Line::entry(e),
             Item::Signature(s) => Line::signature(s),
+            Item::Reconciliation(r) => Line::reconciliation(r),
             Item::Trailer(t) => t.to_line(),
         };
         if &again != self {
@@ -442,9 +503,9 @@ impl Line {
                 if format != FORMAT {
                     return Err(format!("format {format:?} is not {FORMAT:?}"));
                 }
-                if version != VERSION {
+                if !READS.contains(&version) {
                     return Err(format!(
-                        "version {version} is not {VERSION}, the one this build reads"
+                        "version {version} is not a version this build reads (1 or 2); a newer sinkbook wrote it"
                     ));
                 }
                 Item::Header {
@@ -603,6 +664,51 @@ impl Line {
                 )?;
                 Item::Signature(s)
             }
+            Line::Reconciliation {
+                seq,
+                previous,
+                report_name,
+                report_sha256,
+                method,
+                materiality,
+                basis,
+                chain_size,
+                chain_head,
+                lines,
+                years,
+                verdict,
+                role,
+                by,
+                recorded_by,
+                recorded_at,
+                row_hash,
+            } => {
+                let r = Recorded {
+                    project: project.into(),
+                    seq,
+                    previous: hash("previous", &previous)?,
+                    report_name,
+                    report_sha256: hash("report_sha256", &report_sha256)?,
+                    method,
+                    materiality,
+                    basis,
+                    chain_size,
+                    chain_head: hash("chain_head", &chain_head)?,
+                    lines,
+                    years,
+                    verdict,
+                    role: named("role", &role, Role::from_name)?,
+                    by,
+                    recorded_by,
+                    recorded_at: time("recorded_at", &recorded_at)?,
+                };
+                row_hash_matches(
+                    &format!("reconciliation {seq}"),
+                    &encode_reconciliation(&r),
+                    &row_hash,
+                )?;
+                Item::Reconciliation(r)
+            }
             Line::Trailer {
                 lines,
                 entries,
@@ -696,8 +802,17 @@ mod tests {
 
     #[test]
     fn one_spelling_only() {
-        let header = r#"{"type":"header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[]}"#;
+        let header = r#"{"type":"header","format":"sinkbook-bundle","version":2,"project":"TFS","seals":[]}"#;
         assert!(Line::parse(header).is_ok());
+        // Version 1 is still read; a version this build does not know is refused by name.
+        let v1 = header.replace(r#""version":2"#, r#""version":1"#);
+        assert!(Line::parse(&v1).unwrap().to_item("TFS").is_ok());
+        let v3 = header.replace(r#""version":2"#, r#""version":3"#);
+        let e = Line::parse(&v3).unwrap().to_item("TFS").unwrap_err();
+        assert!(
+            e.contains("version 3 is not a version this build reads"),
+            "{e}"
+        );
         // The same meaning, spelt otherwise: spaces, another field order, an unknown field.
         for other in [
             r#"{"type": "header","format":"sinkbook-bundle","version":1,"project":"TFS","seals":[]}"#,

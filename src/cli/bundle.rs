@@ -15,7 +15,7 @@ use std::path::{Path, PathBuf};
 
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
-    /// Write a project's registration, settings, imported files, entries and signed statements to one file
+    /// Write a project's registration, settings, imported files, entries, signed statements and recorded reconciliations to one file
     #[command(
         after_help = "Example: sinkbook bundle export TFS --out tfs-2026.bundle --through-seal 738"
     )]
@@ -157,6 +157,14 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
                 w.put(&Line::signature(&s))?;
             }
         }
+        // The reconciliations recorded by the seal's time, over the entries the bundle holds.
+        for r in tx
+            .reconciliations(&code)?
+            .iter()
+            .take_while(|r| by(r.recorded_at) && r.chain_size <= last.saturating_add(1))
+        {
+            w.put(&Line::reconciliation(r))?;
+        }
         Ok(())
     })?;
     let trailer = w.checker.trailer();
@@ -189,6 +197,7 @@ pub struct Checked {
     pub trailer: Trailer,
     pub seals: usize,
     pub signatures: usize,
+    pub reconciliations: u64,
 }
 
 /// Reads a bundle through the checker, handing each checked line's value to `f`.
@@ -209,6 +218,7 @@ pub fn read_checked(path: &Path, mut f: impl FnMut(&Item) -> Result<()>) -> Resu
         trailer: t,
         seals: checker.seals(),
         signatures: checker.signatures(),
+        reconciliations: checker.reconciliations(),
     })
 }
 
@@ -220,12 +230,13 @@ fn check(file: &Path) -> Result<Report> {
         &c.project,
         &c.trailer,
         &format!(
-            "whole: {}, {}",
+            "whole: {}, {}, {}",
             counted(c.seals, "seal"),
-            counted(c.signatures, "signed statement")
+            counted(c.signatures, "signed statement"),
+            counted(c.reconciliations as usize, "reconciliation")
         ),
     );
-    table.note("Checked: every line in its one spelling and in order; every registration, entry and statement against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; every statement's ed25519 signature over its bytes and the seal it names holding the tree head it signed; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
+    table.note("Checked: every line in its one spelling and in order; every registration, entry and statement against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; every statement's ed25519 signature over its bytes and the seal it names holding the tree head it signed; every recorded reconciliation's row hash, each naming the one before it; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
     Ok(Report::default().table(table))
 }
 

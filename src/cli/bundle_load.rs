@@ -10,6 +10,7 @@ use crate::bundle::line::Import;
 use crate::error::{Error, Result};
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::merkle::{RangeHashes, TreeBuilder, consistency_ranges, verify_consistency};
+use crate::ledger::reconciliation::Recorded;
 use crate::ledger::setting::Setting;
 use crate::ledger::signature::Statement;
 use crate::ledger::{Hash, Project, SealedEntry, Site};
@@ -25,6 +26,7 @@ struct Held {
     feedstocks: Vec<Feedstock>,
     imports: Vec<BundleImport>,
     signatures: Vec<Statement>,
+    reconciliations: Vec<Recorded>,
     entries: u64,
     root: Hash,
 }
@@ -37,6 +39,7 @@ struct Loader {
     matched_feedstocks: usize,
     matched_imports: usize,
     matched_signatures: usize,
+    matched_reconciliations: usize,
     next_import_id: i64,
     /// The import being read: its id in this ledger (None: already held, its bytes skipped).
     import: Option<(Option<i64>, Import)>,
@@ -44,6 +47,7 @@ struct Loader {
     proof: RangeHashes,
     new_entries: u64,
     new_signatures: u64,
+    new_reconciliations: u64,
 }
 
 fn not_extension(project: &str, what: impl std::fmt::Display) -> Error {
@@ -83,6 +87,7 @@ impl Loader {
             feedstocks: tx.feedstocks(code)?,
             imports: tx.bundle_imports(code)?,
             signatures: tx.signatures(code)?,
+            reconciliations: tx.reconciliations(code)?,
             project,
             entries: tree.size(),
             root: tree.root(),
@@ -175,6 +180,20 @@ impl Loader {
                     self.new_signatures += 1;
                 }
             }
+            Item::Reconciliation(r) => {
+                tx.append(&self.entries)?;
+                self.entries.clear();
+                let held = self
+                    .held
+                    .as_ref()
+                    .map(|h| h.reconciliations.get(r.seq as usize));
+                if already_held(held, r, code, || format!("reconciliation {}", r.seq))? {
+                    self.matched_reconciliations += 1;
+                } else {
+                    tx.add_reconciliation(r)?;
+                    self.new_reconciliations += 1;
+                }
+            }
             Item::Trailer(t) => {
                 tx.append(&self.entries)?;
                 self.entries.clear();
@@ -260,6 +279,10 @@ impl Loader {
                 h.signatures.len() != self.matched_signatures,
                 "a signed statement the ledger holds",
             ),
+            (
+                h.reconciliations.len() != self.matched_reconciliations,
+                "a reconciliation the ledger holds",
+            ),
         ];
         if let Some((_, what)) = missing.iter().find(|(m, _)| *m) {
             return Err(not_extension(code, format!("the bundle lacks {what}")));
@@ -297,12 +320,14 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
             matched_feedstocks: 0,
             matched_imports: 0,
             matched_signatures: 0,
+            matched_reconciliations: 0,
             next_import_id: tx.next_import_id()?,
             import: None,
             entries: Vec::new(),
             proof: RangeHashes::new(Vec::new()),
             new_entries: 0,
             new_signatures: 0,
+            new_reconciliations: 0,
         };
         let mut code = String::new();
         let c = read_checked(file, |item| {
@@ -320,7 +345,11 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
         Ok((
             c.project,
             c.trailer,
-            (loader.new_entries, loader.new_signatures),
+            (
+                loader.new_entries,
+                loader.new_signatures,
+                loader.new_reconciliations,
+            ),
         ))
     })?;
     let mut table = summary_table(
@@ -328,7 +357,10 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
         &file.display().to_string(),
         &project,
         &trailer,
-        &format!("{} new entries, {} new statements", new.0, new.1),
+        &format!(
+            "{} new entries, {} new statements, {} new reconciliations",
+            new.0, new.1, new.2
+        ),
     );
     table.note("Loaded in one transaction after checking the whole file; a project already held is extended only when an RFC 6962 consistency proof shows its entries are the bundle's first ones.");
     Ok(Report::default().table(table))

@@ -18,6 +18,7 @@ mod potential;
 mod progress;
 mod proof;
 mod reconcile;
+mod reconciliations;
 mod record;
 mod registry;
 mod report;
@@ -53,7 +54,7 @@ pub const DEFAULT_DB: &str = "sinkbook.db";
     name = "sinkbook",
     version,
     about = "An append-only, tamper-evident ledger of CO2 stored underground and in rock",
-    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered · 4 reconciliation material\n\nExample: sinkbook demo"
+    after_help = "Exit codes: 0 ok · 1 input or request refused · 2 usage · 3 ledger inconsistent or tampered · 4 reconciliation material · 5 reconciliation not assessed\n\nExample: sinkbook demo"
 )]
 pub struct Cli {
     /// The ledger file [default: sinkbook.db in the working directory]
@@ -116,11 +117,14 @@ pub enum Command {
     /// Per meter and quarter of a year: quantity read, CO2 concentration, meter type, conversion
     #[command(after_help = "Example: sinkbook meters TFS --year 2026")]
     Meters(meters::MetersArgs),
-    /// Reconcile the ledger with an independent monitoring report; exit 4 when material
+    /// Reconcile the ledger with an independent monitoring report; exit 4 when material, 5 when nothing could be assessed
     #[command(
-        after_help = "Example: sinkbook reconcile TFS sample-projects/tfs-monitoring-report-2026.csv"
+        after_help = "Example: sinkbook reconcile TFS sample-projects/tfs-monitoring-report-2026.csv --record --by \"Thistlemoor Verification Partners\""
     )]
     Reconcile(reconcile::ReconcileArgs),
+    /// The reconciliations recorded against a project: report, lines, verdicts, who and when
+    #[command(after_help = "Example: sinkbook reconciliations TFS --year 2026")]
+    Reconciliations(reconciliations::ReconciliationsArgs),
     /// Chart cumulative stored, conservative and durable tonnes against the permit (SVG)
     #[command(after_help = "Example: sinkbook chart TFS --out tfs.svg")]
     Chart(chart::ChartArgs),
@@ -232,6 +236,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Readings(a) => evidence::readings(&ctx, a),
         Command::Meters(a) => meters::meters(&ctx, a),
         Command::Reconcile(a) => reconcile::reconcile(&ctx, a),
+        Command::Reconciliations(a) => reconciliations::reconciliations(&ctx, a),
         Command::Chart(a) => chart::chart(&ctx, a),
         Command::Totals(a) => totals::totals(&ctx, a),
         Command::Report(a) => report::report(&ctx, a),

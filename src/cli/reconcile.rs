@@ -1,30 +1,34 @@
 //! `reconcile`: the ledger against an independent monitoring report, line by line, and per
-//! reporting year the misstatement against materiality. Exit 4 when it is material.
+//! reporting year the misstatement against materiality. Exit 4 when it is material, 5 when
+//! nothing in the report could be assessed; `--record` keeps the reconciliation in the ledger.
 
 use super::Context;
 use super::evidence::ReadingTotal;
+use super::reconciliations::{RecordArgs, record, recorded_table};
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
-    Figure, MaterialityPolicy, Presence, ReportedQuantity, ReportingPeriod, Verdict,
-    reconcile as reconcile_figures,
+    Figure, Granularity, Judgement, MaterialityPolicy, Presence, Reconciliation, ReportedQuantity,
+    ReportingPeriod, Verdict, reconcile as reconcile_figures,
 };
-use crate::accounting::project_view::ledger_keeps;
+use crate::accounting::project_view::bearing;
 use crate::error::{Error, Result};
 use crate::import::csv_records::Records;
 use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind};
+use crate::ledger::{Entry, EntryKind, Hash};
 use crate::quantity::fraction::parse_uncertainty;
-use crate::quantity::{Decimal, Mass, MassReading, MassUnit};
+use crate::quantity::{Decimal, Mass, MassUnit};
 use crate::report::names;
-use crate::report::render::tonnes_text;
 use crate::report::{Cell, Report, Table, columns};
+use crate::store::Tx;
 use clap::Args;
 use std::collections::{BTreeSet, HashMap};
 use std::path::PathBuf;
 
 /// Exit code when a reporting year's misstatement is material.
 pub const MATERIAL: u8 = 4;
+/// Exit code when no line of the report could be assessed against the ledger.
+pub const NOT_ASSESSED: u8 = 5;
 
 #[derive(Debug, Args)]
 pub struct ReconcileArgs {
@@ -33,21 +37,18 @@ pub struct ReconcileArgs {
     /// CSV with columns period,quantity,value,unit (period 2026, 2026-Q1 or 2026-03; quantity
     /// received, injected, produced, leakage, equipment-leak, stored, mineralized, weathering-net)
     pub report: PathBuf,
-    /// Materiality threshold as a share of the year's stored total [default: 5%]
+    /// Materiality level as a share of the year's stored total, as the programme sets it
+    /// [default: 5%]
     #[arg(long)]
     pub materiality: Option<String>,
-    /// Threshold for the largest projects [default: 2%]
-    #[arg(long)]
-    pub large_materiality: Option<String>,
-    /// Annual stored total above which the large threshold applies [default: 500 kt]
-    #[arg(long, value_name = "MASS")]
-    pub large_above: Option<String>,
     /// Which mass balance gives the ledger's figures
     #[arg(long, value_enum, default_value_t = BalanceMethod::Rr)]
     pub method: BalanceMethod,
     /// First recompute every imported meter-day from its raw readings
     #[arg(long)]
     pub recompute: bool,
+    #[command(flatten)]
+    pub record: RecordArgs,
 }
 
 /// A report's figure: `1234.5 t`, `0 t`, `-3 kt` (a number and a mass unit).
@@ -62,11 +63,20 @@ fn report_mass(line: u64, value: &str, unit: &str) -> Result<Mass> {
         .ok_or_else(|| bad(format!("value {value:?}: too large")))
 }
 
-fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
+/// A monitoring report as read: its figures, and the SHA-256 of its bytes (what a recorded
+/// reconciliation names it by).
+pub struct MonitoringReport {
+    pub name: String,
+    pub sha256: Hash,
+    pub figures: Vec<Figure>,
+}
+
+fn read_report(path: &PathBuf) -> Result<MonitoringReport> {
     let file_field =
         |e: &dyn std::fmt::Display| Error::field("REPORT", &path.display().to_string(), e);
-    let file = std::fs::File::open(path).map_err(|e| file_field(&e))?;
-    let mut lines = Records::new(file);
+    // A monitoring report is a page of figures: read whole, hashed as read.
+    let bytes = std::fs::read(path).map_err(|e| file_field(&e))?;
+    let mut lines = Records::new(&bytes[..]);
     let header: Vec<String> = match lines.next_record() {
         Some(Ok(r)) => r.fields().iter().map(|f| f.trim().to_string()).collect(),
         Some(Err(e)) => return Err(file_field(&e)),
@@ -106,66 +116,95 @@ fn read_report(path: &PathBuf) -> Result<Vec<Figure>> {
             mass: report_mass(r.line, f(v), f(u))?,
         });
     }
-    Ok(figures)
-}
-
-fn share(field: &str, text: Option<&str>, default: f64) -> Result<f64> {
-    text.map_or(Ok(default), |t| {
-        parse_uncertainty(t)
-            .map(|d| d.to_f64())
-            .map_err(|e| Error::field(field, t, e))
+    if figures.is_empty() {
+        return Err(file_field(&"holds no figures"));
+    }
+    Ok(MonitoringReport {
+        name: path.file_name().map_or_else(
+            || path.display().to_string(),
+            |n| n.to_string_lossy().into_owned(),
+        ),
+        sha256: Hash::of(&bytes),
+        figures,
     })
 }
 
-pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
-    let defaults = MaterialityPolicy::default();
-    let policy = MaterialityPolicy {
-        standard: share("--materiality", a.materiality.as_deref(), defaults.standard)?,
-        large: share(
-            "--large-materiality",
-            a.large_materiality.as_deref(),
-            defaults.large,
-        )?,
-        large_above: match &a.large_above {
-            None => defaults.large_above,
-            Some(t) => MassReading::parse(t)
-                .and_then(|m| m.to_mass())
-                .map_err(|e| Error::field("--large-above", t, e))?,
-        },
-    };
-    let report_figures = read_report(&a.report)?;
-    if report_figures.is_empty() {
-        return Err(Error::field(
-            "REPORT",
-            &a.report.display().to_string(),
-            "holds no figures",
-        ));
-    }
-    let (view, totals) = ctx.open()?.read(|tx| {
-        let v = load(tx, &a.project, None)?;
-        let recomputed = if a.recompute {
-            let totals = super::evidence::reading_totals(tx, &a.project)?;
-            let all = tx.entries(&a.project)?;
-            Some(recompute_table(
-                &a.project,
-                all.iter().map(|s| &s.entry),
-                &totals,
-            ))
-        } else {
-            None
+/// The materiality level and where it came from.
+pub struct Level {
+    pub policy: MaterialityPolicy,
+    /// The share as given on the command line, or None for the default.
+    pub given: Option<String>,
+}
+
+impl Level {
+    fn parse(text: Option<&str>) -> Result<Level> {
+        let policy = match text {
+            None => MaterialityPolicy::default(),
+            Some(t) => MaterialityPolicy {
+                share: parse_uncertainty(t)
+                    .map(|d| d.to_f64())
+                    .map_err(|e| Error::field("--materiality", t, e))?,
+            },
         };
-        Ok((v, recomputed))
-    })?;
-    let mut out = Report::default();
-    if let Some(t) = totals {
-        out = out.table(t);
+        if !(policy.share > 0.0 && policy.share < 1.0) {
+            return Err(Error::field(
+                "--materiality",
+                text.unwrap_or_default(),
+                "must be above 0 % and below 100 %",
+            ));
+        }
+        Ok(Level {
+            policy,
+            given: text.map(str::to_string),
+        })
     }
-    // The ledger's figures at each granularity and for each quantity the report uses, over the
-    // report's years, so a period the report leaves out shows as ledger-only.
-    let years: BTreeSet<i32> = report_figures.iter().map(|f| f.period.year()).collect();
-    let quantities: BTreeSet<ReportedQuantity> =
-        report_figures.iter().map(|f| f.quantity).collect();
-    let granularities: BTreeSet<Grouping> = report_figures
+
+    /// How the level was set, in words a verifier's file can quote.
+    pub fn basis(&self) -> String {
+        let pct = self.policy.share * 100.0;
+        match &self.given {
+            None => format!(
+                "{pct:.1} % of the year's stored total, sinkbook's default: the level Regulation (EU) 2018/2067 Art. 23 sets for all but installations above 500 kt of annual emissions (its 2 % is about emissions, so it is not applied by stored tonnes); --materiality sets the programme's level"
+            ),
+            Some(t) => format!("{pct:.1} % of the year's stored total, set by --materiality {t}"),
+        }
+    }
+}
+
+/// The ledger against a report, inside one transaction.
+pub struct Compared {
+    pub reconciliation: Reconciliation,
+    pub recompute: Option<Table>,
+    /// Entries in the project's chain and its head when compared: the ledger state reconciled.
+    pub tip: (u64, Hash),
+    pub route: crate::ledger::Method,
+}
+
+fn compare(
+    tx: &mut Tx<'_>,
+    a: &ReconcileArgs,
+    report: &MonitoringReport,
+    level: &Level,
+) -> Result<Compared> {
+    let view = load(tx, &a.project, None)?;
+    let recompute = if a.recompute {
+        let totals = super::evidence::reading_totals(tx, &a.project)?;
+        let all = tx.entries(&a.project)?;
+        Some(recompute_table(
+            &a.project,
+            all.iter().map(|s| &s.entry),
+            &totals,
+        ))
+    } else {
+        None
+    };
+    let tip = tx.chain_tip(&a.project)?;
+    let figures = &report.figures;
+    // The ledger's figures for each quantity at each granularity the report gives it by, over the
+    // report's years, so a period the report leaves out shows as not reported.
+    let years: BTreeSet<i32> = figures.iter().map(|f| f.period.year()).collect();
+    let quantities: BTreeSet<ReportedQuantity> = figures.iter().map(|f| f.quantity).collect();
+    let granularities: BTreeSet<Grouping> = figures
         .iter()
         .map(|f| match f.period {
             ReportingPeriod::Year(_) => Grouping::Year,
@@ -177,17 +216,68 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     for g in granularities {
         ledger.extend(view.reported(g, a.method, &quantities, &years)?);
     }
-    let r = reconcile_figures(&ledger, &report_figures, &policy)
-        .map_err(|e| Error::field("REPORT", &a.report.display().to_string(), e))?;
+    // Only at the periods the report gives each quantity by: a report of quarterly stored and
+    // yearly injected is compared on those, not on yearly stored and quarterly injected too.
+    let given: BTreeSet<(ReportedQuantity, Granularity)> = figures
+        .iter()
+        .map(|f| (f.quantity, f.period.granularity()))
+        .collect();
+    ledger.retain(|f| given.contains(&(f.quantity, f.period.granularity())));
+    // Each year's headline figures, the base of its threshold, whatever the report gives.
+    let headlines: BTreeSet<ReportedQuantity> = [
+        ReportedQuantity::Stored,
+        ReportedQuantity::Mineralized,
+        ReportedQuantity::WeatheringNet,
+    ]
+    .into();
+    let totals = view.reported(Grouping::Year, a.method, &headlines, &years)?;
+    let route = view.project().method;
+    let reconciliation = reconcile_figures(
+        &ledger,
+        figures,
+        &totals,
+        |q| bearing(q, route, a.method),
+        &level.policy,
+    )
+    .map_err(|e| Error::field("REPORT", &a.report.display().to_string(), e))?;
+    Ok(Compared {
+        reconciliation,
+        recompute,
+        tip,
+        route,
+    })
+}
+
+/// The words a line's note gives: where the line was found and whether it counts.
+pub fn line_note(presence: Presence, judgement: Judgement) -> String {
+    match (presence, judgement) {
+        (Presence::ReportOnly(_), Judgement::Counted) => "not in the ledger; counted".into(),
+        (_, j) => j.text(),
+    }
+}
+
+pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
+    let level = Level::parse(a.materiality.as_deref())?;
+    let report = read_report(&a.report)?;
+    a.record.check()?;
+    let mut store = ctx.open()?;
+    let (c, recorded) = if a.record.record {
+        store.write(|tx| {
+            let c = compare(tx, &a, &report, &level)?;
+            let r = record(tx, ctx, &a, &report, &level, &c)?;
+            Ok((c, Some(r)))
+        })?
+    } else {
+        store.read(|tx| Ok((compare(tx, &a, &report, &level)?, None)))?
+    };
+    let r = &c.reconciliation;
+    let mut out = Report::default();
+    if let Some(t) = c.recompute {
+        out = out.table(t);
+    }
     let mut lines = Table::new(
         "reconciliation",
-        format!(
-            "Ledger against {}, project {}",
-            a.report
-                .file_name()
-                .map_or(String::new(), |n| n.to_string_lossy().into_owned()),
-            a.project
-        ),
+        format!("Ledger against {}, project {}", report.name, a.project),
         columns(&[
             names::PERIOD,
             names::QUANTITY,
@@ -199,18 +289,10 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         ]),
     );
     for l in &r.lines {
-        let (ledger_cell, report_cell, note) = match l.presence {
-            Presence::Both { ledger, report } => (Cell::Tonnes(ledger), Cell::Tonnes(report), ""),
-            Presence::LedgerOnly(m) => (Cell::Tonnes(m), Cell::Empty, "not in the report"),
-            Presence::ReportOnly(m) => (
-                Cell::Empty,
-                Cell::Tonnes(m),
-                if ledger_keeps(l.quantity, view.project().method) {
-                    "not in the ledger"
-                } else {
-                    "this ledger keeps no such figure"
-                },
-            ),
+        let (ledger_cell, report_cell) = match l.presence {
+            Presence::Both { ledger, report } => (Cell::Tonnes(ledger), Cell::Tonnes(report)),
+            Presence::LedgerOnly(m) => (Cell::Tonnes(m), Cell::Empty),
+            Presence::ReportOnly(m) => (Cell::Empty, Cell::Tonnes(m)),
         };
         lines.push(vec![
             Cell::text(l.period.to_string()),
@@ -219,7 +301,7 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
             report_cell,
             Cell::Tonnes(l.difference),
             l.difference_pct.map_or(Cell::Empty, Cell::Percent),
-            Cell::text(note),
+            Cell::text(line_note(l.presence, l.judgement)),
         ]);
     }
     lines.note("Difference = ledger − report; its % is of the ledger figure.");
@@ -229,38 +311,67 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         columns(&[
             names::YEAR,
             names::STORED_LEDGER_T,
+            names::COUNTED,
             names::MISSTATEMENT_T,
             names::THRESHOLD_PCT,
             names::THRESHOLD_T,
             names::VERDICT,
         ]),
     );
-    let mut material = false;
     for y in &r.years {
-        material |= y.verdict == Verdict::Material;
+        let counted: Vec<&str> = y.counted.iter().map(|q| q.key()).collect();
         verdicts.push(vec![
             Cell::text(y.year.to_string()),
             Cell::Tonnes(y.ledger_total),
+            Cell::text(counted.join(", ")),
             Cell::Tonnes(y.misstatement),
             Cell::Percent(y.threshold_share * 100.0),
             Cell::Tonnes(y.threshold),
-            Cell::text(match y.verdict {
-                Verdict::WithinMateriality => "within materiality",
-                Verdict::Material => "MATERIAL",
-            }),
+            Cell::text(y.verdict.text()),
         ]);
     }
-    verdicts.note(format!(
-        "Misstatement: the sum of |difference| over the year's stored lines (for a route that reports its weathering net or mineralized tonnes instead, those) at the finest period both sides give. Threshold: {:.1} % of the year's stored total, {:.1} % above {} t a year (Regulation (EU) 2018/2067 Art. 23).",
-        policy.standard * 100.0,
-        policy.large * 100.0,
-        tonnes_text(policy.large_above)
-    ));
+    verdicts.note(misstatement_rule(c.route, a.method));
+    verdicts.note(format!("Threshold: {}.", level.basis()));
     out = out.table(lines).table(verdicts);
-    if material {
-        out.exit_code = MATERIAL;
+    if let Some(rec) = recorded {
+        out = out
+            .line(format!(
+                "recorded reconciliation {} of project {} (row hash {})",
+                rec.seq,
+                a.project,
+                rec.row_hash().to_hex()
+            ))
+            .table(recorded_table(&a.project, std::slice::from_ref(&rec)));
     }
+    out.exit_code = match r.overall() {
+        Verdict::Material => MATERIAL,
+        Verdict::NotAssessed => {
+            out.warnings.push(format!(
+                "not assessed: no line of {} is a figure this ledger's stored tonnes of {} rest on (exit {NOT_ASSESSED})",
+                report.name, a.project
+            ));
+            NOT_ASSESSED
+        }
+        Verdict::WithinMateriality => 0,
+    };
     Ok(out)
+}
+
+/// What the year's misstatement adds up, for the project's route and balance.
+fn misstatement_rule(route: crate::ledger::Method, method: BalanceMethod) -> String {
+    let terms: Vec<&str> = ReportedQuantity::ALL
+        .into_iter()
+        .filter(|q| bearing(*q, route, method) == crate::accounting::materiality::Bearing::Term)
+        .map(|q| q.key())
+        .collect();
+    let terms = if terms.is_empty() {
+        String::new()
+    } else {
+        format!(" and the terms it is computed from ({})", terms.join(", "))
+    };
+    format!(
+        "Misstatement: per year, the sum of |difference| over the lines counted — the stored figure (for a rock route its mineralized or net figure){terms} — at the finest period the report gives; where the stored figure and its terms cover one period the larger sum counts, since an error in a term shows in stored too. A period the report leaves out is not reported, not misstated; a year with nothing counted is not assessed."
+    )
 }
 
 /// Every imported meter-day recomputed from its raw readings.

@@ -1,12 +1,13 @@
 //! `report`: a project's year as one printable HTML page, put together from the tables the
-//! other commands print (project, balance, leakage, claims, buffer pool, meters) — the page
-//! states no figure of its own.
+//! other commands print (project, balance, leakage, claims, buffer pool, meters, recorded
+//! reconciliations) — the page states no figure of its own.
 
 use super::Context;
 use super::chart::line_chart;
 use super::claims::{deduction_rule, uncertainty_note};
 use super::late::late_table;
 use super::meters::{MetersArgs, meters};
+use super::reconciliations::record_tables;
 use super::reports::{BalanceArgs, By, balance};
 use super::seal::seal_table;
 use super::setup::{ProjectCommand, project};
@@ -17,6 +18,7 @@ use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::SealedEntry;
 use crate::ledger::period::Grouping;
+use crate::ledger::reconciliation::Recorded;
 use crate::ledger::seal::{Seal, late_for};
 use crate::report::html::{Page, Section, page};
 use crate::report::names;
@@ -109,6 +111,22 @@ fn late_section(view: &ProjectFigures, year: i32) -> Section {
     }
 }
 
+/// The reconciliations recorded against the project that judged the year.
+fn reconciliation_section(code: &str, year: i32, recorded: Vec<Recorded>) -> Section {
+    let of_year: Vec<Recorded> = recorded.into_iter().filter(|r| r.covers(year)).collect();
+    let s = Section::new("reconciliations", "Reconciliations");
+    if of_year.is_empty() {
+        return s.text(format!(
+            "No reconciliation of {code} {year} is recorded (a verifier records one with sinkbook reconcile {code} REPORT --record)."
+        ));
+    }
+    let mut s = s.text(
+        "The reconciliations recorded against the ledger that judged this year: each names the monitoring report by its SHA-256 and the chain it was made against, and is evidence about the period, not a figure of it (it changes no entry and no seal).",
+    );
+    s.tables = record_tables(code, &of_year);
+    s
+}
+
 /// The year's seals with their full tree heads and the statements signed over them.
 fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
     let year_seals: Vec<(Seal, SealedEntry)> = sealed
@@ -159,6 +177,7 @@ fn sections(
     a: &ReportArgs,
     view: &ProjectFigures,
     sealed: Sealed,
+    recorded: Vec<Recorded>,
 ) -> Result<Vec<Section>> {
     let code = &view.project().code;
     let registration = project(ctx, ProjectCommand::Show { code: code.clone() })?;
@@ -241,9 +260,7 @@ fn sections(
     )?
     .tables;
 
-    let reconciliations = Section::new("reconciliations", "Reconciliations").text(
-        "The ledger keeps no reconciliations: the reconcile command compares the ledger with a monitoring report and records nothing, so none can be shown here.",
-    );
+    let reconciliations = reconciliation_section(code, a.year, recorded);
     let late = late_section(view, a.year);
     let seal = seal_section(code, a.year, sealed);
     Ok(vec![
@@ -268,7 +285,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             "is not a plausible reporting year",
         ));
     }
-    let (view, tip, sealed) = ctx.open()?.read(|tx| {
+    let (view, tip, sealed, recorded) = ctx.open()?.read(|tx| {
         let view = super::view::load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
         let seals = tx
@@ -281,7 +298,8 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             })
             .collect::<Result<Vec<_>>>()?;
         let statements = judge_all(tx, &a.project)?;
-        Ok((view, tip, Sealed { seals, statements }))
+        let recorded = tx.reconciliations(&a.project)?;
+        Ok((view, tip, Sealed { seals, statements }, recorded))
     })?;
     let p = view.project();
     let page_doc = Page {
@@ -304,7 +322,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             ("Entries in the chain".into(), tip.0.to_string()),
             ("Chain head".into(), tip.1.to_hex()),
         ],
-        sections: sections(ctx, &a, &view, sealed)?,
+        sections: sections(ctx, &a, &view, sealed, recorded)?,
     };
     let html = page(&page_doc);
     std::fs::write(&a.out, &html)

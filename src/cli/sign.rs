@@ -38,8 +38,17 @@ pub enum KeyCommand {
 pub enum RoleArg {
     /// The project's operator
     Operator,
-    /// An independent verifier (only on a sealed period)
+    /// An independent verifier
     Verifier,
+}
+
+impl RoleArg {
+    pub fn role(self) -> Role {
+        match self {
+            RoleArg::Operator => Role::Operator,
+            RoleArg::Verifier => Role::Verifier,
+        }
+    }
 }
 
 #[derive(Debug, Args)]
@@ -50,7 +59,7 @@ pub struct SignArgs {
     /// unsealed period seals it first
     #[arg(long, value_name = "PERIOD")]
     pub period: String,
-    /// Who signs: the project's operator, or an independent verifier
+    /// Who signs: the project's operator, or an independent verifier (only on a sealed period)
     #[arg(long, value_enum)]
     pub role: RoleArg,
     /// The key file (from `sinkbook key new`)
@@ -135,10 +144,7 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         parse_period(&a.period).map_err(|e| Error::field("--period", &a.period, e))?;
     let key = read_key(&a.key)?;
     super::inputs::statement("--statement", &a.statement)?;
-    let role = match a.role {
-        RoleArg::Operator => Role::Operator,
-        RoleArg::Verifier => Role::Verifier,
-    };
+    let role = a.role.role();
     let s = ctx.open()?.write(|tx| {
         known_project(tx, &a.project)?;
         let seal = match tx.seals(&a.project)?.into_iter().find(|s| s.label == label) {

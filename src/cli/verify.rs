@@ -51,6 +51,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             names::ENTRIES,
             names::SEALS,
             names::STATEMENTS,
+            names::RECONCILIATIONS,
             names::CHAIN_HEAD,
             names::CHAIN_HASH.programs(),
             names::RESULT,
@@ -67,7 +68,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         }
         Ok(())
     })?;
-    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed.");
+    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
     if a.deep {
         t.note("SQLite's integrity_check found the file's structure whole.");
     }
@@ -94,15 +95,19 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         .collect();
     let mut seals = SealCheck::new(listed);
     let mut holds_expected = false;
+    let reconciliations = tx.reconciliations(&p.code)?;
+    let states = super::reconciliations::ChainStates::new(&reconciliations);
     let c = tx.walk_chain(&p.code, None, |row| {
         let e = &row.sealed.entry;
         if e.kind != EntryKind::Seal && !sites.iter().any(|x| x.code == e.site) {
             return Err(at(e.seq, format!("site {} is not registered", e.site)));
         }
         seals.push(row.sealed).map_err(|w| at(e.seq, w))?;
+        states.check(&p.code, e.seq, row.sealed.chain)?;
         holds_expected |= expected == Some(row.sealed.chain);
         Ok(())
     })?;
+    states.finish(&p.code, c.entries)?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
@@ -130,6 +135,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Cell::Int(c.entries as i64),
         Cell::Int(seals as i64),
         Cell::Int(statements.len() as i64),
+        Cell::Int(reconciliations.len() as i64),
         Cell::text(c.head.head()),
         Cell::text(c.head.to_hex()),
         Cell::text("intact"),

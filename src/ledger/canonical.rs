@@ -190,3 +190,45 @@ pub fn encode_signature_row(s: &super::signature::Statement) -> Vec<u8> {
     w.0.extend_from_slice(&s.signature);
     w.0
 }
+
+/// The bytes of a recorded reconciliation, whose hash the reconciliations table keeps; they
+/// open with the hash of the record before it, so the records of a project form one run.
+pub fn encode_reconciliation(r: &super::reconciliation::Recorded) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("reconciliation");
+    w.str(&r.project);
+    w.u64(r.seq);
+    w.0.extend_from_slice(&r.previous.0);
+    w.str(&r.report_name);
+    w.0.extend_from_slice(&r.report_sha256.0);
+    w.str(&r.method);
+    w.str(&r.materiality);
+    w.str(&r.basis);
+    w.u64(r.chain_size);
+    w.0.extend_from_slice(&r.chain_head.0);
+    w.u32(u32::try_from(r.lines.len()).expect("few lines"));
+    for l in &r.lines {
+        w.str(&l.period);
+        w.str(&l.quantity);
+        w.opt(l.ledger_g, Writer::i64);
+        w.opt(l.report_g, Writer::i64);
+        w.i64(l.difference_g);
+        w.str(&l.note);
+    }
+    w.u32(u32::try_from(r.years.len()).expect("few years"));
+    for y in &r.years {
+        w.i32(y.year);
+        w.i64(y.stored_g);
+        w.str(&y.counted);
+        w.i64(y.misstatement_g);
+        w.i64(y.threshold_g);
+        w.str(&y.verdict);
+    }
+    w.str(&r.verdict);
+    w.str(r.role.name());
+    w.opt(r.by.as_deref(), Writer::str);
+    w.opt(r.recorded_by.as_deref(), Writer::str);
+    w.i64(r.recorded_at.timestamp_micros());
+    w.0
+}

@@ -13,6 +13,7 @@ pub mod merkle;
 pub mod period;
 pub mod project;
 pub mod proof;
+pub mod reconciliation;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;

@@ -115,6 +115,7 @@ names! {
     LINE = "Line", "line";
     LINES = "Lines", "lines";
     LOSSES_FROM_EOR_COMPLEX_T = "Losses from EOR complex (t)", "losses_from_eor_complex_t";
+    MATERIALITY_PCT = "Materiality (%)", "materiality_pct";
     METER = "Meter", "meter";
     METER_TYPE = "Meter type", "meter_type";
     METHOD = "Method", "method";
@@ -127,6 +128,7 @@ names! {
     MINERALIZED_T = "Mineralized (t)", "mineralized_t";
     MISSTATEMENT_T = "Misstatement (t)", "misstatement_t";
     MOL_PER_MOL = "mol per mol", "mol_per_mol";
+    MONITORING_REPORT = "Monitoring report", "monitoring_report";
     NA_MOL_PER_T = "Na (mol/t)", "na_mol_per_t";
     NAME = "Name", "name";
     NET_T = "Net (t)", "net_t";
@@ -165,17 +167,21 @@ names! {
     READINGS_T = "Readings (t)", "readings_t";
     REASON = "Reason", "reason";
     RECEIVED_T = "Received (t)", "received_t";
+    RECONCILED_BY = "Reconciled by", "reconciled_by";
+    RECONCILIATIONS = "Reconciliations", "reconciliations";
     RECORDED_AT = "Recorded (UTC)", "recorded_at";
     RECORDED_BY = "Recorded by", "recorded_by";
     RECYCLED_T = "Recycled (t)", "recycled_t";
     REGISTERED_AT = "Registered (UTC)", "registered_at";
     REMOVAL_T = "Removal (t)", "removal_t";
+    REPORT_SHA256 = "Report SHA256", "report_sha256";
     REPORT_T = "Report (t)", "report_t";
     RESULT = "Result", "result";
     REVERSED_T = "Reversed (t)", "reversed_t";
     ROLE = "Role", "role";
     ROOT = "Root", "root";
     ROWS = "Rows", "rows";
+    ROW_HASH = "Row hash", "row_hash";
     SAMPLED = "Sampled", "sampled";
     SEAL_MATCHES = "Seal matches", "seal_matches";
     SEAL_SEQ = "Seal seq", "seal_seq";
@@ -231,6 +237,7 @@ names! {
     WELL = "Well", "well";
     WELLS = "Wells", "wells";
     YEAR = "Year", "year";
+    YEARS = "Years", "years";
     ZR_MOL_PER_KG = "Zr (mol/kg)", "zr_mol_per_kg";
 }
 

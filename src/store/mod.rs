@@ -7,6 +7,7 @@ mod connection;
 mod feedstocks;
 mod imports;
 mod postgres;
+mod reconciliations;
 mod rows;
 mod schema;
 mod stream;

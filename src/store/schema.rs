@@ -117,3 +117,26 @@ diesel::table! {
         row_hash -> Text,
     }
 }
+
+diesel::table! {
+    reconciliations (project, seq) {
+        project -> Text,
+        seq -> BigInt,
+        previous -> Text,
+        report_name -> Text,
+        report_sha256 -> Text,
+        method -> Text,
+        materiality -> Text,
+        basis -> Text,
+        chain_size -> BigInt,
+        chain_head -> Text,
+        lines -> Text,
+        years -> Text,
+        verdict -> Text,
+        role -> Text,
+        by_name -> Nullable<Text>,
+        recorded_by -> Nullable<Text>,
+        recorded_at -> Timestamp,
+        row_hash -> Text,
+    }
+}

@@ -229,6 +229,40 @@ impl Ledger {
         l
     }
 
+    /// A ledger with project P (saline aquifer) whose well W1 injects `monthly` in each month of
+    /// 2026 (the 1st to the 28th), nothing lost: stored = injected in every period.
+    pub fn with_pilot(monthly: &str) -> Ledger {
+        let l = Ledger::new();
+        l.ok(&[
+            "project",
+            "add",
+            "P",
+            "--name",
+            "Pilot",
+            "--method",
+            "saline-aquifer",
+            "--operator",
+            "Northdeep Storage Cooperative",
+        ]);
+        l.ok(&["site", "add", "P", "W1", "--kind", "injection-well"]);
+        for m in 1..=12 {
+            l.ok(&[
+                "record",
+                "injection",
+                "P",
+                "--site",
+                "W1",
+                "--mass",
+                monthly,
+                "--from",
+                &format!("2026-{m:02}-01"),
+                "--to",
+                &format!("2026-{m:02}-28"),
+            ]);
+        }
+        l
+    }
+
     /// A ledger with the EOR project KRE and the sites given as (code, kind).
     pub fn with_kre(sites: &[(&str, &str)]) -> Ledger {
         let l = Ledger::new();
@@ -369,4 +403,19 @@ impl Demo {
         );
         serde_json::from_slice(&o.stdout).unwrap()
     }
+}
+
+/// Runs a Python script of tests/ with `input` on its stdin (the format checks that use nothing
+/// of sinkbook's code).
+pub fn python(script: &str, input: &[u8]) -> Run {
+    use std::io::Write;
+    let mut child = std::process::Command::new("python3")
+        .arg(format!("{}/tests/{script}", env!("CARGO_MANIFEST_DIR")))
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    child.stdin.take().unwrap().write_all(input).unwrap();
+    Run::from(child.wait_with_output().unwrap())
 }

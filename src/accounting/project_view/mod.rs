@@ -21,7 +21,7 @@ mod weathering;
 pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, mineralization_total};
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
-pub use reported::{ledger_keeps, reporting_period};
+pub use reported::{bearing, reporting_period};
 pub use series::{Series, cumulative};
 pub use totals::{ProjectTotals, TotalsLine};
 pub use weathering::{CampaignTotal, EmissionsInScope, campaign_total, default_settings};

@@ -3,18 +3,38 @@
 
 use super::{ProjectFigures, ViewError};
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{Figure, ReportedQuantity, ReportingPeriod};
+use crate::accounting::materiality::{Bearing, Figure, ReportedQuantity, ReportingPeriod};
 use crate::ledger::Method;
 use crate::ledger::period::{Bucket, Grouping};
 use std::collections::BTreeSet;
 
 /// Whether the ledger keeps a figure for the quantity: the mineralized tonnes for basalt
 /// projects, the weathering net for weathering projects, the mass-balance terms for all.
-pub fn ledger_keeps(q: ReportedQuantity, method: Method) -> bool {
+fn ledger_keeps(q: ReportedQuantity, method: Method) -> bool {
     match q {
         ReportedQuantity::Mineralized => method == Method::BasaltMineralization,
         ReportedQuantity::WeatheringNet => method == Method::EnhancedWeathering,
         _ => true,
+    }
+}
+
+/// What a quantity is to the project's stored figure, so reconcile knows which differences
+/// count: under Subpart RR stored is injected less produced, leakage and leaks (received is not
+/// a term); under ISO 27916 it is received less leaks and losses from the complex (injected and
+/// produced CO2 circulate inside it); a rock route that is not injected is judged on its stored,
+/// mineralized or net figure alone.
+pub fn bearing(q: ReportedQuantity, route: Method, method: BalanceMethod) -> Bearing {
+    use ReportedQuantity as Q;
+    if !ledger_keeps(q, route) {
+        return Bearing::NotKept;
+    }
+    match (q, geological_route(route), method) {
+        (Q::Stored | Q::Mineralized | Q::WeatheringNet, _, _) => Bearing::Headline,
+        (_, false, _) => Bearing::Listed,
+        (Q::Injected | Q::Produced, true, BalanceMethod::Rr) => Bearing::Term,
+        (Q::Received, true, BalanceMethod::Iso27916) => Bearing::Term,
+        (Q::Leakage | Q::EquipmentLeak, true, _) => Bearing::Term,
+        (Q::Received | Q::Injected | Q::Produced, true, _) => Bearing::Listed,
     }
 }
 

@@ -1,0 +1,2 @@
+DROP TABLE reconciliations;
+DROP FUNCTION sinkbook_reconciliation_recorded_by();
