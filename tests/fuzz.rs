@@ -4,10 +4,12 @@
 //! it never panics, and what it accepts prints back to text that parses to the same value
 //! (the same grams, the same date, the same line byte for byte).
 //!
-//! `cargo test` runs every target with a fixed seed; `cargo test --release -- --ignored fuzz`
-//! runs them long (`SINKBOOK_FUZZ_CASES` per target, default 200,000), printing the count and
-//! the cases per second. Every input that ever failed is kept under tests/fuzz-corpus/TARGET/
-//! and replayed by `the_corpus_still_passes`; the long run writes what it finds there.
+//! `cargo test` runs every target with a fixed seed; `cargo test --release -- --ignored fuzz
+//! --nocapture` runs them long (`SINKBOOK_FUZZ_CASES` per target, default 200,000, from a seed
+//! it prints), printing the count and the cases per second. Every input that ever failed is
+//! kept under tests/fuzz-corpus/TARGET/ and replayed by `the_corpus_still_passes`; the long run
+//! writes what it finds there. tests/fuzz-corpus/bundle-line/seed-*.txt are lines of a real
+//! bundle (the demo's), which the bundle target's mutations start from.
 
 use proptest::prelude::*;
 use proptest::strategy::BoxedStrategy;
@@ -432,7 +434,7 @@ fn the_corpus_still_passes() {
     assert!(replayed > 0, "the corpus is empty");
 }
 
-/// The long run: `cargo test --release -- --ignored fuzz`.
+/// The long run: `cargo test --release -- --ignored fuzz --nocapture`.
 #[test]
 #[ignore = "long: run with cargo test --release -- --ignored fuzz"]
 fn fuzz_every_parser_long() {
