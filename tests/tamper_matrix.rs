@@ -266,21 +266,35 @@ fn every_column_changed_in_one_row_is_caught_and_the_row_named() {
     eprintln!("tamper matrix: {cases} columns changed, each caught by verify naming its row");
 }
 
+/// A copy of the template with the first (`ASC`) or last (`DESC`) row of `table` deleted: the
+/// copy, the names verify may give the row, the project it belonged to, the SQL run.
+fn deleted(
+    t: &Template,
+    table: &str,
+    order: &str,
+) -> (Ledger, Vec<String>, Option<String>, String) {
+    let (l, mut c) = t.copy(&format!("{table}-{order}"));
+    let id = rowid(
+        &mut c,
+        &format!("SELECT rowid AS id FROM {table} ORDER BY rowid {order} LIMIT 1"),
+    )
+    .unwrap_or_else(|| panic!("{table} has no row in the demo's ledger"));
+    let named = row_names(&mut c, table, id);
+    let project = match table {
+        "projects" => value(&mut c, table, "code", id),
+        "import_evidence" | "ledger_chain" => None,
+        _ => value(&mut c, table, "project", id),
+    };
+    let sql = format!("DELETE FROM {table} WHERE rowid = {id}");
+    c.batch_execute(&sql).unwrap();
+    (l, named, project, sql)
+}
+
 #[test]
 fn every_table_s_first_row_deleted_is_caught_and_named() {
     let t = template();
-    let mut c = raw(&t.ledger.path);
-    for table in tables(&mut c) {
-        let (l, mut lc) = t.copy(&format!("{table}-first"));
-        let id = rowid(
-            &mut lc,
-            &format!("SELECT rowid AS id FROM {table} ORDER BY rowid LIMIT 1"),
-        )
-        .unwrap_or_else(|| panic!("{table} has no row in the demo's ledger"));
-        let named = row_names(&mut lc, &table, id);
-        let sql = format!("DELETE FROM {table} WHERE rowid = {id}");
-        lc.batch_execute(&sql).unwrap();
-        drop(lc);
+    for table in tables(&mut raw(&t.ledger.path)) {
+        let (l, named, _, sql) = deleted(&t, &table, "ASC");
         assert_named(&l, &["verify"], &sql, &named);
     }
 }
@@ -291,27 +305,12 @@ fn every_table_s_first_row_deleted_is_caught_and_named() {
 #[test]
 fn every_table_s_last_row_deleted_is_caught_with_the_published_heads() {
     let t = template();
-    let mut c = raw(&t.ledger.path);
-    for table in tables(&mut c) {
-        let (l, mut lc) = t.copy(&format!("{table}-last"));
-        let id = rowid(
-            &mut lc,
-            &format!("SELECT rowid AS id FROM {table} ORDER BY rowid DESC LIMIT 1"),
-        )
-        .unwrap();
-        let mut named = row_names(&mut lc, &table, id);
+    for table in tables(&mut raw(&t.ledger.path)) {
+        let (l, mut named, project, sql) = deleted(&t, &table, "DESC");
         named.push("the ledger chain no longer holds head".into());
         named.push("the chain no longer holds head".into());
         // The last link gone, the row it named is in none.
         named.push("is in no ledger link".into());
-        let project = match table.as_str() {
-            "projects" => value(&mut lc, &table, "code", id),
-            "import_evidence" | "ledger_chain" => None,
-            _ => value(&mut lc, &table, "project", id),
-        };
-        let sql = format!("DELETE FROM {table} WHERE rowid = {id}");
-        lc.batch_execute(&sql).unwrap();
-        drop(lc);
         let mut args = vec!["verify", "--expect-ledger-head", t.ledger_head.as_str()];
         let head = project.and_then(|p| t.chain_heads.iter().find(|(q, _)| *q == p).cloned());
         if let Some((p, h)) = &head {

@@ -193,48 +193,43 @@ impl Tx<'_> {
                 ))
             })
         };
+        // The row found by its key, checked against its own hash, and that hash.
+        macro_rules! checked {
+            ($conn:expr, $found:expr, $row:ty, $check:ident) => {
+                $found
+                    .select(<$row>::as_select())
+                    .first::<$row>($conn)
+                    .optional()?
+                    .map(|r| r.$check().map(|_| r.row_hash))
+                    .transpose()
+            };
+        }
+        let c = &mut *self.conn;
         let stored = match record {
-            Record::Project => projects::table
-                .find(project)
-                .select(ProjectRow::as_select())
-                .first(self.conn)
-                .optional()?
-                .map(|r| r.to_project().map(|_| r.row_hash))
-                .transpose(),
-            Record::Site => sites::table
-                .find((project, item))
-                .select(SiteRow::as_select())
-                .first(self.conn)
-                .optional()?
-                .map(|r| r.to_site().map(|_| r.row_hash))
-                .transpose(),
-            Record::Setting => settings::table
-                .find((project, seq()?))
-                .select(SettingRow::as_select())
-                .first(self.conn)
-                .optional()?
-                .map(|r| r.to_setting().map(|_| r.row_hash))
-                .transpose(),
-            Record::Feedstock => feedstocks::table
-                .find((project, item))
-                .select(FeedstockRow::as_select())
-                .first(self.conn)
-                .optional()?
-                .map(|r| r.to_feedstock().map(|_| r.row_hash))
-                .transpose(),
-            Record::Signature => signatures::table
-                .find((project, seq()?))
-                .select(SignatureRow::as_select())
-                .first(self.conn)
-                .optional()?
-                .map(|r| r.to_statement().map(|_| r.row_hash))
-                .transpose(),
+            Record::Project => checked!(c, projects::table.find(project), ProjectRow, to_project),
+            Record::Site => checked!(c, sites::table.find((project, item)), SiteRow, to_site),
+            Record::Setting => {
+                checked!(
+                    c,
+                    settings::table.find((project, seq()?)),
+                    SettingRow,
+                    to_setting
+                )
+            }
+            Record::Feedstock => {
+                let found = feedstocks::table.find((project, item));
+                checked!(c, found, FeedstockRow, to_feedstock)
+            }
+            Record::Signature => {
+                let found = signatures::table.find((project, seq()?));
+                checked!(c, found, SignatureRow, to_statement)
+            }
             Record::Import => {
                 let row: Option<ImportRow> = imports::table
                     .find(seq()?)
                     .filter(imports::project.eq(project))
                     .select(ImportRow::as_select())
-                    .first(self.conn)
+                    .first(c)
                     .optional()?;
                 return row.map(|r| r.record_hash()).transpose();
             }
@@ -242,7 +237,7 @@ impl Tx<'_> {
                 .find((project, seq()?))
                 .filter(entries::kind.eq("seal"))
                 .select(entries::chain_hash)
-                .first::<String>(self.conn)
+                .first::<String>(c)
                 .optional()?),
         }
         .map_err(inconsistent)?;
