@@ -18,6 +18,7 @@ const TABLES: &[(&str, &str, &str)] = &[
     ("settings", "value", "'0.99'"),
     ("signatures", "statement", "'Nothing to see.'"),
     ("import_evidence", "bytes", "zeroblob(1)"),
+    ("ledger_chain", "row_hash", "leaf_hash"),
 ];
 
 #[derive(QueryableByName)]
@@ -94,6 +95,21 @@ fn replacing(
 fn every_table_filled() -> Ledger {
     let l = common::on_file(Ledger::demo);
     let mut c = raw(&l);
+    let tables: Vec<String> = diesel::sql_query(
+        "SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' \
+         AND name <> '__diesel_schema_migrations' ORDER BY name",
+    )
+    .load::<Name>(&mut c)
+    .unwrap()
+    .into_iter()
+    .map(|n| n.name)
+    .collect();
+    for t in &tables {
+        assert!(
+            TABLES.iter().any(|(name, _, _)| name == t),
+            "table {t} is not in TABLES: give it the three append-only triggers and list it here"
+        );
+    }
     for (table, _, _) in TABLES {
         assert_ne!(dump(&mut c, table), "", "{table} has no row to replace");
     }

@@ -3,6 +3,7 @@
 use super::Context;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
+use crate::ledger::ledger_chain::{LinkWalk, Record};
 use crate::ledger::seal_check::SealCheck;
 use crate::ledger::{EntryKind, Project};
 use crate::report::names;
@@ -18,20 +19,22 @@ pub struct VerifyArgs {
     /// which also catches entries removed from the end
     #[arg(long, value_name = "HEX", requires = "project")]
     pub expect_head: Option<String>,
+    /// A ledger head published earlier (verify prints it): the ledger chain must still hold it,
+    /// which also catches a project removed with every row it had
+    #[arg(long, value_name = "HEX")]
+    pub expect_ledger_head: Option<String>,
     /// Also run the database's own check of the file's structure (slower: it reads every page)
     #[arg(long)]
     pub deep: bool,
 }
 
 pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
-    let expected = a
-        .expect_head
-        .as_deref()
-        .map(|h| {
-            Hash::from_hex(h)
-                .ok_or_else(|| Error::field("--expect-head", h, "is not 64 hex digits"))
-        })
-        .transpose()?;
+    let hex = |option: &str, h: Option<&str>| {
+        h.map(|h| Hash::from_hex(h).ok_or_else(|| Error::field(option, h, "is not 64 hex digits")))
+            .transpose()
+    };
+    let expected = hex("--expect-head", a.expect_head.as_deref())?;
+    let expected_ledger = hex("--expect-ledger-head", a.expect_ledger_head.as_deref())?;
     let mut store = ctx.open()?;
     if a.deep {
         let integrity = store.integrity_check()?;
@@ -57,7 +60,8 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             names::RESULT,
         ]),
     );
-    store.read(|tx| {
+    let (links, ledger_head) = store.read(|tx| {
+        let ledger = check_ledger_chain(tx, a.project.as_deref(), expected_ledger)?;
         let projects = tx.projects()?;
         let chosen: Vec<_> = match &a.project {
             Some(code) => vec![super::setup::known_project(tx, code)?],
@@ -66,16 +70,76 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         for p in chosen {
             t.push(check_project(tx, &p, expected)?);
         }
-        Ok(())
+        Ok(ledger)
     })?;
     t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
+    t.note(format!(
+        "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
+        ledger_head.to_hex()
+    ));
     if a.deep {
         t.note("SQLite's integrity_check found the file's structure whole.");
     }
     if expected.is_some() {
         t.note("The published chain head given with --expect-head is still held by the chain.");
     }
+    if expected_ledger.is_some() {
+        t.note("The published ledger head given with --expect-ledger-head is still held by the ledger chain.");
+    }
     Ok(Report::default().table(t))
+}
+
+/// The ledger chain walked link by link (every link's hashes; with `only`, the rows of that
+/// project) and every linked table searched for a row no link names. Returns the number of
+/// links and the ledger head.
+fn check_ledger_chain(
+    tx: &mut Tx<'_>,
+    only: Option<&str>,
+    expected: Option<Hash>,
+) -> Result<(u64, Hash)> {
+    let mut walk = LinkWalk::new(expected);
+    let mut next = 0;
+    loop {
+        let page = tx.links_from(next)?;
+        if page.is_empty() {
+            break;
+        }
+        for s in &page {
+            walk.step(s).map_err(Error::Inconsistent)?;
+            next = s.link.seq + 1;
+            let l = &s.link;
+            if only.is_some_and(|p| p != l.project) {
+                continue;
+            }
+            let row = l.record.describe(&l.project, &l.item);
+            match tx.linked_row(l.record, &l.project, &l.item)? {
+                None => {
+                    return Err(Error::Inconsistent(format!(
+                        "ledger link {}: {row} is gone: the ledger no longer holds the row it links",
+                        l.seq
+                    )));
+                }
+                Some(h) if h != l.row => {
+                    return Err(Error::Inconsistent(format!(
+                        "ledger link {}: {row} is not the row linked (its hash {} differs from the link's {})",
+                        l.seq,
+                        h.head(),
+                        l.row.head()
+                    )));
+                }
+                Some(_) => {}
+            }
+        }
+    }
+    for record in Record::ALL {
+        if let Some((project, item)) = tx.unlinked(record, only)? {
+            return Err(Error::Inconsistent(format!(
+                "{} is in no ledger link: written outside sinkbook, or its link was removed",
+                record.describe(&project, &item)
+            )));
+        }
+    }
+    walk.finish().map_err(Error::Inconsistent)
 }
 
 /// One project's rows against their hashes, its chain streamed and checked with its seals, and

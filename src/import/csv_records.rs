@@ -20,6 +20,8 @@ struct Window {
     /// Line ends before offset `counted_to`.
     newlines: u64,
     counted_to: u64,
+    /// The last byte counted, so a CRLF split between reads counts once.
+    last: Option<u8>,
 }
 
 impl Window {
@@ -32,7 +34,14 @@ impl Window {
     fn newlines_before(&mut self, offset: u64) -> u64 {
         let from = (self.counted_to.max(self.base) - self.base) as usize;
         let to = ((offset.max(self.counted_to) - self.base) as usize).min(self.bytes.len());
-        self.newlines += self.bytes[from..to].iter().filter(|&&b| b == b'\n').count() as u64;
+        // A line ends at LF, CRLF or a lone CR (as the csv crate reads them): CR counts, and LF
+        // unless a CR came just before it.
+        for &b in &self.bytes[from..to] {
+            if b == b'\r' || (b == b'\n' && self.last != Some(b'\r')) {
+                self.newlines += 1;
+            }
+            self.last = Some(b);
+        }
         self.counted_to = self.base + to as u64;
         // Forget what is counted, a block at a time.
         if to > 1 << 16 {
@@ -203,6 +212,20 @@ mod tests {
                 row(1, 1, &["a", "b"]),
                 row(4, 4, &["1", "x,y"]),
                 row(5, 5, &["q\"r", "2"])
+            ]
+        );
+    }
+
+    /// Old Macintosh line ends (a lone CR) end lines too, as the reader splits records there.
+    #[test]
+    fn a_lone_cr_ends_a_line() {
+        assert_eq!(
+            all(b"a,b\r1,2\r\n3,4\n\r5,6"),
+            vec![
+                row(1, 1, &["a", "b"]),
+                row(2, 2, &["1", "2"]),
+                row(3, 3, &["3", "4"]),
+                row(5, 5, &["5", "6"])
             ]
         );
     }

@@ -232,3 +232,35 @@ pub fn encode_reconciliation(r: &super::reconciliation::Recorded) -> Vec<u8> {
     w.i64(r.recorded_at.timestamp_micros());
     w.0
 }
+
+/// The canonical bytes of an import's row: which file went into which project, as what, how it
+/// was read and when. Its id is not among them (a bundle's import takes the next id of the
+/// ledger it goes into); the ledger chain's link names the id.
+pub fn encode_import(i: &super::ledger_chain::ImportRecord<'_>) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("import");
+    w.str(i.project);
+    w.str(i.file_name);
+    w.0.extend_from_slice(&i.file_sha256.0);
+    w.str(i.kind);
+    w.u64(i.row_count);
+    w.str(i.columns_map);
+    w.str(i.density);
+    w.u64(i.byte_count);
+    w.i64(i.imported_at.timestamp_micros());
+    w.0
+}
+
+/// The canonical bytes of a link of the ledger chain.
+pub fn encode_link(l: &super::ledger_chain::Link) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.u8(VERSION);
+    w.str("link");
+    w.u64(l.seq);
+    w.str(l.record.name());
+    w.str(&l.project);
+    w.str(&l.item);
+    w.0.extend_from_slice(&l.row.0);
+    w.0
+}

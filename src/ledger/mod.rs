@@ -9,6 +9,7 @@ pub mod correction;
 pub mod entry;
 pub mod feedstock;
 pub mod hash;
+pub mod ledger_chain;
 pub mod merkle;
 pub mod period;
 pub mod project;

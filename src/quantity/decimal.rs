@@ -64,18 +64,27 @@ impl Decimal {
         if (int.is_empty() && frac.is_empty()) || !all_digits(int) || !all_digits(frac) {
             return Err(DecimalError::Malformed);
         }
-        // Digits of int then frac, leading zeros skipped, without building a joined string.
+        // Digits of int then frac, leading zeros skipped, without building a joined string. At
+        // most 30 from the first digit that is not zero to the last; zeros after them only
+        // scale (so `1e30` and the 31 digits it prints as read the same), as far as i128 goes.
         let mut mantissa: i128 = 0;
+        let mut digits = 0usize;
         let mut significant = 0usize;
         for b in int.bytes().chain(frac.bytes()) {
-            if significant == 0 && b == b'0' {
+            if digits == 0 && b == b'0' {
                 continue;
             }
-            significant += 1;
+            digits += 1;
+            if b != b'0' {
+                significant = digits;
+            }
             if significant > 30 {
                 return Err(DecimalError::TooLong);
             }
-            mantissa = mantissa * 10 + i128::from(b - b'0');
+            mantissa = mantissa
+                .checked_mul(10)
+                .and_then(|m| m.checked_add(i128::from(b - b'0')))
+                .ok_or(DecimalError::TooLong)?;
         }
         let mut scale =
             i64::try_from(frac.len()).map_err(|_| DecimalError::TooLong)? - i64::from(exp);

@@ -31,9 +31,15 @@ impl Tx<'_> {
     }
 
     pub fn add_feedstock(&mut self, f: &Feedstock) -> Result<()> {
+        let row = FeedstockRow::from_feedstock(f);
         diesel::insert_into(feedstocks::table)
-            .values(FeedstockRow::from_feedstock(f))
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        self.link(
+            crate::ledger::ledger_chain::Record::Feedstock,
+            &f.project,
+            &f.code,
+            &row.row_hash,
+        )
     }
 }

@@ -159,21 +159,28 @@ impl Tx<'_> {
     pub fn add_import(&mut self, import: &NewImport<'_>) -> Result<()> {
         let bytes = i64::try_from(import.bytes)
             .map_err(|_| Error::field("FILE", import.file_name, "is too large"))?;
+        let row = ImportRow {
+            id: import.id,
+            project: import.project.into(),
+            file_name: import.file_name.into(),
+            file_sha256: import.sha256.to_hex(),
+            kind: import.kind.into(),
+            row_count: import.rows,
+            imported_at: import.at.naive_utc(),
+            columns_map: import.columns.into(),
+            density: import.density.into(),
+            byte_count: bytes,
+        };
         diesel::insert_into(imports::table)
-            .values(ImportRow {
-                id: import.id,
-                project: import.project.into(),
-                file_name: import.file_name.into(),
-                file_sha256: import.sha256.to_hex(),
-                kind: import.kind.into(),
-                row_count: import.rows,
-                imported_at: import.at.naive_utc(),
-                columns_map: import.columns.into(),
-                density: import.density.into(),
-                byte_count: bytes,
-            })
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        let hash = row.record_hash()?;
+        self.link(
+            crate::ledger::ledger_chain::Record::Import,
+            import.project,
+            &import.id.to_string(),
+            &hash.to_hex(),
+        )
     }
 
     /// A project's imports, in the order made.

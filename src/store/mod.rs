@@ -6,6 +6,7 @@ mod bundle;
 mod connection;
 mod feedstocks;
 mod imports;
+mod ledger_chain;
 mod postgres;
 mod reconciliations;
 mod rows;
@@ -14,7 +15,8 @@ mod stream;
 pub mod wait;
 
 use crate::error::{Error, Result};
-use crate::ledger::{Hash, Project, SealedEntry, Site};
+use crate::ledger::ledger_chain::Record;
+use crate::ledger::{EntryKind, Hash, Project, SealedEntry, Site};
 use backend::{Conn, on_backend};
 use diesel::prelude::*;
 use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
@@ -55,14 +57,13 @@ impl Store {
             Some(url) => postgres::create(url, wait).map(|(c, new)| (Conn::Pg(c), new))?,
             None => connection::create(path, wait).map(|(c, new)| (Conn::Sqlite(c), new))?,
         };
-        Ok((
-            Store {
-                conn,
-                path: path.to_path_buf(),
-                wait,
-            },
-            created,
-        ))
+        let mut store = Store {
+            conn,
+            path: path.to_path_buf(),
+            wait,
+        };
+        store.link_pending()?;
+        Ok((store, created))
     }
 
     /// Opens an existing ledger; any other file is refused. A write waits at most `wait` for
@@ -72,11 +73,25 @@ impl Store {
             Some(url) => Conn::Pg(postgres::open(url, wait)?),
             None => Conn::Sqlite(connection::open(path, wait)?),
         };
-        Ok(Store {
+        let mut store = Store {
             conn,
             path: path.to_path_buf(),
             wait,
-        })
+        };
+        store.link_pending()?;
+        Ok(store)
+    }
+
+    /// Gives the rows of a ledger made before the ledger chain existed their links, once: the
+    /// migration that made the chain left a marker for it (`Tx::link_pending`).
+    fn link_pending(&mut self) -> Result<()> {
+        if self.read(|tx| tx.links_pending())? {
+            self.write(|tx| match tx.links_pending()? {
+                true => tx.link_pending(),
+                false => Ok(()),
+            })?;
+        }
+        Ok(())
     }
 
     pub fn path(&self) -> &Path {
@@ -175,10 +190,11 @@ impl Tx<'_> {
 
     pub fn add_project(&mut self, p: &Project) -> Result<()> {
         self.names(&p.code);
+        let row = ProjectRow::from_project(p);
         diesel::insert_into(projects::table)
-            .values(ProjectRow::from_project(p))
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        self.link(Record::Project, &p.code, "", &row.row_hash)
     }
 
     pub fn sites(&mut self, project: &str) -> Result<Vec<Site>> {
@@ -202,10 +218,11 @@ impl Tx<'_> {
     }
 
     pub fn add_site(&mut self, s: &Site) -> Result<()> {
+        let row = SiteRow::from_site(s);
         diesel::insert_into(sites::table)
-            .values(SiteRow::from_site(s))
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        self.link(Record::Site, &s.project, &s.code, &row.row_hash)
     }
 
     /// Every entry of a project in seq order, exactly as stored, each checked as it is read.
@@ -256,10 +273,12 @@ impl Tx<'_> {
     }
 
     pub fn add_signature(&mut self, s: &crate::ledger::signature::Statement) -> Result<()> {
+        let row = rows::SignatureRow::from_statement(s);
         diesel::insert_into(schema::signatures::table)
-            .values(rows::SignatureRow::from_statement(s))
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        let item = row.seq.to_string();
+        self.link(Record::Signature, &row.project, &item, &row.row_hash)
     }
 
     /// The entry holding an idempotency key, if any.
@@ -308,6 +327,10 @@ impl Tx<'_> {
             on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
                 .values(chunk)
                 .execute(c))?;
+        }
+        for s in sealed.iter().filter(|s| s.entry.kind == EntryKind::Seal) {
+            let seq = s.entry.seq.to_string();
+            self.link(Record::Seal, &s.entry.project, &seq, &s.chain.to_hex())?;
         }
         Ok(())
     }
@@ -372,6 +395,7 @@ impl Tx<'_> {
             diesel::insert_into(settings::table)
                 .values(r)
                 .execute(self.conn)?;
+            self.link(Record::Setting, &r.project, &r.seq.to_string(), &r.row_hash)?;
         }
         Ok(())
     }

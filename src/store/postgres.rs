@@ -92,6 +92,15 @@ pub fn lock_chain(conn: &mut PgConnection, project: &str) -> Result<()> {
     Ok(())
 }
 
+/// Holds the ledger chain for the rest of the transaction, so links stay dense whoever writes
+/// them. Links are few (registrations, imports, statements, seals), so writers of different
+/// projects seldom meet here, and only at the end of what they write.
+pub fn lock_ledger_chain(conn: &mut PgConnection) -> Result<()> {
+    diesel::sql_query("SELECT pg_advisory_xact_lock(hashtextextended('sinkbook ledger chain', 0))")
+        .execute(conn)?;
+    Ok(())
+}
+
 #[derive(QueryableByName)]
 struct Role {
     #[diesel(sql_type = Text)]

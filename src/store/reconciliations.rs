@@ -5,6 +5,7 @@ use super::schema::reconciliations;
 use super::{Tx, inconsistent};
 use crate::error::Result;
 use crate::ledger::Hash;
+use crate::ledger::ledger_chain::Record;
 use crate::ledger::reconciliation::{RecordRun, Recorded};
 use crate::ledger::signature::Role;
 use chrono::NaiveDateTime;
@@ -12,7 +13,7 @@ use diesel::prelude::*;
 
 #[derive(Queryable, Selectable, Insertable)]
 #[diesel(table_name = reconciliations, check_for_backend(diesel::sqlite::Sqlite))]
-struct ReconciliationRow {
+pub(super) struct ReconciliationRow {
     project: String,
     seq: i64,
     previous: String,
@@ -30,7 +31,7 @@ struct ReconciliationRow {
     by_name: Option<String>,
     recorded_by: Option<String>,
     recorded_at: NaiveDateTime,
-    row_hash: String,
+    pub(super) row_hash: String,
 }
 
 impl ReconciliationRow {
@@ -58,7 +59,7 @@ impl ReconciliationRow {
     }
 
     /// The record as stored and the row hash stored beside it (checked by the caller's run).
-    fn to_recorded(&self) -> std::result::Result<(Recorded, Hash), String> {
+    pub(super) fn to_recorded(&self) -> std::result::Result<(Recorded, Hash), String> {
         let at = || {
             format!(
                 "reconciliations row seq {} of project {}",
@@ -142,9 +143,11 @@ impl Tx<'_> {
     }
 
     pub fn add_reconciliation(&mut self, r: &Recorded) -> Result<()> {
+        let row = ReconciliationRow::from_recorded(r);
         diesel::insert_into(reconciliations::table)
-            .values(ReconciliationRow::from_recorded(r))
+            .values(&row)
             .execute(self.conn)?;
-        Ok(())
+        let item = r.seq.to_string();
+        self.link(Record::Reconciliation, &r.project, &item, &row.row_hash)
     }
 }

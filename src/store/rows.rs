@@ -95,8 +95,9 @@ impl ProjectRow {
         let p = Project {
             code: self.code.clone(),
             name: self.name.clone(),
-            method: Method::from_name(&self.method)
-                .ok_or_else(|| format!("unknown method {:?}", self.method))?,
+            method: Method::from_name(&self.method).ok_or_else(|| {
+                format!("project {}: unknown method {:?}", self.code, self.method)
+            })?,
             operator: self.operator.clone(),
             permit_ref: self.permit_ref.clone(),
             permit_capacity: self.permit_capacity_g.map(Mass::from_grams),
@@ -130,8 +131,12 @@ impl SiteRow {
         let s = Site {
             project: self.project.clone(),
             code: self.code.clone(),
-            kind: SiteKind::from_name(&self.kind)
-                .ok_or_else(|| format!("unknown site kind {:?}", self.kind))?,
+            kind: SiteKind::from_name(&self.kind).ok_or_else(|| {
+                format!(
+                    "site {} of project {}: unknown site kind {:?}",
+                    self.code, self.project, self.kind
+                )
+            })?,
             area: self.area.clone(),
             uncertainty: self.uncertainty.clone(),
             registered_at: utc(self.created_at),
@@ -265,18 +270,30 @@ impl SettingRow {
         use crate::ledger::setting::{Setting, SettingName};
         let s = Setting {
             project: self.project.clone(),
-            seq: u64::try_from(self.seq)
-                .map_err(|_| format!("setting seq {} is negative", self.seq))?,
-            name: SettingName::from_name(&self.name)
-                .ok_or_else(|| format!("unknown setting {:?}", self.name))?,
+            seq: u64::try_from(self.seq).map_err(|_| {
+                format!(
+                    "setting {} of project {}: seq is negative",
+                    self.seq, self.project
+                )
+            })?,
+            name: SettingName::from_name(&self.name).ok_or_else(|| {
+                format!(
+                    "setting {} of project {}: unknown setting {:?}",
+                    self.seq, self.project, self.name
+                )
+            })?,
             value: self.value.clone(),
             recorded_at: utc(self.recorded_at),
             effective: self
                 .effective_from
                 .as_deref()
                 .map(|d| {
-                    crate::ledger::period::parse_date(d)
-                        .map_err(|e| format!("setting {} effective_from {d:?} {e}", self.seq))
+                    crate::ledger::period::parse_date(d).map_err(|e| {
+                        format!(
+                            "setting {} of project {}: effective_from {d:?} {e}",
+                            self.seq, self.project
+                        )
+                    })
                 })
                 .transpose()?,
         };
@@ -324,7 +341,12 @@ impl FeedstockRow {
     /// The feedstock, checked against the row's own hash.
     pub fn to_feedstock(&self) -> Result<crate::ledger::feedstock::Feedstock, String> {
         let pairs = |column: &str, text: &str| {
-            serde_json::from_str(text).map_err(|e| format!("{column} is not readable: {e}"))
+            serde_json::from_str(text).map_err(|e| {
+                format!(
+                    "feedstock {} of project {}: {column} is not readable: {e}",
+                    self.code, self.project
+                )
+            })
         };
         let f = crate::ledger::feedstock::Feedstock {
             project: self.project.clone(),
@@ -409,7 +431,7 @@ impl SignatureRow {
                 seal_seq: unsigned(self.seal_seq, "seal_seq")?,
                 period: self.period.clone(),
                 tree_size: unsigned(self.tree_size, "tree_size")?,
-                root: hash("root", &self.root)?,
+                root: hash("root", &self.root).map_err(|e| format!("{}: {e}", at()))?,
                 role: Role::from_name(&self.role)
                     .ok_or_else(|| format!("{}: unknown role {:?}", at(), self.role))?,
                 statement: self.statement.clone(),

@@ -140,3 +140,15 @@ diesel::table! {
         row_hash -> Text,
     }
 }
+
+diesel::table! {
+    ledger_chain (seq) {
+        seq -> BigInt,
+        record -> Text,
+        project -> Text,
+        item -> Text,
+        row_hash -> Text,
+        leaf_hash -> Text,
+        chain_hash -> Text,
+    }
+}
