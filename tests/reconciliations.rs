@@ -175,9 +175,14 @@ fn verify_names_an_altered_or_deleted_reconciliation() {
             "UPDATE reconciliations SET report_sha256 = '00' || substr(report_sha256, 3) WHERE seq = 0",
             "reconciliations row seq 0 differs from its row hash",
         ),
+        // A deleted row, from the middle or the end of the run, leaves its ledger-chain link.
         (
             "DELETE FROM reconciliations WHERE seq = 0",
-            "reconciliations row seq 1 where seq 0 was due",
+            "reconciliation 0 of project P is gone",
+        ),
+        (
+            "DELETE FROM reconciliations WHERE seq = 1",
+            "reconciliation 1 of project P is gone",
         ),
     ] {
         let l = two_recorded();
