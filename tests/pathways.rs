@@ -128,6 +128,8 @@ fn the_human_tables_name_the_pathway() {
     assert!(out.contains("Reversals, project TFS"), "{out}");
     assert!(out.contains("fault F2"), "{out}");
     assert!(out.contains("legacy well W-3"), "{out}");
+    // A daily rate counts its days: 0.5 t/d × 10 d = 5 t (no × 24 h).
+    assert!(out.contains("0.5 t/d × 10 d,"), "{out}");
 }
 
 #[test]

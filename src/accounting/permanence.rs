@@ -313,6 +313,8 @@ mod tests {
             keys,
             [
                 "stored",
+                "project_emissions",
+                "net_of_emissions",
                 "uncertainty_deduction",
                 "conservative",
                 "durability_discount",

@@ -366,12 +366,14 @@ fn leakage_table<'a>(project: &Project, entries: impl Iterator<Item = &'a Entry>
         (a.reading.get("pathway"), a.period).cmp(&(b.reading.get("pathway"), b.period))
     });
     for e in &leaks {
-        let how = match (e.reading.get("rate"), e.reading.get("backdated_to_survey")) {
-            (Some(r), Some(s)) => format!(
-                "{r} × 24 h × {} d, start backdated to the no-leak survey of {s}",
-                e.period.days()
-            ),
-            (Some(r), None) => format!("{r} × 24 h × {} d", e.period.days()),
+        // A rate per hour runs 24 h a day; a rate per day counts its days alone.
+        let rate = e.reading.get("rate").map(|r| match r.ends_with("/h") {
+            true => format!("{r} × 24 h × {} d", e.period.days()),
+            false => format!("{r} × {} d", e.period.days()),
+        });
+        let how = match (rate, e.reading.get("backdated_to_survey")) {
+            (Some(r), Some(s)) => format!("{r}, start backdated to the no-leak survey of {s}"),
+            (Some(r), None) => r,
             (None, _) => "metered".to_string(),
         };
         t.push(vec![
