@@ -112,15 +112,15 @@ fn totals_years_add_up_and_filters_name_what_they_miss() {
     let rows = by_year.as_array().unwrap();
     let year = |y: &str| rows.iter().find(|r| r["year"] == y).unwrap();
     assert_eq!(year("2025")["buffer_held_t"], 100.0);
-    assert_eq!(year("2025")["claimable_after_reversals_t"], 900.0);
+    assert_eq!(year("2025")["claimable_geological_t"], 900.0);
     assert_eq!(year("2026")["buffer_held_t"], -100.0);
-    assert_eq!(year("2026")["claimable_after_reversals_t"], -50.0);
+    assert_eq!(year("2026")["claimable_geological_t"], -50.0);
     assert_eq!(year("2026")["reversed_t"], 150.0);
     let all = rows.iter().find(|r| r["project"] == "all").unwrap();
     assert_eq!(all["buffer_held_t"], 0.0);
-    assert_eq!(all["claimable_after_reversals_t"], 850.0);
+    assert_eq!(all["claimable_geological_t"], 850.0);
     let total = l.json(&["totals"]);
-    assert_eq!(total[0]["claimable_after_reversals_t"], 850.0);
+    assert_eq!(total[0]["claimable_geological_t"], 850.0);
     // --operator matches whatever its case; a filter that matches nothing lists what is known.
     let lower = l.json(&["totals", "--operator", "northdeep storage cooperative"]);
     assert_eq!(lower[0]["project"], "KRE");
@@ -204,6 +204,6 @@ fn a_loss_is_drawn_on_the_pool_and_a_reversal_counts_in_its_year() {
     );
     let t = l.json(&["totals"]);
     assert_eq!(t[0]["buffer_held_t"], 0.0);
-    assert_eq!(t[0]["claimable_after_reversals_t"], 750.0); // 855 − 105
+    assert_eq!(t[0]["claimable_geological_t"], 750.0); // 855 − 105
     assert_eq!(t[0]["reversed_t"], 50.0);
 }

@@ -50,10 +50,12 @@ fn chart_balance_totals_and_reconcile_agree_on_every_demo_project() {
             .iter()
             .filter(|r| r["project"] == code)
             .map(|r| {
-                (
-                    r["year"].as_str().unwrap().to_string(),
-                    tonnes(r, "stored_t"),
-                )
+                // Each route's stored figure has its own column.
+                let key = match code {
+                    "EVW" => "weathering_net_removal_t",
+                    _ => "stored_geological_t",
+                };
+                (r["year"].as_str().unwrap().to_string(), tonnes(r, key))
             })
             .collect();
         assert_eq!(from_totals, balance, "{code}: totals against balance");

@@ -106,7 +106,12 @@ fn totals_through_counts_the_days_up_to_the_date_and_as_of_what_was_recorded_by_
     assert_eq!(injected(&["--through", "2026-06-30"]), through);
     // Stored is injected (nothing produced or leaked); the headroom is 2.5 Mt less it.
     assert_eq!(
-        totals_g(&l, &["--through", "2026-06-30"], "TFS", "stored_t"),
+        totals_g(
+            &l,
+            &["--through", "2026-06-30"],
+            "TFS",
+            "stored_geological_t"
+        ),
         Some(through)
     );
     assert_eq!(

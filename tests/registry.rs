@@ -372,12 +372,12 @@ fn a_record_kept_waiting_by_a_held_chain_past_its_wait_gives_up_in_one_line() {
     assert_eq!(n.trim(), "0");
 }
 
-/// TFS's `stored_t` in the regulator's `totals --format json`.
+/// TFS's `stored_geological_t` in the regulator's `totals --format json`.
 fn stored_t(l: &Ledger) -> serde_json::Value {
     let v: serde_json::Value =
         serde_json::from_str(&l.ok(&["--format", "json", "totals"])).unwrap();
     let tfs = v.as_array().unwrap().iter().find(|r| r["project"] == "TFS");
-    let stored = tfs.expect("TFS is in the totals")["stored_t"].clone();
+    let stored = tfs.expect("TFS is in the totals")["stored_geological_t"].clone();
     assert!(stored.is_number() || stored.is_string(), "{stored}");
     stored
 }

@@ -54,7 +54,7 @@ fn a_buffer_from_april_leaves_a_january_claim_whole() {
     let t = l.json(&["totals"]);
     let tfs = &t.as_array().unwrap()[0];
     assert_eq!(tfs["buffer_held_t"], 39.4);
-    assert_eq!(tfs["claimable_after_reversals_t"], 1339.6);
+    assert_eq!(tfs["claimable_geological_t"], 1339.6);
 }
 
 #[test]

@@ -319,7 +319,7 @@ fn totals_as_of_reproduce_an_earlier_table_byte_for_byte() {
     ]);
     assert_eq!(l.ok(&["totals", "--as-of", "2027-01-15"]), then);
     let now = l.json(&["totals"]);
-    assert_eq!(now[0]["stored_t"], 1400.0);
+    assert_eq!(now[0]["stored_geological_t"], 1400.0);
     let filtered = l.json(&["totals", "--operator", "Other Operator"]);
     assert_eq!(filtered[0]["project"], "Q");
     crate::snapshot!("totals_as_of", then);

@@ -218,11 +218,13 @@ impl TermReadings {
     }
 }
 
-/// The meter a reading's systematic error belongs to: its meter, or its site's.
+/// The meter a reading's systematic error belongs to: its meter, or its site's (a leak at no
+/// site of the project: its pathway's).
 fn meter_key(e: &Entry) -> String {
-    e.meter
-        .clone()
-        .unwrap_or_else(|| format!("site {}", e.site))
+    e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
+        "" => format!("pathway {}", e.reading.get("pathway").unwrap_or("")),
+        site => format!("site {site}"),
+    })
 }
 
 /// The entrained fraction X a production entry was recorded with (0 when none).

@@ -74,6 +74,8 @@ pub fn period_claim(stored: &Estimate, rules: &ClaimRules) -> Claim {
         durable_share: 0.0,
         buffer_share: rules.buffer_share,
         stored: stored.value(),
+        project_emissions: zero,
+        net_of_emissions: stored.value(),
         uncertainty_deduction: stored.value(),
         conservative: zero,
         durability_discount: zero,
@@ -83,9 +85,22 @@ pub fn period_claim(stored: &Estimate, rules: &ClaimRules) -> Claim {
     })
 }
 
+/// One period's chain from a stored figure that is not net of the project's `emissions` (a
+/// geological project's): the emissions are deducted first, as a line of their own, and the
+/// uncertainty deduction applies to what is left.
+pub fn period_claim_net_of(stored: &Estimate, emissions: Mass, rules: &ClaimRules) -> Claim {
+    let net = Estimate::absolute(stored.value() - emissions, stored.abs_u());
+    Claim {
+        stored: stored.value(),
+        project_emissions: emissions,
+        net_of_emissions: net.value(),
+        ..period_claim(&net, rules)
+    }
+}
+
 /// One event of the buffer pool: a claim period that stores tonnes contributes its buffer; one
-/// that loses them (its stored tonnes, less the reversals dated in it, are negative) draws the
-/// loss on the pool like a reversal.
+/// that loses them (its stored tonnes, less the reversals dated in it and its project
+/// emissions, are negative) draws the loss on the pool like a reversal.
 #[derive(Debug, Clone, PartialEq)]
 pub enum PoolEvent {
     Claim {
@@ -109,6 +124,9 @@ pub struct ClaimBasis {
     pub stored: Estimate,
     pub reversed: Mass,
     pub reversals: Vec<u64>,
+    /// The project's emissions in the period where `stored` is not net of them (geological
+    /// projects), else zero.
+    pub emissions: Mass,
 }
 
 impl ClaimBasis {
@@ -131,10 +149,9 @@ pub fn claim_pool(
     let mut claims = Vec::with_capacity(periods.len());
     let mut events = Vec::with_capacity(periods.len());
     for p in periods {
-        let net = p.net();
-        let c = period_claim(&net, &rules(p.bucket));
-        if net.value().grams() < 0 {
-            if let Ok(r) = pool.reverse(-net.value()) {
+        let c = period_claim_net_of(&p.net(), p.emissions, &rules(p.bucket));
+        if c.net_of_emissions.grams() < 0 {
+            if let Ok(r) = pool.reverse(-c.net_of_emissions) {
                 events.push(PoolEvent::Loss {
                     bucket: p.bucket,
                     reversals: p.reversals.clone(),
@@ -236,6 +253,7 @@ mod tests {
             stored: Estimate::absolute(t(stored), Mass::ZERO),
             reversed: t(reversed),
             reversals: vec![],
+            emissions: Mass::ZERO,
         };
         // 2025 stores 100 t (10 t buffer, 90 t claimable); 2026 stores 20 t but reverses
         // 35 t: a loss of 15 t → 10 t of buffer, then 5 t of claimable.

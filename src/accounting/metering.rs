@@ -115,6 +115,7 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("meter_type", "mass");
             r.push("mass", m.to_string());
             r.push("co2_fraction", f.to_string());
+            push_source(&mut r, input, f);
             r.push("co2_basis", basis.name());
             let exact = m.grams_exact().map_err(|e| Error::field("--mass", text, e))?;
             let grams = match basis {
@@ -154,6 +155,7 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("density_method", method.name());
             r.push("co2_density_kg_m3", format!("{:.9}", vm.density_kg_per_m3));
             r.push("co2_fraction", f.to_string());
+            push_source(&mut r, input, f);
             r.push("co2_basis", "mol");
             r.push("conversions", CONVERSIONS);
             let mass = co2_of_stream_kg(vm.kg, f)
@@ -161,6 +163,32 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             bounds::grams(mass).map_err(|e| Error::field("--volume", text, e))?;
             Ok(Measured { reading: r, mass })
         }
+    }
+}
+
+/// Where a CO2 fraction of 1 came from: `stated` (given as 1 or 100 %) or `assumed` (no
+/// --co2-fraction: the default). A fraction other than 1 was always stated, so it carries no
+/// source and the readings of metered streams keep the bytes they always had.
+fn push_source(r: &mut Reading, input: &MeterInput<'_>, f: Fraction) {
+    if f == Fraction::ONE {
+        let source = match input.co2_fraction {
+            Some(_) => "stated",
+            None => "assumed",
+        };
+        r.push("co2_fraction_source", source);
+    }
+}
+
+/// Whether a reading's grams rest on a CO2 fraction nobody stated: recorded with
+/// `co2_fraction_source` = `assumed`, or — recorded before readings noted the source — a
+/// fraction of exactly 1 (the default then as now, so it may have been assumed: counted as
+/// assumed). Imported meter-days (`co2_fraction_mean`, from the file's required column) and
+/// readings without a CO2 fraction (a leak rate, a rock route) rest on none.
+pub fn assumed_fraction(r: &Reading) -> bool {
+    match (r.get("co2_fraction_source"), r.get("co2_fraction")) {
+        (Some(source), _) => source == "assumed",
+        (None, Some(f)) => Fraction::parse(f).is_ok_and(|f| f == Fraction::ONE),
+        (None, None) => false,
     }
 }
 
@@ -229,6 +257,30 @@ mod tests {
         // w = 0.95·44.009 / (0.95·44.009 + 0.05·28.014) = 0.967583 — computed (CIAAW 2021 weights).
         let g = grams(with);
         assert!((g as f64 / 1e8 - 0.967_583).abs() < 1e-6, "{g}");
+    }
+
+    #[test]
+    fn an_unstated_fraction_is_recorded_as_assumed() {
+        let at = |f: Option<&'static str>| {
+            measure(&MeterInput {
+                mass: Some("10 t"),
+                co2_fraction: f,
+                ..Default::default()
+            })
+            .unwrap()
+            .reading
+        };
+        assert_eq!(at(None).get("co2_fraction_source"), Some("assumed"));
+        assert!(assumed_fraction(&at(None)));
+        assert_eq!(at(Some("100%")).get("co2_fraction_source"), Some("stated"));
+        assert!(!assumed_fraction(&at(Some("1"))));
+        // A stated fraction below 1 keeps the reading's fields as they always were.
+        assert_eq!(at(Some("0.98")).get("co2_fraction_source"), None);
+        assert!(!assumed_fraction(&at(Some("0.98"))));
+        // Written before the source was noted: a fraction of 1 may have been the default.
+        let mut old = Reading::default();
+        old.push("co2_fraction", "1");
+        assert!(assumed_fraction(&old));
     }
 
     #[test]

@@ -114,6 +114,11 @@ pub struct Claim {
     pub durable_share: f64,
     pub buffer_share: f64,
     pub stored: Mass,
+    /// The project's own emissions in the period, where its stored figure is not already net
+    /// of them (a geological project's: the mass balance reports them beside storage).
+    pub project_emissions: Mass,
+    /// Stored − project emissions: what the uncertainty deduction applies to.
+    pub net_of_emissions: Mass,
     pub uncertainty_deduction: Mass,
     pub conservative: Mass,
     pub durability_discount: Mass,
@@ -126,6 +131,8 @@ pub struct Claim {
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum ClaimStep {
     Stored,
+    ProjectEmissions,
+    NetOfEmissions,
     UncertaintyDeduction,
     Conservative,
     DurabilityDiscount,
@@ -139,6 +146,8 @@ impl ClaimStep {
     pub fn key(self) -> &'static str {
         match self {
             Self::Stored => "stored",
+            Self::ProjectEmissions => "project_emissions",
+            Self::NetOfEmissions => "net_of_emissions",
             Self::UncertaintyDeduction => "uncertainty_deduction",
             Self::Conservative => "conservative",
             Self::DurabilityDiscount => "durability_discount",
@@ -152,7 +161,10 @@ impl ClaimStep {
     pub fn is_discount(self) -> bool {
         matches!(
             self,
-            Self::UncertaintyDeduction | Self::DurabilityDiscount | Self::BufferWithheld
+            Self::ProjectEmissions
+                | Self::UncertaintyDeduction
+                | Self::DurabilityDiscount
+                | Self::BufferWithheld
         )
     }
 }
@@ -165,12 +177,14 @@ pub struct ClaimLine {
 }
 
 impl Claim {
-    /// The chain as ordered lines: stored, deduction, conservative, discount, durable, buffer,
-    /// claimable.
-    pub fn lines(&self) -> [ClaimLine; 7] {
+    /// The chain as ordered lines: stored, project emissions, net of them, deduction,
+    /// conservative, discount, durable, buffer, claimable.
+    pub fn lines(&self) -> [ClaimLine; 9] {
         use ClaimStep::*;
         [
             (Stored, self.stored),
+            (ProjectEmissions, self.project_emissions),
+            (NetOfEmissions, self.net_of_emissions),
             (UncertaintyDeduction, self.uncertainty_deduction),
             (Conservative, self.conservative),
             (DurabilityDiscount, self.durability_discount),
@@ -197,6 +211,8 @@ pub fn claim(stored: &Estimate, rules: &ClaimRules) -> Result<Claim, PermanenceE
         durable_share,
         buffer_share: rules.buffer_share,
         stored: c.stored,
+        project_emissions: Mass::ZERO,
+        net_of_emissions: c.stored,
         uncertainty_deduction: c.deduction,
         conservative: c.conservative,
         durability_discount: c.conservative - durable,
@@ -297,6 +313,8 @@ mod tests {
             keys,
             [
                 "stored",
+                "project_emissions",
+                "net_of_emissions",
                 "uncertainty_deduction",
                 "conservative",
                 "durability_discount",

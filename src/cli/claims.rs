@@ -5,9 +5,10 @@ use crate::accounting::buffer_pool::BufferPool;
 use crate::accounting::claims::PoolEvent;
 use crate::accounting::conservative::DeductionRule;
 use crate::accounting::permanence::{Claim, ClaimRules, Durability};
-use crate::accounting::project_view::{ProjectFigures, claim_figures, claims_total};
+use crate::accounting::project_view::{ProjectFigures, Route, claim_figures, claims_total};
 use crate::error::{Error, Result};
 use crate::ledger::period::Bucket;
+use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
@@ -168,30 +169,47 @@ pub fn claims_table(
 ) -> Table {
     let project = figures.project();
     let by = format!("{:?}", figures.claim_period()).to_lowercase();
+    // A geological project's stored figure is not net of its emissions: the chain deducts them
+    // as lines of their own. A rock route's stored figure is its net already.
+    let beside = Route::of(project.method) == Route::Geological;
+    let all = [
+        names::STORED_T,
+        names::PROJECT_EMISSIONS_T,
+        names::NET_OF_EMISSIONS_T,
+        names::UNCERTAINTY_DEDUCTION_T,
+        names::CONSERVATIVE_T,
+        names::DURABILITY_DISCOUNT_T,
+        names::DURABLE_T,
+        names::BUFFER_WITHHELD_T,
+        names::CLAIMABLE_T,
+    ];
+    let shown = |i: &usize| beside || !(1..=2).contains(i);
+    let mut header = vec![names::PERIOD];
+    header.extend((0..all.len()).filter(shown).map(|i| all[i]));
     let mut t = Table::new(
         "claims",
         format!("From stored to claimable by {by}, project {}", project.code),
-        columns(&[
-            names::PERIOD,
-            names::STORED_T,
-            names::UNCERTAINTY_DEDUCTION_T,
-            names::CONSERVATIVE_T,
-            names::DURABILITY_DISCOUNT_T,
-            names::DURABLE_T,
-            names::BUFFER_WITHHELD_T,
-            names::CLAIMABLE_T,
-        ]),
+        columns(&header),
     );
+    let cells = |label: String, figures: [Mass; 9]| {
+        let mut row = vec![Cell::text(label)];
+        row.extend(
+            (0..figures.len())
+                .filter(shown)
+                .map(|i| Cell::Tonnes(figures[i])),
+        );
+        row
+    };
     for (b, c) in claims {
-        let mut row = vec![Cell::text(b.to_string())];
-        row.extend(claim_figures(c).map(Cell::Tonnes));
-        t.push(row);
+        t.push(cells(b.to_string(), claim_figures(c)));
     }
-    let mut row = vec![Cell::text("total")];
-    row.extend(claims_total(claims).map(Cell::Tonnes));
-    t.push(row);
+    t.push(cells("total".into(), claims_total(claims)));
     settings_notes(&mut t, figures, claims, deduction);
-    t.note("Stored: the period's stored tonnes less the reversals dated in it. A period whose figure is zero or negative claims nothing; a loss draws on the buffer pool.");
+    if beside {
+        t.note("Stored: the period's stored tonnes less the reversals dated in it. Project emissions, reported beside storage in the mass balance, are deducted before the uncertainty. A period whose net is zero or negative claims nothing; a loss draws on the buffer pool.");
+    } else {
+        t.note("Stored: the period's stored tonnes less the reversals dated in it. A period whose figure is zero or negative claims nothing; a loss draws on the buffer pool.");
+    }
     t
 }
 

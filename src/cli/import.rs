@@ -131,7 +131,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             for (d, c) in days.iter().zip(corrects) {
                 let replaced = c.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
                 let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
-                match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, &sites[&d.site], tip, None, rule).map_err(|e| refused_row(&file_name, e))? {
+                match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, Some(&sites[&d.site]), tip, None, rule).map_err(|e| refused_row(&file_name, e))? {
                     Appended::New(s) | Appended::Existing(s) => {
                         tip = (tip.0 + 1, s.chain);
                         summary.add(d, &s);

@@ -3,6 +3,7 @@
 
 use super::Context;
 use super::setup::known_project;
+use crate::accounting::metering::assumed_fraction;
 use crate::error::{Error, Result};
 use crate::import::overlap::hand_corrections;
 use crate::ledger::correction::effective;
@@ -37,6 +38,8 @@ struct Row {
     /// Quantity × CO2 fraction, for the weighted mean concentration.
     weighted_fraction: f64,
     co2: Mass,
+    /// The part of `co2` whose reading states no CO2 fraction (the default 1 assumed).
+    assumed: Mass,
 }
 
 fn conversion(e: &Entry) -> String {
@@ -111,7 +114,10 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             .or(e.reading.get("co2_fraction_mean"))
             .and_then(|f| f.parse().ok())
             .unwrap_or(1.0);
-        let meter = e.meter.clone().unwrap_or_else(|| format!("({})", e.site));
+        let meter = e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
+            "" => format!("({})", e.reading.get("pathway").unwrap_or("no site")),
+            site => format!("({site})"),
+        });
         let total_days = e.period.days() as f64;
         for (bucket, g) in apportion(e.mass.grams(), e.period, Grouping::Quarter) {
             if bucket.year != a.year {
@@ -137,6 +143,9 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             r.quantity += share;
             r.weighted_fraction += share * fraction;
             r.co2 += Mass::from_grams(g);
+            if assumed_fraction(&e.reading) {
+                r.assumed += Mass::from_grams(g);
+            }
         }
     }
     let mut t = Table::new(
@@ -155,8 +164,10 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             names::CO2_BASIS,
             names::CONVERSION,
             names::CO2_T,
+            names::CO2_ON_AN_ASSUMED_FRACTION_T,
         ]),
     );
+    let mut assumed = Mass::ZERO;
     for ((meter, bucket, unit, basis), r) in &rows {
         let quantity = if r.meter_type == "volumetric" {
             r.quantity
@@ -183,9 +194,14 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             Cell::text(*basis),
             Cell::text(&r.conversion),
             Cell::Tonnes(r.co2),
+            Cell::Tonnes(r.assumed),
         ]);
+        assumed += r.assumed;
     }
     t.note("Quantity read is the meter's own figure (mass, or standard volume at the reading's reference conditions); the mean CO2 fraction is weighted by it, by mass or by mole as the basis says (a meter read on both bases has a row for each). Entries spanning quarters are split by days.");
+    if assumed.is_positive() {
+        t.note(assumed_note(assumed, a.year));
+    }
     let mut report = Report::default().table(t);
     report.warnings = hand_corrections(&all, effective(&all))
         .into_iter()
@@ -193,4 +209,13 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         .map(|h| h.to_string())
         .collect();
     Ok(report)
+}
+
+/// What a verifier looks for first in a meter's figures: tonnes no measured concentration
+/// stands behind.
+pub(super) fn assumed_note(assumed: Mass, span: impl std::fmt::Display) -> String {
+    format!(
+        "ASSUMED CONCENTRATION: {} t of CO2 in {span} rest on a CO2 fraction of 1 that no reading stated (recorded without --co2-fraction, or before sinkbook noted whether it was given); state the stream's analysis with `correct SEQ --co2-fraction F`.",
+        crate::report::render::tonnes_text(assumed)
+    )
 }

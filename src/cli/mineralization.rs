@@ -320,7 +320,7 @@ pub fn carbonation_balance(figures: &ProjectFigures, grouping: Grouping) -> Resu
         ]);
     }
     t.note("Stored = uptake = M(w_after − w_before)/(1 − w_after) per batch: the CO2-free solid is conserved, so the product weighs M(1 − w_before)/(1 − w_after) (docs/mineralization.md). Batches spanning periods are split by days.");
-    t.note("Net = stored − project emissions.");
+    t.note("Net = stored − project emissions; a batch whose solid lost CO2 (w_after < w_before) released M(w_before − w_after)/(1 − w_after), counted among them.");
     for (e, f) in figures.carbonation_findings() {
         t.note(format!(
             "Finding: seq {} at {} ({}): {f}",

@@ -3,7 +3,7 @@
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::leakage;
-use crate::accounting::metering::{Basis, MeterInput, measure};
+use crate::accounting::metering::{Basis, MeterInput, assumed_fraction, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
@@ -218,16 +218,37 @@ pub struct ProductionArgs {
 
 #[derive(Debug, Args)]
 pub struct LeakageArgs {
-    #[command(flatten)]
-    pub base: RecordArgs,
-    /// The leakage pathway (e.g. "TF-I1 annulus", "fault F2")
+    /// Project code (e.g. TFS)
+    pub project: String,
+    /// The site the leak is at, if the pathway is at one of the project's sites
+    #[arg(long)]
+    pub site: Option<String>,
+    /// The leakage pathway (e.g. "TF-I1 annulus", "fault F2", "legacy well W-3")
     #[arg(long)]
     pub pathway: String,
+    #[command(flatten)]
+    pub quantity: QuantityArgs,
+    /// First day the leak covers (ISO 8601 date)
+    #[arg(long, value_name = "DATE")]
+    pub from: Option<String>,
+    /// Last day the leak covers, included
+    #[arg(long, value_name = "DATE")]
+    pub to: Option<String>,
+    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
+    #[arg(long)]
+    pub key: Option<String>,
+    /// The meter's identifier
+    #[arg(long, value_name = "ID")]
+    pub meter: Option<String>,
+    /// A note kept with the entry (free text)
+    #[arg(long, value_name = "TEXT")]
+    pub note: Option<String>,
     /// Average leak rate, e.g. "2.5 t/h" or "40 kg/d": emitted = rate × 24 h × days, both dates included
     #[arg(long, allow_hyphen_values = true)]
     pub rate: Option<String>,
-    /// Start unknown: backdate to the later of the last survey of the site that found no leak
-    /// and the first day of injection (EU 2018/2066 Annex IV §23 B.3)
+    /// Start unknown: backdate to the later of the last survey that found no leak (of the
+    /// site, or of the pathway when no site is given) and the first day of injection
+    /// (EU 2018/2066 Annex IV §23 B.3)
     #[arg(long)]
     pub since_last_survey: bool,
 }
@@ -325,9 +346,12 @@ pub struct CalibrationArgs {
 pub struct ReversalArgs {
     /// Project code (e.g. TFS)
     pub project: String,
-    /// The site the reading was taken at
+    /// The site the CO2 was lost at, if it was lost at one of the project's sites
     #[arg(long)]
-    pub site: String,
+    pub site: Option<String>,
+    /// The pathway the CO2 left by (e.g. "fault F2", "legacy well W-3"); --site, --pathway or both
+    #[arg(long)]
+    pub pathway: Option<String>,
     /// The CO2 lost, with its unit
     #[arg(long, allow_hyphen_values = true)]
     pub mass: String,
@@ -548,9 +572,21 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let (m, mass) = inputs::mass("--mass", &a.mass)?;
             let mut reading = Reading::default();
             reading.push("mass", m.to_string());
+            match (&a.site, &a.pathway) {
+                (None, None) => {
+                    return Err(Error::Refused(
+                        "say where the CO2 was lost: --site, --pathway or both".into(),
+                    ));
+                }
+                (_, Some(p)) => {
+                    inputs::text("--pathway", p)?;
+                    reading.push("pathway", p.clone());
+                }
+                (Some(_), None) => {}
+            }
             let b = RecordArgs {
                 project: a.project,
-                site: a.site,
+                site: a.site.unwrap_or_default(),
                 quantity: QuantityArgs::default(),
                 from: None,
                 to: None,
@@ -612,7 +648,16 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
 /// the last survey of the site that found no leak (Regulation (EU) 2018/2066 Annex IV §23 B.3).
 fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     inputs::text("--pathway", &a.pathway)?;
-    let b = &a.base;
+    let b = &RecordArgs {
+        project: a.project.clone(),
+        site: a.site.clone().unwrap_or_default(),
+        quantity: a.quantity.clone(),
+        from: a.from.clone(),
+        to: a.to.clone(),
+        key: a.key.clone(),
+        meter: a.meter.clone(),
+        note: a.note.clone(),
+    };
     let to = inputs::activity_date("--to", required(&b.to, "--to")?, ctx.now.date_naive())?;
     let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
     let from = match (&b.from, a.since_last_survey) {
@@ -623,15 +668,20 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
         }
         (Some(f), false) => inputs::activity_date("--from", f, ctx.now.date_naive())?,
         (None, true) => {
+            let surveyed = match &a.site {
+                Some(site) => Surveyed::Site(site),
+                None => Surveyed::Pathway(&a.pathway),
+            };
             let (survey, injection) = ctx
                 .open()?
-                .read(|tx| leak_bounds(tx, &b.project, &b.site, to))?;
+                .read(|tx| leak_bounds(tx, &b.project, surveyed, to))?;
             let start = leakage::unknown_leak_start(survey, injection).ok_or_else(|| {
                 Error::field(
                     "--since-last-survey",
-                    &b.site,
+                    surveyed.name(),
                     format!(
-                        "no survey of this site up to {to} found no leak and no injection is recorded: give --from"
+                        "no survey of this {} up to {to} found no leak and no injection is recorded: give --from",
+                        surveyed.what()
                     ),
                 )
             })?;
@@ -687,12 +737,42 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     commit(ctx, entry, b.key.clone(), false)
 }
 
-/// What bounds a leak's unknown start: the latest no-leak survey of the site on or before
-/// `to`, and the first day of the project's injection; read in one pass over the chain.
+/// What a leak's last no-leak survey is looked for by: its site, or, for a leak at no site of
+/// the project, its pathway (a survey that names the same pathway).
+#[derive(Debug, Clone, Copy)]
+enum Surveyed<'a> {
+    Site(&'a str),
+    Pathway(&'a str),
+}
+
+impl Surveyed<'_> {
+    fn name(&self) -> &str {
+        match self {
+            Surveyed::Site(s) | Surveyed::Pathway(s) => s,
+        }
+    }
+
+    fn what(&self) -> &'static str {
+        match self {
+            Surveyed::Site(_) => "site",
+            Surveyed::Pathway(_) => "pathway",
+        }
+    }
+
+    fn covers(&self, survey: &Entry) -> bool {
+        match self {
+            Surveyed::Site(s) => survey.site == *s,
+            Surveyed::Pathway(p) => survey.reading.get("pathway") == Some(p),
+        }
+    }
+}
+
+/// What bounds a leak's unknown start: the latest no-leak survey of the site (or pathway) on or
+/// before `to`, and the first day of the project's injection; read in one pass over the chain.
 fn leak_bounds(
     tx: &mut Tx<'_>,
     project: &str,
-    site: &str,
+    surveyed: Surveyed<'_>,
     to: NaiveDate,
 ) -> Result<(Option<NaiveDate>, Option<NaiveDate>)> {
     known_project(tx, project)?;
@@ -701,7 +781,7 @@ fn leak_bounds(
         let e = &s.entry;
         match e.kind {
             EntryKind::Survey
-                if e.site == site
+                if surveyed.covers(e)
                     && e.period.to <= to
                     && e.reading.get("result") == Some("no-leak") =>
             {
@@ -732,7 +812,9 @@ fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
             ));
         }
     }
+    // An assumed fraction stays assumed: the correction states none either.
     let fraction = was.get("co2_fraction").or(was.get("co2_fraction_mean"));
+    let fraction = fraction.filter(|_| !assumed_fraction(was));
     q.co2_fraction = q.co2_fraction.or(fraction.map(str::to_string));
     q.co2_basis = q.co2_basis.or(match was.get("co2_basis") {
         Some("mol") => Some(Basis::Mol),
@@ -940,13 +1022,16 @@ pub(super) fn commit_with(
         }
         entry.key = key.clone().unwrap_or_else(|| content_key(&entry));
         let project = known_project(tx, &entry.project)?;
-        let site = tx.site(&entry.project, &entry.site)?.ok_or_else(|| {
-            Error::field(
-                "--site",
-                &entry.site,
-                format!("is not a site of project {}", entry.project),
-            )
-        })?;
+        let site = match entry.site.as_str() {
+            "" => None,
+            code => Some(tx.site(&entry.project, code)?.ok_or_else(|| {
+                Error::field(
+                    "--site",
+                    code,
+                    format!("is not a site of project {}", entry.project),
+                )
+            })?),
+        };
         let all = tx.entries(&entry.project)?;
         let replaced = match entry.corrects {
             // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
@@ -966,13 +1051,15 @@ pub(super) fn commit_with(
         })?;
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
-        let outcome = append(entry.clone(), &site, tip, holder, rule).map_err(|e| match e {
-            AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
-            AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
-            AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
-            AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
-            AppendError::OutOfBounds(b) => Error::Refused(b.to_string()),
-        })?;
+        let outcome =
+            append(entry.clone(), site.as_ref(), tip, holder, rule).map_err(|e| match e {
+                AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
+                AppendError::NoSite { .. } => Error::Refused(e.to_string()),
+                AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
+                AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
+                AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
+                AppendError::OutOfBounds(b) => Error::Refused(b.to_string()),
+            })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {
             if matches!(

@@ -337,7 +337,7 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
         Carbonation::NoUptake { released, .. } => (
             Mass::ZERO,
             Some(format!(
-                "no uptake: the solid lost {} t CO2; nothing counted as stored",
+                "no uptake: the solid lost {} t CO2, counted as an emission of this batch; nothing counted as stored",
                 crate::report::render::tonnes_text(released)
             )),
         ),

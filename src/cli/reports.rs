@@ -156,11 +156,24 @@ fn geological_balance(
         BalanceMethod::Iso27916 => iso_table(project, &lines, &by),
     };
     permit_notes(&mut t, project, &lines, figures.entries());
-    t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it.");
+    t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it; the claims deduct them.");
     t.note(uncertainty_note(figures));
+    let (assumed, n) = figures.on_assumed_fraction();
+    if assumed.is_positive() {
+        t.note(super::meters::assumed_note(
+            assumed,
+            match n {
+                1 => "1 entry of the mass balance".to_string(),
+                n => format!("{n} entries of the mass balance"),
+            },
+        ));
+    }
     let mut report = Report::default().table(t);
     if let Some(l) = leakage_table(project, figures.entries()) {
         report = report.table(l);
+    }
+    if let Some(r) = reversals_table(project, figures.entries()) {
+        report = report.table(r);
     }
     // Claims are made per claim period whatever --by shows the balance by.
     let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
@@ -253,6 +266,7 @@ fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             names::RECYCLED_T,
             names::PERMIT_USED_PCT,
             names::HEADROOM_T,
+            names::EMISSIONS_T,
         ]),
     );
     for l in lines {
@@ -270,6 +284,7 @@ fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
             Cell::Tonnes(x.separated),
             used,
             headroom,
+            Cell::Tonnes(x.emissions),
         ]);
     }
     t.note("Stored = input (receipts − redeliveries) − operational losses (leaks and vents) − losses from the EOR complex (surface leakage and CO2 entrained in produced fluids). CO2 separated and re-injected is recycled inside the complex and not counted again.");
@@ -351,12 +366,14 @@ fn leakage_table<'a>(project: &Project, entries: impl Iterator<Item = &'a Entry>
         (a.reading.get("pathway"), a.period).cmp(&(b.reading.get("pathway"), b.period))
     });
     for e in &leaks {
-        let how = match (e.reading.get("rate"), e.reading.get("backdated_to_survey")) {
-            (Some(r), Some(s)) => format!(
-                "{r} × 24 h × {} d, start backdated to the no-leak survey of {s}",
-                e.period.days()
-            ),
-            (Some(r), None) => format!("{r} × 24 h × {} d", e.period.days()),
+        // A rate per hour runs 24 h a day; a rate per day counts its days alone.
+        let rate = e.reading.get("rate").map(|r| match r.ends_with("/h") {
+            true => format!("{r} × 24 h × {} d", e.period.days()),
+            false => format!("{r} × {} d", e.period.days()),
+        });
+        let how = match (rate, e.reading.get("backdated_to_survey")) {
+            (Some(r), Some(s)) => format!("{r}, start backdated to the no-leak survey of {s}"),
+            (Some(r), None) => r,
             (None, _) => "metered".to_string(),
         };
         t.push(vec![
@@ -369,4 +386,35 @@ fn leakage_table<'a>(project: &Project, entries: impl Iterator<Item = &'a Entry>
         ]);
     }
     (!leaks.is_empty()).then_some(t)
+}
+
+/// Each reversal with where the CO2 left: the site, the pathway, or both (a pathway such as a
+/// fault or a legacy well need not be a site of the project).
+fn reversals_table<'a>(
+    project: &Project,
+    entries: impl Iterator<Item = &'a Entry>,
+) -> Option<Table> {
+    let mut t = Table::new(
+        "reversals",
+        format!("Reversals, project {}", project.code),
+        columns(&[
+            names::PATHWAY,
+            names::SITE,
+            names::DATE,
+            names::CO2_T,
+            names::REASON,
+            names::SEQ,
+        ]),
+    );
+    for e in entries.filter(|e| e.kind == EntryKind::Reversal) {
+        t.push(vec![
+            Cell::opt_text(e.reading.get("pathway")),
+            Cell::text(&e.site),
+            Cell::text(e.period.from.to_string()),
+            Cell::Tonnes(e.mass),
+            Cell::opt_text(e.reason.as_deref()),
+            Cell::Int(e.seq as i64),
+        ]);
+    }
+    (!t.rows.is_empty()).then_some(t)
 }

@@ -1,5 +1,6 @@
 //! `totals`: the regulator's view across every project of the ledger — cumulative received,
-//! injected, stored, conservative, durable, buffer, claimable, reversed and permit headroom —
+//! injected, stored and claimable by route (geological, mineralized, weathering), conservative,
+//! durable, buffer, reversed and permit headroom —
 //! for activity through any date, as the ledger held it at the end of any date.
 
 use super::Context;
@@ -88,11 +89,15 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             names::PERMIT,
             names::RECEIVED_T,
             names::INJECTED_T,
-            names::STORED_T,
+            names::STORED_GEOLOGICAL_T,
+            names::MINERALIZED_T,
+            names::WEATHERING_NET_REMOVAL_T,
             names::CONSERVATIVE_T,
             names::DURABLE_T,
             names::BUFFER_HELD_T,
-            names::CLAIMABLE_AFTER_REVERSALS_T,
+            names::CLAIMABLE_GEOLOGICAL_T,
+            names::CLAIMABLE_MINERALIZED_T,
+            names::CLAIMABLE_WEATHERING_T,
             names::REVERSED_T,
             names::HEADROOM_T,
         ]),
@@ -133,7 +138,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     row.extend(cells(&all));
     row.push(Cell::Empty);
     t.push(row);
-    t.note("Stored: the 40 CFR 98.443 mass balance for injection projects (basalt mineralization counts the CO2 injected and kept, mineralized or not), the net of the carbonation uptake less the project's emissions for ex-situ projects, the weathering net (removal − emissions, default settings) for enhanced weathering. Conservative, durable, buffer and claimable as each project's settings in force set them.");
+    t.note("Stored and claimable by route, never added across routes: geological, the 40 CFR 98.443 mass balance of injection projects (basalt mineralization counts here: the CO2 injected and kept, mineralized or not); mineralized, the carbonation uptake of ex-situ projects less their emissions; weathering net removal, removal less the project's emissions (default settings). Conservative, durable, buffer and claimable as each project's settings in force set them.");
     for note in backdated {
         t.note(note);
     }

@@ -163,7 +163,11 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     let states = super::reconciliations::ChainStates::new(&reconciliations);
     let c = tx.walk_chain(&p.code, None, |row| {
         let e = &row.sealed.entry;
-        if e.kind != EntryKind::Seal && !sites.iter().any(|x| x.code == e.site) {
+        if e.site.is_empty() {
+            if e.kind != EntryKind::Seal && !e.kind.site_optional() {
+                return Err(at(e.seq, format!("a {} entry names no site", e.kind)));
+            }
+        } else if !sites.iter().any(|x| x.code == e.site) {
             return Err(at(e.seq, format!("site {} is not registered", e.site)));
         }
         seals.push(row.sealed).map_err(|w| at(e.seq, w))?;

@@ -30,6 +30,8 @@ pub enum AppendError {
         entry: String,
         allowed: String,
     },
+    /// The entry names no site, and its kind is recorded at one.
+    NoSite { entry: String },
     /// The key is held by an entry with different content.
     KeyTaken { key: String, seq: u64 },
     /// The project's entries would sum, in magnitude, beyond [`Mass::LIMIT`].
@@ -61,6 +63,10 @@ impl std::fmt::Display for AppendError {
             } => write!(
                 f,
                 "site {site} is a {kind}; {entry} entries are recorded at sites of kind {allowed}"
+            ),
+            Self::NoSite { entry } => write!(
+                f,
+                "{entry} entries are recorded at a site: give --site (only leakage and reversal may name a pathway instead)"
             ),
             Self::KeyTaken { key, seq } => write!(
                 f,
@@ -108,18 +114,26 @@ pub fn content_key(e: &Entry) -> String {
     format!("auto-{}", &Hash::of(&encode(&neutral)).to_hex()[..20])
 }
 
-/// Checks `entry` (its seq is set here) against its site and the project's seals, and seals it
-/// onto the tip `(next_seq, head)`, unless `holder` — the entry that already holds its key —
-/// records the same thing. Every entry but a seal comes in this way.
+/// Checks `entry` (its seq is set here) against its site (None: it names none) and the
+/// project's seals, and seals it onto the tip `(next_seq, head)`, unless `holder` — the entry
+/// that already holds its key — records the same thing. Every entry but a seal comes in this way.
 pub fn append(
     entry: Entry,
-    site: &Site,
+    site: Option<&Site>,
     tip: (u64, Hash),
     holder: Option<SealedEntry>,
     rule: SealRule<'_>,
 ) -> Result<Appended, AppendError> {
     bounds::entry(&entry, rule.today).map_err(AppendError::OutOfBounds)?;
     let allowed = entry.kind.site_kinds();
+    let Some(site) = site else {
+        if entry.kind.site_optional() && entry.site.is_empty() {
+            return seal_onto(entry, tip, holder, rule);
+        }
+        return Err(AppendError::NoSite {
+            entry: entry.kind.name().into(),
+        });
+    };
     if !allowed.contains(&site.kind) {
         return Err(AppendError::WrongSiteKind {
             site: site.code.clone(),
@@ -132,6 +146,16 @@ pub fn append(
                 .join(" or "),
         });
     }
+    seal_onto(entry, tip, holder, rule)
+}
+
+/// The seal rule, the key's holder and the chain, once the site is settled.
+fn seal_onto(
+    entry: Entry,
+    tip: (u64, Hash),
+    holder: Option<SealedEntry>,
+    rule: SealRule<'_>,
+) -> Result<Appended, AppendError> {
     let mut entry = admit(rule.seals, entry, rule.replaced, rule.late, rule.today)
         .map_err(AppendError::Sealed)?;
     if let Some(h) = holder {

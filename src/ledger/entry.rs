@@ -53,6 +53,12 @@ impl EntryKind {
         }
     }
 
+    /// Whether an entry of this kind may name no site: a leak or a loss leaves by a pathway (a
+    /// fault, a legacy well) that need not be a site of the project.
+    pub fn site_optional(self) -> bool {
+        matches!(self, Self::Leakage | Self::Reversal)
+    }
+
     /// The site kinds an entry of this kind may be recorded at.
     pub fn site_kinds(self) -> &'static [SiteKind] {
         use SiteKind::*;

@@ -34,13 +34,16 @@ names! {
     CHAIN_HASH = "Chain hash", "chain_hash";
     CHAIN_HEAD = "Chain head", "chain_head";
     CHARGE = "Charge", "charge";
-    CLAIMABLE_AFTER_REVERSALS_T = "Claimable after reversals (t)", "claimable_after_reversals_t";
+    CLAIMABLE_GEOLOGICAL_T = "Claimable, geological (t)", "claimable_geological_t";
+    CLAIMABLE_MINERALIZED_T = "Claimable, mineralized (t)", "claimable_mineralized_t";
+    CLAIMABLE_WEATHERING_T = "Claimable, weathering (t)", "claimable_weathering_t";
     CLAIMABLE_T = "Claimable (t)", "claimable_t";
     CO2_BASIS = "CO2 basis", "co2_basis";
     CO2_FRACTION = "CO2 fraction", "co2_fraction";
     CO2_FRACTION_MEAN = "CO2 fraction (mean)", "co2_fraction_mean";
     CO2_G = "CO2 (g)", "co2_g";
     CO2_KG_PER_T = "CO2 (kg/t)", "co2_kg_per_t";
+    CO2_ON_AN_ASSUMED_FRACTION_T = "CO2 on an assumed fraction (t)", "co2_on_an_assumed_fraction_t";
     CO2_T = "CO2 (t)", "co2_t";
     CO2_WT_PCT = "CO2 (wt%)", "co2_wt_pct";
     CODE = "Code", "code";
@@ -131,6 +134,7 @@ names! {
     MONITORING_REPORT = "Monitoring report", "monitoring_report";
     NA_MOL_PER_T = "Na (mol/t)", "na_mol_per_t";
     NAME = "Name", "name";
+    NET_OF_EMISSIONS_T = "Net of emissions (t)", "net_of_emissions_t";
     NET_T = "Net (t)", "net_t";
     NOT_YET_SAMPLED_T = "Not yet sampled (t)", "not_yet_sampled_t";
     NOTE = "Note", "note";
@@ -156,6 +160,7 @@ names! {
     PRODUCED_T = "Produced (t)", "produced_t";
     PRODUCT_T = "Product (t)", "product_t";
     PROJECT = "Project", "project";
+    PROJECT_EMISSIONS_T = "Project emissions (t)", "project_emissions_t";
     PUBLIC_KEY = "Public key", "public_key";
     QUANTIFIED_BY = "Quantified by", "quantified_by";
     QUANTITY = "Quantity", "quantity";
@@ -212,6 +217,7 @@ names! {
     STATEMENTS = "Statements", "statements";
     STILL_DISSOLVED_T = "Still dissolved (t)", "still_dissolved_t";
     STORED_G = "Stored (g)", "stored_g";
+    STORED_GEOLOGICAL_T = "Stored, geological (t)", "stored_geological_t";
     STORED_LEDGER_T = "Stored, ledger (t)", "stored_ledger_t";
     STORED_T = "Stored (t)", "stored_t";
     STORED_U_PCT = "Stored ± (%)", "stored_u_pct";
@@ -234,6 +240,7 @@ names! {
     VALUE = "Value", "value";
     VERDICT = "Verdict", "verdict";
     VERIFIER_STATEMENT = "Verifier statement", "verifier_statement";
+    WEATHERING_NET_REMOVAL_T = "Weathering net removal (t)", "weathering_net_removal_t";
     WELL = "Well", "well";
     WELLS = "Wells", "wells";
     YEAR = "Year", "year";

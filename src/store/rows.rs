@@ -45,7 +45,7 @@ pub struct EntryRow {
     pub project: String,
     pub seq: i64,
     pub kind: String,
-    /// NULL for seals, which stand at no site.
+    /// NULL for seals, which stand at no site, and for a leakage or reversal that names none.
     pub site: Option<String>,
     pub period_from: String,
     pub period_to: String,
@@ -158,7 +158,7 @@ impl EntryRow {
             project: e.project.clone(),
             seq: e.seq as i64,
             kind: e.kind.name().into(),
-            site: (e.kind != EntryKind::Seal).then(|| e.site.clone()),
+            site: (!e.site.is_empty()).then(|| e.site.clone()),
             period_from: e.period.from.to_string(),
             period_to: e.period.to.to_string(),
             reading: serde_json::to_string(&e.reading.0).expect("strings serialize"),

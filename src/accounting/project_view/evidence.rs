@@ -3,6 +3,7 @@
 //! ones `record` writes; a value that no longer decodes is an inconsistency of the ledger.
 
 use super::ViewError;
+use crate::accounting::carbonation::{Carbonation, uptake};
 use crate::accounting::tracer::TracerSample;
 use crate::accounting::weathering::campaign::{Application, Core, Feedstock as Analysed};
 use crate::accounting::weathering::composition::{
@@ -58,23 +59,36 @@ pub fn tracer_of(e: &Entry) -> Result<TracerSample, ViewError> {
     tracer_sample(&e.reading).map_err(|w| undecodable(e, w))
 }
 
-/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass).
+/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass), and
+/// the CO2 the solid released when its CO2 content fell: an emission of the batch.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Batch {
     pub fed_g: i64,
     pub product_g: i64,
+    pub released_g: i64,
 }
 
 /// The dry feed and product of a carbonation reading: the CO2-free solid is conserved, so the
-/// product weighs M(1 − w_before)/(1 − w_after).
+/// product weighs M(1 − w_before)/(1 − w_after); a solid whose CO2 content fell released
+/// M(w_before − w_after)/(1 − w_after), as `record carbonation` computed it.
 pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
     let r = &e.reading;
     let read = || -> Decoded<Batch> {
         let fed_g = grams(r, "fed_mass")?;
-        let ratio = (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
+        let (before, after) = (decimal(r, "co2_before")?, decimal(r, "co2_after")?);
+        let ratio = (1.0 - before) / (1.0 - after);
         let product_g = grams_of_f64(fed_g as f64 * ratio)
             .ok_or_else(|| format!("product of {fed_g} g fed is out of range"))?;
-        Ok(Batch { fed_g, product_g })
+        let released_g = match uptake(fed_g as f64 / 1e6, before, after) {
+            Ok(Carbonation::NoUptake { released, .. }) => released.grams(),
+            Ok(Carbonation::Uptake { .. }) => 0,
+            Err(why) => return Err(why.to_string()),
+        };
+        Ok(Batch {
+            fed_g,
+            product_g,
+            released_g,
+        })
     };
     read().map_err(|w| undecodable(e, w))
 }

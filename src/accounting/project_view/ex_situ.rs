@@ -1,5 +1,6 @@
-//! Ex-situ mineralization: each carbonation batch's uptake is stored; the project's emissions
-//! are netted from it, period by period.
+//! Ex-situ mineralization: each carbonation batch's uptake is stored; the project's emissions,
+//! and the CO2 a batch released when its solid's CO2 content fell, are netted from it, period
+//! by period.
 
 use super::ProjectFigures;
 use crate::ledger::period::{Bucket, Grouping, apportion};
@@ -49,6 +50,10 @@ impl ProjectFigures {
             }
             for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
                 line(&mut by, b).stored += Mass::from_grams(g);
+            }
+            // A solid that lost CO2 released it: the batch's emission, netted like the rest.
+            for (b, g) in apportion(batch.released_g, e.period, grouping) {
+                line(&mut by, b).emissions += Mass::from_grams(g);
             }
         }
         for e in self.entries().filter(|e| e.kind == EntryKind::Emission) {

@@ -23,13 +23,14 @@ pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
 pub use reported::{bearing, reporting_period};
 pub use series::{Series, cumulative};
-pub use totals::{ProjectTotals, TotalsLine};
+pub use totals::{ByRoute, ProjectTotals, Route, TotalsLine};
 pub use weathering::{CampaignTotal, EmissionsInScope, campaign_total, default_settings};
 
 use super::balance::BalanceMethod;
 use super::buffer_pool::BufferPool;
-use super::claims::{ClaimBasis, PoolEvent, claim_pool, period_claim, rules};
+use super::claims::{ClaimBasis, PoolEvent, claim_pool, period_claim_net_of, rules};
 use super::conservative::DeductionRule;
+use super::metering::assumed_fraction;
 use super::permanence::{Claim, ClaimRules};
 use super::uncertainty::Estimate;
 use super::weathering::campaign::{Application, Core, Feedstock};
@@ -238,16 +239,34 @@ impl ProjectFigures {
         })
     }
 
-    /// Each period's claim, from stored to claimable.
+    /// The project's emissions by period where its stored figure is not net of them: a
+    /// geological project's (40 CFR 98.443 and ISO 27916 report them beside storage), empty for
+    /// the rock routes, whose net already deducts them.
+    pub fn emissions_beside_storage(&self, grouping: Grouping) -> BTreeMap<Bucket, Mass> {
+        match Route::of(self.view.project.method) {
+            Route::Geological => self
+                .geological(grouping, BalanceMethod::Rr)
+                .into_iter()
+                .map(|l| (l.bucket, l.terms.emissions))
+                .collect(),
+            Route::Mineralized | Route::Weathering => BTreeMap::new(),
+        }
+    }
+
+    /// Each period's claim, from stored to claimable, net of the project's emissions.
     pub fn claims(
         &self,
         grouping: Grouping,
         deduction: DeductionRule,
     ) -> Result<Vec<(Bucket, Claim)>, ViewError> {
+        let emissions = self.emissions_beside_storage(grouping);
         Ok(self
             .stored(grouping)?
             .iter()
-            .map(|(b, u)| (*b, period_claim(u, &self.rules(*b, deduction))))
+            .map(|(b, u)| {
+                let e = emissions.get(b).copied().unwrap_or(Mass::ZERO);
+                (*b, period_claim_net_of(u, e, &self.rules(*b, deduction)))
+            })
             .collect())
     }
 
@@ -263,6 +282,7 @@ impl ProjectFigures {
                 .collect(),
             _ => self.stored(period)?,
         };
+        let emissions = self.emissions_beside_storage(period);
         let mut by: BTreeMap<Bucket, ClaimBasis> = stored
             .into_iter()
             .map(|(bucket, stored)| {
@@ -271,6 +291,7 @@ impl ProjectFigures {
                     stored,
                     reversed: Mass::ZERO,
                     reversals: Vec::new(),
+                    emissions: emissions.get(&bucket).copied().unwrap_or(Mass::ZERO),
                 };
                 (bucket, basis)
             })
@@ -282,6 +303,7 @@ impl ProjectFigures {
                 stored: Estimate::absolute(Mass::ZERO, Mass::ZERO),
                 reversed: Mass::ZERO,
                 reversals: Vec::new(),
+                emissions: Mass::ZERO,
             });
             b.reversed += e.mass;
             b.reversals.push(e.seq);
@@ -300,6 +322,25 @@ impl ProjectFigures {
         }))
     }
 
+    /// The tonnes of the mass balance's metered terms (received, redelivered, injected,
+    /// produced, leaked, vented) that rest on a CO2 fraction no reading stated, and the number
+    /// of entries they come from.
+    pub fn on_assumed_fraction(&self) -> (Mass, usize) {
+        self.entries()
+            .filter(|e| {
+                matches!(
+                    e.kind,
+                    EntryKind::Injection
+                        | EntryKind::Receipt
+                        | EntryKind::Redelivery
+                        | EntryKind::Production
+                        | EntryKind::Leakage
+                        | EntryKind::EquipmentLeak
+                ) && assumed_fraction(&e.reading)
+            })
+            .fold((Mass::ZERO, 0), |(m, n), e| (m + e.mass, n + 1))
+    }
+
     /// Every reversal recorded, as (date, mass).
     fn reversals(&self) -> impl Iterator<Item = &Entry> {
         self.entries().filter(|e| e.kind == EntryKind::Reversal)
@@ -307,9 +348,11 @@ impl ProjectFigures {
 }
 
 /// The figures of a claim, stored to claimable, in the order the claims table shows them.
-pub fn claim_figures(c: &Claim) -> [Mass; 7] {
+pub fn claim_figures(c: &Claim) -> [Mass; 9] {
     [
         c.stored,
+        c.project_emissions,
+        c.net_of_emissions,
         c.uncertainty_deduction,
         c.conservative,
         c.durability_discount,
@@ -320,8 +363,8 @@ pub fn claim_figures(c: &Claim) -> [Mass; 7] {
 }
 
 /// The claims' figures summed over their periods.
-pub fn claims_total(claims: &[(Bucket, Claim)]) -> [Mass; 7] {
-    let mut total = [Mass::ZERO; 7];
+pub fn claims_total(claims: &[(Bucket, Claim)]) -> [Mass; 9] {
+    let mut total = [Mass::ZERO; 9];
     for (_, c) in claims {
         for (t, x) in total.iter_mut().zip(claim_figures(c)) {
             *t += x;
