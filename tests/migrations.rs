@@ -84,11 +84,9 @@ fn the_schema_migrates_keeping_every_trigger_and_index() {
     let v = l.run(&["--format", "json", "verify"]);
     assert_eq!(v.code, 0, "{}", v.err);
     let after = schema(&l);
-    assert_eq!(
-        before.keys().collect::<Vec<_>>(),
-        after.keys().collect::<Vec<_>>(),
-        "the same tables, indexes and triggers"
-    );
+    // Later migrations may add tables (each with its triggers); none is lost.
+    let lost: Vec<_> = before.keys().filter(|k| !after.contains_key(*k)).collect();
+    assert!(lost.is_empty(), "tables, indexes or triggers lost: {lost:?}");
     let changed: Vec<&(String, String)> =
         before.keys().filter(|k| before[*k] != after[*k]).collect();
     assert_eq!(

@@ -19,6 +19,7 @@ const TABLES: &[(&str, &str, &str)] = &[
     ("signatures", "statement", "'Nothing to see.'"),
     ("import_evidence", "bytes", "zeroblob(1)"),
     ("ledger_chain", "row_hash", "leaf_hash"),
+    ("reconciliations", "verdict", "'MATERIAL'"),
 ];
 
 #[derive(QueryableByName)]
