@@ -152,14 +152,23 @@ fn check_mass(b: &[u8]) -> Result<(), String> {
     Ok(())
 }
 
-fn check_decimal(b: &[u8]) -> Result<(), String> {
-    let Ok(d) = Decimal::parse(text(b)?) else {
+/// What `parse` accepts prints back to text it reads as the same value.
+fn round_trips<T, E>(b: &[u8], parse: fn(&str) -> Result<T, E>) -> Result<(), String>
+where
+    T: std::fmt::Display + std::fmt::Debug + PartialEq,
+    E: std::fmt::Debug,
+{
+    let Ok(v) = parse(text(b)?) else {
         return Ok(());
     };
-    match Decimal::parse(&d.to_string()) {
-        Ok(e) if e == d => Ok(()),
-        other => Err(format!("{d} reads back as {other:?}")),
+    match parse(&v.to_string()) {
+        Ok(w) if w == v => Ok(()),
+        other => Err(format!("{v} reads back as {other:?}")),
     }
+}
+
+fn check_decimal(b: &[u8]) -> Result<(), String> {
+    round_trips(b, Decimal::parse)
 }
 
 fn check_fraction(b: &[u8]) -> Result<(), String> {
@@ -172,10 +181,7 @@ fn check_fraction(b: &[u8]) -> Result<(), String> {
     if !v.is_positive() || v.cmp_value(Decimal::from_int(1)).is_gt() {
         return Err(format!("{f} is outside (0, 1]"));
     }
-    match Fraction::parse(&f.to_string()) {
-        Ok(g) if g == f => Ok(()),
-        other => Err(format!("{f} reads back as {other:?}")),
-    }
+    round_trips(b, Fraction::parse)
 }
 
 fn check_volume(b: &[u8]) -> Result<(), String> {
@@ -191,33 +197,15 @@ fn check_volume(b: &[u8]) -> Result<(), String> {
 }
 
 fn check_date(b: &[u8]) -> Result<(), String> {
-    let Ok(d) = parse_date(text(b)?) else {
-        return Ok(());
-    };
-    match parse_date(&d.to_string()) {
-        Ok(e) if e == d => Ok(()),
-        other => Err(format!("{d} reads back as {other:?}")),
-    }
+    round_trips(b, parse_date)
 }
 
 fn check_rate(b: &[u8]) -> Result<(), String> {
-    let Ok(r) = LeakRate::parse(text(b)?) else {
-        return Ok(());
-    };
-    match LeakRate::parse(&r.to_string()) {
-        Ok(s) if s == r => Ok(()),
-        other => Err(format!("{r} reads back as {other:?}")),
-    }
+    round_trips(b, LeakRate::parse)
 }
 
 fn check_area(b: &[u8]) -> Result<(), String> {
-    let Ok(a) = Area::parse(text(b)?) else {
-        return Ok(());
-    };
-    match Area::parse(&a.to_string()) {
-        Ok(c) if c == a => Ok(()),
-        other => Err(format!("{a} reads back as {other:?}")),
-    }
+    round_trips(b, Area::parse)
 }
 
 fn check_conditions(b: &[u8]) -> Result<(), String> {
@@ -228,13 +216,7 @@ fn check_conditions(b: &[u8]) -> Result<(), String> {
 }
 
 fn check_formula(b: &[u8]) -> Result<(), String> {
-    let Ok(f) = Formula::parse(text(b)?) else {
-        return Ok(());
-    };
-    match Formula::parse(&f.to_string()) {
-        Ok(g) if g == f => Ok(()),
-        other => Err(format!("{f} reads back as {other:?}")),
-    }
+    round_trips(b, Formula::parse)
 }
 
 fn check_columns(b: &[u8]) -> Result<(), String> {
