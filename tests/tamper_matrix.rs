@@ -113,6 +113,13 @@ fn row_names(c: &mut SqliteConnection, table: &str, rowid: i64) -> Vec<String> {
             v("project")
         )],
         "ledger_chain" => vec![format!("ledger link {}", v("seq"))],
+        // Its link names "reconciliation N of project P"; its own run, decoding or hashing it,
+        // "[project P: ]reconciliations row seq N[ of project P]".
+        "reconciliations" => vec![
+            format!("reconciliation {} of project {}", v("seq"), v("project")),
+            format!("project {}: reconciliations row seq {}", v("project"), v("seq")),
+            format!("reconciliations row seq {} of project {}", v("seq"), v("project")),
+        ],
         other => panic!(
             "table {other} is not in the tamper matrix: say how verify names its rows, and make verify catch every change to it"
         ),
