@@ -109,3 +109,51 @@ impl ProjectFigures {
         Ok(out)
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use ReportedQuantity as Q;
+
+    /// What counts toward a year's misstatement follows each published balance's terms:
+    /// 40 CFR 98.443 RR-11/RR-12 start from injected; ISO 27916 from received, less operational
+    /// losses and losses from the complex.
+    #[test]
+    fn the_terms_of_stored_follow_the_balance() {
+        let b = |q, route, method| bearing(q, route, method);
+        let (rr, iso) = (BalanceMethod::Rr, BalanceMethod::Iso27916);
+        for q in [Q::Injected, Q::Produced, Q::Leakage, Q::EquipmentLeak] {
+            assert_eq!(b(q, Method::Eor, rr), Bearing::Term, "{q}");
+        }
+        assert_eq!(b(Q::Received, Method::Eor, rr), Bearing::Listed);
+        for q in [Q::Received, Q::Leakage, Q::EquipmentLeak] {
+            assert_eq!(b(q, Method::Eor, iso), Bearing::Term, "{q}");
+        }
+        for q in [Q::Injected, Q::Produced] {
+            assert_eq!(b(q, Method::Eor, iso), Bearing::Listed, "{q}");
+        }
+        assert_eq!(b(Q::Stored, Method::SalineAquifer, rr), Bearing::Headline);
+        assert_eq!(
+            b(Q::Mineralized, Method::BasaltMineralization, rr),
+            Bearing::Headline
+        );
+        assert_eq!(
+            b(Q::Injected, Method::BasaltMineralization, rr),
+            Bearing::Term
+        );
+        // A route that injects nothing is judged on its own figure alone.
+        assert_eq!(
+            b(Q::WeatheringNet, Method::EnhancedWeathering, rr),
+            Bearing::Headline
+        );
+        assert_eq!(
+            b(Q::Injected, Method::EnhancedWeathering, rr),
+            Bearing::Listed
+        );
+        assert_eq!(
+            b(Q::Mineralized, Method::SalineAquifer, rr),
+            Bearing::NotKept
+        );
+        assert_eq!(b(Q::WeatheringNet, Method::Eor, rr), Bearing::NotKept);
+    }
+}
