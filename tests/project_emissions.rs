@@ -6,18 +6,7 @@ use common::Ledger;
 
 fn plant() -> Ledger {
     let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "XSM",
-        "--name",
-        "Ashby Slag Carbonation",
-        "--method",
-        "ex-situ-mineralization",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    l.ok(&["site", "add", "XSM", "AS-P1", "--kind", "plant"]);
+    l.add_xsm();
     l
 }
 

@@ -31,18 +31,7 @@ fn two_routes() -> Ledger {
             to,
         ]);
     }
-    l.ok(&[
-        "project",
-        "add",
-        "XSM",
-        "--name",
-        "Ashby Slag Carbonation",
-        "--method",
-        "ex-situ-mineralization",
-        "--operator",
-        "Northdeep Storage Cooperative",
-    ]);
-    l.ok(&["site", "add", "XSM", "AS-P1", "--kind", "plant"]);
+    l.add_xsm();
     l.ok(&[
         "record",
         "carbonation",

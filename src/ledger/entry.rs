@@ -53,6 +53,20 @@ impl EntryKind {
         }
     }
 
+    /// Whether the entry is a metered term of the geological mass balance (received,
+    /// redelivered, injected, produced, leaked, vented).
+    pub fn is_balance_term(self) -> bool {
+        matches!(
+            self,
+            Self::Receipt
+                | Self::Redelivery
+                | Self::Injection
+                | Self::Production
+                | Self::Leakage
+                | Self::EquipmentLeak
+        )
+    }
+
     /// Whether an entry of this kind may name no site: a leak or a loss leaves by a pathway (a
     /// fault, a legacy well) that need not be a site of the project.
     pub fn site_optional(self) -> bool {

@@ -305,6 +305,22 @@ impl Ledger {
         }
     }
 
+    /// Registers the ex-situ project XSM with its plant AS-P1.
+    pub fn add_xsm(&self) {
+        self.ok(&[
+            "project",
+            "add",
+            "XSM",
+            "--name",
+            "Ashby Slag Carbonation",
+            "--method",
+            "ex-situ-mineralization",
+            "--operator",
+            "Northdeep Storage Cooperative",
+        ]);
+        self.ok(&["site", "add", "XSM", "AS-P1", "--kind", "plant"]);
+    }
+
     pub fn run(&self, args: &[&str]) -> Run {
         self.run_at(NOW, args)
     }

@@ -26,17 +26,7 @@ impl ProjectFigures {
     pub fn unstated_uncertainties(&self) -> usize {
         let cals = self.calibrations();
         self.entries()
-            .filter(|e| {
-                matches!(
-                    e.kind,
-                    EntryKind::Receipt
-                        | EntryKind::Redelivery
-                        | EntryKind::Injection
-                        | EntryKind::Production
-                        | EntryKind::Leakage
-                        | EntryKind::EquipmentLeak
-                )
-            })
+            .filter(|e| e.kind.is_balance_term())
             .filter(|e| rel_uncertainty(e, self.sites(), &cals).is_none())
             .count()
     }

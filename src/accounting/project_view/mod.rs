@@ -327,17 +327,7 @@ impl ProjectFigures {
     /// of entries they come from.
     pub fn on_assumed_fraction(&self) -> (Mass, usize) {
         self.entries()
-            .filter(|e| {
-                matches!(
-                    e.kind,
-                    EntryKind::Injection
-                        | EntryKind::Receipt
-                        | EntryKind::Redelivery
-                        | EntryKind::Production
-                        | EntryKind::Leakage
-                        | EntryKind::EquipmentLeak
-                ) && assumed_fraction(&e.reading)
-            })
+            .filter(|e| e.kind.is_balance_term() && assumed_fraction(&e.reading))
             .fold((Mass::ZERO, 0), |(m, n), e| (m + e.mass, n + 1))
     }
 
