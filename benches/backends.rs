@@ -68,33 +68,8 @@ fn timed(mut cmd: Command) -> f64 {
 
 /// Seconds and peak memory (MB, when /usr/bin/time is there) of a sinkbook command on `db`.
 fn sinkbook(db: &Path, args: &[&str]) -> (f64, Option<f64>) {
-    let have_time = Path::new("/usr/bin/time").exists();
-    let mut cmd = if have_time {
-        let mut c = Command::new("/usr/bin/time");
-        c.args(["-f", "%M"]).arg(env!("CARGO_BIN_EXE_sinkbook"));
-        c
-    } else {
-        Command::new(env!("CARGO_BIN_EXE_sinkbook"))
-    };
-    cmd.arg("--db").arg(db).args(args);
-    let t = Instant::now();
-    let o = cmd.output().unwrap();
-    let s = t.elapsed().as_secs_f64();
-    assert!(
-        o.status.success(),
-        "sinkbook {args:?}: {}",
-        String::from_utf8_lossy(&o.stderr)
-    );
-    let peak = have_time
-        .then(|| {
-            String::from_utf8_lossy(&o.stderr)
-                .lines()
-                .last()
-                .and_then(|l| l.trim().parse::<f64>().ok())
-                .map(|kb| kb / 1024.0)
-        })
-        .flatten();
-    (s, peak)
+    let (secs, peak, _) = common::measured(db, args);
+    (secs, peak)
 }
 
 /// The database's own tools on one backend: its bulk load and its plain sum.
