@@ -44,29 +44,7 @@ fn timed(mut cmd: Command) -> (f64, std::process::Output) {
 fn measure(dir: &Path, tag: &str, name: &str, csv: &Path) -> std::path::PathBuf {
     let db = dir.join(format!("{tag}.db"));
     common::ledger(&db);
-    let have_time = Path::new("/usr/bin/time").exists();
-    let mut cmd = if have_time {
-        let mut c = Command::new("/usr/bin/time");
-        c.args(["-f", "%M"]).arg(env!("CARGO_BIN_EXE_sinkbook"));
-        c
-    } else {
-        Command::new(env!("CARGO_BIN_EXE_sinkbook"))
-    };
-    cmd.arg("--db").arg(&db).args(["import", "TFS"]).arg(csv);
-    let (ours, out) = timed(cmd);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let peak_kb: Option<u64> = have_time
-        .then(|| {
-            String::from_utf8_lossy(&out.stderr)
-                .lines()
-                .last()
-                .and_then(|l| l.trim().parse().ok())
-        })
-        .flatten();
+    let (ours, peak_mb, out) = common::measured(&db, &["import", "TFS", csv.to_str().unwrap()]);
     let entries = String::from_utf8_lossy(&out.stdout)
         .lines()
         .next()
@@ -102,11 +80,8 @@ fn measure(dir: &Path, tag: &str, name: &str, csv: &Path) -> std::path::PathBuf 
         }
         _ => println!("  sqlite3 .import      not measured: no sqlite3 shell on this machine"),
     }
-    match peak_kb {
-        Some(kb) => println!(
-            "  import peak memory   {:>7.1} MB  (target < 100 MB)",
-            kb as f64 / 1024.0
-        ),
+    match peak_mb {
+        Some(mb) => println!("  import peak memory   {mb:>7.1} MB  (target < 100 MB)"),
         None => println!("  import peak memory   not measured: no /usr/bin/time"),
     }
     db

@@ -68,6 +68,17 @@ fn altered_amount() {
     );
 }
 
+/// The running figures each row keeps for appends (Σ |grams|, cumulative stored: what the mass
+/// limit and the permit are checked against) are recounted as the chain is read, so a changed
+/// one stops verify naming its seq instead of letting a permit check run on it.
+#[test]
+fn altered_running_figure() {
+    tampered(
+        "UPDATE entries SET tally_stored_g = tally_stored_g - 1000000 WHERE seq = 5",
+        "project TFS seq 5: the running figures kept with it",
+    );
+}
+
 /// Reads check what they read: a forged amount stops every report that reads entries, naming
 /// the seq, instead of being counted.
 #[test]

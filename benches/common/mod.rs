@@ -41,6 +41,38 @@ pub fn sinkbook(db: &Path, args: &[&str]) -> std::process::Output {
     o
 }
 
+/// Runs sinkbook on `db` under `/usr/bin/time` when it is there, insisting on success: seconds,
+/// peak memory in MB (None without /usr/bin/time), and what it printed.
+pub fn measured(db: &Path, args: &[&str]) -> (f64, Option<f64>, std::process::Output) {
+    let have_time = Path::new("/usr/bin/time").exists();
+    let mut cmd = if have_time {
+        let mut c = Command::new("/usr/bin/time");
+        c.args(["-f", "%M"]).arg(env!("CARGO_BIN_EXE_sinkbook"));
+        c
+    } else {
+        Command::new(env!("CARGO_BIN_EXE_sinkbook"))
+    };
+    cmd.arg("--db").arg(db).args(args);
+    let t = std::time::Instant::now();
+    let o = cmd.output().unwrap();
+    let secs = t.elapsed().as_secs_f64();
+    assert!(
+        o.status.success(),
+        "sinkbook {args:?}: {}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let peak = have_time
+        .then(|| {
+            String::from_utf8_lossy(&o.stderr)
+                .lines()
+                .last()
+                .and_then(|l| l.trim().parse::<f64>().ok())
+                .map(|kb| kb / 1024.0)
+        })
+        .flatten();
+    (secs, peak, o)
+}
+
 /// A new ledger at `db` with project TFS and its two injection wells.
 pub fn ledger(db: &Path) {
     sinkbook(db, &["init"]);

@@ -5,6 +5,7 @@ use crate::accounting::uncertainty::{
     Estimate, Reading, Term, TermSign, mass_balance, sum_readings,
 };
 use crate::ledger::period::{Bucket, Grouping, apportion};
+use crate::ledger::tally::entrained_fraction;
 use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::quantity::Mass;
 use std::collections::BTreeMap;
@@ -225,14 +226,6 @@ fn meter_key(e: &Entry) -> String {
         "" => format!("pathway {}", e.reading.get("pathway").unwrap_or("")),
         site => format!("site {site}"),
     })
-}
-
-/// The entrained fraction X a production entry was recorded with (0 when none).
-pub fn entrained_fraction(e: &Entry) -> f64 {
-    e.reading
-        .get("entrained_fraction")
-        .and_then(|x| x.parse().ok())
-        .unwrap_or(0.0)
 }
 
 /// Balances the effective entries of a project by period. Entries spanning periods are split by

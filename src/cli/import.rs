@@ -116,7 +116,14 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         let mut warnings = if matches!(kind, EntryKind::Injection | EntryKind::Production | EntryKind::EquipmentLeak) {
             // The permit needs what each entry does to the balance, not its reading.
             let new: Vec<Entry> = plan.days.iter().zip(&corrects).map(|(d, c)| Entry { reading: Reading::default(), ..d.entry(&source, *c) }).collect();
-            permit::check(&project, &tx.entries(&a.project)?, &new, a.over_permit)?
+            let mut gone = Vec::new();
+            for t in corrects.iter().flatten() {
+                let replaced = tx.entry_at(&a.project, *t)?.ok_or_else(|| Error::Inconsistent(format!("project {} has no seq {t}, which an effective meter-day named", a.project)))?;
+                gone.push(replaced.entry);
+            }
+            let tally = tx.tally(&a.project)?;
+            let standing = super::record::standing(tx, &project, tally, &new)?;
+            permit::check(&project, &standing, &new, &gone, a.over_permit)?
         } else {
             Vec::new()
         };
@@ -124,12 +131,14 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
         let mut tip = tx.chain_tip(&a.project)?;
         let recorded_by = tx.recorded_by()?;
         let seals = tx.seals(&a.project)?;
-        let all = if seals.is_empty() || corrects.iter().all(Option::is_none) { Vec::new() } else { tx.entries(&a.project)? };
         let mut summary = Summary::default();
         for (days, corrects) in plan.days.chunks(ENTRY_CHUNK).zip(corrects.chunks(ENTRY_CHUNK)) {
             let mut sealed = Vec::with_capacity(days.len());
             for (d, c) in days.iter().zip(corrects) {
-                let replaced = c.filter(|_| !seals.is_empty()).map(|t| super::record::replaced(&all, t)).transpose()?;
+                let replaced = match c.filter(|_| !seals.is_empty()) {
+                    Some(t) => Some(super::record::replaced(tx, &a.project, t, &seals)?.0),
+                    None => None,
+                };
                 let rule = SealRule { seals: &seals, late: ctx.late, today: ctx.now.date_naive(), replaced };
                 match append(Entry { recorded_by: recorded_by.clone(), ..d.entry(&source, *c) }, Some(&sites[&d.site]), tip, None, rule).map_err(|e| refused_row(&file_name, e))? {
                     Appended::New(s) | Appended::Existing(s) => {

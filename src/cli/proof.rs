@@ -68,12 +68,15 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
         let seal = chosen(tx.seals(&a.project)?, a.seq, a.seal)?;
         let mut path = RangeHashes::new(inclusion_ranges(a.seq, seal.tree_size));
         let mut entry = None;
-        for s in tx.entries(&a.project)?.iter().take(seal.tree_size as usize) {
-            path.push(s.leaf);
-            if s.entry.seq == a.seq {
-                entry = Some(s.clone());
+        tx.for_each_entry(&a.project, None, |s| {
+            if s.entry.seq < seal.tree_size {
+                path.push(s.leaf);
+                if s.entry.seq == a.seq {
+                    entry = Some(s.clone());
+                }
             }
-        }
+            Ok(())
+        })?;
         let entry = entry.ok_or_else(|| {
             Error::field("SEQ", &a.seq.to_string(), "is not an entry of this project")
         })?;

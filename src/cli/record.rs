@@ -7,9 +7,9 @@ use crate::accounting::metering::{Basis, MeterInput, assumed_fraction, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
-use crate::ledger::correction;
-use crate::ledger::seal::{Replaced, late_replaces};
-use crate::ledger::{Entry, EntryKind, Period, Reading, SealedEntry};
+use crate::ledger::seal::{Replaced, Seal, late_replaces};
+use crate::ledger::tally::Tally;
+use crate::ledger::{Entry, EntryKind, Period, Project, Reading, SealedEntry};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::volume::DensityMethod;
@@ -841,9 +841,8 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     let (key, over_permit) = (a.key.clone(), a.over_permit);
     commit_with(ctx, key, over_permit, |tx| {
         known_project(tx, &a.project)?;
-        let all = tx.entries(&a.project)?;
-        let target = correction::target(&all, a.seq)
-            .cloned()
+        let target = tx
+            .correction_target(&a.project, a.seq)?
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))?;
         corrected(ctx, a.clone(), target)
     })
@@ -1032,20 +1031,23 @@ pub(super) fn commit_with(
                 )
             })?),
         };
-        let all = tx.entries(&entry.project)?;
-        let replaced = match entry.corrects {
-            // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
-            Some(target) => Some(replaced(&all, target)?),
-            None => None,
-        };
+        let tally = tx.tally(&entry.project)?;
         let seals = tx.seals(&entry.project)?;
+        let (replaced, target) = match entry.corrects {
+            // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
+            Some(target) => {
+                let (r, t) = replaced(tx, &entry.project, target, &seals)?;
+                (Some(r), Some(t))
+            }
+            None => (None, None),
+        };
         let rule = SealRule {
             seals: &seals,
             late: ctx.late,
             today: ctx.now.date_naive(),
             replaced,
         };
-        within_limit(all.iter().map(|s| &s.entry), std::slice::from_ref(&entry)).map_err(|e| {
+        within_limit(tally.magnitude, std::slice::from_ref(&entry)).map_err(|e| {
             let mass = entry.mass.to_string();
             Error::field("--mass", entry.reading.get("mass").unwrap_or(&mass), e)
         })?;
@@ -1069,8 +1071,15 @@ pub(super) fn commit_with(
                     | EntryKind::Leakage
                     | EntryKind::EquipmentLeak
             ) {
-                warnings =
-                    permit::check(&project, &all, std::slice::from_ref(&s.entry), over_permit)?;
+                let new = std::slice::from_ref(&s.entry);
+                let standing = standing(tx, &project, tally, new)?;
+                // A late correction is a difference of its own, replacing nothing it counts.
+                let gone: Vec<Entry> = target
+                    .iter()
+                    .filter(|_| s.entry.corrects.is_some())
+                    .cloned()
+                    .collect();
+                warnings = permit::check(&project, &standing, new, &gone, over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }
@@ -1091,12 +1100,20 @@ pub(super) fn commit_with(
     Ok(report)
 }
 
-/// What a correction of `target` replaces: the latest entry of its line, and what it counts
-/// for now — its grams plus the late differences recorded against it since its period was sealed.
-pub(super) fn replaced(all: &[SealedEntry], target: u64) -> Result<Replaced> {
-    let t =
-        correction::target(all, target).map_err(|e| Error::field("seq", &target.to_string(), e))?;
-    if let Some(first) = late_replaces(t) {
+/// What a correction of `target` replaces, looked up by its seq: the latest entry of its line,
+/// and what it counts for now — its grams plus the late differences recorded against it since
+/// its period was sealed (read only when the project has seals, since only a sealed period
+/// takes late differences). Returns the replaced entry with it.
+pub(super) fn replaced(
+    tx: &mut Tx<'_>,
+    project: &str,
+    target: u64,
+    seals: &[Seal],
+) -> Result<(Replaced, Entry)> {
+    let t = tx
+        .correction_target(project, target)?
+        .map_err(|e| Error::field("seq", &target.to_string(), e))?;
+    if let Some(first) = late_replaces(&t) {
         return Err(Error::field(
             "seq",
             &target.to_string(),
@@ -1105,14 +1122,38 @@ pub(super) fn replaced(all: &[SealedEntry], target: u64) -> Result<Replaced> {
             ),
         ));
     }
-    let counted = all
-        .iter()
-        .filter(|s| late_replaces(&s.entry) == Some(target))
-        .fold(t.mass, |m, s| m + s.entry.mass);
-    Ok(Replaced {
-        seq: target,
-        period: t.period,
-        counted,
+    let counted = if seals.is_empty() {
+        t.mass
+    } else {
+        tx.late_counted(&t)?
+    };
+    Ok((
+        Replaced {
+            seq: target,
+            period: t.period,
+            counted,
+        },
+        t,
+    ))
+}
+
+/// Where the project stands for its permit before `new`: cumulative stored from the chain tip's
+/// running figures and, under an annual maximum, each year's injection read by index.
+pub(super) fn standing(
+    tx: &mut Tx<'_>,
+    project: &Project,
+    tally: Tally,
+    new: &[Entry],
+) -> Result<permit::Standing> {
+    let mut injected = std::collections::BTreeMap::new();
+    if project.permit_annual.is_some() {
+        for year in permit::years(new) {
+            injected.insert(year, tx.injected_in_year(&project.code, year)?);
+        }
+    }
+    Ok(permit::Standing {
+        stored: Mass::from_grams(tally.stored),
+        injected,
     })
 }
 

@@ -171,8 +171,8 @@ fn context(
             ));
         }
         if let Some(seq) = corrects {
-            let all = tx.entries(project)?;
-            let t = crate::ledger::correction::target(&all, seq)
+            let t = tx
+                .correction_target(project, seq)?
                 .map_err(|e| Error::field("--corrects", &seq.to_string(), e))?;
             if t.kind != kind {
                 return Err(Error::field(
@@ -433,10 +433,10 @@ fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<(
             ),
         )
     })?;
-    let cores = effective_of(tx, &a.project, EntryKind::SoilSample)?;
+    let cores = tx.effective_at_site(&a.project, EntryKind::SoilSample, &a.site)?;
     if let Some(b) = cores
         .iter()
-        .filter(|e| e.site == a.site && e.reading.get("baseline").is_some())
+        .filter(|e| e.reading.get("baseline").is_some())
         .find(|e| e.period.from >= date)
     {
         return Err(Error::field(
@@ -453,10 +453,10 @@ fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<(
 
 /// No feedstock was spread on the field on or before a baseline core's date.
 fn before_any_feedstock(tx: &mut Tx<'_>, a: &SoilSampleArgs, date: NaiveDate) -> Result<()> {
-    let spread = effective_of(tx, &a.project, EntryKind::Application)?;
+    let spread = tx.effective_at_site(&a.project, EntryKind::Application, &a.site)?;
     match spread
         .iter()
-        .filter(|e| e.site == a.site && e.period.from <= date)
+        .filter(|e| e.period.from <= date)
         .min_by_key(|e| e.period.from)
     {
         Some(first) => Err(Error::field(
@@ -469,18 +469,6 @@ fn before_any_feedstock(tx: &mut Tx<'_>, a: &SoilSampleArgs, date: NaiveDate) ->
         )),
         None => Ok(()),
     }
-}
-
-fn effective_of(
-    tx: &mut crate::store::Tx<'_>,
-    project: &str,
-    kind: EntryKind,
-) -> Result<Vec<Entry>> {
-    let all = tx.entries(project)?;
-    Ok(crate::ledger::correction::effective(&all)
-        .filter(|e| e.kind == kind)
-        .cloned()
-        .collect())
 }
 
 fn conc_unit(text: &str) -> std::result::Result<Unit, String> {

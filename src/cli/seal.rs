@@ -74,9 +74,10 @@ pub fn record_seal(
     let seals = tx.seals(project)?;
     check_new(&seals, period).map_err(|e| Error::field("--period", label, e))?;
     let mut tree = TreeBuilder::default();
-    for s in tx.entries(project)? {
+    tx.for_each_entry(project, None, |s| {
         tree.push(s.leaf);
-    }
+        Ok(())
+    })?;
     let (next, head) = tx.chain_tip(project)?;
     let seal = Seal {
         seq: next,

@@ -5,12 +5,12 @@ use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
 use crate::error::{Error, Result};
+use crate::ledger::Hash;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::{Seal, parse_period};
 use crate::ledger::signature::{
     Role, Signed, Statement, fingerprint, hex, key_file_text, parse_key_file, sign as sign_with,
 };
-use crate::ledger::{Hash, SealedEntry};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
@@ -222,8 +222,7 @@ pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
         return Ok(Vec::new());
     }
     let seals = tx.seals(project)?;
-    let entries = tx.entries(project)?;
-    let heads = heads_at(&entries, &seals);
+    let heads = heads_at(tx, project, &seals)?;
     Ok(statements
         .into_iter()
         .map(|s| {
@@ -233,17 +232,18 @@ pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
         .collect())
 }
 
-/// The tree head of the leaves before each seal, recomputed.
-fn heads_at(entries: &[SealedEntry], seals: &[Seal]) -> Vec<(u64, Hash)> {
+/// The tree head of the leaves before each seal, recomputed as the chain streams by.
+fn heads_at(tx: &mut Tx<'_>, project: &str, seals: &[Seal]) -> Result<Vec<(u64, Hash)>> {
     let mut tree = TreeBuilder::default();
     let mut heads = Vec::new();
-    for s in entries {
+    tx.for_each_entry(project, None, |s| {
         if seals.iter().any(|x| x.tree_size == tree.size()) {
             heads.push((tree.size(), tree.root()));
         }
         tree.push(s.leaf);
-    }
-    heads
+        Ok(())
+    })?;
+    Ok(heads)
 }
 
 fn seal_stands(

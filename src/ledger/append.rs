@@ -83,14 +83,12 @@ impl std::fmt::Display for AppendError {
 }
 
 /// Refuses new entries that would take the project's entries, summed in magnitude, beyond
-/// [`Mass::LIMIT`]: then no sum a report forms can leave the range of whole grams.
-pub fn within_limit<'a>(
-    existing: impl Iterator<Item = &'a Entry>,
-    new: &'a [Entry],
-) -> Result<(), AppendError> {
+/// [`Mass::LIMIT`]: then no sum a report forms can leave the range of whole grams. `before` is
+/// that sum over the entries already held (the chain tip's `Tally::magnitude`).
+pub fn within_limit(before: i64, new: &[Entry]) -> Result<(), AppendError> {
     let limit = i128::from(Mass::LIMIT.grams());
-    let mut total: i128 = 0;
-    for e in existing.chain(new) {
+    let mut total = i128::from(before);
+    for e in new {
         total += i128::from(e.mass.grams()).abs();
         if total > limit {
             return Err(AppendError::BeyondLimit {

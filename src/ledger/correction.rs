@@ -25,15 +25,26 @@ impl std::fmt::Display for CorrectionError {
 
 /// The entry a correction of `seq` would replace, checked: it exists and is the latest of its line.
 pub fn target(entries: &[SealedEntry], seq: u64) -> Result<&Entry, CorrectionError> {
-    let t = entries
+    let found = entries
         .get(usize::try_from(seq).unwrap_or(usize::MAX))
-        .map(|s| &s.entry)
-        .ok_or(CorrectionError::NoSuchSeq(seq))?;
-    match entries.iter().find(|s| s.entry.corrects == Some(seq)) {
-        Some(by) => Err(CorrectionError::AlreadyCorrected {
-            seq,
-            by: by.entry.seq,
-        }),
+        .map(|s| &s.entry);
+    let by = entries
+        .iter()
+        .find(|s| s.entry.corrects == Some(seq))
+        .map(|s| s.entry.seq);
+    checked_target(found, seq, by)
+}
+
+/// The rule behind [`target`], for an entry looked up by its seq: `found` is the entry at `seq`
+/// and `corrected_by` the first entry that corrects it, if any.
+pub fn checked_target(
+    found: Option<&Entry>,
+    seq: u64,
+    corrected_by: Option<u64>,
+) -> Result<&Entry, CorrectionError> {
+    let t = found.ok_or(CorrectionError::NoSuchSeq(seq))?;
+    match corrected_by {
+        Some(by) => Err(CorrectionError::AlreadyCorrected { seq, by }),
         None => Ok(t),
     }
 }

@@ -7,6 +7,7 @@ mod connection;
 mod feedstocks;
 mod imports;
 mod ledger_chain;
+mod lookup;
 mod postgres;
 mod reconciliations;
 mod rows;
@@ -19,7 +20,7 @@ use crate::ledger::ledger_chain::Record;
 use crate::ledger::{EntryKind, Hash, Project, SealedEntry, Site};
 use backend::{Conn, on_backend};
 use diesel::prelude::*;
-use rows::{EntryRow, ProjectRow, SettingRow, SiteRow};
+use rows::{EntryRow, ProjectRow, SettingRow, SiteRow, TalliedRow};
 use schema::{entries, projects, settings, sites};
 
 pub use bundle::BundleImport;
@@ -235,10 +236,16 @@ impl Tx<'_> {
         Ok(all)
     }
 
-    /// A project's seal entries in seq order: one per sealed period, so few.
+    /// A project's seal entries in seq order: one per sealed period, so few, found through the
+    /// partial index `entries_seals` (its condition written out as a literal, as the planner
+    /// needs to match it; a bound 'seal' would scan the project's chain).
     pub fn seal_entries(&mut self, project: &str) -> Result<Vec<SealedEntry>> {
         let rows: Vec<EntryRow> = entries::table
-            .filter(entries::project.eq(project).and(entries::kind.eq("seal")))
+            .filter(
+                entries::project
+                    .eq(project)
+                    .and(diesel::dsl::sql::<diesel::sql_types::Bool>("kind = 'seal'")),
+            )
             .order(entries::seq)
             .select(EntryRow::as_select())
             .load(self.conn)?;
@@ -315,14 +322,33 @@ impl Tx<'_> {
     }
 
     /// Appends sealed entries; the caller has linked them to the chain tip. Every writer comes
-    /// through here, so here the chain's recorded times are kept in order.
+    /// through here, so here the chain's recorded times are kept in order, and each row gets its
+    /// project's running figures through it (`ledger::tally`), from the tip's and the rows
+    /// before it in the batch, a correction's target read by its seq.
     pub fn append(&mut self, sealed: &[SealedEntry]) -> Result<()> {
-        if let Some(first) = sealed.first() {
-            let project = &first.entry.project;
-            let last = self.last_recorded(project)?;
-            crate::ledger::chain::in_time_order(project, last, sealed).map_err(Error::Refused)?;
+        let Some(first) = sealed.first() else {
+            return Ok(());
+        };
+        let project = &first.entry.project;
+        let tip = self.tip_tally(project)?;
+        let last = tip.as_ref().map(|t| (t.seq, t.recorded_at));
+        crate::ledger::chain::in_time_order(project, last, sealed).map_err(Error::Refused)?;
+        let mut tally = self.tally_at(project, tip.as_ref())?;
+        let mut rows = Vec::with_capacity(sealed.len());
+        for (i, s) in sealed.iter().enumerate() {
+            let replaced = match s.entry.corrects {
+                None => None,
+                Some(t) => match t
+                    .checked_sub(first.entry.seq)
+                    .and_then(|k| usize::try_from(k).ok())
+                {
+                    Some(k) if k < i => Some(sealed[k].entry.clone()),
+                    _ => self.entry_at(project, t)?.map(|r| r.entry),
+                },
+            };
+            tally = tally.after(&s.entry, replaced.as_ref());
+            rows.push(TalliedRow::new(s, tally));
         }
-        let rows: Vec<EntryRow> = sealed.iter().map(EntryRow::from_sealed).collect();
         for chunk in rows.chunks(1000) {
             on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
                 .values(chunk)
@@ -333,20 +359,6 @@ impl Tx<'_> {
             self.link(Record::Seal, &s.entry.project, &seq, &s.chain.to_hex())?;
         }
         Ok(())
-    }
-
-    /// The seq and recorded_at of a project's last entry.
-    fn last_recorded(
-        &mut self,
-        project: &str,
-    ) -> Result<Option<(u64, chrono::DateTime<chrono::Utc>)>> {
-        let last: Option<(i64, chrono::NaiveDateTime)> = entries::table
-            .filter(entries::project.eq(project))
-            .order(entries::seq.desc())
-            .select((entries::seq, entries::recorded_at))
-            .first(self.conn)
-            .optional()?;
-        Ok(last.map(|(seq, at)| (seq as u64, at.and_utc())))
     }
 
     /// The role the entries appended in this transaction record: the registry's login role,

@@ -5,6 +5,7 @@ use super::schema::{entries, projects, sites};
 use crate::ledger::canonical::{encode_project, encode_site};
 use crate::ledger::hash::leaf_hash;
 use crate::ledger::period::parse_date;
+use crate::ledger::tally::Tally;
 use crate::ledger::{
     Entry, EntryKind, Evidence, Hash, Method, Period, Project, Reading, SealedEntry, Sign, Site,
     SiteKind,
@@ -222,6 +223,27 @@ impl EntryRow {
             leaf: hash("leaf_hash", &self.leaf_hash)?,
             chain: hash("chain_hash", &self.chain_hash)?,
         })
+    }
+}
+
+/// An entry row as appended: the entry, and its project's running figures through it
+/// (`ledger::tally`), which are not part of the entry's bytes.
+#[derive(Insertable)]
+#[diesel(table_name = entries)]
+pub struct TalliedRow {
+    #[diesel(embed)]
+    pub row: EntryRow,
+    pub tally_magnitude_g: Option<i64>,
+    pub tally_stored_g: Option<i64>,
+}
+
+impl TalliedRow {
+    pub fn new(s: &SealedEntry, t: Tally) -> Self {
+        Self {
+            row: EntryRow::from_sealed(s),
+            tally_magnitude_g: Some(t.magnitude),
+            tally_stored_g: Some(t.stored),
+        }
     }
 }
 

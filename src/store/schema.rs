@@ -48,6 +48,8 @@ diesel::table! {
         leaf_hash -> Text,
         chain_hash -> Text,
         recorded_by -> Nullable<Text>,
+        tally_magnitude_g -> Nullable<BigInt>,
+        tally_stored_g -> Nullable<BigInt>,
     }
 }
 

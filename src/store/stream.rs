@@ -7,7 +7,9 @@ use super::rows::EntryRow;
 use super::schema::entries;
 use crate::error::{Error, Result};
 use crate::ledger::chain::{ChainCheck, ChainWalk, Target};
-use crate::ledger::{EntryKind, SealedEntry};
+use crate::ledger::tally::{Tally, share};
+use crate::ledger::{EntryKind, Reading, SealedEntry};
+use crate::quantity::Mass;
 use chrono::{DateTime, Utc};
 use diesel::dsl::sql;
 use diesel::prelude::*;
@@ -29,6 +31,26 @@ const TARGET_KIND: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
 /// for the same reason).
 const FIRST_CORRECTOR: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
      (SELECT min(x.seq + 0) FROM entries x WHERE x.project = entries.project AND x.corrects = entries.corrects) END";
+
+/// For a correction: the grams and reading of the entry it names, for what that entry counted
+/// in the running figures (`ledger::tally`).
+const TARGET_GRAMS: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
+     (SELECT t.grams FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
+const TARGET_READING: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
+     (SELECT t.reading FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
+
+/// A row as the walk reads it: the entry, what replaces it, what it corrects (kind, grams,
+/// reading), its first fellow corrector, and the running figures stored with it.
+type WalkRow = (
+    EntryRow,
+    Option<i64>,
+    Option<String>,
+    Option<i64>,
+    Option<i64>,
+    Option<String>,
+    Option<i64>,
+    Option<i64>,
+);
 
 /// One stored entry as read, with the seq of the entry that replaces it, if any.
 pub struct ChainRow<'a> {
@@ -84,13 +106,27 @@ impl Tx<'_> {
                 replaced_by,
                 sql::<Nullable<Text>>(TARGET_KIND),
                 sql::<Nullable<BigInt>>(FIRST_CORRECTOR),
+                sql::<Nullable<BigInt>>(TARGET_GRAMS),
+                sql::<Nullable<Text>>(TARGET_READING),
+                entries::tally_magnitude_g,
+                entries::tally_stored_g,
             ))
-            .load_iter::<(EntryRow, Option<i64>, Option<String>, Option<i64>), _>(self.conn)?;
+            .load_iter::<WalkRow, _>(self.conn)?;
         let mut walk = ChainWalk::new(project);
+        let mut tally = Tally::default();
         let mut last_seq: Option<i64> = None;
         let mut undecoded = None;
         for row in rows {
-            let (row, replaced_by, target_kind, first_corrector) = match row {
+            let (
+                row,
+                replaced_by,
+                target_kind,
+                first_corrector,
+                t_grams,
+                t_reading,
+                kept_m,
+                kept_s,
+            ) = match row {
                 Ok(r) => r,
                 Err(e @ diesel::result::Error::DeserializationError(_)) => {
                     undecoded = Some(e);
@@ -112,8 +148,29 @@ impl Tx<'_> {
                     .transpose()?,
                 first_corrector: first_corrector.and_then(|s| u64::try_from(s).ok()),
             };
+            let corrected_kind = target.kind;
             walk.step(&sealed, target)
                 .map_err(|finding| Error::Inconsistent(finding.to_string()))?;
+            let replaced = match (corrected_kind, t_grams, t_reading) {
+                (Some(kind), Some(g), Some(r)) => {
+                    let reading = serde_json::from_str(&r).map(Reading).map_err(|e| {
+                        bad(format!(
+                            "the entry it corrects has a reading that is not readable: {e}"
+                        ))
+                    })?;
+                    share(kind, Mass::from_grams(g), &reading)
+                }
+                _ => 0,
+            };
+            tally = tally.with(&sealed.entry, replaced);
+            if let (Some(magnitude), Some(stored)) = (kept_m, kept_s)
+                && (Tally { magnitude, stored }) != tally
+            {
+                return Err(bad(format!(
+                    "the running figures kept with it (Σ |grams| {magnitude}, stored {stored} g) differ from the chain's ({}, {} g)",
+                    tally.magnitude, tally.stored
+                )));
+            }
             if cut.is_none_or(|t| sealed.entry.recorded_at.naive_utc() <= t) {
                 f(ChainRow {
                     sealed: &sealed,
