@@ -58,11 +58,13 @@ pub fn tracer_of(e: &Entry) -> Result<TracerSample, ViewError> {
     tracer_sample(&e.reading).map_err(|w| undecodable(e, w))
 }
 
-/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass).
+/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass), and
+/// the uptake's stated relative uncertainty (95 %) where the record gives one.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Batch {
     pub fed_g: i64,
     pub product_g: i64,
+    pub rel_u: Option<f64>,
 }
 
 /// The dry feed and product of a carbonation reading: the CO2-free solid is conserved, so the
@@ -74,7 +76,15 @@ pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
         let ratio = (1.0 - decimal(r, "co2_before")?) / (1.0 - decimal(r, "co2_after")?);
         let product_g = grams_of_f64(fed_g as f64 * ratio)
             .ok_or_else(|| format!("product of {fed_g} g fed is out of range"))?;
-        Ok(Batch { fed_g, product_g })
+        let rel_u = r
+            .get("uncertainty")
+            .map(|_| decimal(r, "uncertainty"))
+            .transpose()?;
+        Ok(Batch {
+            fed_g,
+            product_g,
+            rel_u,
+        })
     };
     read().map_err(|w| undecodable(e, w))
 }

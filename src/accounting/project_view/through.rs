@@ -53,6 +53,7 @@ pub fn batch_through(b: Batch, period: Period, day: NaiveDate) -> Batch {
     Batch {
         fed_g: share_through(b.fed_g, period, day),
         product_g: share_through(b.product_g, period, day),
+        rel_u: b.rel_u,
     }
 }
 
@@ -73,6 +74,7 @@ mod tests {
             Batch {
                 fed_g: 1_000,
                 product_g: 1_100,
+                rel_u: None,
             },
             p,
             d("2026-06-30"),
