@@ -230,8 +230,7 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
             .try_fold(base, |d, (k, v, source)| d.set(*k, *v, source.clone()))
     })?;
     let emissions = figures.emissions_in_scope(a.site.as_deref());
-    let mut table = campaign_table(figures.project(), &lines, &s, emissions);
-    parameter_notes(&mut table, &used);
+    let mut table = campaign_table(figures.project(), &lines, &s, emissions, &used);
     if !given.is_empty() {
         table.note(format!(
             "What-if: the deduction parameters given here replace the project's settings in this table only; balance, totals and claims use the settings (`sinkbook project set {} --strong-acid … --source …`).",
@@ -277,6 +276,7 @@ fn campaign_table(
     lines: &[CampaignLine],
     s: &Settings,
     emissions: EmissionsInScope,
+    used: &[(Deductions, Vec<Bucket>)],
 ) -> Table {
     let mut t = Table::new(
         "weathering",
@@ -344,6 +344,7 @@ fn campaign_table(
     t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
     t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
     t.note("The total row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); over every field its net is the cumulative net of `balance`.");
+    parameter_notes(&mut t, used);
     for f in findings {
         t.note(format!("Finding: {f}"));
     }
