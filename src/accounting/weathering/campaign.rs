@@ -408,7 +408,7 @@ fn campaign(
                 .copied()
                 .filter(|c| s.mobile.contains(&c.cation))
                 .collect();
-            let spread = replicate_spread(cores, base_cores, soil, sample, s, &dissolve);
+            let spread = replicate_spread((cores, base_cores), soil, sample, s, &dissolve);
             match gross_co2(f, applied_t, &cations).and_then(|g| {
                 let whole = removal(gross_co2(1.0, applied_t, &cations)?.total, &s.deductions)?;
                 removal(g.total, &s.deductions).map(|r| (g, r, whole.net))
@@ -429,18 +429,38 @@ fn campaign(
     Ok(line)
 }
 
+/// What a replicate core stands in for: the soil and the sample it is read as.
+type Pairing<'a> = &'a dyn Fn(&Core) -> Result<(EndMember, Analysis), CampaignError>;
+/// The dissolved fraction (and the feedstock found) of a soil and a sample.
+type Dissolve<'a> = &'a dyn Fn(EndMember, Analysis) -> Result<(f64, Option<f64>), String>;
+
+/// The dissolved fraction each core gives read alone.
+fn fractions(
+    list: &[&Core],
+    pairing: Pairing<'_>,
+    dissolve: Dissolve<'_>,
+) -> Result<Vec<f64>, String> {
+    list.iter()
+        .map(|c| {
+            let (soil, sample) = pairing(c).map_err(|e| e.to_string())?;
+            dissolve(soil, sample)
+                .map(|(f, _)| f)
+                .map_err(|why| format!("core seq {} read alone: {why}", c.seq))
+        })
+        .collect()
+}
+
 /// The 95 % uncertainty of a campaign's dissolved fraction from the spread of its replicate
 /// cores: each core read alone against the composite baseline gives a fraction, and
 /// U = t(0.975, n − 1)·s/√n of them; where the baseline has replicates too, each baseline core
 /// read against the composite sample gives its own U, and the two combine in quadrature (the
 /// cores of the two days are taken independently). A campaign of one core has no spread.
 fn replicate_spread(
-    cores: &[&Core],
-    base_cores: &[&Core],
+    (cores, base_cores): (&[&Core], &[&Core]),
     soil: EndMember,
     sample: Analysis,
     s: &Settings,
-    dissolve: &dyn Fn(EndMember, Analysis) -> Result<(f64, Option<f64>), String>,
+    dissolve: Dissolve<'_>,
 ) -> Result<f64, String> {
     if cores.len() < 2 {
         return Err(format!(
@@ -448,35 +468,23 @@ fn replicate_spread(
             core_name(cores)
         ));
     }
-    let read =
-        |one: &Core, against: &dyn Fn(&Core) -> Result<(EndMember, Analysis), CampaignError>| {
-            let (soil, sample) = against(one).map_err(|e| e.to_string())?;
-            dissolve(soil, sample)
-                .map(|(f, _)| f)
-                .map_err(|why| format!("core seq {} read alone: {why}", one.seq))
-        };
-    let fractions =
-        |list: &[&Core],
-         against: &dyn Fn(&Core) -> Result<(EndMember, Analysis), CampaignError>| {
-            list.iter()
-                .map(|c| read(c, against))
-                .collect::<Result<Vec<f64>, String>>()
-        };
-    let sampled = fractions(cores, &|c| {
-        Ok((soil, soil_analysis(&c.analysis, &core_name(&[c]), s)?))
-    })?;
+    let sampled = fractions(
+        cores,
+        &|c| Ok((soil, soil_analysis(&c.analysis, &core_name(&[c]), s)?)),
+        dissolve,
+    )?;
     let (_, u_sample) = replicate_mean(&sampled).ok_or("the replicate fractions are not finite")?;
     if base_cores.len() < 2 {
         return Ok(u_sample);
     }
-    let baseline = fractions(base_cores, &|c| {
-        let analysis = soil_analysis(&c.analysis, &core_name(&[c]), s)?;
+    let as_soil = |c: &Core| {
         let member = EndMember {
-            analysis,
+            analysis: soil_analysis(&c.analysis, &core_name(&[c]), s)?,
             bulk_density: c.bulk_density,
         };
         Ok((member, sample))
-    })?;
+    };
+    let baseline = fractions(base_cores, &as_soil, dissolve)?;
     let (_, u_base) =
         replicate_mean(&baseline).ok_or("the replicate baseline fractions are not finite")?;
     Ok(u_sample.hypot(u_base))
