@@ -797,6 +797,58 @@ mod tests {
     }
 
     #[test]
+    fn replicate_cores_spread_and_baseline_replicates_add_in_quadrature() {
+        // Three cores at 0.28, 0.30, 0.32 dissolved: U = 4.303 × 0.02 / √3 of fraction.
+        let apps = [spread("2025-04-01", "B", 500)];
+        let sampled: Vec<Core> = [0.28, 0.30, 0.32]
+            .iter()
+            .enumerate()
+            .map(|(i, f)| {
+                let (ca, ti) = mixed(25.0, *f);
+                core(10 + i as u64, "2025-10-01", ca, ti, false, 0.2)
+            })
+            .collect();
+        let spread_of = |baseline: &[Core]| {
+            let mut all = baseline.to_vec();
+            all.extend(sampled.iter().cloned());
+            match &read(&apps, &all, &[])[0].reading {
+                Reading::Resolved(r) => r.spread.clone(),
+                Reading::Finding(w) => panic!("{w}"),
+            }
+        };
+        let one = spread_of(&[core(0, "2025-03-01", 0.15, 0.075, true, 0.2)]).unwrap();
+        assert!((one - 4.303 * 0.02 / 3f64.sqrt()).abs() < 1e-6, "{one}");
+        // Two identical baseline cores have no spread: nothing added.
+        let same = spread_of(&[
+            core(0, "2025-03-01", 0.15, 0.075, true, 0.2),
+            core(1, "2025-03-01", 0.15, 0.075, true, 0.2),
+        ])
+        .unwrap();
+        assert!((same - one).abs() < 1e-12);
+        // Two that differ widen it: √(U_sample² + U_baseline²) > U_sample.
+        let apart = spread_of(&[
+            core(0, "2025-03-01", 0.148, 0.075, true, 0.2),
+            core(1, "2025-03-01", 0.152, 0.075, true, 0.2),
+        ])
+        .unwrap();
+        assert!(apart > one, "{apart} vs {one}");
+        // One core: no spread, and why.
+        let (ca, ti) = mixed(25.0, 0.3);
+        let single = [
+            core(0, "2025-03-01", 0.15, 0.075, true, 0.2),
+            core(2, "2025-10-01", ca, ti, false, 0.2),
+        ];
+        match &read(&apps, &single, &[])[0].reading {
+            Reading::Resolved(r) => assert!(
+                r.spread.as_ref().unwrap_err().contains("one core"),
+                "{:?}",
+                r.spread
+            ),
+            Reading::Finding(w) => panic!("{w}"),
+        }
+    }
+
+    #[test]
     fn findings_instead_of_numbers() {
         let base = core(0, "2025-03-01", 0.15, 0.075, true, 0.2);
         let (ca, ti) = mixed(25.0, 0.1);
