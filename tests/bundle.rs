@@ -477,3 +477,57 @@ fn python_checks_the_signature_lines_from_the_format_alone() {
     assert_eq!(r.code, 1, "{}", r.out);
     assert!(r.err.contains("signature 1: row_hash differs"), "{}", r.err);
 }
+
+/// A weathering deduction parameter's source travels in the bundle's setting line: the copy
+/// shows it, re-exports the same bytes, and a source altered in the file is caught by its row
+/// hash.
+#[test]
+fn a_settings_source_survives_the_round_trip_and_is_checked() {
+    let l = Ledger::new();
+    l.ok(&[
+        "project",
+        "add",
+        "EVW",
+        "--name",
+        "Ellery Vale Weathering",
+        "--method",
+        "enhanced-weathering",
+        "--operator",
+        "Northdeep Storage Cooperative",
+    ]);
+    l.set(
+        "EVW",
+        &[
+            "--ocean-efficiency",
+            "0.75",
+            "--source",
+            "monitoring plan EVW-MP-1 §4.2",
+            "--from",
+            "2026-01-01",
+        ],
+    );
+    let first = export(&l, "EVW", "evw-1.bundle");
+    let text = std::fs::read_to_string(&first).unwrap();
+    assert!(
+        text.contains(r#""source":"monitoring plan EVW-MP-1 §4.2""#),
+        "{text}"
+    );
+    let copy = Ledger::new();
+    let r = load(&copy, &first);
+    assert_eq!(r.code, 0, "{}", r.err);
+    let shown = copy.ok(&["project", "show", "EVW"]);
+    assert!(
+        shown.contains("Source of ocean re-equilibration efficiency = 0.75 from 2026-01-01: monitoring plan EVW-MP-1 §4.2."),
+        "{shown}"
+    );
+    let again = export(&copy, "EVW", "evw-2.bundle");
+    assert_eq!(
+        std::fs::read(&first).unwrap(),
+        std::fs::read(&again).unwrap()
+    );
+    let altered = l.dir.path().join("altered.bundle");
+    std::fs::write(&altered, text.replace("EVW-MP-1 §4.2", "EVW-MP-9 §4.2")).unwrap();
+    let r = l.run(&["bundle", "check", altered.to_str().unwrap()]);
+    assert_eq!(r.code, 3, "{}{}", r.out, r.err);
+    assert!(r.err.contains("setting 0"), "{}", r.err);
+}

@@ -145,6 +145,15 @@ fn campaigns_apply_to_co2_injected_before_them() {
     assert_eq!(grams(&q[0]["mineralized_t"]), 259_181_250);
     assert_eq!(grams(&q[0]["still_dissolved_t"]), 300_500_000 - 259_181_250);
     assert_eq!(q[0]["campaign"], "2025-05-10");
+    // Two wells: U = t(0.975, 1)·s/√2 = 12.706 × 0.088388 / 1.414214 = 0.794125 of fraction
+    // (s = √(2 × 0.0625²) = 0.088388); on the 300.5 t it covers, ± 238.634 t mineralized.
+    let u = 12.706 * sd / 2f64.sqrt();
+    assert!((c["mineralized_fraction_u"].as_f64().unwrap() - u).abs() < 1e-12);
+    assert_eq!(
+        grams(&q[0]["mineralized_u_t"]),
+        (u * 300.5e6).round_ties_even() as i64
+    );
+    assert!(q[1]["mineralized_u_t"].is_null(), "not yet sampled");
     // Q2 ends after it: not yet sampled, neither mineralized nor dissolved.
     assert_eq!(grams(&q[1]["not_yet_sampled_t"]), 280_250_000);
     assert_eq!(grams(&q[1]["mineralized_t"]), 0);
@@ -258,7 +267,7 @@ fn carbonate(l: &Ledger, mass: &str, before: &str, after: &str, from: &str, to: 
 fn carbonation_uptake_counts_the_mass_co2_adds() {
     let l = plant();
     carbonate(&l, "1000 t", "2%", "20%", "2026-01-05", "2026-01-30");
-    let b = l.json(&["balance", "XSM", "--by", "month"]);
+    let b = &l.json(&["balance", "XSM", "--by", "month"])["balance"];
     assert_eq!(grams(&b[0]["stored_t"]), 225_000_000);
     assert!((b[0]["product_t"].as_f64().unwrap() - 1225.0).abs() < 1e-9);
 
@@ -273,7 +282,7 @@ fn carbonation_uptake_counts_the_mass_co2_adds() {
         "2026-02-02",
         "2026-02-06",
     );
-    let b = l.json(&["balance", "XSM", "--by", "month"]);
+    let b = &l.json(&["balance", "XSM", "--by", "month"])["balance"];
     let per_t = grams(&b[1]["stored_t"]) as f64 / 100e6;
     assert!((per_t - M_CO2 / (CA + O)).abs() < 2e-8, "{per_t}");
     assert!((per_t - 0.785).abs() < 5e-4);
@@ -326,7 +335,7 @@ fn carbonation_balance_by_period_and_no_uptake_finding() {
         "{}",
         r.err
     );
-    let b = l.json(&["balance", "XSM", "--by", "month"]);
+    let b = &l.json(&["balance", "XSM", "--by", "month"])["balance"];
     let uptake: f64 = 620e6 * (0.145 - 0.012) / (1.0 - 0.145);
     let jan = grams(&b[0]["stored_t"]);
     let feb = grams(&b[1]["stored_t"]);
@@ -731,7 +740,7 @@ fn weathering_table_and_balance_by_year() {
         "the correction counts"
     );
     let b = l.json(&["balance", "EVW", "--by", "year"]);
-    let y = b.as_array().unwrap();
+    let y = b["balance"].as_array().unwrap();
     assert_eq!(y[0]["period"], "2025");
     // 2025 credits both fields' first campaigns; 2026 the change of EV-F1's.
     let f1: Vec<&Value> = rows.iter().filter(|r| r["field"] == "EV-F1").collect();
@@ -963,6 +972,42 @@ fn tampered_feedstock_is_caught_by_verify() {
     assert!(
         r.err
             .contains("feedstock EVB-1 of project EVW differs from its row hash"),
+        "{}",
+        r.err
+    );
+}
+
+/// A setting's source is covered by its row hash: altered in the file, `verify` exits 3 naming
+/// the setting.
+#[test]
+fn tampered_setting_source_is_caught_by_verify() {
+    use diesel::connection::SimpleConnection;
+    use diesel::{Connection, SqliteConnection};
+    let l = common::on_file(evw);
+    l.set(
+        "EVW",
+        &[
+            "--strong-acid",
+            "2%",
+            "--source",
+            "monitoring plan EVW-MP-1 §4.2",
+            "--from",
+            "2026-01-01",
+        ],
+    );
+    assert_eq!(l.run(&["verify"]).code, 0);
+    SqliteConnection::establish(l.path.to_str().unwrap())
+        .unwrap()
+        .batch_execute(
+            "DROP TRIGGER settings_append_only_update;
+             UPDATE settings SET source = 'soil survey 2019';",
+        )
+        .unwrap();
+    let r = l.run(&["verify"]);
+    assert_eq!(r.code, 3, "{}", r.out);
+    assert!(
+        r.err
+            .contains("setting 0 of project EVW differs from its row hash"),
         "{}",
         r.err
     );
@@ -1514,5 +1559,229 @@ fn bad_emission_inventories() {
         "EVW",
         &e(&["--spreading-fuel", "4 L/ha", "--fuel-factor", "2.68 kg/gal"]),
         r#"--fuel-factor "2.68 kg/gal": unknown unit "kg/gal""#,
+    );
+}
+
+// ---------------------------------------------------------------------------------------------
+// Rock-route uncertainty and dated deduction parameters
+
+/// The claims table's row for `period`.
+fn claim_row<'a>(b: &'a Value, period: &str) -> &'a Value {
+    b["claims"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|r| r["period"] == period)
+        .unwrap_or_else(|| panic!("no claim for {period}: {b}"))
+}
+
+/// Three replicate cores give three dissolved fractions, 0.28, 0.30 and 0.32 (forward model):
+/// mean 0.30, s = √((0.02² + 0 + 0.02²)/2) = 0.02, U = t(0.975, 2)·s/√3 = 4.303 × 0.02 / 1.73205
+/// = 0.049687 of dissolved fraction. One unit of fraction is worth the removal of the 500 t
+/// wholly dissolved: Σ 500 × mol/t × z × M_CO2 (gross), times the ocean's 0.8 (the default).
+/// The claim's uncertainty deduction is that U in tonnes, and conservative = stored − U.
+#[test]
+fn replicate_cores_give_the_removal_an_uncertainty_that_claims_deduct() {
+    let l = evw();
+    core(&l, "EV-F1", "2025-03-20", &SOIL, true);
+    spread(&l, "EV-F1", "500 t", "2025-04-10");
+    for f in [0.28, 0.30, 0.32] {
+        core(&l, "EV-F1", "2025-10-06", &forward(APPLIED_KG_M3, f), false);
+    }
+    let m = feedstock_mol_per_kg();
+    let whole: f64 = [(m[0], 2.0), (m[1], 2.0), (m[2], 1.0), (m[3], 1.0)]
+        .iter()
+        .map(|(mol_kg, z)| (500.0 * mol_kg * 1e3 * z * M_CO2).round_ties_even())
+        .sum::<f64>();
+    let kept = (whole * 0.8).round_ties_even();
+    let u_f = 4.303 * 0.02 / 3f64.sqrt();
+    let u_g = u_f * kept;
+    let b = l.json(&["balance", "EVW", "--by", "year"]);
+    let c = claim_row(&b, "2025");
+    let deducted = grams(&c["uncertainty_deduction_t"]) as f64;
+    // The cores read back their fractions to 1e-7, so U to a few parts in a million.
+    assert!(
+        (deducted - u_g).abs() < 1e-4 * u_g,
+        "deducted {deducted} g, by hand {u_g} g"
+    );
+    assert_eq!(
+        grams(&c["conservative_t"]),
+        grams(&c["stored_t"]) - grams(&c["uncertainty_deduction_t"])
+    );
+    // The stored figure is the balance's net for the year.
+    assert_eq!(grams(&c["stored_t"]), grams(&b["balance"][0]["net_t"]));
+    let text = l.ok(&["balance", "EVW", "--by", "year"]);
+    assert!(text.contains("U = t(0.975, n − 1)·s/√n"), "{text}");
+    assert!(!text.contains("No uncertainty estimate"), "{text}");
+}
+
+/// A campaign of one core has no spread: the report says so, and the claim deducts nothing
+/// for it instead of pretending to know.
+#[test]
+fn a_single_core_is_reported_as_without_an_estimate() {
+    let l = evw_one_field();
+    let b = l.json(&["balance", "EVW", "--by", "year"]);
+    assert_eq!(grams(&claim_row(&b, "2025")["uncertainty_deduction_t"]), 0);
+    let text = l.ok(&["balance", "EVW", "--by", "year"]);
+    assert!(
+        text.contains("No uncertainty estimate: 2025: EV-F1 2025-10-06: one core"),
+        "{text}"
+    );
+}
+
+/// EV-F1 read in October 2025 and October 2026; a strong-acid share of 10 % set from
+/// 2026-07-01 changes only 2026 (the claim period whose last day is after it). 2026 restates
+/// the field's removal to date, so its strong-acid column is the whole cumulative gross's:
+/// gross − round(0.9 × gross), gross = gross₂₀₂₅ + Δgross₂₀₂₆.
+#[test]
+fn a_deduction_parameter_set_from_july_changes_only_periods_ending_after() {
+    let l = evw_one_field();
+    spread(&l, "EV-F1", "400 t", "2026-04-10");
+    core(&l, "EV-F1", "2026-10-05", &forward(45.0, 0.4), false);
+    let before = l.json(&["balance", "EVW", "--by", "year"]);
+    refused(
+        &l,
+        "EVW",
+        &["project", "set", "EVW", "--strong-acid", "10%"],
+        "--strong-acid",
+    );
+    refused(
+        &l,
+        "EVW",
+        &[
+            "project",
+            "set",
+            "EVW",
+            "--strong-acid",
+            "110%",
+            "--source",
+            "plan",
+        ],
+        "--strong-acid",
+    );
+    let out = l.set(
+        "EVW",
+        &[
+            "--strong-acid",
+            "10%",
+            "--source",
+            "monitoring plan EVW-MP-2 table 4",
+            "--from",
+            "2026-07-01",
+        ],
+    );
+    assert!(
+        out.contains("Source of strong-acid weathering share = 10 % from 2026-07-01: monitoring plan EVW-MP-2 table 4."),
+        "{out}"
+    );
+    let after = l.json(&["balance", "EVW", "--by", "year"]);
+    assert_eq!(before["balance"][0], after["balance"][0], "2025 moved");
+    assert_eq!(claim_row(&before, "2025"), claim_row(&after, "2025"));
+    let gross = grams(&after["balance"][0]["gross_t"]) + grams(&after["balance"][1]["gross_t"]);
+    let acid = gross - (gross as f64 * 0.9).round_ties_even() as i64;
+    assert_eq!(grams(&after["balance"][1]["strong_acid_t"]), acid);
+    assert_eq!(grams(&before["balance"][1]["strong_acid_t"]), 0);
+    assert!(grams(&after["balance"][1]["net_t"]) < grams(&before["balance"][1]["net_t"]));
+    let text = l.ok(&["balance", "EVW", "--by", "year"]);
+    assert!(
+        text.contains("strong-acid weathering share = 0.1, in force from 2026-07-01 (monitoring plan EVW-MP-2 table 4)"),
+        "{text}"
+    );
+    // `weathering` reads with the settings too; its own options are a what-if, and say so.
+    let w = l.json(&["weathering", "EVW"]);
+    assert_eq!(w[0]["strong_acid_t"].as_f64(), Some(0.0));
+    assert!(w[1]["strong_acid_t"].as_f64().unwrap() > 0.0);
+    let what_if = l.ok(&["weathering", "EVW", "--strong-acid", "0"]);
+    assert!(what_if.contains("What-if:"), "{what_if}");
+    let w = l.json(&["weathering", "EVW", "--strong-acid", "0"]);
+    assert_eq!(w[1]["strong_acid_t"].as_f64(), Some(0.0));
+}
+
+/// A deduction parameter belongs to a weathering project.
+#[test]
+fn deduction_parameters_are_refused_on_other_routes() {
+    let l = plant();
+    refused(
+        &l,
+        "XSM",
+        &[
+            "project",
+            "set",
+            "XSM",
+            "--ocean-efficiency",
+            "0.8",
+            "--source",
+            "plan",
+        ],
+        "is a weathering deduction",
+    );
+}
+
+/// Two batches of one plant state 4 % and 2 %: one laboratory's errors repeat, so they add
+/// linearly, U = 0.04 × 225 t + 0.02 × 112.5 t = 9 + 2.25 = 11.25 t; uptake 1000 t 2 % → 20 %
+/// is 1000 × 0.18 / 0.8 = 225 t and 500 t the same is 112.5 t. A third batch states none: the
+/// report says so.
+#[test]
+fn carbonation_batches_carry_their_stated_uncertainty_into_claims() {
+    let l = plant();
+    let with = |mass: &str, u: &str, from: &str| {
+        l.ok(&[
+            "record",
+            "carbonation",
+            "XSM",
+            "--site",
+            "AS-P1",
+            "--mass",
+            mass,
+            "--co2-before",
+            "2%",
+            "--co2-after",
+            "20%",
+            "--from",
+            from,
+            "--to",
+            from,
+            "--uncertainty",
+            u,
+        ])
+    };
+    with("1000 t", "4%", "2026-01-05");
+    with("500 t", "2%", "2026-02-05");
+    refused(
+        &l,
+        "XSM",
+        &[
+            "record",
+            "carbonation",
+            "XSM",
+            "--site",
+            "AS-P1",
+            "--mass",
+            "1 t",
+            "--co2-before",
+            "2%",
+            "--co2-after",
+            "20%",
+            "--from",
+            "2026-03-01",
+            "--to",
+            "2026-03-01",
+            "--uncertainty",
+            "-1%",
+        ],
+        "--uncertainty",
+    );
+    let b = l.json(&["balance", "XSM", "--by", "year"]);
+    let c = claim_row(&b, "2026");
+    assert_eq!(grams(&c["stored_t"]), 337_500_000);
+    assert_eq!(grams(&c["uncertainty_deduction_t"]), 11_250_000);
+    assert_eq!(grams(&c["conservative_t"]), 337_500_000 - 11_250_000);
+    carbonate(&l, "100 t", "2%", "20%", "2026-03-01", "2026-03-01");
+    let text = l.ok(&["balance", "XSM", "--by", "year"]);
+    assert!(
+        text.contains(
+            "No uncertainty estimate: 2026: 1 of 3 carbonation batches state no uncertainty"
+        ),
+        "{text}"
     );
 }

@@ -488,7 +488,7 @@ fn a_weathering_project_reconciles_its_net_removal() {
         &run(&["--format", "json", "balance", "EVW", "--by", "year"]).stdout,
     )
     .unwrap();
-    let net_2026 = b
+    let net_2026 = b["balance"]
         .as_array()
         .unwrap()
         .iter()

@@ -189,6 +189,7 @@ mod tests {
             value: value.into(),
             recorded_at: chrono::DateTime::parse_from_rfc3339(at).unwrap().to_utc(),
             effective: None,
+            source: None,
         }
     }
 

@@ -182,6 +182,34 @@ pub fn sum_readings(readings: &[Reading]) -> Result<MeteredSum, UncertaintyError
     Ok(MeteredSum { meters, total })
 }
 
+/// t(0.975, ν) for ν = 1 … 30 degrees of freedom: the two-sided 95 % quantile of Student's
+/// t distribution (computed by integrating the density numerically; agrees with the printed
+/// tables to the digits shown).
+const STUDENT_T_975: [f64; 30] = [
+    12.706, 4.303, 3.182, 2.776, 2.571, 2.447, 2.365, 2.306, 2.262, 2.228, 2.201, 2.179, 2.160,
+    2.145, 2.131, 2.120, 2.110, 2.101, 2.093, 2.086, 2.080, 2.074, 2.069, 2.064, 2.060, 2.056,
+    2.052, 2.048, 2.045, 2.042,
+];
+
+/// t(0.975, ν); beyond 30 degrees of freedom the value at 30, which is larger than the true
+/// one (t falls towards 1.960 as ν grows), so the interval errs wide.
+pub fn student_t_975(dof: usize) -> Option<f64> {
+    (dof > 0).then(|| STUDENT_T_975[dof.min(30) - 1])
+}
+
+/// The mean of replicate measurements and its expanded uncertainty at 95 %:
+/// U = t(0.975, n − 1) · s / √n, s the sample standard deviation. `None` below two values (one
+/// value has no spread) or for a value that is not finite.
+pub fn replicate_mean(values: &[f64]) -> Option<(f64, f64)> {
+    let n = values.len();
+    if n < 2 || values.iter().any(|v| !v.is_finite()) {
+        return None;
+    }
+    let mean = values.iter().map(|v| v / n as f64).sum::<f64>();
+    let s = (values.iter().map(|v| (v - mean).powi(2)).sum::<f64>() / (n - 1) as f64).sqrt();
+    Some((mean, student_t_975(n - 1)? * s / (n as f64).sqrt()))
+}
+
 /// Whether a mass-balance term adds to or deducts from the result.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum TermSign {
@@ -377,6 +405,23 @@ mod tests {
             e.to_string(),
             "the total of meter \"M\" is too large for the ledger"
         );
+    }
+
+    #[test]
+    fn three_replicates_take_t_for_two_degrees_of_freedom() {
+        // 0.10, 0.12, 0.14: mean 0.12, s = √((0.02² + 0 + 0.02²)/2) = 0.02,
+        // U = t(0.975, 2)·s/√3 = 4.303 × 0.02 / 1.7321 = 0.049687.
+        let (mean, u) = replicate_mean(&[0.10, 0.12, 0.14]).unwrap();
+        assert!(close(mean, 0.12, 1e-15));
+        assert!(close(u, 4.303 * 0.02 / 3f64.sqrt(), 1e-12), "{u}");
+        assert_eq!(replicate_mean(&[0.1]), None);
+        assert_eq!(replicate_mean(&[0.1, f64::NAN]), None);
+        assert_eq!(student_t_975(0), None);
+        // Computed (REFERENCES.md, Student t quantiles, computed): ν = 1 → 12.706, ν = 30 → 2.042,
+        // and beyond 30 the value at 30, never the smaller true one.
+        assert_eq!(student_t_975(1), Some(12.706));
+        assert_eq!(student_t_975(30), Some(2.042));
+        assert_eq!(student_t_975(200), Some(2.042));
     }
 
     proptest::proptest! {

@@ -70,6 +70,9 @@ pub enum Line {
         /// The day it takes effect; absent for settings recorded before they had one.
         #[serde(default, skip_serializing_if = "Option::is_none")]
         effective_from: Option<String>,
+        /// Where the value comes from; absent where none was given.
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        source: Option<String>,
     },
     Feedstock {
         code: String,
@@ -263,6 +266,7 @@ impl Line {
             recorded_at: time_text(s.recorded_at),
             row_hash: leaf_hash(&encode_setting(s)).to_hex(),
             effective_from: s.effective.map(|d| d.to_string()),
+            source: s.source.clone(),
         }
     }
 
@@ -564,6 +568,7 @@ impl Line {
                 recorded_at,
                 row_hash,
                 effective_from,
+                source,
             } => {
                 let s = Setting {
                     project: project.into(),
@@ -575,7 +580,9 @@ impl Line {
                         .as_deref()
                         .map(|d| parse_date(d).map_err(|e| format!("effective_from {d:?} {e}")))
                         .transpose()?,
+                    source,
                 };
+                crate::ledger::setting::sourced(&s)?;
                 row_hash_matches(&format!("setting {seq}"), &encode_setting(&s), &row_hash)?;
                 Item::Setting(s)
             }

@@ -7,7 +7,8 @@ use crate::accounting::conservative::DeductionRule;
 use crate::accounting::permanence::{Claim, ClaimRules, Durability};
 use crate::accounting::project_view::{ProjectFigures, Route, claim_figures, claims_total};
 use crate::error::{Error, Result};
-use crate::ledger::period::Bucket;
+use crate::ledger::Method;
+use crate::ledger::period::{Bucket, Grouping};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::names;
@@ -25,6 +26,25 @@ pub fn uncertainty_note(figures: &ProjectFigures) -> String {
             "{rule} {unstated} metered entries state no uncertainty (record --uncertainty, site --uncertainty or a calibration) and count as exact."
         )
     }
+}
+
+/// How a rock route's uncertainty is obtained, and each figure of `grouping` that rests on
+/// inputs with no estimate (docs/uncertainty.md, "Rock routes").
+pub fn rock_uncertainty_notes(figures: &ProjectFigures, grouping: Grouping) -> Result<Vec<String>> {
+    let rule = match figures.project().method {
+        Method::EnhancedWeathering => {
+            "± at 95 %: each soil campaign's removal from the spread of its replicate cores, U = t(0.975, n − 1)·s/√n of the dissolved fractions the cores give one by one (replicate baseline cores likewise, in quadrature), times the removal of the feedstock wholly dissolved; a period credits the change since the field's previous campaign, the two in quadrature; fields in quadrature; emissions and deduction parameters count as exact (docs/uncertainty.md)."
+        }
+        Method::ExSituMineralization => {
+            "± at 95 %: each carbonation batch's stated uncertainty (record carbonation --uncertainty); batches of one plant add linearly, plants combine in quadrature (IPCC 2006 Vol. 1 Ch. 3, Approach 1); emissions count as exact (docs/uncertainty.md)."
+        }
+        _ => return Ok(Vec::new()),
+    };
+    let mut notes = vec![rule.to_string()];
+    for w in figures.unestimated(grouping)? {
+        notes.push(format!("No uncertainty estimate: {w}."));
+    }
+    Ok(notes)
 }
 
 /// `--deduct-excess-over 5%`, or the whole uncertainty.

@@ -6,12 +6,14 @@ use super::Context;
 use super::reports::By;
 use super::view::load;
 use crate::accounting::project_view::{
-    ProjectFigures, SampleRead, kept_total, mineralization_total,
+    CampaignRead, ProjectFigures, SampleRead, kept_total, mineralization_total,
 };
 use crate::accounting::tracer::{CampaignStatistics, Mineralized, OutOfRange};
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::period::Grouping;
+use crate::quantity::Mass;
+use crate::quantity::mass::round_half_even_f64;
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
@@ -155,6 +157,7 @@ fn campaigns_table(figures: &ProjectFigures) -> Table {
             names::WELLS,
             names::MINERALIZED_FRACTION_MEAN,
             names::MINERALIZED_FRACTION_SD,
+            names::MINERALIZED_FRACTION_U,
             names::MINERALIZED_FRACTION_MIN,
             names::MINERALIZED_FRACTION_MAX,
             names::OUT_OF_RANGE,
@@ -183,6 +186,7 @@ fn campaigns_table(figures: &ProjectFigures) -> Table {
             c.stats
                 .and_then(|s| s.std_dev)
                 .map_or(Cell::Empty, |v| Cell::Number(v, 4)),
+            c.expanded_u().map_or(Cell::Empty, |u| Cell::Number(u, 4)),
             stat(|s| s.min),
             stat(|s| s.max),
             Cell::Int(c.stats.map_or(0, |s| s.out_of_range) as i64),
@@ -190,14 +194,19 @@ fn campaigns_table(figures: &ProjectFigures) -> Table {
         ]);
     }
     t.note("A campaign is the tracer samples of one date. Its mean over the wells keeps every well as measured; the latest campaign is the latest evidence and supersedes earlier ones.");
+    t.note(SPREAD_NOTE);
     t
 }
+
+/// How a campaign's spread becomes an uncertainty.
+const SPREAD_NOTE: &str = "± (95 %) of a campaign's mean fraction: t(0.975, n − 1)·s/√n of its wells' fractions (t = 12.706 for two wells; docs/uncertainty.md); a campaign of one well has no spread and gives none. It bounds the mineralized split, not the stored figure the claims start from.";
 
 /// Injected CO2 per period split into mineralized, still dissolved and not yet sampled, beside
 /// the stored mass (RR-12 form).
 fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
     let (project, campaigns) = (figures.project(), figures.tracer_campaigns());
     let lines = figures.mineralization(grouping)?;
+    let mut u_total: Option<Mass> = None;
     let mut t = Table::new(
         "mineralization",
         format!(
@@ -215,6 +224,7 @@ fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
             names::MINERALIZED_FRACTION_MEAN,
             names::MINERALIZED_FRACTION_SD,
             names::MINERALIZED_T,
+            names::MINERALIZED_U_T,
             names::STILL_DISSOLVED_T,
             names::NOT_YET_SAMPLED_T,
             names::CUMULATIVE_MINERALIZED_T,
@@ -224,6 +234,13 @@ fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
         let (m, campaign) = (&l.split, l.split.campaign);
         let read = campaign.and_then(|c| campaigns.iter().find(|r| r.date == c.date));
         let stats = read.and_then(|r| r.stats);
+        let covered = m.mineralized + m.still_dissolved;
+        let u = read
+            .and_then(CampaignRead::expanded_u)
+            .map(|u| Mass::from_grams(round_half_even_f64(u * covered.grams() as f64)));
+        if let Some(u) = u {
+            u_total = Some(u_total.unwrap_or(Mass::ZERO) + u);
+        }
         t.push(vec![
             Cell::text(l.bucket.to_string()),
             Cell::Tonnes(m.injected),
@@ -236,6 +253,7 @@ fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
                 .and_then(|s| s.std_dev)
                 .map_or(Cell::Empty, |v| Cell::Number(v, 4)),
             Cell::Tonnes(m.mineralized),
+            u.map_or(Cell::Empty, Cell::Tonnes),
             Cell::Tonnes(m.still_dissolved),
             Cell::Tonnes(m.not_yet_sampled),
             Cell::Tonnes(l.cumulative_mineralized),
@@ -253,12 +271,14 @@ fn period_table(figures: &ProjectFigures, grouping: Grouping) -> Result<Table> {
         Cell::Empty,
         Cell::Empty,
         Cell::Tonnes(total.mineralized),
+        u_total.map_or(Cell::Empty, Cell::Tonnes),
         Cell::Tonnes(total.still_dissolved),
         Cell::Tonnes(total.not_yet_sampled),
         Cell::Tonnes(total.mineralized),
     ]);
     t.note("The latest campaign's mean fraction applies to CO2 injected in entries (or the parts of them in a period) that ended before its date; CO2 injected since is not yet sampled. Mineralized + still dissolved + not yet sampled = injected, in whole grams.");
     t.note("Stored = injected − surface leakage − leaks and vents on the injection side (RR-12 form). Mineralization splits the injected CO2; leakage is deducted from stored, not from the mineralized share.");
+    t.note("Mineralized ± = the campaign's ± (95 %) of its mean fraction × the CO2 it covers (mineralized + still dissolved); the total adds the periods' linearly, since periods read by one campaign share its error. A period whose campaign has one well has none.");
     for c in campaigns.iter().filter(|c| c.fraction().is_none()) {
         let mean = c.stats.map_or(f64::NAN, |s| s.mean);
         t.note(format!(

@@ -1,7 +1,9 @@
 //! `entries` and `balance`: what the ledger holds, and what it adds up to.
 
 use super::Context;
-use super::claims::{claims_table, deduction_rule, pool_table, uncertainty_note};
+use super::claims::{
+    claims_table, deduction_rule, pool_table, rock_uncertainty_notes, uncertainty_note,
+};
 use super::dates::DateArgs;
 use super::setup::known_project;
 use crate::accounting::balance::{BalanceLine, BalanceMethod};
@@ -132,6 +134,13 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
             geological_balance(&figures, grouping, &a)?
         }
     };
+    if matches!(
+        figures.project().method,
+        Method::ExSituMineralization | Method::EnhancedWeathering
+    ) {
+        let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
+        report = claims_tables(&figures, BalanceMethod::Rr, deduction, report)?;
+    }
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }
@@ -175,9 +184,27 @@ fn geological_balance(
     if let Some(r) = reversals_table(project, figures.entries()) {
         report = report.table(r);
     }
-    // Claims are made per claim period whatever --by shows the balance by.
-    let (period_claims, pool, events) = figures.claim_pool(a.method, deduction)?;
-    report = report.table(claims_table(figures, &period_claims, deduction));
+    claims_tables(figures, a.method, deduction, report)
+}
+
+/// The claims of each claim period (whatever --by shows the balance by) and, where a buffer is
+/// set or a loss drawn, the buffer pool.
+fn claims_tables(
+    figures: &ProjectFigures,
+    method: BalanceMethod,
+    deduction: crate::accounting::conservative::DeductionRule,
+    mut report: Report,
+) -> Result<Report> {
+    let (period_claims, pool, events) = figures.claim_pool(method, deduction)?;
+    let mut claims = claims_table(figures, &period_claims, deduction);
+    if figures.project().method == Method::EnhancedWeathering {
+        let periods: Vec<_> = period_claims.iter().map(|(b, _)| *b).collect();
+        super::weathering::parameter_notes(&mut claims, &figures.deductions_used(&periods)?);
+    }
+    for note in rock_uncertainty_notes(figures, figures.claim_period())? {
+        claims.note(note);
+    }
+    report = report.table(claims);
     let buffered = period_claims
         .iter()
         .any(|(b, _)| figures.rules(*b, deduction).buffer_share > 0.0);

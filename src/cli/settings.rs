@@ -1,9 +1,11 @@
 //! `project set`: dated changes to a project's buffer share, retention model, temporary
-//! storage terms and claim period, each taking effect from a day, and the table of the settings
-//! in force.
+//! storage terms, claim period and weathering deduction parameters, each taking effect from a
+//! day with the source it rests on, and the table of the settings in force.
 
 use super::Context;
 use super::setup::known_project;
+use super::weathering::DeductionValues;
+use crate::accounting::project_view::deduction_setting;
 use crate::error::{Error, Result};
 use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::{Setting, SettingName, in_force};
@@ -42,6 +44,13 @@ pub struct ProjectSet {
     /// The one granularity of the project's claims, buffer pool and totals [default: year]
     #[arg(long, value_enum, value_name = "PERIOD")]
     pub claim_period: Option<ClaimPeriod>,
+    /// Enhanced weathering: the deduction parameters of net removal the project's claims use
+    #[command(flatten)]
+    pub deductions: DeductionValues,
+    /// Where the values set come from (a monitoring plan, a measurement), kept with them and
+    /// shown beside them; required with the deduction parameters
+    #[arg(long, value_name = "TEXT", allow_hyphen_values = true)]
+    pub source: Option<String>,
     /// The day these settings take effect (YYYY-MM-DD); before today only where no sealed period
     /// lies between it and today [default: the day recorded]
     #[arg(long, value_name = "DATE")]
@@ -96,9 +105,22 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         let name = format!("{p:?}").to_lowercase();
         values.push((SettingName::ClaimPeriod, name));
     }
+    let deductions = a.deductions.given()?;
+    for (deduction, _, _, v) in &deductions {
+        values.push((deduction_setting(*deduction), v.to_string()));
+    }
     if values.is_empty() {
         return Err(Error::Refused(
-            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years or --claim-period".into(),
+            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years, --claim-period or a deduction parameter (--strong-acid, --cation-retention, --secondary-carbonate, --ocean-efficiency)".into(),
+        ));
+    }
+    if let Some(s) = &a.source {
+        super::inputs::text("--source", s)?;
+    } else if let Some((_, option, text, _)) = deductions.first() {
+        return Err(Error::field(
+            option,
+            text,
+            "needs --source: say where the parameter comes from (the monitoring plan, a measurement)",
         ));
     }
     let today = ctx.now.date_naive();
@@ -107,11 +129,23 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         None => today,
     };
     let all = ctx.open()?.write(|tx| {
-        known_project(tx, &a.code)?;
+        let project = known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;
         admit_setting(&seals, from, today, ctx.late)
             .map_err(|e| Error::field("--from", &from.to_string(), e))?;
         let mut all = tx.settings(&a.code)?;
+        if let Some((_, option, text, _)) = deductions.first()
+            && project.method != crate::ledger::Method::EnhancedWeathering
+        {
+            return Err(Error::field(
+                option,
+                text,
+                format!(
+                    "is a weathering deduction; project {} has method {}",
+                    a.code, project.method
+                ),
+            ));
+        }
         if a.claim_period.is_some() && !seals.is_empty() {
             claim_period_kept(&all, &values)?;
         }
@@ -127,6 +161,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
                 value,
                 recorded_at: ctx.now,
                 effective: Some(from),
+                source: a.source.clone(),
             })
             .collect();
         tx.add_settings(&new)?;
@@ -187,6 +222,15 @@ pub fn settings_table(
         ]);
     }
     t.note("Each claim period uses the settings in force on its last day: of each setting, the one taking effect last on or before that day (of those, the last recorded).");
+    for s in held.iter().filter(|s| s.source.is_some()) {
+        t.note(format!(
+            "Source of {} = {} from {}: {}.",
+            s.name.label(),
+            s.shown(),
+            s.from(),
+            s.source.as_deref().unwrap_or_default()
+        ));
+    }
     if held.iter().any(|s| s.backdated()) {
         t.note("Some settings take effect before the day they were recorded (backdated); reports that use them say so.");
     }

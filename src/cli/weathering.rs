@@ -15,15 +15,17 @@ use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions};
 use crate::accounting::weathering::three_end_member::Resolution;
 use crate::error::{Error, Result};
-use crate::ledger::period::Grouping;
+use crate::ledger::period::{Bucket, Grouping};
 use crate::ledger::{Method, Project, SiteKind};
+use crate::quantity::Decimal;
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use clap::Args;
 
-/// The deduction parameters of net removal; each left out keeps its default and source.
+/// The four deduction parameters of net removal, as `weathering` (a what-if) and `project set`
+/// (the project's dated settings) take them.
 #[derive(Debug, Args, Default)]
-pub struct DeductionArgs {
+pub struct DeductionValues {
     /// Share of cations released by strong acids (sulfuric, nitric), carrying no CO2 [default: 0]
     #[arg(
         long,
@@ -56,6 +58,41 @@ pub struct DeductionArgs {
         allow_hyphen_values = true
     )]
     pub ocean_efficiency: Option<String>,
+}
+
+impl DeductionValues {
+    /// Each parameter given, with its option, its text and its value checked to [0, 1].
+    pub fn given(&self) -> Result<Vec<(Deduction, &'static str, &str, Decimal)>> {
+        let all = [
+            (Deduction::StrongAcid, "--strong-acid", &self.strong_acid),
+            (
+                Deduction::CationRetention,
+                "--cation-retention",
+                &self.cation_retention,
+            ),
+            (
+                Deduction::SecondaryCarbonate,
+                "--secondary-carbonate",
+                &self.secondary_carbonate,
+            ),
+            (
+                Deduction::OceanReequilibration,
+                "--ocean-efficiency",
+                &self.ocean_efficiency,
+            ),
+        ];
+        all.into_iter()
+            .filter_map(|(d, option, text)| text.as_deref().map(|t| (d, option, t)))
+            .map(|(d, option, text)| Ok((d, option, text, ri::share(option, text)?)))
+            .collect()
+    }
+}
+
+/// The deduction parameters of a what-if; each left out keeps the project's setting.
+#[derive(Debug, Args, Default)]
+pub struct DeductionArgs {
+    #[command(flatten)]
+    pub values: DeductionValues,
     /// Where the values given come from (a monitoring plan, a measurement), shown beside them
     #[arg(
         long,
@@ -130,46 +167,29 @@ fn settings(a: &WeatheringArgs) -> Result<Settings> {
             min_immobile_contrast: contrast,
             ..Resolution::DEFAULT
         },
-        deductions: deductions(&a.deductions)?,
+        deductions: Deductions::default(),
     })
 }
 
-fn deductions(a: &DeductionArgs) -> Result<Deductions> {
-    let mut d = Deductions::default();
-    let given = [
-        (Deduction::StrongAcid, "--strong-acid", &a.strong_acid),
-        (
-            Deduction::CationRetention,
-            "--cation-retention",
-            &a.cation_retention,
-        ),
-        (
-            Deduction::SecondaryCarbonate,
-            "--secondary-carbonate",
-            &a.secondary_carbonate,
-        ),
-        (
-            Deduction::OceanReequilibration,
-            "--ocean-efficiency",
-            &a.ocean_efficiency,
-        ),
-    ];
+/// The what-if's parameters, each with the source it is shown with.
+fn what_if(a: &DeductionArgs) -> Result<Vec<(Deduction, f64, String)>> {
     if let Some(s) = &a.deduction_source {
         super::inputs::text("--deduction-source", s)?;
     }
-    for (deduction, option, text) in given {
-        if let Some(text) = text {
-            let v = ri::share(option, text)?;
+    a.values
+        .given()?
+        .into_iter()
+        .map(|(deduction, option, text, v)| {
             let source = match &a.deduction_source {
-                Some(s) => format!("{s}; given as {option} {text}"),
-                None => format!("given as {option} {text}"),
+                Some(s) => format!("{s}; what-if given as {option} {text}"),
+                None => format!("what-if given as {option} {text}"),
             };
-            d = d
-                .set(deduction, v.to_f64(), source)
+            Deductions::default()
+                .set(deduction, v.to_f64(), "")
                 .map_err(|e| Error::field(option, text, e))?;
-        }
-    }
-    Ok(d)
+            Ok((deduction, v.to_f64(), source))
+        })
+        .collect()
 }
 
 /// A campaign error told as a refusal of the option that chose what is missing.
@@ -200,11 +220,23 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
             format!("is not a field of project {}", a.project),
         ));
     }
-    let lines = figures
+    let given = what_if(&a.deductions)?;
+    let mut lines = figures
         .weathering_campaigns(&s, a.site.as_deref())
         .map_err(|e| refusal(e, &s, &a))?;
+    let used = figures.project_deductions(&mut lines, &|base| {
+        given
+            .iter()
+            .try_fold(base, |d, (k, v, source)| d.set(*k, *v, source.clone()))
+    })?;
     let emissions = figures.emissions_in_scope(a.site.as_deref());
-    let table = campaign_table(figures.project(), &lines, &s, emissions);
+    let mut table = campaign_table(figures.project(), &lines, &s, emissions, &used);
+    if !given.is_empty() {
+        table.note(format!(
+            "What-if: the deduction parameters given here replace the project's settings in this table only; balance, totals and claims use the settings (`sinkbook project set {} --strong-acid … --source …`).",
+            a.project
+        ));
+    }
     Ok(Report::default().table(table))
 }
 
@@ -225,9 +257,17 @@ fn method_note(s: &Settings) -> String {
     )
 }
 
-fn parameter_notes(t: &mut Table, d: &Deductions) {
-    for line in d.to_string().lines() {
-        t.note(format!("Parameter: {line}."));
+/// The deduction parameters, one note each; where the claim periods use different ones, each
+/// set is introduced by its periods.
+pub fn parameter_notes(t: &mut Table, used: &[(Deductions, Vec<Bucket>)]) {
+    for (d, periods) in used {
+        if used.len() > 1 {
+            let list: Vec<String> = periods.iter().map(Bucket::to_string).collect();
+            t.note(format!("Parameters of {}:", list.join(", ")));
+        }
+        for line in d.to_string().lines() {
+            t.note(format!("Parameter: {line}."));
+        }
     }
 }
 
@@ -236,6 +276,7 @@ fn campaign_table(
     lines: &[CampaignLine],
     s: &Settings,
     emissions: EmissionsInScope,
+    used: &[(Deductions, Vec<Bucket>)],
 ) -> Table {
     let mut t = Table::new(
         "weathering",
@@ -303,7 +344,7 @@ fn campaign_table(
     t.note("Applied = dry feedstock spread before the campaign; every figure is cumulative to the campaign. Found = feedstock the cores hold, (X_f + X_wf)·ρf × depth: a check on the applications. Potential = applied × the modified Steinour potential (Renforth 2019, η = 2).");
     t.note("Gross = dissolved fraction × applied × Σ (mol/t × z) × M_CO2, z = 2 for Ca and Mg, 1 for Na and K (44.009 g/mol). Deductions in order: strong acid, then cation retention of the rest, then secondary carbonate (keeps half), then the ocean's share of what is left. Net = gross − deductions − emissions at the field whose periods ended by the campaign.");
     t.note("The total row: each field's latest campaign that gave a number, less every emission recorded to date (at the fields and elsewhere); over every field its net is the cumulative net of `balance`.");
-    parameter_notes(&mut t, &s.deductions);
+    parameter_notes(&mut t, used);
     for f in findings {
         t.note(format!("Finding: {f}"));
     }
@@ -383,7 +424,17 @@ pub fn balance(figures: &ProjectFigures, grouping: Grouping) -> Result<Report> {
         "Emissions: every emission entry of the project, split by days. Net = removal − emissions.",
     );
     t.note(method_note(&s));
-    parameter_notes(&mut t, &s.deductions);
+    let periods: Vec<Bucket> = roll.iter().map(|r| r.bucket).collect();
+    let claimed: Vec<Bucket> = periods
+        .iter()
+        .map(|b| figures.claim_period().bucket(b.first_day()))
+        .fold(Vec::new(), |mut v, b| {
+            if !v.contains(&b) {
+                v.push(b);
+            }
+            v
+        });
+    parameter_notes(&mut t, &figures.deductions_used(&claimed)?);
     if unread > 0 {
         t.note(format!(
             "{unread} campaign(s) gave no number: see `sinkbook weathering {}`.",

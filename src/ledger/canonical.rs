@@ -119,7 +119,8 @@ pub fn encode_site(s: &Site) -> Vec<u8> {
 }
 
 /// The canonical bytes of a project setting. The effective date follows only where the row has
-/// one, so rows written before settings had one keep their hashes.
+/// one, and the source only where it has one (always after a date), so rows written before
+/// either existed keep their hashes.
 pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
     let mut w = Writer::default();
     w.u8(VERSION);
@@ -131,6 +132,9 @@ pub fn encode_setting(s: &super::setting::Setting) -> Vec<u8> {
     w.i64(s.recorded_at.timestamp_micros());
     if let Some(d) = s.effective {
         w.i32(epoch_days(d));
+    }
+    if let Some(source) = &s.source {
+        w.str(source);
     }
     w.0
 }

@@ -1,5 +1,6 @@
 //! Project settings that change over time: the buffer share withheld from claims, the retention
-//! model, temporary storage and the claim period. Each change is a dated, hashed row that takes
+//! model, temporary storage, the claim period and the weathering deduction parameters of the
+//! monitoring plan. Each change is a dated, hashed row that takes
 //! effect from a date (by default the day it was recorded); a claim period uses the settings in
 //! force on its last day.
 
@@ -23,6 +24,14 @@ named_enum! {
         EquivalenceYears => "equivalence-years",
         /// The one granularity at which the project's claims are made: month, quarter or year.
         ClaimPeriod => "claim-period",
+        /// Weathering: share of the cations released by strong acids, carrying no CO2.
+        StrongAcid => "strong-acid",
+        /// Weathering: share of the rest held on exchange sites or in new clays.
+        CationRetention => "cation-retention",
+        /// Weathering: share of the rest precipitated as soil carbonate.
+        SecondaryCarbonate => "secondary-carbonate",
+        /// Weathering: mol CO2 the ocean keeps per mol of alkalinity it receives.
+        OceanEfficiency => "ocean-efficiency",
     }
 }
 
@@ -36,6 +45,10 @@ impl SettingName {
             Self::YearsHeld => "years held",
             Self::EquivalenceYears => "equivalence years",
             Self::ClaimPeriod => "claim period",
+            Self::StrongAcid => "strong-acid weathering share",
+            Self::CationRetention => "cation retention share",
+            Self::SecondaryCarbonate => "secondary carbonate share",
+            Self::OceanEfficiency => "ocean re-equilibration efficiency",
         }
     }
 }
@@ -51,6 +64,9 @@ pub struct Setting {
     /// The day it takes effect; rows written before settings had one take effect the day they
     /// were recorded.
     pub effective: Option<NaiveDate>,
+    /// Where the value comes from (a monitoring plan, a measurement), kept with it; only rows
+    /// with an effective date carry one.
+    pub source: Option<String>,
 }
 
 impl Setting {
@@ -68,13 +84,17 @@ impl Setting {
             d.checked_mul(Decimal::parse("100").ok()?)
         };
         match self.name {
-            SettingName::Buffer | SettingName::AnnualLeak => {
+            SettingName::Buffer
+            | SettingName::AnnualLeak
+            | SettingName::StrongAcid
+            | SettingName::CationRetention
+            | SettingName::SecondaryCarbonate => {
                 per_cent().map_or_else(|| self.value.clone(), |p| format!("{p} %"))
             }
             SettingName::Horizon | SettingName::YearsHeld | SettingName::EquivalenceYears => {
                 format!("{} years", self.value)
             }
-            SettingName::ClaimPeriod => self.value.clone(),
+            SettingName::ClaimPeriod | SettingName::OceanEfficiency => self.value.clone(),
         }
     }
 
@@ -82,6 +102,18 @@ impl Setting {
     pub fn backdated(&self) -> bool {
         self.from() < self.recorded_at.date_naive()
     }
+}
+
+/// A row's source comes after its effective date in the row hash; a source without a date is
+/// not a row the tool writes.
+pub fn sourced(s: &Setting) -> Result<(), String> {
+    if s.source.is_some() && s.effective.is_none() {
+        return Err(format!(
+            "setting {} of project {} has a source but no effective date",
+            s.seq, s.project
+        ));
+    }
+    Ok(())
 }
 
 /// The setting of `name` in force on `day`: of those in effect by then, the one with the latest
@@ -110,6 +142,7 @@ mod tests {
             value: value.into(),
             recorded_at: DateTime::parse_from_rfc3339(recorded).unwrap().to_utc(),
             effective: from.map(|d| d.parse().unwrap()),
+            source: None,
         }
     }
 

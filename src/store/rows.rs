@@ -272,6 +272,7 @@ pub struct SettingRow {
     pub recorded_at: NaiveDateTime,
     pub row_hash: String,
     pub effective_from: Option<String>,
+    pub source: Option<String>,
 }
 
 impl SettingRow {
@@ -284,6 +285,7 @@ impl SettingRow {
             recorded_at: s.recorded_at.naive_utc(),
             row_hash: leaf_hash(&crate::ledger::canonical::encode_setting(s)).to_hex(),
             effective_from: s.effective.map(|d| d.to_string()),
+            source: s.source.clone(),
         }
     }
 
@@ -318,7 +320,9 @@ impl SettingRow {
                     })
                 })
                 .transpose()?,
+            source: self.source.clone(),
         };
+        crate::ledger::setting::sourced(&s)?;
         if leaf_hash(&crate::ledger::canonical::encode_setting(&s)).to_hex() != self.row_hash {
             return Err(format!(
                 "setting {} of project {} differs from its row hash",

@@ -85,6 +85,7 @@ diesel::table! {
         recorded_at -> Timestamp,
         row_hash -> Text,
         effective_from -> Nullable<Text>,
+        source -> Nullable<Text>,
     }
 }
 

@@ -8,6 +8,7 @@ use crate::accounting::tracer::{
     Campaign, CampaignStatistics, Injection, Mineralized, PeriodMineralization, TracerError,
     apply_campaigns, campaign_statistics, mineralized_fraction,
 };
+use crate::accounting::uncertainty::replicate_mean;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::Mass;
@@ -46,6 +47,13 @@ impl CampaignRead {
         self.stats
             .map(|s| s.mean)
             .filter(|m| (0.0..=1.0).contains(m))
+    }
+
+    /// The mean fraction's expanded uncertainty (95 %) from the spread of the wells:
+    /// t(0.975, n − 1)·s/√n; none for a campaign of one well.
+    pub fn expanded_u(&self) -> Option<f64> {
+        let f: Vec<f64> = self.wells.iter().map(|w| w.2.f()).collect();
+        replicate_mean(&f).map(|(_, u)| u)
     }
 }
 

@@ -21,6 +21,8 @@ pub enum ViewError {
         code: String,
         what: String,
     },
+    /// A project setting whose stored value no longer reads, or no longer applies.
+    Setting { project: String, what: String },
     /// The soil campaigns cannot be read with the settings given.
     Campaign(CampaignError),
     /// The tracer campaigns cannot be applied.
@@ -32,7 +34,9 @@ impl ViewError {
     /// falling short of what the method needs).
     pub fn is_inconsistency(&self) -> bool {
         match self {
-            ViewError::Undecodable { .. } | ViewError::Feedstock { .. } => true,
+            ViewError::Undecodable { .. }
+            | ViewError::Feedstock { .. }
+            | ViewError::Setting { .. } => true,
             ViewError::Campaign(e) => matches!(e, CampaignError::UnknownFeedstock { .. }),
             ViewError::Tracer(_) => false,
         }
@@ -56,6 +60,9 @@ impl fmt::Display for ViewError {
                 code,
                 what,
             } => write!(f, "feedstock {code} of project {project}: {what}"),
+            ViewError::Setting { project, what } => {
+                write!(f, "settings of project {project}: {what}")
+            }
             ViewError::Campaign(e) => write!(f, "{e}"),
             ViewError::Tracer(e) => write!(f, "{e}"),
         }

@@ -59,13 +59,15 @@ pub fn tracer_of(e: &Entry) -> Result<TracerSample, ViewError> {
     tracer_sample(&e.reading).map_err(|w| undecodable(e, w))
 }
 
-/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass), and
-/// the CO2 the solid released when its CO2 content fell: an emission of the batch.
+/// A carbonation batch: dry feed and product, in grams (the uptake is the entry's mass); the
+/// CO2 the solid released when its CO2 content fell (an emission of the batch); and the
+/// uptake's stated relative uncertainty (95 %) where the record gives one.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Batch {
     pub fed_g: i64,
     pub product_g: i64,
     pub released_g: i64,
+    pub rel_u: Option<f64>,
 }
 
 /// The dry feed and product of a carbonation reading: the CO2-free solid is conserved, so the
@@ -84,10 +86,15 @@ pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
             Ok(Carbonation::Uptake { .. }) => 0,
             Err(why) => return Err(why.to_string()),
         };
+        let rel_u = r
+            .get("uncertainty")
+            .map(|_| decimal(r, "uncertainty"))
+            .transpose()?;
         Ok(Batch {
             fed_g,
             product_g,
             released_g,
+            rel_u,
         })
     };
     read().map_err(|w| undecodable(e, w))

@@ -13,6 +13,7 @@ pub mod evidence;
 mod ex_situ;
 mod geological;
 mod reported;
+mod rock_uncertainty;
 mod series;
 mod through;
 mod totals;
@@ -22,9 +23,12 @@ pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, miner
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
 pub use reported::{bearing, reporting_period};
+pub use rock_uncertainty::UptakeU;
 pub use series::{Series, cumulative};
 pub use totals::{ByRoute, ProjectTotals, Route, TotalsLine};
-pub use weathering::{CampaignTotal, EmissionsInScope, campaign_total, default_settings};
+pub use weathering::{
+    CampaignTotal, EmissionsInScope, campaign_total, deduction_setting, default_settings,
+};
 
 use super::balance::BalanceMethod;
 use super::buffer_pool::BufferPool;
@@ -213,9 +217,10 @@ impl ProjectFigures {
     }
 
     /// Each period's stored figure, with its uncertainty (95 %), as the project's method
-    /// counts it: what claims start from, what `totals` adds up and what `chart` plots.
+    /// counts it: what claims start from, what `totals` adds up and what `chart` plots. A rock
+    /// route's uncertainty comes from its inputs (see [`ProjectFigures::unestimated`] for
+    /// what has none).
     pub fn stored(&self, grouping: Grouping) -> Result<Vec<(Bucket, Estimate)>, ViewError> {
-        let exact = |m: Mass| Estimate::absolute(m, Mass::ZERO);
         Ok(match self.view.project.method {
             Method::SalineAquifer
             | Method::DepletedField
@@ -225,16 +230,22 @@ impl ProjectFigures {
                 .into_iter()
                 .map(|l| (l.bucket, l.uncertainty))
                 .collect(),
-            Method::ExSituMineralization => self
-                .carbonation(grouping)
-                .into_iter()
-                .map(|l| (l.bucket, exact(l.net)))
-                .collect(),
+            Method::ExSituMineralization => {
+                let u = self.carbonation_uncertainty(grouping);
+                self.carbonation(grouping)
+                    .into_iter()
+                    .map(|l| {
+                        let g = u.get(&l.bucket).map_or(0.0, |u| u.abs_u_grams);
+                        let abs_u = Mass::from_grams(crate::quantity::mass::round_half_even_f64(g));
+                        (l.bucket, Estimate::absolute(l.net, abs_u))
+                    })
+                    .collect()
+            }
             Method::EnhancedWeathering => self
                 .weathering_rollup(grouping)?
                 .0
                 .into_iter()
-                .map(|l| (l.bucket, exact(l.net)))
+                .map(|l| (l.bucket, l.uncertainty))
                 .collect(),
         })
     }

@@ -54,6 +54,7 @@ pub fn batch_through(b: Batch, period: Period, day: NaiveDate) -> Batch {
         fed_g: share_through(b.fed_g, period, day),
         product_g: share_through(b.product_g, period, day),
         released_g: share_through(b.released_g, period, day),
+        rel_u: b.rel_u,
     }
 }
 
@@ -75,6 +76,7 @@ mod tests {
                 fed_g: 1_000,
                 product_g: 1_100,
                 released_g: 0,
+                rel_u: None,
             },
             p,
             d("2026-06-30"),

@@ -5,13 +5,16 @@
 //! [`rollup`] credits the change since the field's previous campaign to the campaign's period.
 
 use super::composition::{FeedstockAnalysis, Immobile, SoilAnalysis};
-use super::removal::{Cation, Deduction, Deductions, Gross, Removal, gross_co2, removal};
+use super::removal::{
+    Cation, Deduction, Deductions, Gross, Removal, RemovalError, gross_co2, removal,
+};
 use super::tau::tau;
 use super::three_end_member::{
     EndMember, MassBalanceResult, Resolution, Sampling, Unresolved, forward_model, mass_balance,
 };
 use super::{Analysis, WeatheringError};
 use crate::accounting::input::grams;
+use crate::accounting::uncertainty::{self, Estimate, Term, TermSign, replicate_mean};
 use crate::ledger::Period;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::quantity::Mass;
@@ -115,6 +118,23 @@ pub struct Resolved {
     pub removal: Removal,
     /// Removal after deductions, less the field's emissions to date.
     pub net: Mass,
+    /// The dissolved fraction's expanded uncertainty (95 %) from replicate cores, or why there
+    /// is none.
+    pub spread: Result<f64, String>,
+    /// Removal after deductions had all the feedstock dissolved: what one unit of dissolved
+    /// fraction is worth, so U(removal) = U(fraction) × this.
+    pub removal_whole: Mass,
+}
+
+impl Resolved {
+    /// Removal after deductions with its 95 % uncertainty, or why it has none.
+    pub fn removal_estimate(&self) -> Result<Estimate, String> {
+        let u = self.spread.clone()? * self.removal_whole.grams() as f64;
+        Ok(Estimate::absolute(
+            self.removal.net,
+            Mass::from_grams(crate::quantity::mass::round_half_even_f64(u)),
+        ))
+    }
 }
 
 /// One field's campaign, cumulative to its date.
@@ -139,6 +159,21 @@ pub struct CampaignLine {
 impl CampaignLine {
     pub fn applied_t(&self) -> f64 {
         self.applied_g as f64 / 1e6
+    }
+
+    /// The same campaign with other deduction parameters: gross stays, removal and net follow.
+    pub fn deduct(&mut self, deductions: &Deductions) -> Result<(), RemovalError> {
+        if let Reading::Resolved(r) = &mut self.reading {
+            r.removal = removal(r.gross.total, deductions)?;
+            let whole_gross = if r.dissolved_fraction > 0.0 {
+                r.gross.total.scale(1.0 / r.dissolved_fraction)
+            } else {
+                r.removal_whole
+            };
+            r.removal_whole = removal(whole_gross, deductions)?.net;
+            r.net = r.removal.net - self.emissions;
+        }
+        Ok(())
     }
 }
 
@@ -359,11 +394,11 @@ fn campaign(
         return Ok(line);
     }
     let thickness = cores[0].depth.thickness_m();
-    let dissolved = match s.method {
+    let dissolve = |soil: EndMember, sample: Analysis| match s.method {
         DissolutionMethod::ThreeEndMember => three_end_member(soil, feed, sample, s, thickness),
         DissolutionMethod::Tau => bulk_tau(soil, feed, sample, applied_t, area_m2, thickness),
     };
-    line.reading = match dissolved {
+    line.reading = match dissolve(soil, sample) {
         Err(why) => Reading::Finding(why),
         Ok((f, found_t_per_ha)) => {
             let cations: Vec<_> = feedstock
@@ -373,21 +408,86 @@ fn campaign(
                 .copied()
                 .filter(|c| s.mobile.contains(&c.cation))
                 .collect();
-            match gross_co2(f, applied_t, &cations)
-                .and_then(|g| removal(g.total, &s.deductions).map(|r| (g, r)))
-            {
-                Ok((gross, removal)) => Reading::Resolved(Resolved {
+            let spread = replicate_spread((cores, base_cores), soil, sample, s, &dissolve);
+            match gross_co2(f, applied_t, &cations).and_then(|g| {
+                let whole = removal(gross_co2(1.0, applied_t, &cations)?.total, &s.deductions)?;
+                removal(g.total, &s.deductions).map(|r| (g, r, whole.net))
+            }) {
+                Ok((gross, removal, removal_whole)) => Reading::Resolved(Resolved {
                     dissolved_fraction: f,
                     found_t_per_ha,
                     net: removal.net - emissions,
                     gross,
                     removal,
+                    spread,
+                    removal_whole,
                 }),
                 Err(e) => Reading::Finding(e.to_string()),
             }
         }
     };
     Ok(line)
+}
+
+/// What a replicate core stands in for: the soil and the sample it is read as.
+type Pairing<'a> = &'a dyn Fn(&Core) -> Result<(EndMember, Analysis), CampaignError>;
+/// The dissolved fraction (and the feedstock found) of a soil and a sample.
+type Dissolve<'a> = &'a dyn Fn(EndMember, Analysis) -> Result<(f64, Option<f64>), String>;
+
+/// The dissolved fraction each core gives read alone.
+fn fractions(
+    list: &[&Core],
+    pairing: Pairing<'_>,
+    dissolve: Dissolve<'_>,
+) -> Result<Vec<f64>, String> {
+    list.iter()
+        .map(|c| {
+            let (soil, sample) = pairing(c).map_err(|e| e.to_string())?;
+            dissolve(soil, sample)
+                .map(|(f, _)| f)
+                .map_err(|why| format!("core seq {} read alone: {why}", c.seq))
+        })
+        .collect()
+}
+
+/// The 95 % uncertainty of a campaign's dissolved fraction from the spread of its replicate
+/// cores: each core read alone against the composite baseline gives a fraction, and
+/// U = t(0.975, n − 1)·s/√n of them; where the baseline has replicates too, each baseline core
+/// read against the composite sample gives its own U, and the two combine in quadrature (the
+/// cores of the two days are taken independently). A campaign of one core has no spread.
+fn replicate_spread(
+    (cores, base_cores): (&[&Core], &[&Core]),
+    soil: EndMember,
+    sample: Analysis,
+    s: &Settings,
+    dissolve: Dissolve<'_>,
+) -> Result<f64, String> {
+    if cores.len() < 2 {
+        return Err(format!(
+            "one core ({}): no replicate spread to estimate an uncertainty from",
+            core_name(cores)
+        ));
+    }
+    let sampled = fractions(
+        cores,
+        &|c| Ok((soil, soil_analysis(&c.analysis, &core_name(&[c]), s)?)),
+        dissolve,
+    )?;
+    let (_, u_sample) = replicate_mean(&sampled).ok_or("the replicate fractions are not finite")?;
+    if base_cores.len() < 2 {
+        return Ok(u_sample);
+    }
+    let as_soil = |c: &Core| {
+        let member = EndMember {
+            analysis: soil_analysis(&c.analysis, &core_name(&[c]), s)?,
+            bulk_density: c.bulk_density,
+        };
+        Ok((member, sample))
+    };
+    let baseline = fractions(base_cores, &as_soil, dissolve)?;
+    let (_, u_base) =
+        replicate_mean(&baseline).ok_or("the replicate baseline fractions are not finite")?;
+    Ok(u_sample.hypot(u_base))
 }
 
 /// Three-end-member mass balance: the dissolved fraction and the feedstock the cores hold.
@@ -473,6 +573,11 @@ pub struct RollupLine {
     pub emissions: Mass,
     pub net: Mass,
     pub cumulative_net: Mass,
+    /// Net with its 95 % uncertainty: each field's change is its campaign's removal less the
+    /// previous one, their uncertainties in quadrature; fields and emissions (stated exact) too.
+    pub uncertainty: Estimate,
+    /// The campaigns credited here whose removal has no uncertainty estimate, and why.
+    pub unestimated: Vec<String>,
 }
 
 /// Per period: the change each campaign brings to its field's removal (gross and each
@@ -493,8 +598,11 @@ pub fn rollup(
         emissions: Mass::ZERO,
         net: Mass::ZERO,
         cumulative_net: Mass::ZERO,
+        uncertainty: Estimate::absolute(Mass::ZERO, Mass::ZERO),
+        unestimated: Vec::new(),
     };
     let mut by: BTreeMap<Bucket, RollupLine> = BTreeMap::new();
+    let mut terms: BTreeMap<Bucket, Vec<Term>> = BTreeMap::new();
     for a in applications {
         let b = grouping.bucket(a.date);
         by.entry(b).or_insert_with(|| empty(b)).applied_g += a.rock_g;
@@ -504,26 +612,31 @@ pub fn rollup(
             by.entry(b).or_insert_with(|| empty(b)).emissions += Mass::from_grams(g);
         }
     }
-    let mut last: BTreeMap<&str, (Mass, [Mass; 4], Mass)> = BTreeMap::new();
+    let exact = |m: Mass| Estimate::absolute(m, Mass::ZERO);
+    let mut last: BTreeMap<&str, (Mass, [Mass; 4], Estimate)> = BTreeMap::new();
     for l in lines {
         let Reading::Resolved(r) = &l.reading else {
             continue;
         };
-        let now = (
-            r.gross.total,
-            r.removal.deducted.map(|(_, m)| m),
-            r.removal.net,
-        );
-        let before =
-            last.insert(&l.field, now)
-                .unwrap_or((Mass::ZERO, [Mass::ZERO; 4], Mass::ZERO));
         let b = grouping.bucket(l.date);
         let line = by.entry(b).or_insert_with(|| empty(b));
+        let estimate = r.removal_estimate().unwrap_or_else(|why| {
+            line.unestimated
+                .push(format!("{} {}: {why}", l.field, l.date));
+            exact(r.removal.net)
+        });
+        let now = (r.gross.total, r.removal.deducted.map(|(_, m)| m), estimate);
+        let before =
+            last.insert(&l.field, now)
+                .unwrap_or((Mass::ZERO, [Mass::ZERO; 4], exact(Mass::ZERO)));
         line.gross += now.0 - before.0;
         for (k, slot) in line.deducted.iter_mut().enumerate() {
             slot.1 += now.1[k] - before.1[k];
         }
-        line.removal += now.2 - before.2;
+        line.removal += now.2.value() - before.2.value();
+        let t = terms.entry(b).or_default();
+        t.push(term(TermSign::Adds, now.2));
+        t.push(term(TermSign::Deducts, before.2));
     }
     let mut cumulative = Mass::ZERO;
     by.into_values()
@@ -531,9 +644,24 @@ pub fn rollup(
             l.net = l.removal - l.emissions;
             cumulative += l.net;
             l.cumulative_net = cumulative;
+            let mut t = terms.remove(&l.bucket).unwrap_or_default();
+            t.push(term(TermSign::Deducts, exact(l.emissions)));
+            let u = uncertainty::mass_balance(&t).map_or(0.0, |e| e.abs_u_grams());
+            l.uncertainty = Estimate::absolute(
+                l.net,
+                Mass::from_grams(crate::quantity::mass::round_half_even_f64(u)),
+            );
             l
         })
         .collect()
+}
+
+fn term(sign: TermSign, estimate: Estimate) -> Term {
+    Term {
+        name: "removal".into(),
+        sign,
+        estimate,
+    }
 }
 
 #[cfg(test)]
@@ -666,6 +794,58 @@ mod tests {
         assert_eq!(roll[1].net, roll[1].removal - Mass::from_grams(31_000));
         assert_eq!(roll[1].cumulative_net, roll[0].net + roll[1].net);
         assert_eq!(roll[1].applied_g, 400_000_000);
+    }
+
+    #[test]
+    fn replicate_cores_spread_and_baseline_replicates_add_in_quadrature() {
+        // Three cores at 0.28, 0.30, 0.32 dissolved: U = 4.303 × 0.02 / √3 of fraction.
+        let apps = [spread("2025-04-01", "B", 500)];
+        let sampled: Vec<Core> = [0.28, 0.30, 0.32]
+            .iter()
+            .enumerate()
+            .map(|(i, f)| {
+                let (ca, ti) = mixed(25.0, *f);
+                core(10 + i as u64, "2025-10-01", ca, ti, false, 0.2)
+            })
+            .collect();
+        let spread_of = |baseline: &[Core]| {
+            let mut all = baseline.to_vec();
+            all.extend(sampled.iter().cloned());
+            match &read(&apps, &all, &[])[0].reading {
+                Reading::Resolved(r) => r.spread.clone(),
+                Reading::Finding(w) => panic!("{w}"),
+            }
+        };
+        let one = spread_of(&[core(0, "2025-03-01", 0.15, 0.075, true, 0.2)]).unwrap();
+        assert!((one - 4.303 * 0.02 / 3f64.sqrt()).abs() < 1e-6, "{one}");
+        // Two identical baseline cores have no spread: nothing added.
+        let same = spread_of(&[
+            core(0, "2025-03-01", 0.15, 0.075, true, 0.2),
+            core(1, "2025-03-01", 0.15, 0.075, true, 0.2),
+        ])
+        .unwrap();
+        assert!((same - one).abs() < 1e-12);
+        // Two that differ widen it: √(U_sample² + U_baseline²) > U_sample.
+        let apart = spread_of(&[
+            core(0, "2025-03-01", 0.148, 0.075, true, 0.2),
+            core(1, "2025-03-01", 0.152, 0.075, true, 0.2),
+        ])
+        .unwrap();
+        assert!(apart > one, "{apart} vs {one}");
+        // One core: no spread, and why.
+        let (ca, ti) = mixed(25.0, 0.3);
+        let single = [
+            core(0, "2025-03-01", 0.15, 0.075, true, 0.2),
+            core(2, "2025-10-01", ca, ti, false, 0.2),
+        ];
+        match &read(&apps, &single, &[])[0].reading {
+            Reading::Resolved(r) => assert!(
+                r.spread.as_ref().unwrap_err().contains("one core"),
+                "{:?}",
+                r.spread
+            ),
+            Reading::Finding(w) => panic!("{w}"),
+        }
     }
 
     #[test]

@@ -12,6 +12,7 @@ use crate::chem::M_CO2;
 use crate::chem::mineral::Route;
 use crate::chem::oxides::{Constituent, OxideComposition};
 use crate::quantity::Mass;
+use chrono::NaiveDate;
 use std::fmt;
 
 /// The base cations that carry CO2 away as bicarbonate.
@@ -211,12 +212,14 @@ impl Deduction {
     }
 }
 
-/// One deduction's value and where it comes from.
+/// One deduction's value, where it comes from, and the day it took effect where it is a
+/// project's dated setting (none for a default or a what-if).
 #[derive(Debug, Clone, PartialEq)]
 pub struct Parameter {
     pub deduction: Deduction,
     pub value: f64,
     pub source: String,
+    pub from: Option<NaiveDate>,
 }
 
 /// The four deduction parameters, each in [0, 1], in [`Deduction::ALL`] order.
@@ -232,6 +235,7 @@ impl Default for Deductions {
                 deduction,
                 value: deduction.default_value(),
                 source: deduction.default_source().into(),
+                from: None,
             }),
         }
     }
@@ -240,16 +244,28 @@ impl Default for Deductions {
 impl Deductions {
     /// The same set with one parameter replaced, and the source that justifies it.
     pub fn set(
+        self,
+        deduction: Deduction,
+        value: f64,
+        source: impl Into<String>,
+    ) -> Result<Self, RemovalError> {
+        self.set_from(deduction, value, source, None)
+    }
+
+    /// [`Self::set`] for a parameter in force from a day (a project's dated setting).
+    pub fn set_from(
         mut self,
         deduction: Deduction,
         value: f64,
         source: impl Into<String>,
+        from: Option<NaiveDate>,
     ) -> Result<Self, RemovalError> {
         check(deduction.name(), value, Rule::Fraction)?;
         self.parameters[deduction as usize] = Parameter {
             deduction,
             value,
             source: source.into(),
+            from,
         };
         Ok(self)
     }
@@ -263,11 +279,20 @@ impl Deductions {
     }
 }
 
-/// One parameter a line: `name = value (source)`.
+/// One parameter a line: `name = value (source)`, with `in force from DATE` for a dated one.
 impl fmt::Display for Deductions {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         for p in &self.parameters {
-            writeln!(f, "{} = {} ({})", p.deduction.name(), p.value, p.source)?;
+            match p.from {
+                Some(d) => writeln!(
+                    f,
+                    "{} = {}, in force from {d} ({})",
+                    p.deduction.name(),
+                    p.value,
+                    p.source
+                )?,
+                None => writeln!(f, "{} = {} ({})", p.deduction.name(), p.value, p.source)?,
+            }
         }
         Ok(())
     }

@@ -1,0 +1,1 @@
+-- A ledger is never migrated down.
