@@ -1138,7 +1138,7 @@ pub(super) fn replaced(
 }
 
 /// Where the project stands for its permit before `new`: cumulative stored from the chain tip's
-/// running figures and, under an annual maximum, each year's injection read by index.
+/// running figures and, under an annual maximum, each year's injection summed in SQL.
 pub(super) fn standing(
     tx: &mut Tx<'_>,
     project: &Project,

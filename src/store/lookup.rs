@@ -1,7 +1,8 @@
-//! What an append reads besides the chain tip, each through an index: one entry by its seq,
-//! the entry that corrects a seq, the late differences recorded against one, the running
-//! figures the tip keeps, and a year's injection for the annual permit. No append reads the
-//! project's whole chain.
+//! What an append reads besides the chain tip: one entry by its seq and the entry that corrects
+//! a seq (each through an index), the running figures the tip keeps, and two sums SQL filters
+//! for the rules that need them: the late differences recorded against an entry (rows after it,
+//! only in a project with seals) and a year's injection (only under an annual maximum). No
+//! append loads the project's chain.
 
 use super::Tx;
 use super::backend::placeholders;
