@@ -86,7 +86,10 @@ fn the_schema_migrates_keeping_every_trigger_and_index() {
     let after = schema(&l);
     // Later migrations may add tables (each with its triggers); none is lost.
     let lost: Vec<_> = before.keys().filter(|k| !after.contains_key(*k)).collect();
-    assert!(lost.is_empty(), "tables, indexes or triggers lost: {lost:?}");
+    assert!(
+        lost.is_empty(),
+        "tables, indexes or triggers lost: {lost:?}"
+    );
     let changed: Vec<&(String, String)> =
         before.keys().filter(|k| before[*k] != after[*k]).collect();
     assert_eq!(

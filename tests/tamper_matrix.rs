@@ -117,8 +117,16 @@ fn row_names(c: &mut SqliteConnection, table: &str, rowid: i64) -> Vec<String> {
         // "[project P: ]reconciliations row seq N[ of project P]".
         "reconciliations" => vec![
             format!("reconciliation {} of project {}", v("seq"), v("project")),
-            format!("project {}: reconciliations row seq {}", v("project"), v("seq")),
-            format!("reconciliations row seq {} of project {}", v("seq"), v("project")),
+            format!(
+                "project {}: reconciliations row seq {}",
+                v("project"),
+                v("seq")
+            ),
+            format!(
+                "reconciliations row seq {} of project {}",
+                v("seq"),
+                v("project")
+            ),
         ],
         other => panic!(
             "table {other} is not in the tamper matrix: say how verify names its rows, and make verify catch every change to it"

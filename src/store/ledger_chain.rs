@@ -3,12 +3,12 @@
 //! and finds rows no link names.
 
 use super::backend::{Conn, placeholders};
+use super::reconciliations::ReconciliationRow;
 use super::rows::{FeedstockRow, ImportRow, ProjectRow, SettingRow, SignatureRow, SiteRow};
 use super::schema::{
     entries, feedstocks, imports, ledger_chain, projects, reconciliations, settings, signatures,
     sites,
 };
-use super::reconciliations::ReconciliationRow;
 use super::{Tx, inconsistent};
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
@@ -78,9 +78,7 @@ fn keys_sql(r: Record) -> &'static str {
         Record::Seal => {
             "SELECT project, CAST(seq AS TEXT) AS item FROM entries WHERE kind = 'seal'"
         }
-        Record::Reconciliation => {
-            "SELECT project, CAST(seq AS TEXT) AS item FROM reconciliations"
-        }
+        Record::Reconciliation => "SELECT project, CAST(seq AS TEXT) AS item FROM reconciliations",
     }
 }
 
