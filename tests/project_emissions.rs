@@ -49,7 +49,7 @@ fn co2_a_batch_releases_is_an_emission_of_that_batch() {
         r.err
     );
     let b = l.json(&["balance", "XSM", "--by", "month"]);
-    let jan = &b[0];
+    let jan = &b["balance"][0];
     assert_eq!(grams(&jan["stored_t"]), 225_000_000);
     assert_eq!(grams(&jan["emissions_t"]), 183_673_469);
     // Net = 225 000 000 − 183 673 469 = 41 326 531 g; claims start from it.

@@ -148,7 +148,7 @@ fn campaigns_apply_to_co2_injected_before_them() {
     // Two wells: U = t(0.975, 1)·s/√2 = 12.706 × 0.088388 / 1.414214 = 0.794125 of fraction
     // (s = √(2 × 0.0625²) = 0.088388); on the 300.5 t it covers, ± 238.634 t mineralized.
     let u = 12.706 * sd / 2f64.sqrt();
-    assert!((c["mineralized_fraction_u"].as_f64().unwrap() - u).abs() < 1e-12);
+    assert!((c["mineralized_fraction_u_95_pct"].as_f64().unwrap() - u).abs() < 1e-12);
     assert_eq!(
         grams(&q[0]["mineralized_u_t"]),
         (u * 300.5e6).round_ties_even() as i64

@@ -128,7 +128,7 @@ names! {
     MINERALIZED_FRACTION_MEAN = "Mineralized fraction (mean)", "mineralized_fraction_mean";
     MINERALIZED_FRACTION_MIN = "Mineralized fraction (min)", "mineralized_fraction_min";
     MINERALIZED_FRACTION_SD = "Mineralized fraction (sd)", "mineralized_fraction_sd";
-    MINERALIZED_FRACTION_U = "Mineralized fraction ± (95 %)", "mineralized_fraction_u";
+    MINERALIZED_FRACTION_U = "Mineralized fraction ± (95 %)", "mineralized_fraction_u_95_pct";
     MINERALIZED_T = "Mineralized (t)", "mineralized_t";
     MINERALIZED_U_T = "Mineralized ± (t)", "mineralized_u_t";
     MISSTATEMENT_T = "Misstatement (t)", "misstatement_t";
