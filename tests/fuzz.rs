@@ -8,7 +8,7 @@
 //! --nocapture` runs them long (`SINKBOOK_FUZZ_CASES` per target, default 200,000, from a seed
 //! it prints), printing the count and the cases per second. Every input that ever failed is
 //! kept under tests/fuzz-corpus/TARGET/ and replayed by `the_corpus_still_passes`; the long run
-//! writes what it finds there. tests/fuzz-corpus/bundle-line/seed-*.txt are lines of a real
+//! writes what it finds there. tests/fuzz-corpus/bundle-line/real-*.txt are lines of a real
 //! bundle (the demo's), which the bundle target's mutations start from.
 
 use proptest::prelude::*;
