@@ -276,18 +276,18 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
     if i.computed().is_none() {
         let extra = [("category", category), ("stage", stage.name().into())];
         let e = metered(EntryKind::Emission, b, &extra, ctx)?;
-        return commit(ctx, e, b.key.clone(), false);
+        return commit(ctx, e, b.reading.key.clone(), false);
     }
-    if b.quantity.mass.is_some() || b.quantity.volume.is_some() {
+    if b.reading.quantity.mass.is_some() || b.reading.quantity.volume.is_some() {
         return Err(Error::Refused(format!(
             "give --mass or the {} inputs, not both",
             stage.name()
         )));
     }
-    commit_with(ctx, b.key.clone(), false, |tx| {
+    commit_with(ctx, b.reading.key.clone(), false, |tx| {
         let period = period(
-            required(&b.from, "--from")?,
-            required(&b.to, "--to")?,
+            required(&b.reading.from, "--from")?,
+            required(&b.reading.to, "--to")?,
             ctx.now.date_naive(),
         )?;
         let mut reading = Reading::default();

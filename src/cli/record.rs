@@ -180,6 +180,14 @@ pub struct RecordArgs {
     #[arg(long)]
     pub site: String,
     #[command(flatten)]
+    pub reading: ReadingArgs,
+}
+
+/// What a quantity record says beside its project and where: the quantity, the days it
+/// covers, its key, meter and note.
+#[derive(Debug, Clone, Default, Args)]
+pub struct ReadingArgs {
+    #[command(flatten)]
     pub quantity: QuantityArgs,
     /// First day the reading covers (ISO 8601 date)
     #[arg(long, value_name = "DATE")]
@@ -227,22 +235,7 @@ pub struct LeakageArgs {
     #[arg(long)]
     pub pathway: String,
     #[command(flatten)]
-    pub quantity: QuantityArgs,
-    /// First day the leak covers (ISO 8601 date)
-    #[arg(long, value_name = "DATE")]
-    pub from: Option<String>,
-    /// Last day the leak covers, included
-    #[arg(long, value_name = "DATE")]
-    pub to: Option<String>,
-    /// Idempotency key: recording the same key again writes nothing [default: derived from the content]
-    #[arg(long)]
-    pub key: Option<String>,
-    /// The meter's identifier
-    #[arg(long, value_name = "ID")]
-    pub meter: Option<String>,
-    /// A note kept with the entry (free text)
-    #[arg(long, value_name = "TEXT")]
-    pub note: Option<String>,
+    pub reading: ReadingArgs,
     /// Average leak rate, e.g. "2.5 t/h" or "40 kg/d": emitted = rate × 24 h × days, both dates included
     #[arg(long, allow_hyphen_values = true)]
     pub rate: Option<String>,
@@ -438,9 +431,9 @@ pub(super) fn draft(
     period: Period,
     ctx: &Context,
 ) -> Result<Entry> {
-    optional_text("--key", &b.key)?;
-    optional_text("--meter", &b.meter)?;
-    optional_text("--note", &b.note)?;
+    optional_text("--key", &b.reading.key)?;
+    optional_text("--meter", &b.reading.meter)?;
+    optional_text("--note", &b.reading.note)?;
     Ok(Entry {
         project: b.project.clone(),
         seq: 0,
@@ -452,8 +445,8 @@ pub(super) fn draft(
         sign: kind.sign(),
         recorded_at: ctx.now,
         key: String::new(),
-        meter: b.meter.clone(),
-        note: b.note.clone(),
+        meter: b.reading.meter.clone(),
+        note: b.reading.note.clone(),
         corrects: None,
         reason: None,
         evidence: None,
@@ -467,14 +460,14 @@ pub(super) fn metered(
     extra: &[(&str, String)],
     ctx: &Context,
 ) -> Result<Entry> {
-    let m = measure(&b.quantity.input())?;
+    let m = measure(&b.reading.quantity.input())?;
     let mut reading = m.reading;
     for (n, v) in extra {
         reading.push(n, v.clone());
     }
     let p = period(
-        required(&b.from, "--from")?,
-        required(&b.to, "--to")?,
+        required(&b.reading.from, "--from")?,
+        required(&b.reading.to, "--to")?,
         ctx.now.date_naive(),
     )?;
     draft(kind, b, reading, m.mass, p, ctx)
@@ -482,13 +475,19 @@ pub(super) fn metered(
 
 pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
     let (entry, key, over_permit) = match c {
-        RecordCommand::Receipt(b) => (metered(EntryKind::Receipt, &b, &[], ctx)?, b.key, false),
-        RecordCommand::Redelivery(b) => {
-            (metered(EntryKind::Redelivery, &b, &[], ctx)?, b.key, false)
-        }
+        RecordCommand::Receipt(b) => (
+            metered(EntryKind::Receipt, &b, &[], ctx)?,
+            b.reading.key,
+            false,
+        ),
+        RecordCommand::Redelivery(b) => (
+            metered(EntryKind::Redelivery, &b, &[], ctx)?,
+            b.reading.key,
+            false,
+        ),
         RecordCommand::Injection(a) => (
             metered(EntryKind::Injection, &a.base, &[], ctx)?,
-            a.base.key,
+            a.base.reading.key,
             a.over_permit,
         ),
         RecordCommand::Production(a) => {
@@ -505,7 +504,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let extra = [("entrained_fraction", x.to_string())];
             (
                 metered(EntryKind::Production, &a.base, &extra, ctx)?,
-                a.base.key,
+                a.base.reading.key,
                 false,
             )
         }
@@ -521,7 +520,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
                     &[("side", side.into())],
                     ctx,
                 )?,
-                a.base.key,
+                a.base.reading.key,
                 false,
             )
         }
@@ -532,7 +531,7 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let cat = format!("{:?}", a.category.unwrap_or(Category::Energy)).to_lowercase();
             (
                 metered(EntryKind::Emission, &a.base, &[("category", cat)], ctx)?,
-                a.base.key,
+                a.base.reading.key,
                 false,
             )
         }
@@ -546,12 +545,12 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let b = RecordArgs {
                 project: a.project,
                 site: a.site,
-                quantity: QuantityArgs::default(),
-                from: None,
-                to: None,
-                key: a.key.clone(),
-                meter: a.meter,
-                note: a.note,
+                reading: ReadingArgs {
+                    key: a.key.clone(),
+                    meter: a.meter,
+                    note: a.note,
+                    ..Default::default()
+                },
             };
             (
                 draft(
@@ -587,12 +586,10 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let b = RecordArgs {
                 project: a.project,
                 site: a.site.unwrap_or_default(),
-                quantity: QuantityArgs::default(),
-                from: None,
-                to: None,
-                key: a.key.clone(),
-                meter: None,
-                note: None,
+                reading: ReadingArgs {
+                    key: a.key.clone(),
+                    ..Default::default()
+                },
             };
             let mut e = draft(EntryKind::Reversal, &b, reading, mass, Period::day(d), ctx)?;
             e.reason = Some(a.reason);
@@ -616,12 +613,11 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             let b = RecordArgs {
                 project: a.project,
                 site: a.site,
-                quantity: QuantityArgs::default(),
-                from: None,
-                to: None,
-                key: a.key.clone(),
-                meter: None,
-                note: a.note,
+                reading: ReadingArgs {
+                    key: a.key.clone(),
+                    note: a.note,
+                    ..Default::default()
+                },
             };
             (
                 draft(
@@ -651,16 +647,15 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     let b = &RecordArgs {
         project: a.project.clone(),
         site: a.site.clone().unwrap_or_default(),
-        quantity: a.quantity.clone(),
-        from: a.from.clone(),
-        to: a.to.clone(),
-        key: a.key.clone(),
-        meter: a.meter.clone(),
-        note: a.note.clone(),
+        reading: a.reading.clone(),
     };
-    let to = inputs::activity_date("--to", required(&b.to, "--to")?, ctx.now.date_naive())?;
+    let to = inputs::activity_date(
+        "--to",
+        required(&b.reading.to, "--to")?,
+        ctx.now.date_naive(),
+    )?;
     let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
-    let from = match (&b.from, a.since_last_survey) {
+    let from = match (&b.reading.from, a.since_last_survey) {
         (Some(_), true) => {
             return Err(Error::Refused(
                 "give --from or --since-last-survey, not both".into(),
@@ -707,7 +702,7 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     let period = Period::new(from, to).map_err(|e| Error::field("--to", &to.to_string(), e))?;
     let (mut reading, mass) = match &a.rate {
         Some(rate) => {
-            if b.quantity.is_given() {
+            if b.reading.quantity.is_given() {
                 return Err(Error::Refused(
                     "give --rate or a quantity (--mass/--volume), not both".into(),
                 ));
@@ -726,7 +721,7 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
             (reading, mass)
         }
         None => {
-            let m = measure(&b.quantity.input())?;
+            let m = measure(&b.reading.quantity.input())?;
             (m.reading, m.mass)
         }
     };
@@ -734,7 +729,7 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
         reading.push(n, v);
     }
     let entry = draft(EntryKind::Leakage, b, reading, mass, period, ctx)?;
-    commit(ctx, entry, b.key.clone(), false)
+    commit(ctx, entry, b.reading.key.clone(), false)
 }
 
 /// What a leak's last no-leak survey is looked for by: its site, or, for a leak at no site of

@@ -2,7 +2,7 @@
 //! records of the rock routes, and the same readings read back for the reports. The reading
 //! field names written here are the ones read back here, and nowhere else.
 
-use super::record::{RecordArgs, commit_with, draft};
+use super::record::{ReadingArgs, RecordArgs, commit_with, draft};
 use super::rock_inputs::{self as ri, DENSITY, Measure};
 use super::setup::known_project;
 use super::{Context, inputs};
@@ -212,12 +212,11 @@ fn entry(
     let b = RecordArgs {
         project: project.into(),
         site: site.into(),
-        quantity: Default::default(),
-        from: None,
-        to: None,
-        key: o.key.clone(),
-        meter: None,
-        note: o.note.clone(),
+        reading: ReadingArgs {
+            key: o.key.clone(),
+            note: o.note.clone(),
+            ..Default::default()
+        },
     };
     let mut e = draft(kind, &b, reading, mass, period, ctx)?;
     if let Some(r) = &o.reason {
