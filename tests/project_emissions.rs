@@ -11,23 +11,7 @@ fn plant() -> Ledger {
 }
 
 fn carbonate(l: &Ledger, mass: &str, before: &str, after: &str) -> common::Run {
-    l.run(&[
-        "record",
-        "carbonation",
-        "XSM",
-        "--site",
-        "AS-P1",
-        "--mass",
-        mass,
-        "--co2-before",
-        before,
-        "--co2-after",
-        after,
-        "--from",
-        "2026-01-05",
-        "--to",
-        "2026-01-30",
-    ])
+    l.carbonate(mass, before, after, "2026-01-05", "2026-01-30")
 }
 
 fn grams(v: &serde_json::Value) -> i64 {

@@ -240,23 +240,13 @@ fn plant() -> Ledger {
 }
 
 fn carbonate(l: &Ledger, mass: &str, before: &str, after: &str, from: &str, to: &str) -> String {
-    l.ok(&[
-        "record",
-        "carbonation",
-        "XSM",
-        "--site",
-        "AS-P1",
-        "--mass",
-        mass,
-        "--co2-before",
-        before,
-        "--co2-after",
-        after,
-        "--from",
-        from,
-        "--to",
-        to,
-    ])
+    let r = l.carbonate(mass, before, after, from, to);
+    assert_eq!(
+        r.code, 0,
+        "record carbonation {mass} {before} → {after}: {}",
+        r.err
+    );
+    r.out
 }
 
 /// Derived in docs/mineralization.md (computed): 1000 t at 2 % → 20 % CO2 takes up

@@ -32,23 +32,8 @@ fn two_routes() -> Ledger {
         ]);
     }
     l.add_xsm();
-    l.ok(&[
-        "record",
-        "carbonation",
-        "XSM",
-        "--site",
-        "AS-P1",
-        "--mass",
-        "1000 t",
-        "--co2-before",
-        "2%",
-        "--co2-after",
-        "20%",
-        "--from",
-        "2026-01-05",
-        "--to",
-        "2026-01-30",
-    ]);
+    let r = l.carbonate("1000 t", "2%", "20%", "2026-01-05", "2026-01-30");
+    assert_eq!(r.code, 0, "{}", r.err);
     l.ok(&[
         "record",
         "emission",

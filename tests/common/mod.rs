@@ -321,6 +321,28 @@ impl Ledger {
         self.ok(&["site", "add", "XSM", "AS-P1", "--kind", "plant"]);
     }
 
+    /// `record carbonation` of a batch at XSM's plant AS-P1: `mass` of solid whose CO2 content
+    /// went from `before` to `after`, over the days `from` to `to`.
+    pub fn carbonate(&self, mass: &str, before: &str, after: &str, from: &str, to: &str) -> Run {
+        self.run(&[
+            "record",
+            "carbonation",
+            "XSM",
+            "--site",
+            "AS-P1",
+            "--mass",
+            mass,
+            "--co2-before",
+            before,
+            "--co2-after",
+            after,
+            "--from",
+            from,
+            "--to",
+            to,
+        ])
+    }
+
     pub fn run(&self, args: &[&str]) -> Run {
         self.run_at(NOW, args)
     }
