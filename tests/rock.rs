@@ -297,6 +297,19 @@ fn references_md_tau_example() {
     assert!(((6.0 / 10.0) * (1.0 / 1.25) - 1.0 + 0.52f64).abs() < 1e-12);
 }
 
+/// The deductions of the term-by-term check: strong acid, retention, secondary carbonate and
+/// the ocean's efficiency.
+const DEDUCTIONS: [&str; 8] = [
+    "--strong-acid",
+    "10%",
+    "--cation-retention",
+    "5%",
+    "--secondary-carbonate",
+    "20%",
+    "--ocean-efficiency",
+    "0.85",
+];
+
 /// Gross = f × applied × Σ(mol/t × z) × M_CO2, then strong acid, retention, secondary carbonate
 /// (keeps half) and the ocean's share, each rounded once to grams; net less emissions. Checked
 /// term by term against the command's output.
@@ -320,18 +333,7 @@ fn gross_to_net_term_by_term() {
         "--to",
         "2025-04-10",
     ]);
-    let w = l.json(&[
-        "weathering",
-        "EVW",
-        "--strong-acid",
-        "10%",
-        "--cation-retention",
-        "5%",
-        "--secondary-carbonate",
-        "20%",
-        "--ocean-efficiency",
-        "0.85",
-    ]);
+    let w = l.json(&[&["weathering", "EVW"][..], &DEDUCTIONS].concat());
     let row = &w[0];
     let f = row["dissolved_fraction"].as_f64().unwrap();
     let m = feedstock_mol_per_kg();
@@ -388,26 +390,17 @@ fn gross_to_net_term_by_term() {
     crate::snapshot!(
         "weathering_deductions",
         l.ok(&[
-            "weathering",
-            "EVW",
-            "--strong-acid",
-            "10%",
-            "--cation-retention",
-            "5%",
-            "--secondary-carbonate",
-            "20%",
-            "--ocean-efficiency",
-            "0.85",
-            "--deduction-source",
-            "monitoring plan EVW-MP-2 table 4",
-        ])
+            &["weathering", "EVW"][..],
+            &DEDUCTIONS,
+            &["--deduction-source", "monitoring plan EVW-MP-2 table 4"],
+        ]
+        .concat())
     );
 }
 
-/// Two fields over two years, a correction and emissions elsewhere: the table, and the balance
-/// crediting each campaign's change to its year.
-#[test]
-fn weathering_table_and_balance_by_year() {
+/// EVW's two fields over two years: baselines, spreadings, three campaigns (one corrected) and
+/// emissions at the mill and on a field.
+fn two_fields_two_years() -> Ledger {
     let l = evw();
     core(&l, "EV-F1", "2025-03-20", &SOIL, true);
     core(&l, "EV-F2", "2025-03-21", &SOIL, true);
@@ -477,6 +470,14 @@ fn weathering_table_and_balance_by_year() {
         "--to",
         "2025-04-10",
     ]);
+    l
+}
+
+/// Two fields over two years, a correction and emissions elsewhere: the table, and the balance
+/// crediting each campaign's change to its year.
+#[test]
+fn weathering_table_and_balance_by_year() {
+    let l = two_fields_two_years();
     let w = l.json(&["weathering", "EVW"]);
     let rows = w.as_array().unwrap();
     assert_eq!(rows.len(), 4, "three campaigns and the total");

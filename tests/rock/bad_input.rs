@@ -30,30 +30,34 @@ fn bad_tracer_and_carbonation_input() {
         ]
     };
     let bad = "must be greater than 0 and at most 1";
-    refused(
-        &l,
-        "CRB",
-        &t("0", "1.2", "mmol/kg"),
-        &format!(r#"--tracer-ratio "0": {bad}"#),
-    );
-    refused(
-        &l,
-        "CRB",
-        &t("1.5", "1.2", "mmol/kg"),
-        &format!(r#"--tracer-ratio "1.5": {bad}"#),
-    );
-    refused(
-        &l,
-        "CRB",
-        &t("0.4", "-1", "mmol/kg"),
-        r#"--dic-sample "-1": must be a finite number of at least 0"#,
-    );
-    refused(
-        &l,
-        "CRB",
-        &t("0.4", "1.2", "ppb"),
-        r#"--unit "ppb": is not a DIC unit"#,
-    );
+    for (x, dic, unit, needle) in [
+        (
+            "0",
+            "1.2",
+            "mmol/kg",
+            format!(r#"--tracer-ratio "0": {bad}"#),
+        ),
+        (
+            "1.5",
+            "1.2",
+            "mmol/kg",
+            format!(r#"--tracer-ratio "1.5": {bad}"#),
+        ),
+        (
+            "0.4",
+            "-1",
+            "mmol/kg",
+            r#"--dic-sample "-1": must be a finite number of at least 0"#.into(),
+        ),
+        (
+            "0.4",
+            "1.2",
+            "ppb",
+            r#"--unit "ppb": is not a DIC unit"#.into(),
+        ),
+    ] {
+        refused(&l, "CRB", &t(x, dic, unit), &needle);
+    }
     let mut wrong_site = t("0.4", "1.2", "mmol/kg");
     wrong_site[4] = "CR-I1";
     refused(
@@ -82,24 +86,17 @@ fn bad_tracer_and_carbonation_input() {
             "2026-01-31",
         ]
     };
-    refused(
-        &p,
-        "XSM",
-        &c("2%", "100%"),
-        r#"--co2-after "100%": must be at least 0 and less than 1"#,
-    );
-    refused(
-        &p,
-        "XSM",
-        &c("120%", "20%"),
-        r#"--co2-before "120%": must be from 0 to 1"#,
-    );
-    refused(
-        &p,
-        "XSM",
-        &c("2%", "-1%"),
-        r#"--co2-after "-1%": must be from 0 to 1"#,
-    );
+    for (before, after, needle) in [
+        (
+            "2%",
+            "100%",
+            r#"--co2-after "100%": must be at least 0 and less than 1"#,
+        ),
+        ("120%", "20%", r#"--co2-before "120%": must be from 0 to 1"#),
+        ("2%", "-1%", r#"--co2-after "-1%": must be from 0 to 1"#),
+    ] {
+        refused(&p, "XSM", &c(before, after), needle);
+    }
     let mut tfs = c("2%", "20%");
     tfs[2] = "CRB";
     refused(
@@ -111,7 +108,7 @@ fn bad_tracer_and_carbonation_input() {
 }
 
 #[test]
-fn bad_soil_and_feedstock_input() {
+fn bad_soil_input() {
     let l = evw();
     let s = |conc: &'static str, unit: &'static str, rho: &'static str| -> Vec<&'static str> {
         vec![
@@ -133,42 +130,47 @@ fn bad_soil_and_feedstock_input() {
             "--baseline",
         ]
     };
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=-0.1,Ti=0.07", "mol/kg", "1.3 t/m3"),
-        r#"--conc "Ca=-0.1,Ti=0.07": Ca is -0.1; a concentration must be a finite number of at least 0"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=900000,Mg=200000,Ti=3600", "mg/kg", "1.3 t/m3"),
-        "more than the sample (1000 g/kg): check the unit",
-    );
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=0.15,Mg=0.14", "mol/kg", "1.3 t/m3"),
-        r#"--conc "Ca=0.15,Mg=0.14": no immobile element: give Ti or Zr"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=0.15,Fe=1,Ti=0.07", "mol/kg", "1.3 t/m3"),
-        "Fe is not an element used here",
-    );
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=0.15,Ti=0.07", "ppm", "1.3 t/m3"),
-        r#"--unit "ppm": is not a concentration unit"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &s("Ca=0.15,Ti=0.07", "mol/kg", "3.1 t/m3"),
-        r#"--bulk-density "3.1 t/m3": must be at most 2.65 t/m3"#,
-    );
+    let (ca_ti, rho) = ("Ca=0.15,Ti=0.07", "1.3 t/m3");
+    for (conc, unit, rho, needle) in [
+        (
+            "Ca=-0.1,Ti=0.07",
+            "mol/kg",
+            rho,
+            r#"--conc "Ca=-0.1,Ti=0.07": Ca is -0.1; a concentration must be a finite number of at least 0"#,
+        ),
+        (
+            "Ca=900000,Mg=200000,Ti=3600",
+            "mg/kg",
+            rho,
+            "more than the sample (1000 g/kg): check the unit",
+        ),
+        (
+            "Ca=0.15,Mg=0.14",
+            "mol/kg",
+            rho,
+            r#"--conc "Ca=0.15,Mg=0.14": no immobile element: give Ti or Zr"#,
+        ),
+        (
+            "Ca=0.15,Fe=1,Ti=0.07",
+            "mol/kg",
+            rho,
+            "Fe is not an element used here",
+        ),
+        (
+            ca_ti,
+            "ppm",
+            rho,
+            r#"--unit "ppm": is not a concentration unit"#,
+        ),
+        (
+            ca_ti,
+            "mol/kg",
+            "3.1 t/m3",
+            r#"--bulk-density "3.1 t/m3": must be at most 2.65 t/m3"#,
+        ),
+    ] {
+        refused(&l, "EVW", &s(conc, unit, rho), needle);
+    }
     let mut depth = s("Ca=0.15,Ti=0.07", "mol/kg", "1.3 t/m3");
     depth[8] = "20-0 cm";
     refused(
@@ -177,7 +179,11 @@ fn bad_soil_and_feedstock_input() {
         &depth,
         r#"--depth "20-0 cm": the bottom must lie below the top"#,
     );
+}
 
+#[test]
+fn bad_feedstock_input() {
+    let l = evw();
     let before = l.ok(&["--format", "json", "feedstock", "list", "EVW"]);
     let f = |oxides: &'static str, extra: &[&'static str]| -> Vec<&'static str> {
         let mut v = vec!["feedstock", "add", "EVW", "EVB-2", "--oxides", oxides];
@@ -187,36 +193,36 @@ fn bad_soil_and_feedstock_input() {
         }
         v
     };
-    refused(
-        &l,
-        "EVW",
-        &f("CaO=9.4,MgO=7.8", &[]),
-        r#"--elements "": no immobile element: give Ti or Zr (or TiO2 among a feedstock's oxides)"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &f("CaO=60,MgO=45,TiO2=1", &[]),
-        r#"--oxides "CaO=60,MgO=45,TiO2=1": oxides total 106.000 wt%"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &f("CaO=9.4,TiO2=1", &["--elements", "Nb=20"]),
-        "Nb is not an element used here (give Ti or Zr)",
-    );
-    refused(
-        &l,
-        "EVW",
-        &f("CaO=9.4,TiO2=1", &["--density", "2900 t/m3"]),
-        r#"--density "2900 t/m3": must be at most 5 t/m3"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &f("CaO=9.4,TiO2=1", &["--unit", "ppm"]),
-        r#"--unit "ppm": is not a concentration unit"#,
-    );
+    let ca_ti = "CaO=9.4,TiO2=1";
+    for (oxides, extra, needle) in [
+        (
+            "CaO=9.4,MgO=7.8",
+            &[][..],
+            r#"--elements "": no immobile element: give Ti or Zr (or TiO2 among a feedstock's oxides)"#,
+        ),
+        (
+            "CaO=60,MgO=45,TiO2=1",
+            &[],
+            r#"--oxides "CaO=60,MgO=45,TiO2=1": oxides total 106.000 wt%"#,
+        ),
+        (
+            ca_ti,
+            &["--elements", "Nb=20"],
+            "Nb is not an element used here (give Ti or Zr)",
+        ),
+        (
+            ca_ti,
+            &["--density", "2900 t/m3"],
+            r#"--density "2900 t/m3": must be at most 5 t/m3"#,
+        ),
+        (
+            ca_ti,
+            &["--unit", "ppm"],
+            r#"--unit "ppm": is not a concentration unit"#,
+        ),
+    ] {
+        refused(&l, "EVW", &f(oxides, extra), needle);
+    }
     refused(
         &l,
         "EVW",
@@ -423,115 +429,56 @@ fn bad_emission_inventories() {
         v.extend_from_slice(extra);
         v
     };
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--grinding",
-            "bond",
-            "--d80",
-            "90 um",
-            "--rock-mass",
-            "100 t",
-            "--grid-factor",
-            "0.3 kg/kWh",
-        ]),
-        "--work-index is required to compute grinding emissions",
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--grinding",
-            "bond",
-            "--d80",
-            "20 mm",
-            "--feed-f80",
-            "12 mm",
-            "--work-index",
-            "18 kWh/t",
-            "--rock-mass",
-            "100 t",
-            "--grid-factor",
-            "0.3 kg/kWh",
-        ]),
-        r#"--d80 "20 mm": must be finer than --feed-f80 "12 mm""#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--grinding",
-            "strefler",
-            "--d80",
-            "90",
-            "--rock-mass",
-            "100 t",
-            "--grid-factor",
-            "0.3 kg/kWh",
-        ]),
-        r#"--d80 "90": a unit is needed (um, mm)"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--transport",
-            "truck",
-            "--distance",
-            "85 km",
-            "--payload",
-            "100 t",
-            "--mass",
-            "3 t",
-        ]),
-        "give --mass or the transport inputs, not both",
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--transport",
-            "rail",
-            "--spreading-fuel",
-            "4 L/ha",
-            "--distance",
-            "85 km",
-        ]),
-        "give one life-cycle stage per record",
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--stage",
-            "grinding",
-            "--transport",
-            "truck",
-            "--distance",
-            "85 km",
-            "--payload",
-            "100 t",
-        ]),
-        r#"--stage "grinding": the options given compute transport emissions"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&[
-            "--transport",
-            "truck",
-            "--distance",
-            "-5 km",
-            "--payload",
-            "100 t",
-        ]),
-        r#"--distance "-5 km": must be at least zero"#,
-    );
-    refused(
-        &l,
-        "EVW",
-        &e(&["--spreading-fuel", "4 L/ha", "--fuel-factor", "2.68 kg/gal"]),
-        r#"--fuel-factor "2.68 kg/gal": unknown unit "kg/gal""#,
-    );
+    // Options as `--name=value`, one word each.
+    let mill = ["--rock-mass=100 t", "--grid-factor=0.3 kg/kWh"];
+    let truck = ["--transport=truck", "--distance=85 km", "--payload=100 t"];
+    for (options, needle) in [
+        (
+            [&["--grinding=bond", "--d80=90 um"][..], &mill].concat(),
+            "--work-index is required to compute grinding emissions",
+        ),
+        (
+            [
+                &[
+                    "--grinding=bond",
+                    "--d80=20 mm",
+                    "--feed-f80=12 mm",
+                    "--work-index=18 kWh/t",
+                ][..],
+                &mill,
+            ]
+            .concat(),
+            r#"--d80 "20 mm": must be finer than --feed-f80 "12 mm""#,
+        ),
+        (
+            [&["--grinding=strefler", "--d80=90"][..], &mill].concat(),
+            r#"--d80 "90": a unit is needed (um, mm)"#,
+        ),
+        (
+            [&truck[..], &["--mass=3 t"]].concat(),
+            "give --mass or the transport inputs, not both",
+        ),
+        (
+            vec![
+                "--transport=rail",
+                "--spreading-fuel=4 L/ha",
+                "--distance=85 km",
+            ],
+            "give one life-cycle stage per record",
+        ),
+        (
+            [&["--stage=grinding"][..], &truck].concat(),
+            r#"--stage "grinding": the options given compute transport emissions"#,
+        ),
+        (
+            vec!["--transport=truck", "--distance=-5 km", "--payload=100 t"],
+            r#"--distance "-5 km": must be at least zero"#,
+        ),
+        (
+            vec!["--spreading-fuel=4 L/ha", "--fuel-factor=2.68 kg/gal"],
+            r#"--fuel-factor "2.68 kg/gal": unknown unit "kg/gal""#,
+        ),
+    ] {
+        refused(&l, "EVW", &e(&options), needle);
+    }
 }
