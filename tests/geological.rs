@@ -426,6 +426,9 @@ fn permits_warn_refuse_and_flag() {
     );
 }
 
+/// A refused record: its kind, site, options, period options and what the refusal names.
+type Case<'a> = (&'a str, &'a str, &'a [&'a str], &'a [&'a str], &'a str);
+
 #[test]
 fn bad_geological_inputs() {
     let l = eor();
@@ -433,8 +436,7 @@ fn bad_geological_inputs() {
     let one_day = ["--from", "2026-01-01", "--to", "2026-01-01"];
     let two_days = ["--from", "2026-01-01", "--to", "2026-01-02"];
     let (fraction, mol) = ("--co2-fraction", "--co2-basis");
-    // Each case: record kind, site, its options, the period options and what the refusal names.
-    let cases: [(&str, &str, &[&str], &[&str], &str); 9] = [
+    let cases: [Case; 9] = [
         (
             "production",
             "KR-P",

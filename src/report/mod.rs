@@ -8,6 +8,7 @@ pub mod names;
 mod people;
 pub mod render;
 pub mod table;
+pub mod tables;
 mod wrap;
 
 pub use layout::{Layout, Terminal};
