@@ -7,8 +7,9 @@ use crate::bundle::line::{EvidencePart, Import, Trailer};
 use crate::bundle::{Checker, Item, Line};
 use crate::error::{Error, Result};
 use crate::import::bundle_file::each_line;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::bundle::counted;
+pub use crate::report::tables::bundle::summary_table;
 use clap::{Args, Subcommand};
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -238,39 +239,4 @@ fn check(file: &Path) -> Result<Report> {
     );
     table.note("Checked: every line in its one spelling and in order; every registration, entry and statement against its hash; seqs dense from 0; each chain hash recomputed; each imported file's bytes against its SHA-256; every seal's tree head recomputed from the leaves before it and an RFC 6962 consistency proof from each seal to the next; every statement's ed25519 signature over its bytes and the seal it names holding the tree head it signed; every recorded reconciliation's row hash, each naming the one before it; the RFC 6962 tree head over the entries' leaves; the digest of every line before the trailer.");
     Ok(Report::default().table(table))
-}
-
-/// `1 seal`, `2 seals`.
-fn counted(n: usize, what: &str) -> String {
-    format!("{n} {what}{}", if n == 1 { "" } else { "s" })
-}
-
-pub fn summary_table(title: &str, file: &str, project: &str, t: &Trailer, result: &str) -> Table {
-    let mut table = Table::new(
-        "bundle",
-        title,
-        columns(&[
-            names::FILE,
-            names::PROJECT,
-            names::LINES,
-            names::ENTRIES,
-            names::TREE_HEAD,
-            names::ROOT.programs(),
-            names::CHAIN_HASH.programs(),
-            names::SHA256.programs(),
-            names::RESULT,
-        ]),
-    );
-    table.push(vec![
-        Cell::text(file),
-        Cell::text(project),
-        Cell::Int(t.lines as i64 + 1),
-        Cell::Int(t.entries as i64),
-        Cell::text(t.root.head()),
-        Cell::text(t.root.to_hex()),
-        Cell::text(t.chain_head.to_hex()),
-        Cell::text(t.sha256.to_hex()),
-        Cell::text(result),
-    ]);
-    table
 }

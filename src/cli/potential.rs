@@ -2,10 +2,11 @@
 
 use crate::chem::formula::Formula;
 use crate::chem::mineral::{Redox, Route, uptake};
-use crate::chem::oxides::{OxideComposition, RenforthParameters, Term, renforth, steinour};
+use crate::chem::oxides::{OxideComposition, RenforthParameters, renforth, steinour};
 use crate::error::{Error, Result};
 use crate::report::names;
-use crate::report::{Cell, Column, Report, Table, columns};
+use crate::report::tables::potential::terms_table;
+use crate::report::{Cell, Report, Table, columns};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -101,36 +102,6 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
     ));
     rt.note("A potential, not a measured removal: what dissolves, and what stays as bicarbonate, must be measured.");
     Ok(Report::default().table(st).table(rt))
-}
-
-/// One formula's terms, each with the given share, its coefficient and its contribution, and
-/// the total.
-fn terms_table(
-    (id, title): (&'static str, String),
-    (figure, decimals): (Column, usize),
-    terms: &[Term],
-    total: f64,
-) -> Table {
-    let mut t = Table::new(
-        id,
-        title,
-        columns(&[names::TERM, names::GIVEN_WT_PCT, names::COEFFICIENT, figure]),
-    );
-    for x in terms {
-        t.push(vec![
-            Cell::text(x.constituent.name()),
-            Cell::Number(x.wt_pct, 3),
-            Cell::Number(x.coefficient, 4),
-            Cell::Number(x.value, decimals),
-        ]);
-    }
-    t.push(vec![
-        Cell::text("total"),
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Number(total, decimals),
-    ]);
-    t
 }
 
 fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {

@@ -6,10 +6,10 @@ use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::ledger::canonical::encode;
 use crate::ledger::merkle::{RangeHashes, inclusion_ranges};
-use crate::ledger::proof::{FORMAT, InclusionProof, Proven};
+use crate::ledger::proof::{FORMAT, InclusionProof};
 use crate::ledger::seal::Seal;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::proof::proven_table;
 use clap::Args;
 use std::path::PathBuf;
 
@@ -132,35 +132,4 @@ pub fn check_proof(a: CheckProofArgs) -> Result<Report> {
             proven.project, proven.seq, proven.seq, proven.tree_size, proven.root
         ))
         .table(proven_table(&proven, p.audit_path.len(), "holds")))
-}
-
-fn proven_table(p: &Proven, path_len: usize, result: &str) -> Table {
-    let mut t = Table::new(
-        "inclusion_proof",
-        format!("Inclusion proof, project {} seq {}", p.project, p.seq),
-        columns(&[
-            names::PROJECT,
-            names::SEQ,
-            names::LEAF_HEAD,
-            names::LEAF_HASH.programs(),
-            names::TREE_SIZE,
-            names::TREE_HEAD,
-            names::ROOT.programs(),
-            names::PATH_HASHES,
-            names::RESULT,
-        ]),
-    );
-    t.push(vec![
-        Cell::text(&p.project),
-        Cell::Int(p.seq as i64),
-        Cell::text(p.leaf.head()),
-        Cell::text(p.leaf.to_hex()),
-        Cell::Int(p.tree_size as i64),
-        Cell::text(p.root.head()),
-        Cell::text(p.root.to_hex()),
-        Cell::Int(path_len as i64),
-        Cell::text(result),
-    ]);
-    t.note("RFC 6962 audit path from SHA-256(0x00 || the entry's canonical bytes) to the seal's tree head; the head itself is what a seal records and a statement signs.");
-    t
 }

@@ -5,8 +5,8 @@ use crate::error::{Error, Result};
 use crate::ledger::{Method, Project, Site, SiteKind};
 use crate::quantity::area::Area;
 use crate::quantity::fraction::parse_uncertainty;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::setup::{projects_table, sites_table};
 use crate::store::Store;
 use clap::{Args, Subcommand};
 
@@ -80,7 +80,9 @@ pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
             Ok(Report::default()
                 .table(projects_table(std::slice::from_ref(&p)))
                 .table(sites_table(&p.code, &sites))
-                .table(super::settings::settings_table(&p.code, &settings, ctx.now)))
+                .table(crate::report::tables::settings::settings_table(
+                    &p.code, &settings, ctx.now,
+                )))
         }
         ProjectCommand::Set(a) => super::settings::set(ctx, a),
     }
@@ -141,34 +143,6 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
         "registered project {} ({}, {})",
         p.code, p.name, p.method
     )))
-}
-
-fn projects_table(projects: &[Project]) -> Table {
-    let mut t = Table::new(
-        "projects",
-        "Projects",
-        columns(&[
-            names::CODE,
-            names::NAME,
-            names::METHOD,
-            names::OPERATOR,
-            names::PERMIT,
-            names::PERMITTED_CAPACITY_T,
-            names::ANNUAL_MAXIMUM_T,
-        ]),
-    );
-    for p in projects {
-        t.push(vec![
-            Cell::text(&p.code),
-            Cell::text(&p.name),
-            Cell::text(p.method.name()),
-            Cell::text(&p.operator),
-            Cell::opt_text(p.permit_ref.as_deref()),
-            p.permit_capacity.map_or(Cell::Empty, Cell::Tonnes),
-            p.permit_annual.map_or(Cell::Empty, Cell::Tonnes),
-        ]);
-    }
-    t
 }
 
 #[derive(Debug, Subcommand)]
@@ -260,28 +234,4 @@ pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
             Ok(Report::default().table(sites_table(&project, &sites)))
         }
     }
-}
-
-fn sites_table(project: &str, sites: &[Site]) -> Table {
-    let mut t = Table::new(
-        "sites",
-        format!("Sites, project {project}"),
-        columns(&[
-            names::CODE,
-            names::KIND,
-            names::AREA,
-            names::UNCERTAINTY_95_PCT,
-            names::REGISTERED_AT,
-        ]),
-    );
-    for s in sites {
-        t.push(vec![
-            Cell::text(&s.code),
-            Cell::text(s.kind.name()),
-            Cell::opt_text(s.area.as_deref()),
-            Cell::opt_text(s.uncertainty.as_deref()),
-            Cell::text(s.registered_at.format("%Y-%m-%d %H:%M:%S").to_string()),
-        ]);
-    }
-    t
 }

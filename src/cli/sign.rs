@@ -12,6 +12,7 @@ use crate::ledger::signature::{
     Role, Signed, Statement, fingerprint, hex, key_file_text, parse_key_file, sign as sign_with,
 };
 use crate::report::names;
+use crate::report::tables::sign::key_table;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Tx;
 use clap::{Args, Subcommand, ValueEnum};
@@ -74,20 +75,6 @@ pub struct SignArgs {
 pub struct StatementsArgs {
     /// The project code
     pub project: String,
-}
-
-fn key_table(public_key: &[u8; 32], file: &Path) -> Table {
-    let mut t = Table::new(
-        "key",
-        format!("Key {}", file.display()),
-        columns(&[names::PUBLIC_KEY, names::FINGERPRINT]),
-    );
-    t.push(vec![
-        Cell::text(hex(public_key)),
-        Cell::text(fingerprint(public_key)),
-    ]);
-    t.note("Fingerprint: the first 16 hex digits of the SHA-256 of the 32-byte public key.");
-    t
 }
 
 pub fn key(c: KeyCommand) -> Result<Report> {

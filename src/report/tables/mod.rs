@@ -1,4 +1,14 @@
 //! The tables commands show, built from the figures the pure modules compute: one file per
 //! topic. cli parses and calls; these decide columns, rows and notes.
 
+pub mod bundle;
+pub mod feedstock;
+pub mod late;
 pub mod mineralization;
+pub mod potential;
+pub mod proof;
+pub mod reconciliations;
+pub mod settings;
+pub mod setup;
+pub mod sign;
+pub mod weathering;
