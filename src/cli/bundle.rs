@@ -7,9 +7,12 @@ use crate::bundle::line::{EvidencePart, Import, Trailer};
 use crate::bundle::{Checker, Item, Line};
 use crate::error::{Error, Result};
 use crate::import::bundle_file::each_line;
+use crate::ledger::SealedEntry;
 use crate::report::Report;
 use crate::report::tables::bundle::counted;
 pub use crate::report::tables::bundle::summary_table;
+use crate::store::Tx;
+use chrono::{DateTime, Utc};
 use clap::{Args, Subcommand};
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -92,27 +95,7 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     ctx.open()?.read(|tx| {
         let p = known_project(tx, &code)?;
         let all = tx.seal_entries(&code)?;
-        let (last, until) = match a.through_seal {
-            None => (u64::MAX, None),
-            Some(n) => {
-                let seal = all.iter().find(|s| s.entry.seq == n).ok_or_else(|| {
-                    let seqs: Vec<String> = all.iter().map(|s| s.entry.seq.to_string()).collect();
-                    Error::field(
-                        "--through-seal",
-                        &n.to_string(),
-                        format!(
-                            "is not the seq of a seal of project {code} (its seals: {})",
-                            if seqs.is_empty() {
-                                "none".to_string()
-                            } else {
-                                seqs.join(", ")
-                            }
-                        ),
-                    )
-                })?;
-                (n, Some(seal.entry.recorded_at))
-            }
-        };
+        let (last, until) = stop_at(&all, a.through_seal, &code)?;
         // Registrations as they stood when the seal was recorded.
         let by = |t: chrono::DateTime<chrono::Utc>| until.is_none_or(|u| t <= u);
         let seals: Vec<u64> = all
@@ -131,27 +114,7 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
         for f in tx.feedstocks(&code)?.iter().filter(|f| by(f.registered_at)) {
             w.put(&Line::feedstock(f))?;
         }
-        for i in tx.bundle_imports(&code)? {
-            if !by(i.imported_at) {
-                continue;
-            }
-            let import = Import {
-                file_name: i.file_name,
-                file_sha256: i.file_sha256,
-                kind: i.kind,
-                row_count: i.row_count,
-                columns_map: i.columns_map,
-                density: i.density,
-                byte_count: i.byte_count,
-                imported_at: i.imported_at,
-            };
-            w.put(&import.to_line())?;
-            // One part in memory at a time.
-            for part in 0..tx.evidence_parts(i.id)? {
-                let bytes = tx.evidence_part(i.id, part)?.unwrap_or_default();
-                w.put(&EvidencePart { part, bytes }.to_line())?;
-            }
-        }
+        write_imports(&mut w, tx, &code, &by)?;
         tx.each_entry_through(&code, last, |s| w.put(&Line::entry(&s)))?;
         for s in tx.signatures(&code)? {
             if seals.contains(&s.signed.seal_seq) {
@@ -170,10 +133,81 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     })?;
     let trailer = w.checker.trailer();
     w.put(&trailer)?;
-    let tmp = w
-        .out
+    persist(w.out, &a.out, &name)?;
+    let t = w.checker.finish().map_err(Error::Inconsistent)?;
+    Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
+}
+
+/// Where an export stops: the last seq it holds and the time registrations are taken at (the
+/// seal's), or the whole chain.
+fn stop_at(
+    all: &[SealedEntry],
+    asked: Option<u64>,
+    code: &str,
+) -> Result<(u64, Option<DateTime<Utc>>)> {
+    Ok(match asked {
+        None => (u64::MAX, None),
+        Some(n) => {
+            let seal = all.iter().find(|s| s.entry.seq == n).ok_or_else(|| {
+                let seqs: Vec<String> = all.iter().map(|s| s.entry.seq.to_string()).collect();
+                Error::field(
+                    "--through-seal",
+                    &n.to_string(),
+                    format!(
+                        "is not the seq of a seal of project {code} (its seals: {})",
+                        if seqs.is_empty() {
+                            "none".to_string()
+                        } else {
+                            seqs.join(", ")
+                        }
+                    ),
+                )
+            })?;
+            (n, Some(seal.entry.recorded_at))
+        }
+    })
+}
+
+/// Each imported file registered by the export's time, followed by its bytes.
+fn write_imports(
+    w: &mut Writer,
+    tx: &mut Tx<'_>,
+    code: &str,
+    by: &dyn Fn(DateTime<Utc>) -> bool,
+) -> Result<()> {
+    for i in tx.bundle_imports(code)? {
+        if !by(i.imported_at) {
+            continue;
+        }
+        let import = Import {
+            file_name: i.file_name,
+            file_sha256: i.file_sha256,
+            kind: i.kind,
+            row_count: i.row_count,
+            columns_map: i.columns_map,
+            density: i.density,
+            byte_count: i.byte_count,
+            imported_at: i.imported_at,
+        };
+        w.put(&import.to_line())?;
+        // One part in memory at a time.
+        for part in 0..tx.evidence_parts(i.id)? {
+            let bytes = tx.evidence_part(i.id, part)?.unwrap_or_default();
+            w.put(&EvidencePart { part, bytes }.to_line())?;
+        }
+    }
+    Ok(())
+}
+
+/// The written file made readable, synced and renamed onto `path`.
+fn persist(
+    out: std::io::BufWriter<tempfile::NamedTempFile>,
+    path: &Path,
+    name: &str,
+) -> Result<()> {
+    let tmp = out
         .into_inner()
-        .map_err(|e| Error::field("--out", &name, e.error()))?;
+        .map_err(|e| Error::field("--out", name, e.error()))?;
     // A bundle is for sending: readable by others like any file written (a temporary file is
     // created for its owner only).
     #[cfg(unix)]
@@ -181,15 +215,14 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
         use std::os::unix::fs::PermissionsExt;
         tmp.as_file()
             .set_permissions(std::fs::Permissions::from_mode(0o644))
-            .map_err(|e| Error::field("--out", &name, e))?;
+            .map_err(|e| Error::field("--out", name, e))?;
     }
     tmp.as_file()
         .sync_all()
-        .map_err(|e| Error::field("--out", &name, e))?;
-    tmp.persist(&a.out)
-        .map_err(|e| Error::field("--out", &name, e.error))?;
-    let t = w.checker.finish().map_err(Error::Inconsistent)?;
-    Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
+        .map_err(|e| Error::field("--out", name, e))?;
+    tmp.persist(path)
+        .map_err(|e| Error::field("--out", name, e.error))?;
+    Ok(())
 }
 
 /// What a whole bundle was found to hold.

@@ -99,20 +99,7 @@ impl Loader {
             self.close_import(tx, code)?;
         }
         match item {
-            Item::Header { project, .. } => {
-                self.held = Self::held_project(tx, project)?;
-                if let Some(h) = &self.held
-                    && h.entries > self.size
-                {
-                    return Err(Error::Refused(format!(
-                        "bundle of project {project}: the ledger already holds {} entries, the bundle {}; an older bundle extends nothing",
-                        h.entries, self.size
-                    )));
-                }
-                let ranges =
-                    consistency_ranges(self.held.as_ref().map_or(0, |h| h.entries), self.size);
-                self.proof = RangeHashes::new(ranges);
-            }
+            Item::Header { project, .. } => self.header(tx, project)?,
             Item::Project(p) => match &self.held {
                 Some(h) if &h.project != p => {
                     return Err(not_extension(code, "the project's registration differs"));
@@ -154,51 +141,79 @@ impl Loader {
                     tx.add_evidence(*id, p.part, &p.bytes)?;
                 }
             }
-            Item::Entry(s) => {
-                self.proof.push(s.leaf);
-                if s.entry.seq >= self.held.as_ref().map_or(0, |h| h.entries) {
-                    self.entries.push(s.clone());
-                    self.new_entries += 1;
-                    if self.entries.len() >= 1_000 {
-                        tx.append(&self.entries)?;
-                        self.entries.clear();
-                    }
-                }
-            }
-            Item::Signature(s) => {
-                // A statement names its seal entry: the entries go in first.
-                tx.append(&self.entries)?;
-                self.entries.clear();
-                let held = self
-                    .held
-                    .as_ref()
-                    .map(|h| h.signatures.iter().find(|x| x.seq == s.seq));
-                if already_held(held, s, code, || format!("signature {}", s.seq))? {
-                    self.matched_signatures += 1;
-                } else {
-                    tx.add_signature(s)?;
-                    self.new_signatures += 1;
-                }
-            }
-            Item::Reconciliation(r) => {
-                tx.append(&self.entries)?;
-                self.entries.clear();
-                let held = self
-                    .held
-                    .as_ref()
-                    .map(|h| h.reconciliations.get(r.seq as usize));
-                if already_held(held, r, code, || format!("reconciliation {}", r.seq))? {
-                    self.matched_reconciliations += 1;
-                } else {
-                    tx.add_reconciliation(r)?;
-                    self.new_reconciliations += 1;
-                }
-            }
+            Item::Entry(s) => self.entry(tx, s)?,
+            Item::Signature(s) => self.signature(tx, code, s)?,
+            Item::Reconciliation(r) => self.reconciliation(tx, code, r)?,
             Item::Trailer(t) => {
                 tx.append(&self.entries)?;
                 self.entries.clear();
                 self.finish(code, t.root)?;
             }
+        }
+        Ok(())
+    }
+
+    /// The header: what the ledger holds of the project already, and the consistency ranges to check.
+    fn header(&mut self, tx: &mut Tx<'_>, project: &str) -> Result<()> {
+        self.held = Self::held_project(tx, project)?;
+        if let Some(h) = &self.held
+            && h.entries > self.size
+        {
+            return Err(Error::Refused(format!(
+                "bundle of project {project}: the ledger already holds {} entries, the bundle {}; an older bundle extends nothing",
+                h.entries, self.size
+            )));
+        }
+        let ranges = consistency_ranges(self.held.as_ref().map_or(0, |h| h.entries), self.size);
+        self.proof = RangeHashes::new(ranges);
+        Ok(())
+    }
+
+    /// An entry: into the proof, and appended (in batches) when the ledger does not hold it.
+    fn entry(&mut self, tx: &mut Tx<'_>, s: &SealedEntry) -> Result<()> {
+        self.proof.push(s.leaf);
+        if s.entry.seq >= self.held.as_ref().map_or(0, |h| h.entries) {
+            self.entries.push(s.clone());
+            self.new_entries += 1;
+            if self.entries.len() >= 1_000 {
+                tx.append(&self.entries)?;
+                self.entries.clear();
+            }
+        }
+        Ok(())
+    }
+
+    /// A statement: the entries before it appended first, since it names its seal entry.
+    fn signature(&mut self, tx: &mut Tx<'_>, code: &str, s: &Statement) -> Result<()> {
+        // A statement names its seal entry: the entries go in first.
+        tx.append(&self.entries)?;
+        self.entries.clear();
+        let held = self
+            .held
+            .as_ref()
+            .map(|h| h.signatures.iter().find(|x| x.seq == s.seq));
+        if already_held(held, s, code, || format!("signature {}", s.seq))? {
+            self.matched_signatures += 1;
+        } else {
+            tx.add_signature(s)?;
+            self.new_signatures += 1;
+        }
+        Ok(())
+    }
+
+    /// A recorded reconciliation: the entries before it appended first.
+    fn reconciliation(&mut self, tx: &mut Tx<'_>, code: &str, r: &Recorded) -> Result<()> {
+        tx.append(&self.entries)?;
+        self.entries.clear();
+        let held = self
+            .held
+            .as_ref()
+            .map(|h| h.reconciliations.get(r.seq as usize));
+        if already_held(held, r, code, || format!("reconciliation {}", r.seq))? {
+            self.matched_reconciliations += 1;
+        } else {
+            tx.add_reconciliation(r)?;
+            self.new_reconciliations += 1;
         }
         Ok(())
     }
