@@ -9,8 +9,8 @@ use crate::import::meter_csv::ColumnMap;
 use crate::import::plan::{Options, Plan, plan};
 use crate::ledger::{EntryKind, Hash, Site};
 use crate::quantity::volume::DensityMethod;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::evidence::readings_table;
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
@@ -180,35 +180,5 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
             a.meter, a.project
         )));
     }
-    let mut t = Table::new(
-        "readings",
-        format!(
-            "Readings of meter {} on {day}, project {}",
-            a.meter, a.project
-        ),
-        columns(&[
-            names::IMPORT,
-            names::FILE,
-            names::LINE,
-            names::TIMESTAMP,
-            names::QUANTITY,
-            names::UNIT,
-            names::CO2_FRACTION,
-            names::CO2_T,
-        ]),
-    );
-    for (id, file, w) in found {
-        t.push(vec![
-            Cell::Int(id),
-            Cell::text(file),
-            Cell::Int(w.line as i64),
-            Cell::text(w.timestamp),
-            Cell::text(w.quantity),
-            Cell::text(w.unit),
-            Cell::text(w.co2_fraction),
-            Cell::Tonnes(w.co2),
-        ]);
-    }
-    t.note("Re-read from the files' bytes as kept by the ledger, whose SHA-256 `verify` checks.");
-    Ok(Report::default().table(t))
+    Ok(Report::default().table(readings_table(&a.project, &a.meter, day, found)))
 }

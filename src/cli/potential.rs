@@ -4,9 +4,8 @@ use crate::chem::formula::Formula;
 use crate::chem::mineral::{Redox, Route, uptake};
 use crate::chem::oxides::{OxideComposition, RenforthParameters, renforth, steinour};
 use crate::error::{Error, Result};
-use crate::report::names;
-use crate::report::tables::potential::terms_table;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::potential::{mineral_table, renforth_table, steinour_table};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -72,36 +71,9 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
         .and_then(|p| p.with_delta(a.delta))
         .map_err(|e| Error::field("--eta", &eta.to_string(), e))?;
 
-    let s = steinour(&rock);
-    let mut st = terms_table(
-        (
-            "steinour",
-            "Steinour formula (as used by Huntzinger et al. 2009)".into(),
-        ),
-        (names::CO2_WT_PCT, 3),
-        &s.terms,
-        s.co2_wt_pct,
-    );
-    st.note(format!(
-        "= {:.1} kg CO2 per t of rock, carbonate route. Coefficients are molar-mass ratios computed from CIAAW 2021 atomic weights.",
-        s.kg_co2_per_t()
-    ));
-    let r = renforth(&rock, params);
-    let mut rt = terms_table(
-        (
-            "renforth",
-            format!("Modified Steinour formula (Renforth 2019), η = {eta}"),
-        ),
-        (names::CO2_KG_PER_T, 1),
-        &r.terms,
-        r.kg_co2_per_t,
-    );
-    rt.note(format!(
-        "E_pot = (M_CO2/100)·Σ(coefficient·wt%/M_oxide)·10³·η; δ (P2O5) = {}. η runs from 1 (carbonate) to 2 (bicarbonate).",
-        a.delta
-    ));
-    rt.note("A potential, not a measured removal: what dissolves, and what stays as bicarbonate, must be measured.");
-    Ok(Report::default().table(st).table(rt))
+    Ok(Report::default()
+        .table(steinour_table(&steinour(&rock)))
+        .table(renforth_table(&renforth(&rock, params), eta, a.delta)))
 }
 
 fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {
@@ -113,54 +85,5 @@ fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {
     };
     let carb = uptake(&f, Route::Carbonate, redox);
     let bicarb = uptake(&f, Route::Bicarbonate, redox);
-    let mut t = Table::new(
-        "mineral",
-        format!("CO2 uptake of {text} (M = {:.3} g/mol)", carb.molar_mass),
-        columns(&[
-            names::CATION,
-            names::CHARGE,
-            names::MOL_PER_MOL,
-            names::COUNTED,
-            names::CARBONATE_ROUTE_T_CO2_PER_T,
-            names::BICARBONATE_ROUTE_T_CO2_PER_T,
-        ]),
-    );
-    for (c, b) in carb.cations.iter().zip(&bicarb.cations) {
-        t.push(vec![
-            Cell::text(c.element.symbol),
-            Cell::Int(i64::from(c.charge)),
-            Cell::Number(c.mol_per_mol, 3),
-            Cell::text(if c.counted { "yes" } else { "no (oxic)" }),
-            Cell::Number(c.t_co2_per_t, 4),
-            Cell::Number(b.t_co2_per_t, 4),
-        ]);
-    }
-    if carb.carbon_held_mol_per_mol > 0.0 {
-        t.push(vec![
-            Cell::text("carbon already held"),
-            Cell::Empty,
-            Cell::Number(carb.carbon_held_mol_per_mol, 3),
-            Cell::text("deducted"),
-            Cell::Empty,
-            Cell::Empty,
-        ]);
-    }
-    t.push(vec![
-        Cell::text("total"),
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Number(carb.t_co2_per_t, 4),
-        Cell::Number(bicarb.t_co2_per_t, 4),
-    ]);
-    t.note("Carbonate route: 1 CO2 per divalent cation, 0.5 per monovalent; bicarbonate route: 2 and 1. Computed from the formula's cations and CIAAW 2021 atomic weights.");
-    let excluded = carb.excluded_t_co2_per_t();
-    if excluded > 0.0 {
-        t.note(format!(
-            "Fe²⁺/Mn²⁺ not counted: oxic weathering returns their acidity (would add {excluded:.4} t CO2/t by the carbonate route). Use --reducing where the setting is reducing."
-        ));
-    } else if a.reducing && carb.cations.iter().any(|c| c.element.symbol == "Fe") {
-        t.note("Fe²⁺ counted: the setting was declared reducing (--reducing).");
-    }
-    Ok(Report::default().table(t))
+    Ok(Report::default().table(mineral_table(text, &carb, &bicarb, a.reducing)))
 }

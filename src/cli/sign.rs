@@ -9,11 +9,13 @@ use crate::ledger::Hash;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::{Seal, parse_period};
 use crate::ledger::signature::{
-    Role, Signed, Statement, fingerprint, hex, key_file_text, parse_key_file, sign as sign_with,
+    Role, Signed, fingerprint, key_file_text, parse_key_file, sign as sign_with,
 };
-use crate::report::names;
+pub use crate::ledger::statement_check::Judged;
+use crate::ledger::statement_check::{judged, seal_stands};
+use crate::report::Report;
 use crate::report::tables::sign::key_table;
-use crate::report::{Cell, Report, Table, columns};
+pub use crate::report::tables::sign::statements_table;
 use crate::store::Tx;
 use clap::{Args, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
@@ -183,23 +185,6 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         .table(statements_table(&a.project, &[judged(s, Ok(()))])))
 }
 
-/// A statement with what re-checking it found: its signature, and whether the seal it signs
-/// still stands as signed.
-pub struct Judged {
-    pub statement: Statement,
-    pub signature: std::result::Result<(), String>,
-    pub seal: std::result::Result<(), String>,
-}
-
-fn judged(statement: Statement, seal: std::result::Result<(), String>) -> Judged {
-    let signature = statement.verify();
-    Judged {
-        statement,
-        signature,
-        seal,
-    }
-}
-
 /// Every statement of a project judged: the signature over its bytes, and the seal it names —
 /// still in the chain, with the tree size and root signed, and that root still the head of the
 /// leaves before it.
@@ -233,89 +218,10 @@ fn heads_at(tx: &mut Tx<'_>, project: &str, seals: &[Seal]) -> Result<Vec<(u64, 
     Ok(heads)
 }
 
-fn seal_stands(
-    s: &Statement,
-    seals: &[Seal],
-    heads: &[(u64, Hash)],
-) -> std::result::Result<(), String> {
-    let g = &s.signed;
-    let seal = seals
-        .iter()
-        .find(|x| x.seq == g.seal_seq)
-        .ok_or_else(|| format!("seq {} is no longer a seal", g.seal_seq))?;
-    if seal.tree_size != g.tree_size || seal.root != g.root || seal.label != g.period {
-        return Err(format!(
-            "seal seq {} now holds {} entries, head {}; the statement signed {} entries, head {}",
-            seal.seq,
-            seal.tree_size,
-            seal.root.head(),
-            g.tree_size,
-            g.root.head()
-        ));
-    }
-    match heads.iter().find(|(n, _)| *n == g.tree_size) {
-        Some((_, h)) if *h == g.root => Ok(()),
-        _ => Err(format!(
-            "the leaves before seal seq {} no longer give head {}",
-            seal.seq,
-            g.root.head()
-        )),
-    }
-}
-
 pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
     let judged = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
         judge_all(tx, &a.project)
     })?;
     Ok(Report::default().table(statements_table(&a.project, &judged)))
-}
-
-pub fn statements_table(project: &str, judged: &[Judged]) -> Table {
-    let mut t = Table::new(
-        "statements",
-        format!("Signed statements, project {project}"),
-        columns(&[
-            names::SEQ,
-            names::PERIOD,
-            names::ROLE,
-            names::FINGERPRINT,
-            names::PUBLIC_KEY.programs(),
-            names::STATEMENT,
-            names::SIGNED_AT,
-            names::SEAL_SEQ,
-            names::TREE_SIZE.programs(),
-            names::ROOT.programs(),
-            names::SIGNATURE_CHECK,
-            names::SEAL_MATCHES,
-            names::SIGNATURE.programs(),
-        ]),
-    );
-    for j in judged {
-        let s = &j.statement;
-        let g = &s.signed;
-        t.push(vec![
-            Cell::Int(s.seq as i64),
-            Cell::text(&g.period),
-            Cell::text(g.role.name()),
-            Cell::text(fingerprint(&s.public_key)),
-            Cell::text(hex(&s.public_key)),
-            Cell::text(&g.statement),
-            Cell::text(g.signed_at.format("%Y-%m-%d %H:%M:%S").to_string()),
-            Cell::Int(g.seal_seq as i64),
-            Cell::Int(g.tree_size as i64),
-            Cell::text(g.root.to_hex()),
-            Cell::text(match &j.signature {
-                Ok(()) => "valid".to_string(),
-                Err(e) => format!("INVALID: {e}"),
-            }),
-            Cell::text(match &j.seal {
-                Ok(()) => "yes".to_string(),
-                Err(e) => format!("NO: {e}"),
-            }),
-            Cell::text(hex(&s.signature)),
-        ]);
-    }
-    t.note("Each signature is ed25519 (RFC 8032) over the statement's canonical bytes: project, seal seq, period, tree size, root, role, statement, time (docs/ledger-format.md). Key: the fingerprint of the signer's public key — who holds that key is for the reader to establish.");
-    t
 }

@@ -19,6 +19,7 @@ pub mod seal;
 pub mod seal_check;
 pub mod setting;
 pub mod signature;
+pub mod statement_check;
 pub mod tally;
 
 pub use entry::{Entry, EntryKind, Evidence, Reading, SealedEntry, Sign};

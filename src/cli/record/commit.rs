@@ -8,10 +8,10 @@ use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
 use crate::ledger::seal::{Replaced, Seal, late_replaces};
 use crate::ledger::tally::Tally;
-use crate::ledger::{Entry, EntryKind, Project, SealedEntry};
+use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::record::recorded_table;
 use crate::store::Tx;
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
@@ -174,33 +174,4 @@ pub(in crate::cli) fn standing(
         stored: Mass::from_grams(tally.stored),
         injected,
     })
-}
-
-fn recorded_table(s: &SealedEntry) -> Table {
-    let e = &s.entry;
-    let mut t = Table::new(
-        "entry",
-        format!("Entry {} seq {}", e.project, e.seq),
-        columns(&[
-            names::SEQ,
-            names::KIND,
-            names::SITE,
-            names::PERIOD,
-            names::CO2_T,
-            names::CORRECTS,
-            names::KEY,
-            names::CHAIN_HASH,
-        ]),
-    );
-    t.push(vec![
-        Cell::Int(e.seq as i64),
-        Cell::text(e.kind.name()),
-        Cell::text(&e.site),
-        Cell::text(e.period.to_string()),
-        Cell::Tonnes(e.mass),
-        e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
-        Cell::text(&e.key),
-        Cell::text(s.chain.to_hex()),
-    ]);
-    t
 }

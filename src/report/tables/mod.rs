@@ -2,12 +2,15 @@
 //! topic. cli parses and calls; these decide columns, rows and notes.
 
 pub mod bundle;
+pub mod density;
+pub mod evidence;
 pub mod feedstock;
 pub mod late;
 pub mod mineralization;
 pub mod potential;
 pub mod proof;
 pub mod reconciliations;
+pub mod record;
 pub mod settings;
 pub mod setup;
 pub mod sign;
