@@ -7,8 +7,8 @@ use crate::chem::mineral::{CO2_PER_C, Redox, Route, co2_content, uptake};
 use crate::error::{Error, Result};
 use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError, VolumeMass};
 use crate::quantity::{MassReading, MassUnit};
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::convert::conversion_table;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -67,28 +67,11 @@ pub fn convert(a: ConvertArgs) -> Result<Report> {
             from_volume(&v, &a)?
         }
     };
-    let mut t = Table::new(
-        "conversion",
-        "Conversion",
-        columns(&[
-            names::QUANTITY,
-            names::SPECIES,
-            names::RESULT,
-            names::UNIT,
-            names::HOW,
-        ]),
-    );
-    t.push(vec![
-        Cell::text(&a.quantity),
-        Cell::text(&species),
-        Cell::Number(step.result, 6),
-        Cell::text(&step.unit),
-        Cell::text(&step.how),
-    ]);
-    t.note(
-        "Molar masses from CIAAW 2021 abridged atomic weights; unit factors exact (NIST SP 811).",
-    );
-    Ok(Report::default().table(t))
+    Ok(Report::default().table(conversion_table(
+        &a.quantity,
+        &species,
+        (step.result, &step.unit, &step.how),
+    )))
 }
 
 fn from_mass(m: &MassReading, species: &str, a: &ConvertArgs) -> Result<Step> {

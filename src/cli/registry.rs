@@ -4,9 +4,9 @@ use super::Context;
 use super::sign::judge_all;
 use crate::error::{Error, Result};
 use crate::ledger::signature::Role;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
-use crate::store::RoleKind;
+use crate::report::Report;
+use crate::report::tables::registry::{LastSeal, operators_table};
+use crate::store::{RoleKind, Tx};
 use clap::{Args, Subcommand};
 
 #[derive(Subcommand, Debug)]
@@ -62,67 +62,43 @@ pub fn registry(ctx: &Context, c: RegistryCommand) -> Result<Report> {
 /// that seal with a signature that verifies and a seal that still stands (`statements` lists
 /// every statement with its checks).
 fn operators(ctx: &Context) -> Result<Report> {
-    let mut t = Table::new(
-        "operators",
-        "Operators, projects and their last seals".to_string(),
-        columns(&[
-            names::OPERATOR,
-            names::PROJECT,
-            names::METHOD,
-            names::LAST_SEAL,
-            names::SEALED_AT,
-            names::TREE_SIZE,
-            names::VERIFIER_STATEMENT,
-        ]),
-    );
-    ctx.open()?.read(|tx| {
+    let rows = ctx.open()?.read(|tx| {
         let mut projects = tx.projects()?;
         projects.sort_by(|a, b| (&a.operator, &a.code).cmp(&(&b.operator, &b.code)));
+        let mut rows = Vec::with_capacity(projects.len());
         for p in projects {
-            let Some(seal) = tx.seals(&p.code)?.pop() else {
-                t.push(vec![
-                    Cell::text(&p.operator),
-                    Cell::text(&p.code),
-                    Cell::text(p.method.name()),
-                    Cell::text("none"),
-                    Cell::Empty,
-                    Cell::Empty,
-                    Cell::Empty,
-                ]);
-                continue;
-            };
-            let verifiers: Vec<_> = judge_all(tx, &p.code)?
-                .into_iter()
-                .filter(|j| {
-                    j.statement.signed.seal_seq == seal.seq
-                        && j.statement.signed.role == Role::Verifier
-                })
-                .collect();
-            let statement = match verifiers
-                .iter()
-                .find(|j| j.signature.is_ok() && j.seal.is_ok())
-            {
-                Some(_) => "yes".to_string(),
-                None if verifiers.is_empty() => "no".to_string(),
-                None => format!(
-                    "no: {} signed, none checks (see sinkbook statements {})",
-                    verifiers.len(),
-                    p.code
-                ),
-            };
-            t.push(vec![
-                Cell::text(&p.operator),
-                Cell::text(&p.code),
-                Cell::text(p.method.name()),
-                Cell::text(&seal.label),
-                Cell::text(seal.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
-                Cell::Int(seal.tree_size as i64),
-                Cell::text(statement),
-            ]);
+            let last = last_seal(tx, &p.code)?;
+            rows.push((p, last));
         }
-        Ok(())
+        Ok(rows)
     })?;
-    Ok(Report::default().table(t))
+    Ok(Report::default().table(operators_table(&rows)))
+}
+
+/// A project's last seal, and whether a verifier's statement over it checks.
+fn last_seal(tx: &mut Tx<'_>, code: &str) -> Result<Option<LastSeal>> {
+    let Some(seal) = tx.seals(code)?.pop() else {
+        return Ok(None);
+    };
+    let verifiers: Vec<_> = judge_all(tx, code)?
+        .into_iter()
+        .filter(|j| {
+            j.statement.signed.seal_seq == seal.seq && j.statement.signed.role == Role::Verifier
+        })
+        .collect();
+    let statement = match verifiers
+        .iter()
+        .find(|j| j.signature.is_ok() && j.seal.is_ok())
+    {
+        Some(_) => "yes".to_string(),
+        None if verifiers.is_empty() => "no".to_string(),
+        None => format!(
+            "no: {} signed, none checks (see sinkbook statements {})",
+            verifiers.len(),
+            code
+        ),
+    };
+    Ok(Some(LastSeal { seal, statement }))
 }
 
 fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {

@@ -2,6 +2,7 @@
 //! topic. cli parses and calls; these decide columns, rows and notes.
 
 pub mod bundle;
+pub mod convert;
 pub mod density;
 pub mod evidence;
 pub mod feedstock;
@@ -11,6 +12,7 @@ pub mod potential;
 pub mod proof;
 pub mod reconciliations;
 pub mod record;
+pub mod registry;
 pub mod settings;
 pub mod setup;
 pub mod sign;

@@ -1,0 +1,53 @@
+//! The registry's table of operators, their projects and each project's last seal.
+
+use crate::ledger::Project;
+use crate::ledger::seal::Seal;
+use crate::report::names;
+use crate::report::{Cell, Table, columns};
+
+/// A project's last seal and what its verifier statement check found ("yes", "no", or why not).
+pub struct LastSeal {
+    pub seal: Seal,
+    pub statement: String,
+}
+
+/// One row per project, by operator then code; a project never sealed shows "none".
+pub fn operators_table(rows: &[(Project, Option<LastSeal>)]) -> Table {
+    let mut t = Table::new(
+        "operators",
+        "Operators, projects and their last seals".to_string(),
+        columns(&[
+            names::OPERATOR,
+            names::PROJECT,
+            names::METHOD,
+            names::LAST_SEAL,
+            names::SEALED_AT,
+            names::TREE_SIZE,
+            names::VERIFIER_STATEMENT,
+        ]),
+    );
+    for (p, last) in rows {
+        let Some(LastSeal { seal, statement }) = last else {
+            t.push(vec![
+                Cell::text(&p.operator),
+                Cell::text(&p.code),
+                Cell::text(p.method.name()),
+                Cell::text("none"),
+                Cell::Empty,
+                Cell::Empty,
+                Cell::Empty,
+            ]);
+            continue;
+        };
+        t.push(vec![
+            Cell::text(&p.operator),
+            Cell::text(&p.code),
+            Cell::text(p.method.name()),
+            Cell::text(&seal.label),
+            Cell::text(seal.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
+            Cell::Int(seal.tree_size as i64),
+            Cell::text(statement),
+        ]);
+    }
+    t
+}
