@@ -4,9 +4,8 @@
 use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
-use crate::ledger::canonical::encode;
 use crate::ledger::merkle::{RangeHashes, inclusion_ranges};
-use crate::ledger::proof::{FORMAT, InclusionProof};
+use crate::ledger::proof::InclusionProof;
 use crate::ledger::seal::Seal;
 use crate::report::Report;
 use crate::report::tables::proof::proven_table;
@@ -86,19 +85,7 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
                 a.project, seal.seq
             ))
         })?;
-        let bytes = encode(&entry.entry);
-        Ok(InclusionProof {
-            format: FORMAT.into(),
-            project: a.project.clone(),
-            seal_seq: seal.seq,
-            period: seal.label,
-            tree_size: seal.tree_size,
-            root: seal.root.to_hex(),
-            leaf_index: a.seq,
-            entry_bytes: bytes.iter().map(|b| format!("{b:02x}")).collect(),
-            leaf_hash: entry.leaf.to_hex(),
-            audit_path: audit_path.iter().map(|h| h.to_hex()).collect(),
-        })
+        Ok(InclusionProof::new(&a.project, &seal, &entry, &audit_path))
     })?;
     // The proof must hold before it leaves: a stored leaf that does not match its entry's
     // bytes, or a seal that does not match the leaves, is the ledger's fault, not the reader's.

@@ -7,11 +7,10 @@ use super::reconcile::{Compared, Level, MonitoringReport, ReconcileArgs, line_no
 use super::setup::known_project;
 use super::sign::RoleArg;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::Presence;
+use crate::accounting::materiality::{recorded_lines, recorded_years};
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
-use crate::ledger::reconciliation::{Recorded, RecordedLine, RecordedYear};
-use crate::quantity::Mass;
+use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
 pub use crate::report::tables::reconciliations::{record_tables, recorded_table};
 use crate::store::Tx;
@@ -68,7 +67,6 @@ pub fn record(
 ) -> Result<Recorded> {
     let (seq, previous) = tx.next_reconciliation(&a.project)?;
     let r = &c.reconciliation;
-    let grams = |m: Mass| m.grams();
     let rec = Recorded {
         project: a.project.clone(),
         seq,
@@ -80,37 +78,8 @@ pub fn record(
         basis: level.basis(),
         chain_size: c.tip.0,
         chain_head: c.tip.1,
-        lines: r
-            .lines
-            .iter()
-            .map(|l| RecordedLine {
-                period: l.period.to_string(),
-                quantity: l.quantity.key().into(),
-                ledger_g: (!matches!(l.presence, Presence::ReportOnly(_)))
-                    .then(|| grams(l.presence.ledger())),
-                report_g: (!matches!(l.presence, Presence::LedgerOnly(_)))
-                    .then(|| grams(l.presence.report())),
-                difference_g: grams(l.difference),
-                note: line_note(l.presence, l.judgement),
-            })
-            .collect(),
-        years: r
-            .years
-            .iter()
-            .map(|y| RecordedYear {
-                year: y.year,
-                stored_g: grams(y.ledger_total),
-                counted: y
-                    .counted
-                    .iter()
-                    .map(|q| q.key())
-                    .collect::<Vec<_>>()
-                    .join(", "),
-                misstatement_g: grams(y.misstatement),
-                threshold_g: grams(y.threshold),
-                verdict: y.verdict.text().into(),
-            })
-            .collect(),
+        lines: recorded_lines(r, line_note),
+        years: recorded_years(r),
         verdict: r.overall().text().into(),
         role: a.record.role.unwrap_or(RoleArg::Verifier).role(),
         by: a.record.by.clone(),

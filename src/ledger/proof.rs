@@ -1,8 +1,11 @@
 //! Inclusion proofs an outsider can check without the ledger: one entry's canonical bytes, its
 //! leaf, and the RFC 6962 audit path up to a seal's tree head (format in docs/proofs.md).
 
+use super::SealedEntry;
+use super::canonical::encode;
 use super::hash::{Hash, leaf_hash};
 use super::merkle::verify_inclusion;
+use super::seal::Seal;
 use serde::{Deserialize, Serialize};
 
 /// The format name every proof file carries; a change of layout takes a new name.
@@ -66,6 +69,23 @@ fn project_and_seq(bytes: &[u8]) -> Option<(String, u64)> {
 }
 
 impl InclusionProof {
+    /// The proof that `entry` of `project` is a leaf of the tree `seal` holds, by its audit path.
+    pub fn new(project: &str, seal: &Seal, entry: &SealedEntry, audit_path: &[Hash]) -> Self {
+        let bytes = encode(&entry.entry);
+        InclusionProof {
+            format: FORMAT.into(),
+            project: project.into(),
+            seal_seq: seal.seq,
+            period: seal.label.clone(),
+            tree_size: seal.tree_size,
+            root: seal.root.to_hex(),
+            leaf_index: entry.entry.seq,
+            entry_bytes: bytes.iter().map(|b| format!("{b:02x}")).collect(),
+            leaf_hash: entry.leaf.to_hex(),
+            audit_path: audit_path.iter().map(|h| h.to_hex()).collect(),
+        }
+    }
+
     /// Checks every hash and index: the leaf is SHA-256(0x00 || the entry's bytes), the bytes
     /// name the project and the seq given, and the audit path leads from the leaf at that index
     /// to the root of a tree of `tree_size` leaves. Says what is wrong otherwise.

@@ -16,9 +16,11 @@
 mod judge;
 mod period;
 mod quantity;
+mod record;
 
 pub use period::{Granularity, ReportingPeriod};
 pub use quantity::ReportedQuantity;
+pub use record::{recorded_lines, recorded_years};
 
 use crate::quantity::Mass;
 use judge::judge_year;
