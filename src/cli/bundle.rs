@@ -10,7 +10,7 @@ use crate::import::bundle_file::each_line;
 use crate::ledger::SealedEntry;
 use crate::report::Report;
 use crate::report::tables::bundle::counted;
-pub use crate::report::tables::bundle::summary_table;
+use crate::report::tables::bundle::summary_table;
 use crate::store::Tx;
 use chrono::{DateTime, Utc};
 use clap::{Args, Subcommand};

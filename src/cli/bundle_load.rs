@@ -4,7 +4,7 @@
 //! first ones, and every registration held is the bundle's too. Anything else writes nothing.
 
 use super::Context;
-use super::bundle::{read_checked, summary_table};
+use super::bundle::read_checked;
 use crate::bundle::Item;
 use crate::bundle::line::Import;
 use crate::error::{Error, Result};
@@ -15,6 +15,7 @@ use crate::ledger::setting::Setting;
 use crate::ledger::signature::Statement;
 use crate::ledger::{Hash, Project, SealedEntry, Site};
 use crate::report::Report;
+use crate::report::tables::bundle::summary_table;
 use crate::store::{BundleImport, NewImport, Tx};
 use std::path::Path;
 
