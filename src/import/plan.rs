@@ -12,6 +12,7 @@ use crate::quantity::volume::DensityMethod;
 use chrono::NaiveDate;
 use std::collections::{BTreeMap, HashMap, HashSet};
 use std::io::Read;
+use std::sync::Arc;
 
 /// Test hook: when set to N, the planner aborts the process (as a crash would) after reading N
 /// rows, so tests can stop an import at a chosen point instead of racing a timer.
@@ -61,14 +62,14 @@ impl Plan {
 
 /// Per meter, where it is and its days.
 struct Meter {
-    site: String,
+    site: Arc<str>,
     days: BTreeMap<NaiveDate, MeterDay>,
 }
 
 struct Rollup<'a> {
     opts: &'a Options<'a>,
     index: HashMap<String, u32>,
-    meters: Vec<(String, Meter)>,
+    meters: Vec<(Arc<str>, Meter)>,
     /// (meter, instant) of every reading taken, to refuse one given twice.
     seen: HashSet<(u32, i64)>,
     bad: Vec<RowError>,
@@ -137,15 +138,15 @@ impl Rollup<'_> {
                 })?;
                 self.index.insert(r.meter.to_string(), i);
                 let m = Meter {
-                    site: r.site.to_string(),
+                    site: r.site.into(),
                     days: BTreeMap::new(),
                 };
-                self.meters.push((r.meter.to_string(), m));
+                self.meters.push((r.meter.into(), m));
                 i
             }
         };
         let (meter, m) = &mut self.meters[i as usize];
-        if m.site != r.site {
+        if *m.site != *r.site {
             let why = format!(
                 "meter {meter} is at site {} in earlier rows, here at site {}",
                 m.site, r.site
@@ -163,7 +164,7 @@ impl Rollup<'_> {
         let day = m
             .days
             .entry(r.day)
-            .or_insert_with(|| MeterDay::new(r.day, r.site, meter, r.line));
+            .or_insert_with(|| MeterDay::new(r.day, m.site.clone(), meter.clone(), r.line));
         if let Some(why) = day.mismatch(&r) {
             self.bad.push(refuse(why));
             return Ok(());
