@@ -77,8 +77,15 @@ impl MeterDay {
     /// or volume at one set of reference conditions — so its sum and its mean concentration
     /// are of like quantities.
     pub fn mismatch(&self, r: &MeterRow<'_>) -> Option<String> {
-        let earlier = format!(
-            "meter {} on {} reads {} in earlier rows (line {})",
+        let here = match (&r.metered, &self.conditions) {
+            _ if self.rows == 0 => return None,
+            (Metered::StreamGrams(_), None) => return None,
+            (Metered::VolumeCm3(_, c), Some(day)) if c == day => return None,
+            (Metered::StreamGrams(_), Some(_)) => "mass".to_string(),
+            (Metered::VolumeCm3(_, c), _) => format!("volumes at {c}"),
+        };
+        Some(format!(
+            "meter {} on {} reads {} in earlier rows (line {}), here {here}",
             self.meter,
             self.day,
             match &self.conditions {
@@ -86,14 +93,7 @@ impl MeterDay {
                 None => "mass".into(),
             },
             self.first_line
-        );
-        match (&r.metered, &self.conditions) {
-            _ if self.rows == 0 => None,
-            (Metered::StreamGrams(_), None) => None,
-            (Metered::VolumeCm3(_, c), Some(day)) if c == day => None,
-            (Metered::StreamGrams(_), Some(_)) => Some(format!("{earlier}, here mass")),
-            (Metered::VolumeCm3(_, c), _) => Some(format!("{earlier}, here volumes at {c}")),
-        }
+        ))
     }
 
     /// Adds a row; None when a sum would leave the ledger's range.

@@ -4,13 +4,14 @@
 
 use super::csv_records::{Record, Records};
 use super::evidence::Witnessed;
+use super::instants::Instants;
 use super::meter_csv::{ColumnMap, Converter, Layout, RowError};
 use super::meter_day::MeterDay;
 use crate::error::{Error, Result};
 use crate::ledger::{EntryKind, Hash, Site};
 use crate::quantity::volume::DensityMethod;
 use chrono::NaiveDate;
-use std::collections::{BTreeMap, HashMap, HashSet};
+use std::collections::{BTreeMap, HashMap};
 use std::io::Read;
 use std::sync::Arc;
 
@@ -64,14 +65,14 @@ impl Plan {
 struct Meter {
     site: Arc<str>,
     days: BTreeMap<NaiveDate, MeterDay>,
+    /// When it was read, to refuse a reading given twice.
+    instants: Instants,
 }
 
 struct Rollup<'a> {
     opts: &'a Options<'a>,
     index: HashMap<String, u32>,
     meters: Vec<(Arc<str>, Meter)>,
-    /// (meter, instant) of every reading taken, to refuse one given twice.
-    seen: HashSet<(u32, i64)>,
     bad: Vec<RowError>,
     accepted: u64,
     watched: Vec<WatchedRow>,
@@ -140,6 +141,7 @@ impl Rollup<'_> {
                 let m = Meter {
                     site: r.site.into(),
                     days: BTreeMap::new(),
+                    instants: Instants::default(),
                 };
                 self.meters.push((r.meter.into(), m));
                 i
@@ -154,7 +156,7 @@ impl Rollup<'_> {
             self.bad.push(refuse(why));
             return Ok(());
         }
-        if !self.seen.insert((i, r.instant)) {
+        if !m.instants.insert(r.instant) {
             let why = format!(
                 "a second reading of meter {meter} at the same time as an earlier row (a repeated row?)"
             );
@@ -215,7 +217,6 @@ pub fn plan(
         opts,
         index: HashMap::new(),
         meters: Vec::new(),
-        seen: HashSet::new(),
         bad: Vec::new(),
         accepted: 0,
         watched: Vec::new(),
@@ -234,11 +235,14 @@ pub fn plan(
         .finish()
         .map_err(|e| file_error(&e))?
         .ok_or_else(|| Error::Store("the import stopped: its evidence could not be kept".into()))?;
-    let mut days: Vec<MeterDay> = rollup
-        .meters
-        .into_iter()
-        .flat_map(|(_, m)| m.days.into_values())
-        .collect();
+    // Sized once: a file of a million meter-days would otherwise hold two copies while growing.
+    let mut days = Vec::with_capacity(rollup.meters.iter().map(|(_, m)| m.days.len()).sum());
+    days.extend(
+        rollup
+            .meters
+            .into_iter()
+            .flat_map(|(_, m)| m.days.into_values()),
+    );
     days.sort_by(|a, b| (a.day, &a.site, &a.meter).cmp(&(b.day, &b.site, &b.meter)));
     Ok(Plan {
         sha256,
