@@ -13,7 +13,7 @@ fn write(l: &Ledger, name: &str, bytes: &[u8]) -> String {
 }
 
 fn entries(l: &Ledger) -> Value {
-    entries_of(l, "TFS")
+    serde_json::from_str(&l.ok(&["--format", "json", "entries", "TFS"])).unwrap()
 }
 
 #[test]
@@ -395,71 +395,28 @@ fn a_meter_day_is_one_kind_of_reading_and_its_volumes_keep_their_conditions() {
 }
 
 /// The permit reads an import's meter-days summed by day: two meters' readings of one day
-/// count together toward the year's maximum and the capacity, exactly.
+/// count together toward the permitted capacity (TFS: 2.5 Mt), exactly to the gram.
 #[test]
 fn an_import_is_held_to_the_permit_by_its_days_summed() {
-    let l = Ledger::new();
-    l.ok(&[
-        "project",
-        "add",
-        "SML",
-        "--name",
-        "Small",
-        "--method",
-        "saline-aquifer",
-        "--operator",
-        "N",
-        "--permit-capacity",
-        "1000 t",
-        "--permit-annual",
-        "800 t",
-    ]);
-    l.ok(&["site", "add", "SML", "W", "--kind", "injection-well"]);
-    let header = "timestamp,site,quantity,unit,co2_fraction,meter\n";
-    let jan = write(
+    let l = Ledger::with_tfs();
+    let f = write(
         &l,
-        "jan.csv",
-        format!("{header}2026-01-10,W,400,t,1,FM-1\n2026-01-10,W,300,t,1,FM-2\n").as_bytes(),
+        "big.csv",
+        b"timestamp,site,quantity,unit,co2_fraction,meter\n\
+          2026-01-10,TF-I1,1300000,t,1,FM-101\n\
+          2026-01-10,TF-I2,1200000.000001,t,1,FM-201\n",
     );
-    assert!(
-        l.ok(&["import", "SML", &jan])
-            .contains("2 readings → 2 entries")
-    );
-    let mar = write(
-        &l,
-        "mar.csv",
-        format!("{header}2026-03-01,W,60,t,1,FM-1\n2026-03-01,W,40.000001,t,1,FM-2\n").as_bytes(),
-    );
-    let r = l.run(&["import", "SML", &mar]);
+    let r = l.run(&["import", "TFS", &f]);
     assert_eq!(r.code, 1, "{}", r.err);
     assert!(
-        r.err
-            .contains("injection in 2026 would be 800.000 t, above the permitted annual maximum"),
-        "{}",
-        r.err
-    );
-    let count = |l: &Ledger| entries_of(l, "SML").as_array().unwrap().len();
-    assert_eq!(count(&l), 2, "nothing written");
-    let r = l.run(&["import", "SML", &mar, "--over-permit"]);
-    assert_eq!(r.code, 0, "{}", r.err);
-    assert_eq!(count(&l), 4);
-    let next = write(
-        &l,
-        "next.csv",
-        format!("{header}2027-01-05,W,100,t,1,FM-1\n2027-01-05,W,100,t,1,FM-2\n").as_bytes(),
-    );
-    let r = l.run(&["import", "SML", &next]);
-    assert_eq!(r.code, 1);
-    assert!(
         r.err.contains(
-            "cumulative stored 1,000.000 t would be 100.00 % of the permitted capacity 1,000.000 t"
+            "cumulative stored 2,500,000.000 t would be 100.00 % of the permitted capacity 2,500,000.000 t; nothing written"
         ),
         "{}",
         r.err
     );
-    assert_eq!(count(&l), 4, "nothing written");
-}
-
-fn entries_of(l: &Ledger, project: &str) -> Value {
-    serde_json::from_str(&l.ok(&["--format", "json", "entries", project])).unwrap()
+    assert_eq!(entries(&l).as_array().unwrap().len(), 0, "nothing written");
+    let r = l.run(&["import", "TFS", &f, "--over-permit"]);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(entries(&l).as_array().unwrap().len(), 2);
 }

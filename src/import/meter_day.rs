@@ -186,31 +186,18 @@ impl MeterDay {
 /// its grams summed exactly, so the check holds a day's figure, not a million entries. None
 /// when a day's sum leaves i64.
 pub fn permit_entries(days: &[MeterDay], s: &Source<'_>) -> Option<Vec<Entry>> {
-    let mut by_day: BTreeMap<NaiveDate, Mass> = BTreeMap::new();
+    let mut by_day: BTreeMap<NaiveDate, (&MeterDay, Mass)> = BTreeMap::new();
     for d in days {
-        let sum = by_day.entry(d.day).or_insert(Mass::ZERO);
+        let (_, sum) = by_day.entry(d.day).or_insert((d, Mass::ZERO));
         *sum = sum.checked_add(d.co2)?;
     }
     Some(
         by_day
-            .into_iter()
-            .map(|(day, mass)| Entry {
-                project: s.project.to_string(),
-                seq: 0,
-                kind: s.kind,
-                site: String::new(),
-                period: Period::day(day),
-                reading: Reading::default(),
+            .into_values()
+            .map(|(d, mass)| Entry {
                 mass,
-                sign: s.kind.sign(),
-                recorded_at: s.recorded_at,
-                key: String::new(),
-                meter: None,
-                note: None,
-                corrects: None,
-                reason: None,
-                evidence: None,
-                recorded_by: None,
+                reading: Reading::default(),
+                ..d.entry(s, None)
             })
             .collect(),
     )
