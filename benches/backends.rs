@@ -226,12 +226,6 @@ const STEPS: [(&str, &str); 4] = [
     ("record injection", "record at 100 entries"),
 ];
 
-fn load_average() -> String {
-    std::fs::read_to_string("/proc/loadavg")
-        .map(|l| l.split_whitespace().take(3).collect::<Vec<_>>().join(" "))
-        .unwrap_or_else(|_| "unknown".into())
-}
-
 fn mb(m: Option<f64>) -> String {
     m.map_or("—".into(), |m| format!("{m:.0}"))
 }
@@ -258,7 +252,7 @@ fn main() {
         common::ledger(&small);
         common::sinkbook(&small, &["import", "TFS", small_csv.to_str().unwrap()]);
     }
-    println!("load average at the start: {}", load_average());
+    println!("load average at the start: {}", common::load_average());
     let mut runs = Vec::new();
     for (round, &rows) in sizes.iter().enumerate() {
         let scratch = tempfile::tempdir().unwrap();
@@ -285,7 +279,7 @@ fn main() {
         println!(
             "\n{rows} meter rows → {rows} entries ({:.1} MB); load average now {}",
             std::fs::metadata(&csv).unwrap().len() as f64 / 1e6,
-            load_average()
+            common::load_average()
         );
         println!(
             "| step | baseline | SQLite (s) | baseline (s) | ÷ baseline | peak MB | PostgreSQL (s) | baseline (s) | ÷ baseline | peak MB | PostgreSQL ÷ SQLite |"

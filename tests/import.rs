@@ -393,3 +393,30 @@ fn a_meter_day_is_one_kind_of_reading_and_its_volumes_keep_their_conditions() {
     assert_eq!(m[0]["unit"], "m³ at 288.706 K, 101.325 kPa");
     assert_eq!(m[0]["co2_basis"], "mole");
 }
+
+/// The permit reads an import's meter-days summed by day: two meters' readings of one day
+/// count together toward the permitted capacity (TFS: 2.5 Mt), exactly to the gram.
+#[test]
+fn an_import_is_held_to_the_permit_by_its_days_summed() {
+    let l = Ledger::with_tfs();
+    let f = write(
+        &l,
+        "big.csv",
+        b"timestamp,site,quantity,unit,co2_fraction,meter\n\
+          2026-01-10,TF-I1,1300000,t,1,FM-101\n\
+          2026-01-10,TF-I2,1200000.000001,t,1,FM-201\n",
+    );
+    let r = l.run(&["import", "TFS", &f]);
+    assert_eq!(r.code, 1, "{}", r.err);
+    assert!(
+        r.err.contains(
+            "cumulative stored 2,500,000.000 t would be 100.00 % of the permitted capacity 2,500,000.000 t; nothing written"
+        ),
+        "{}",
+        r.err
+    );
+    assert_eq!(entries(&l).as_array().unwrap().len(), 0, "nothing written");
+    let r = l.run(&["import", "TFS", &f, "--over-permit"]);
+    assert_eq!(r.code, 0, "{}", r.err);
+    assert_eq!(entries(&l).as_array().unwrap().len(), 2);
+}

@@ -44,23 +44,33 @@ pub fn sinkbook(db: &Path, args: &[&str]) -> std::process::Output {
 /// Runs sinkbook on `db` under `/usr/bin/time` when it is there, insisting on success: seconds,
 /// peak memory in MB (None without /usr/bin/time), and what it printed.
 pub fn measured(db: &Path, args: &[&str]) -> (f64, Option<f64>, std::process::Output) {
-    let have_time = Path::new("/usr/bin/time").exists();
-    let mut cmd = if have_time {
-        let mut c = Command::new("/usr/bin/time");
-        c.args(["-f", "%M"]).arg(env!("CARGO_BIN_EXE_sinkbook"));
-        c
-    } else {
-        Command::new(env!("CARGO_BIN_EXE_sinkbook"))
-    };
-    cmd.arg("--db").arg(db).args(args);
-    let t = std::time::Instant::now();
-    let o = cmd.output().unwrap();
-    let secs = t.elapsed().as_secs_f64();
+    let mut cmd = vec![env!("CARGO_BIN_EXE_sinkbook").to_string(), "--db".into()];
+    cmd.push(db.to_str().unwrap().into());
+    cmd.extend(args.iter().map(|a| a.to_string()));
+    let (secs, peak, o) = measured_command(&cmd);
     assert!(
         o.status.success(),
         "sinkbook {args:?}: {}",
         String::from_utf8_lossy(&o.stderr)
     );
+    (secs, peak, o)
+}
+
+/// Runs `cmd` (program and arguments) under `/usr/bin/time` when it is there: seconds, peak
+/// memory in MB (None without /usr/bin/time), and what it printed, whether it succeeded or not.
+pub fn measured_command(cmd: &[String]) -> (f64, Option<f64>, std::process::Output) {
+    let have_time = Path::new("/usr/bin/time").exists();
+    let mut c = if have_time {
+        let mut c = Command::new("/usr/bin/time");
+        c.args(["-f", "%M"]).arg(&cmd[0]);
+        c
+    } else {
+        Command::new(&cmd[0])
+    };
+    c.args(&cmd[1..]);
+    let t = std::time::Instant::now();
+    let o = c.output().unwrap();
+    let secs = t.elapsed().as_secs_f64();
     let peak = have_time
         .then(|| {
             String::from_utf8_lossy(&o.stderr)
@@ -71,6 +81,14 @@ pub fn measured(db: &Path, args: &[&str]) -> (f64, Option<f64>, std::process::Ou
         })
         .flatten();
     (secs, peak, o)
+}
+
+/// The machine's load average over 1, 5 and 15 minutes, as the benchmarks print beside their
+/// figures (the build machine is shared).
+pub fn load_average() -> String {
+    std::fs::read_to_string("/proc/loadavg")
+        .map(|l| l.split_whitespace().take(3).collect::<Vec<_>>().join(" "))
+        .unwrap_or_else(|_| "unknown".into())
 }
 
 /// A new ledger at `db` with project TFS and its two injection wells.

@@ -104,7 +104,7 @@ pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal
         let p = replan(tx, project, &sites, &i, None)?;
         out.extend(p.days.iter().map(|d| ReadingTotal {
             file_sha256: i.sha256.clone(),
-            meter: d.meter.clone(),
+            meter: d.meter.to_string(),
             day: d.day.to_string(),
             grams: d.co2.grams(),
             rows: d.rows as i64,

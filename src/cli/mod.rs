@@ -11,6 +11,7 @@ mod demo;
 mod density;
 mod evidence;
 mod import;
+mod import_write;
 mod inputs;
 mod late;
 mod meters;

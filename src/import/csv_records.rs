@@ -36,11 +36,21 @@ impl Window {
         let to = ((offset.max(self.counted_to) - self.base) as usize).min(self.bytes.len());
         // A line ends at LF, CRLF or a lone CR (as the csv crate reads them): CR counts, and LF
         // unless a CR came just before it.
-        for &b in &self.bytes[from..to] {
-            if b == b'\r' || (b == b'\n' && self.last != Some(b'\r')) {
-                self.newlines += 1;
+        let part = &self.bytes[from..to];
+        if part.contains(&b'\r') {
+            for &b in part {
+                if b == b'\r' || (b == b'\n' && self.last != Some(b'\r')) {
+                    self.newlines += 1;
+                }
+                self.last = Some(b);
             }
-            self.last = Some(b);
+        } else if let Some(&end) = part.last() {
+            // LF alone ends lines here (the common case, counted fast), but for one that
+            // completes a CRLF split between reads.
+            let lf = part.iter().filter(|&&b| b == b'\n').count() as u64;
+            let split_crlf = self.last == Some(b'\r') && part[0] == b'\n';
+            self.newlines += lf - u64::from(split_crlf);
+            self.last = Some(end);
         }
         self.counted_to = self.base + to as u64;
         // Forget what is counted, a block at a time.

@@ -5,6 +5,7 @@ use crate::ledger::{Entry, EntryKind, Evidence, Hash, Period, Reading};
 use crate::quantity::Mass;
 use crate::quantity::volume::DensityMethod;
 use chrono::{DateTime, NaiveDate, Utc};
+use std::collections::BTreeMap;
 use std::sync::Arc;
 
 /// One meter's readings of one day. Every sum is of integers, so it does not depend on the
@@ -12,8 +13,9 @@ use std::sync::Arc;
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct MeterDay {
     pub day: NaiveDate,
-    pub site: String,
-    pub meter: String,
+    /// Shared by every day of the meter: a file may hold a million meter-days.
+    pub site: Arc<str>,
+    pub meter: Arc<str>,
     pub co2: Mass,
     pub rows: u64,
     pub first_line: u64,
@@ -33,14 +35,33 @@ pub struct Source<'a> {
     pub sha256: Hash,
     pub density: DensityMethod,
     pub recorded_at: DateTime<Utc>,
+    /// The registry role appending (None in a ledger file).
+    pub recorded_by: Option<String>,
+    /// The SHA-256 in hex, as every entry's reading, key and reason name it: formatted once.
+    sha256_hex: String,
+}
+
+impl<'a> Source<'a> {
+    pub fn new(project: &'a str, kind: EntryKind, file_name: &'a str, sha256: Hash) -> Self {
+        Source {
+            project,
+            kind,
+            file_name,
+            sha256,
+            density: DensityMethod::Eos,
+            recorded_at: DateTime::UNIX_EPOCH,
+            recorded_by: None,
+            sha256_hex: sha256.to_hex(),
+        }
+    }
 }
 
 impl MeterDay {
-    pub fn new(day: NaiveDate, site: &str, meter: &str, line: u64) -> Self {
+    pub fn new(day: NaiveDate, site: Arc<str>, meter: Arc<str>, line: u64) -> Self {
         MeterDay {
             day,
-            site: site.to_string(),
-            meter: meter.to_string(),
+            site,
+            meter,
             co2: Mass::ZERO,
             rows: 0,
             first_line: line,
@@ -56,8 +77,15 @@ impl MeterDay {
     /// or volume at one set of reference conditions — so its sum and its mean concentration
     /// are of like quantities.
     pub fn mismatch(&self, r: &MeterRow<'_>) -> Option<String> {
-        let earlier = format!(
-            "meter {} on {} reads {} in earlier rows (line {})",
+        let here = match (&r.metered, &self.conditions) {
+            _ if self.rows == 0 => return None,
+            (Metered::StreamGrams(_), None) => return None,
+            (Metered::VolumeCm3(_, c), Some(day)) if c == day => return None,
+            (Metered::StreamGrams(_), Some(_)) => "mass".to_string(),
+            (Metered::VolumeCm3(_, c), _) => format!("volumes at {c}"),
+        };
+        Some(format!(
+            "meter {} on {} reads {} in earlier rows (line {}), here {here}",
             self.meter,
             self.day,
             match &self.conditions {
@@ -65,14 +93,7 @@ impl MeterDay {
                 None => "mass".into(),
             },
             self.first_line
-        );
-        match (&r.metered, &self.conditions) {
-            _ if self.rows == 0 => None,
-            (Metered::StreamGrams(_), None) => None,
-            (Metered::VolumeCm3(_, c), Some(day)) if c == day => None,
-            (Metered::StreamGrams(_), Some(_)) => Some(format!("{earlier}, here mass")),
-            (Metered::VolumeCm3(_, c), _) => Some(format!("{earlier}, here volumes at {c}")),
-        }
+        ))
     }
 
     /// Adds a row; None when a sum would leave the ledger's range.
@@ -107,7 +128,7 @@ impl MeterDay {
         let mut r = Reading::default();
         r.push("source", "meter import");
         r.push("file", s.file_name);
-        r.push("file_sha256", s.sha256.to_hex());
+        r.push("file_sha256", s.sha256_hex.as_str());
         r.push("lines", format!("{}-{}", self.first_line, self.last_line));
         r.push("readings", self.rows.to_string());
         r.push("meter_type", self.meter_type());
@@ -136,35 +157,50 @@ impl MeterDay {
             project: s.project.to_string(),
             seq: 0,
             kind: s.kind,
-            site: self.site.clone(),
+            site: self.site.to_string(),
             period: Period::day(self.day),
             reading: self.reading(s),
             mass: self.co2,
             sign: s.kind.sign(),
             recorded_at: s.recorded_at,
-            key: format!(
-                "import-{}-{}-{}",
-                &s.sha256.to_hex()[..16],
-                self.meter,
-                self.day
-            ),
-            meter: Some(self.meter.clone()),
+            key: format!("import-{}-{}-{}", &s.sha256_hex[..16], self.meter, self.day),
+            meter: Some(self.meter.to_string()),
             note: None,
             corrects,
             reason: corrects.map(|_| {
                 format!(
                     "replaced by the meter export {} (SHA-256 {})",
-                    s.file_name,
-                    s.sha256.to_hex()
+                    s.file_name, s.sha256_hex
                 )
             }),
             evidence: Some(Evidence {
                 file_name: s.file_name.to_string(),
                 sha256: s.sha256,
             }),
-            recorded_by: None,
+            recorded_by: s.recorded_by.clone(),
         }
     }
+}
+
+/// The meter-days as the permit check reads new entries (kind, day, grams): one entry per day,
+/// its grams summed exactly, so the check holds a day's figure, not a million entries. None
+/// when a day's sum leaves i64.
+pub fn permit_entries(days: &[MeterDay], s: &Source<'_>) -> Option<Vec<Entry>> {
+    let mut by_day: BTreeMap<NaiveDate, (&MeterDay, Mass)> = BTreeMap::new();
+    for d in days {
+        let (_, sum) = by_day.entry(d.day).or_insert((d, Mass::ZERO));
+        *sum = sum.checked_add(d.co2)?;
+    }
+    Some(
+        by_day
+            .into_values()
+            .map(|(d, mass)| Entry {
+                mass,
+                reading: Reading::default(),
+                ..d.entry(s, None)
+            })
+            .collect(),
+    )
 }
 
 /// `n / d` rounded half to even (d > 0).
@@ -207,8 +243,8 @@ mod tests {
     fn sums_are_exact_and_the_mean_is_weighted_by_what_was_read() {
         let mut d = MeterDay::new(
             row(4, Metered::StreamGrams(0), 0, 0).day,
-            "TF-I1",
-            "FM-101",
+            "TF-I1".into(),
+            "FM-101".into(),
             4,
         );
         // 500 g at 0.985 and 1500 g at 0.995: mean (492.5 + 1492.5) / 2000 = 0.9925.
@@ -216,14 +252,7 @@ mod tests {
             .unwrap();
         d.add(&row(2, Metered::StreamGrams(1500), 1_492_500_000, 1492))
             .unwrap();
-        let s = Source {
-            project: "TFS",
-            kind: EntryKind::Injection,
-            file_name: "a.csv",
-            sha256: Hash::GENESIS,
-            density: DensityMethod::Eos,
-            recorded_at: DateTime::UNIX_EPOCH,
-        };
+        let s = Source::new("TFS", EntryKind::Injection, "a.csv", Hash::GENESIS);
         let r = d.reading(&s);
         assert_eq!(r.get("lines"), Some("2-4"));
         assert_eq!(r.get("co2_fraction_mean"), Some("0.992500"));

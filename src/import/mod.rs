@@ -5,6 +5,7 @@
 pub mod bundle_file;
 pub mod csv_records;
 pub mod evidence;
+pub mod instants;
 pub mod meter_csv;
 pub mod meter_day;
 pub mod overlap;

@@ -41,9 +41,13 @@ pub fn corrections(
     covered: &Covered,
     replace: bool,
 ) -> Result<Vec<Option<u64>>, Vec<Overlap>> {
+    if covered.is_empty() {
+        // A first import of these days: nothing to look up a million times.
+        return Ok(vec![None; days.len()]);
+    }
     let found: Vec<Option<&(u64, Option<String>)>> = days
         .iter()
-        .map(|d| covered.get(&(d.meter.clone(), d.day)))
+        .map(|d| covered.get(&(d.meter.to_string(), d.day)))
         .collect();
     if !replace && found.iter().any(Option::is_some) {
         return Err(days
@@ -51,7 +55,7 @@ pub fn corrections(
             .zip(&found)
             .filter_map(|(d, f)| {
                 f.map(|(seq, file)| Overlap {
-                    meter: d.meter.clone(),
+                    meter: d.meter.to_string(),
                     day: d.day,
                     seq: *seq,
                     earlier_file: file.clone(),
@@ -124,8 +128,8 @@ mod tests {
     fn day(d: u32, meter: &str) -> MeterDay {
         MeterDay::new(
             NaiveDate::from_ymd_opt(2026, 2, d).unwrap(),
-            "TF-I1",
-            meter,
+            "TF-I1".into(),
+            meter.into(),
             d as u64 + 1,
         )
     }

@@ -4,14 +4,16 @@
 
 use super::csv_records::{Record, Records};
 use super::evidence::Witnessed;
+use super::instants::Instants;
 use super::meter_csv::{ColumnMap, Converter, Layout, RowError};
 use super::meter_day::MeterDay;
 use crate::error::{Error, Result};
 use crate::ledger::{EntryKind, Hash, Site};
 use crate::quantity::volume::DensityMethod;
 use chrono::NaiveDate;
-use std::collections::{BTreeMap, HashMap, HashSet};
+use std::collections::{BTreeMap, HashMap};
 use std::io::Read;
+use std::sync::Arc;
 
 /// Test hook: when set to N, the planner aborts the process (as a crash would) after reading N
 /// rows, so tests can stop an import at a chosen point instead of racing a timer.
@@ -61,16 +63,16 @@ impl Plan {
 
 /// Per meter, where it is and its days.
 struct Meter {
-    site: String,
+    site: Arc<str>,
     days: BTreeMap<NaiveDate, MeterDay>,
+    /// When it was read, to refuse a reading given twice.
+    instants: Instants,
 }
 
 struct Rollup<'a> {
     opts: &'a Options<'a>,
     index: HashMap<String, u32>,
-    meters: Vec<(String, Meter)>,
-    /// (meter, instant) of every reading taken, to refuse one given twice.
-    seen: HashSet<(u32, i64)>,
+    meters: Vec<(Arc<str>, Meter)>,
     bad: Vec<RowError>,
     accepted: u64,
     watched: Vec<WatchedRow>,
@@ -137,15 +139,16 @@ impl Rollup<'_> {
                 })?;
                 self.index.insert(r.meter.to_string(), i);
                 let m = Meter {
-                    site: r.site.to_string(),
+                    site: r.site.into(),
                     days: BTreeMap::new(),
+                    instants: Instants::default(),
                 };
-                self.meters.push((r.meter.to_string(), m));
+                self.meters.push((r.meter.into(), m));
                 i
             }
         };
         let (meter, m) = &mut self.meters[i as usize];
-        if m.site != r.site {
+        if *m.site != *r.site {
             let why = format!(
                 "meter {meter} is at site {} in earlier rows, here at site {}",
                 m.site, r.site
@@ -153,7 +156,7 @@ impl Rollup<'_> {
             self.bad.push(refuse(why));
             return Ok(());
         }
-        if !self.seen.insert((i, r.instant)) {
+        if !m.instants.insert(r.instant) {
             let why = format!(
                 "a second reading of meter {meter} at the same time as an earlier row (a repeated row?)"
             );
@@ -163,7 +166,7 @@ impl Rollup<'_> {
         let day = m
             .days
             .entry(r.day)
-            .or_insert_with(|| MeterDay::new(r.day, r.site, meter, r.line));
+            .or_insert_with(|| MeterDay::new(r.day, m.site.clone(), meter.clone(), r.line));
         if let Some(why) = day.mismatch(&r) {
             self.bad.push(refuse(why));
             return Ok(());
@@ -214,7 +217,6 @@ pub fn plan(
         opts,
         index: HashMap::new(),
         meters: Vec::new(),
-        seen: HashSet::new(),
         bad: Vec::new(),
         accepted: 0,
         watched: Vec::new(),
@@ -233,11 +235,14 @@ pub fn plan(
         .finish()
         .map_err(|e| file_error(&e))?
         .ok_or_else(|| Error::Store("the import stopped: its evidence could not be kept".into()))?;
-    let mut days: Vec<MeterDay> = rollup
-        .meters
-        .into_iter()
-        .flat_map(|(_, m)| m.days.into_values())
-        .collect();
+    // Sized once: a file of a million meter-days would otherwise hold two copies while growing.
+    let mut days = Vec::with_capacity(rollup.meters.iter().map(|(_, m)| m.days.len()).sum());
+    days.extend(
+        rollup
+            .meters
+            .into_iter()
+            .flat_map(|(_, m)| m.days.into_values()),
+    );
     days.sort_by(|a, b| (a.day, &a.site, &a.meter).cmp(&(b.day, &b.site, &b.meter)));
     Ok(Plan {
         sha256,

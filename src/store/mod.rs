@@ -349,11 +349,23 @@ impl Tx<'_> {
             tally = tally.after(&s.entry, replaced.as_ref());
             rows.push(TalliedRow::new(s, tally));
         }
-        for chunk in rows.chunks(1000) {
-            on_backend!(&mut *self.conn, c => diesel::insert_into(entries::table)
-                .values(chunk)
-                .execute(c))?;
-        }
+        // SQLite: one row a statement, prepared once and kept in diesel's statement cache
+        // (every column bound, so the text never changes), stepped per row: there is no round
+        // trip to save, and a many-row statement would be parsed anew each time. PostgreSQL:
+        // 1,000 rows a statement, each a round trip to the server (22 columns × 1,000 rows
+        // stays under its 65,535 bound parameters).
+        let per_statement = match &*self.conn {
+            Conn::Sqlite(_) => 1,
+            Conn::Pg(_) => 1000,
+        };
+        on_backend!(&mut *self.conn, c => {
+            for chunk in rows.chunks(per_statement) {
+                match chunk {
+                    [one] => diesel::insert_into(entries::table).values(one).execute(c),
+                    many => diesel::insert_into(entries::table).values(many).execute(c),
+                }?;
+            }
+        });
         for s in sealed.iter().filter(|s| s.entry.kind == EntryKind::Seal) {
             let seq = s.entry.seq.to_string();
             self.link(Record::Seal, &s.entry.project, &seq, &s.chain.to_hex())?;

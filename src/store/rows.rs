@@ -40,8 +40,11 @@ pub struct SiteRow {
     pub row_hash: String,
 }
 
+/// Inserted with every column bound (NULL for None), so the statement's text is the same for
+/// every row and SQLite prepares it once for a whole import.
 #[derive(Queryable, Selectable, Insertable)]
 #[diesel(table_name = entries, check_for_backend(diesel::sqlite::Sqlite))]
+#[diesel(treat_none_as_default_value = false)]
 pub struct EntryRow {
     pub project: String,
     pub seq: i64,
@@ -229,7 +232,7 @@ impl EntryRow {
 /// An entry row as appended: the entry, and its project's running figures through it
 /// (`ledger::tally`), which are not part of the entry's bytes.
 #[derive(Insertable)]
-#[diesel(table_name = entries)]
+#[diesel(table_name = entries, treat_none_as_default_value = false)]
 pub struct TalliedRow {
     #[diesel(embed)]
     pub row: EntryRow,
