@@ -1,7 +1,6 @@
 //! Permits: cumulative stored against the permitted capacity and a year's injection against an
 //! annual maximum, checked before new entries are written.
 
-use crate::error::{Error, Result};
 use crate::ledger::tally::{in_year, stored_share};
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
@@ -16,6 +15,20 @@ use std::collections::{BTreeMap, BTreeSet};
 pub struct Standing {
     pub stored: Mass,
     pub injected: BTreeMap<i32, Mass>,
+}
+
+/// What an append would take past the permit, unacknowledged: nothing is written.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Exceeded {
+    pub project: String,
+    /// Each limit passed, with the figures.
+    pub findings: Vec<String>,
+}
+
+impl std::fmt::Display for Exceeded {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "project {}: {}", self.project, self.findings.join("; "))
+    }
 }
 
 /// The years whose injection the annual maximum is checked for: those the new entries end in.
@@ -34,7 +47,7 @@ pub fn check(
     new: &[Entry],
     replaced: &[Entry],
     over_permit: bool,
-) -> Result<Vec<String>> {
+) -> Result<Vec<String>, Exceeded> {
     let share = |es: &[Entry]| {
         es.iter()
             .fold(0i64, |sum, e| sum.saturating_add(stored_share(e)))
@@ -83,11 +96,10 @@ pub fn check(
         }
     }
     if !exceeded.is_empty() && !over_permit {
-        return Err(Error::Refused(format!(
-            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
-            project.code,
-            exceeded.join("; ")
-        )));
+        return Err(Exceeded {
+            project: project.code.clone(),
+            findings: exceeded,
+        });
     }
     warnings.extend(
         exceeded

@@ -118,12 +118,12 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             let new: Vec<Entry> = plan.days.iter().zip(&corrects).map(|(d, c)| Entry { reading: Reading::default(), ..d.entry(&source, *c) }).collect();
             let mut gone = Vec::new();
             for t in corrects.iter().flatten() {
-                let replaced = tx.entry_at(&a.project, *t)?.ok_or_else(|| Error::Inconsistent(format!("project {} has no seq {t}, which an effective meter-day named", a.project)))?;
+                let replaced = tx.entry_at(&a.project, *t)?.ok_or_else(|| Error::ledger(format!("project {} has no seq {t}, which an effective meter-day named", a.project)))?;
                 gone.push(replaced.entry);
             }
             let tally = tx.tally(&a.project)?;
             let standing = super::record::standing(tx, &project, tally, &new)?;
-            permit::check(&project, &standing, &new, &gone, a.over_permit)?
+            permit::check(&project, &standing, &new, &gone, a.over_permit).map_err(super::over_permit)?
         } else {
             Vec::new()
         };
@@ -230,7 +230,7 @@ fn covered_days(tx: &mut Tx<'_>, project: &str, kind: EntryKind, plan: &Plan) ->
     let mut covered = Covered::new();
     for c in tx.covered_days(project, kind.name(), first, last)? {
         let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
-            Error::Inconsistent(format!(
+            Error::ledger(format!(
                 "project {project} seq {}: period_from {:?} is not a date",
                 c.seq, c.day
             ))

@@ -261,12 +261,19 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     }
 }
 
+/// A permit passed without `--over-permit`: refused, saying how to record it anyway.
+fn over_permit(e: crate::accounting::permit::Exceeded) -> crate::error::Error {
+    crate::error::Error::Refused(format!(
+        "{e}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)"
+    ))
+}
+
 /// Runs one line of arguments (as after `sinkbook`) against a given ledger; the demo's scripts
 /// go through the same parser and commands as a person typing them.
 pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Report> {
     let argv = std::iter::once("sinkbook".to_string()).chain(words.iter().cloned());
     let mut cli = Cli::try_parse_from(argv).map_err(|e| {
-        crate::error::Error::Refused(e.to_string().lines().next().unwrap_or("").to_string())
+        crate::error::Error::Usage(e.to_string().lines().next().unwrap_or("").to_string())
     })?;
     cli.db = Some(db.to_path_buf());
     run(cli, now)

@@ -3,7 +3,9 @@
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::leakage;
-use crate::accounting::metering::{Basis, MeterInput, assumed_fraction, measure};
+use crate::accounting::metering::{
+    Basis, Measured, MeterError, MeterField, MeterInput, assumed_fraction, measure,
+};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
@@ -84,6 +86,11 @@ impl QuantityArgs {
         self.mass.is_some() || self.volume.is_some()
     }
 
+    /// The quantity options as a reading and grams; a refusal names the option.
+    fn measure(&self) -> Result<Measured> {
+        measure(&self.input()).map_err(meter_error)
+    }
+
     fn input(&self) -> MeterInput<'_> {
         MeterInput {
             mass: self.mass.as_deref(),
@@ -94,6 +101,36 @@ impl QuantityArgs {
             impurities: self.impurities.as_deref(),
             uncertainty: self.uncertainty.as_deref(),
         }
+    }
+}
+
+/// A meter reading's refusal in the options' words.
+fn meter_error(e: MeterError) -> Error {
+    match e {
+        MeterError::Value { field, value, why } => {
+            let option = match field {
+                MeterField::Mass => "--mass",
+                MeterField::Volume => "--volume",
+                MeterField::Co2Fraction => "--co2-fraction",
+                MeterField::Impurities => "--impurities",
+                MeterField::Uncertainty => "--uncertainty",
+            };
+            Error::field(option, &value, why)
+        }
+        MeterError::BothQuantities => Error::options("--mass", "give --mass or --volume, not both"),
+        MeterError::NoQuantity => Error::options(
+            "--mass",
+            "a quantity is needed: --mass \"1250.5 t\" (mass meter) or --volume \"2.5 MMscf\" (volumetric meter)",
+        ),
+        MeterError::MolNeedsImpurities => Error::options(
+            "--impurities",
+            "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)",
+        ),
+        MeterError::VolumeByMass => Error::field(
+            "--co2-basis",
+            "mass",
+            "a volumetric meter's CO2 fraction is by volume: give it with --co2-basis mol",
+        ),
     }
 }
 
@@ -415,7 +452,7 @@ pub(super) fn period(from: &str, to: &str, today: NaiveDate) -> Result<Period> {
 
 pub(super) fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str> {
     v.as_deref()
-        .ok_or_else(|| Error::Refused(format!("{field} is required (ISO 8601 date)")))
+        .ok_or_else(|| Error::options(field, format!("{field} is required (ISO 8601 date)")))
 }
 
 fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
@@ -460,7 +497,7 @@ pub(super) fn metered(
     extra: &[(&str, String)],
     ctx: &Context,
 ) -> Result<Entry> {
-    let m = measure(&b.reading.quantity.input())?;
+    let m = b.reading.quantity.measure()?;
     let mut reading = m.reading;
     for (n, v) in extra {
         reading.push(n, v.clone());
@@ -573,8 +610,9 @@ pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
             reading.push("mass", m.to_string());
             match (&a.site, &a.pathway) {
                 (None, None) => {
-                    return Err(Error::Refused(
-                        "say where the CO2 was lost: --site, --pathway or both".into(),
+                    return Err(Error::options(
+                        "--site",
+                        "say where the CO2 was lost: --site, --pathway or both",
                     ));
                 }
                 (_, Some(p)) => {
@@ -657,8 +695,9 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
     let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
     let from = match (&b.reading.from, a.since_last_survey) {
         (Some(_), true) => {
-            return Err(Error::Refused(
-                "give --from or --since-last-survey, not both".into(),
+            return Err(Error::options(
+                "--from",
+                "give --from or --since-last-survey, not both",
             ));
         }
         (Some(f), false) => inputs::activity_date("--from", f, ctx.now.date_naive())?,
@@ -694,8 +733,9 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
             start.day()
         }
         (None, false) => {
-            return Err(Error::Refused(
-                "--from is required (or --since-last-survey)".into(),
+            return Err(Error::options(
+                "--from",
+                "--from is required (or --since-last-survey)",
             ));
         }
     };
@@ -721,7 +761,7 @@ fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
             (reading, mass)
         }
         None => {
-            let m = measure(&b.reading.quantity.input())?;
+            let m = b.reading.quantity.measure()?;
             (m.reading, m.mass)
         }
     };
@@ -960,7 +1000,7 @@ fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
             ));
         }
         let q = restated(&a.quantity, &target.reading)?;
-        let m = measure(&q.input())?;
+        let m = q.measure()?;
         let mut reading = m.reading;
         for (n, v) in &target.reading.0 {
             if KIND_FIELDS.contains(&n.as_str()) {
@@ -1074,7 +1114,8 @@ pub(super) fn commit_with(
                     .filter(|_| s.entry.corrects.is_some())
                     .cloned()
                     .collect();
-                warnings = permit::check(&project, &standing, new, &gone, over_permit)?;
+                warnings = permit::check(&project, &standing, new, &gone, over_permit)
+                    .map_err(super::over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }

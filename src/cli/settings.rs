@@ -110,8 +110,9 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         values.push((deduction_setting(*deduction), v.to_string()));
     }
     if values.is_empty() {
-        return Err(Error::Refused(
-            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years, --claim-period or a deduction parameter (--strong-acid, --cation-retention, --secondary-carbonate, --ocean-efficiency)".into(),
+        return Err(Error::options(
+            "--buffer",
+            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years, --claim-period or a deduction parameter (--strong-acid, --cation-retention, --secondary-carbonate, --ocean-efficiency)",
         ));
     }
     if let Some(s) = &a.source {

@@ -232,7 +232,7 @@ pub fn plan(
         .into_inner()
         .finish()
         .map_err(|e| file_error(&e))?
-        .ok_or_else(|| Error::Store("the import stopped: its evidence could not be kept".into()))?;
+        .ok_or_else(|| Error::internal("the import stopped: its evidence could not be kept"))?;
     let mut days: Vec<MeterDay> = rollup
         .meters
         .into_iter()
