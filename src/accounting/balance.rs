@@ -2,7 +2,7 @@
 //! (§98.443, RR-1 to RR-12) or ISO 27916 for CO2-EOR, every term its own figure.
 
 use crate::accounting::uncertainty::{
-    Estimate, Reading, Term, TermSign, mass_balance, sum_readings,
+    Estimate, MeteredMass as Reading, Term, TermSign, mass_balance, sum_readings,
 };
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::tally::entrained_fraction;

@@ -9,7 +9,7 @@ use crate::accounting::project_view::{
     CampaignTotal, EmissionsInScope, ProjectFigures, ViewError, campaign_total, default_settings,
 };
 use crate::accounting::weathering::campaign::{
-    CampaignError, CampaignLine, DissolutionMethod, Reading, Settings,
+    CampaignError, CampaignLine, CampaignResult, DissolutionMethod, Settings,
 };
 use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions};
@@ -319,7 +319,7 @@ fn campaign_table(
             l.rate_t_per_ha.map_or(Cell::Empty, |r| Cell::Number(r, 1)),
         ];
         match &l.reading {
-            Reading::Resolved(r) => {
+            CampaignResult::Resolved(r) => {
                 row.extend([
                     r.found_t_per_ha.map_or(Cell::Empty, |f| Cell::Number(f, 1)),
                     Cell::Tonnes(l.potential),
@@ -329,7 +329,7 @@ fn campaign_table(
                 row.extend(r.removal.deducted.map(|(_, m)| Cell::Tonnes(m)));
                 row.extend([Cell::Tonnes(l.emissions), Cell::Tonnes(r.net), Cell::Empty]);
             }
-            Reading::Finding(why) => {
+            CampaignResult::Finding(why) => {
                 let short = why.split(':').next().unwrap_or(why).to_string();
                 findings.push(format!("{} {}: {why}", l.field, l.date));
                 row.extend([Cell::Empty, Cell::Tonnes(l.potential), Cell::text(short)]);

@@ -102,7 +102,7 @@ pub struct Emission<'a> {
 
 /// What a campaign's cores say.
 #[derive(Debug, Clone, PartialEq)]
-pub enum Reading {
+pub enum CampaignResult {
     Resolved(Resolved),
     /// No number: why, in words a person can act on.
     Finding(String),
@@ -153,7 +153,7 @@ pub struct CampaignLine {
     pub potential: Mass,
     /// Emissions recorded at the field whose periods ended by the campaign.
     pub emissions: Mass,
-    pub reading: Reading,
+    pub reading: CampaignResult,
 }
 
 impl CampaignLine {
@@ -163,7 +163,7 @@ impl CampaignLine {
 
     /// The same campaign with other deduction parameters: gross stays, removal and net follow.
     pub fn deduct(&mut self, deductions: &Deductions) -> Result<(), RemovalError> {
-        if let Reading::Resolved(r) = &mut self.reading {
+        if let CampaignResult::Resolved(r) = &mut self.reading {
             r.removal = removal(r.gross.total, deductions)?;
             let whole_gross = if r.dissolved_fraction > 0.0 {
                 r.gross.total.scale(1.0 / r.dissolved_fraction)
@@ -359,10 +359,10 @@ fn campaign(
         rate_t_per_ha: area_m2.map(|a| applied_t / (a / 1e4)),
         potential: Mass::ZERO,
         emissions,
-        reading: Reading::Finding(String::new()),
+        reading: CampaignResult::Finding(String::new()),
     };
     let Some(feedstock) = feedstock else {
-        line.reading = Reading::Finding(if codes.is_empty() {
+        line.reading = CampaignResult::Finding(if codes.is_empty() {
             format!("no feedstock applied to {field} before {date}")
         } else {
             format!(
@@ -384,7 +384,7 @@ fn campaign(
     let sample = soil_analysis(&sample, &core_name(cores), s)?;
     let feed = feedstock_member(feedstock, s)?;
     if base_cores[0].depth != cores[0].depth {
-        line.reading = Reading::Finding(format!(
+        line.reading = CampaignResult::Finding(format!(
             "sampled over {}–{} m, the baseline over {}–{} m: cores must cover the same depth",
             cores[0].depth.top_m,
             cores[0].depth.bottom_m,
@@ -399,7 +399,7 @@ fn campaign(
         DissolutionMethod::Tau => bulk_tau(soil, feed, sample, applied_t, area_m2, thickness),
     };
     line.reading = match dissolve(soil, sample) {
-        Err(why) => Reading::Finding(why),
+        Err(why) => CampaignResult::Finding(why),
         Ok((f, found_t_per_ha)) => {
             let cations: Vec<_> = feedstock
                 .analysis
@@ -413,7 +413,7 @@ fn campaign(
                 let whole = removal(gross_co2(1.0, applied_t, &cations)?.total, &s.deductions)?;
                 removal(g.total, &s.deductions).map(|r| (g, r, whole.net))
             }) {
-                Ok((gross, removal, removal_whole)) => Reading::Resolved(Resolved {
+                Ok((gross, removal, removal_whole)) => CampaignResult::Resolved(Resolved {
                     dissolved_fraction: f,
                     found_t_per_ha,
                     net: removal.net - emissions,
@@ -422,7 +422,7 @@ fn campaign(
                     spread,
                     removal_whole,
                 }),
-                Err(e) => Reading::Finding(e.to_string()),
+                Err(e) => CampaignResult::Finding(e.to_string()),
             }
         }
     };
@@ -615,7 +615,7 @@ pub fn rollup(
     let exact = |m: Mass| Estimate::absolute(m, Mass::ZERO);
     let mut last: BTreeMap<&str, (Mass, [Mass; 4], Estimate)> = BTreeMap::new();
     for l in lines {
-        let Reading::Resolved(r) = &l.reading else {
+        let CampaignResult::Resolved(r) = &l.reading else {
             continue;
         };
         let b = grouping.bucket(l.date);
@@ -751,8 +751,8 @@ mod tests {
 
     fn finding(l: &CampaignLine) -> &str {
         match &l.reading {
-            Reading::Finding(w) => w,
-            Reading::Resolved(r) => panic!("resolved: {r:?}"),
+            CampaignResult::Finding(w) => w,
+            CampaignResult::Resolved(r) => panic!("resolved: {r:?}"),
         }
     }
 
@@ -777,8 +777,8 @@ mod tests {
         }];
         let lines = read(&apps, &cores, &emissions);
         let resolved = |l: &CampaignLine| match &l.reading {
-            Reading::Resolved(r) => r.clone(),
-            Reading::Finding(w) => panic!("{w}"),
+            CampaignResult::Resolved(r) => r.clone(),
+            CampaignResult::Finding(w) => panic!("{w}"),
         };
         let (r1, r2) = (resolved(&lines[0]), resolved(&lines[1]));
         assert!((r1.dissolved_fraction - 0.1).abs() < 1e-9);
@@ -812,8 +812,8 @@ mod tests {
             let mut all = baseline.to_vec();
             all.extend(sampled.iter().cloned());
             match &read(&apps, &all, &[])[0].reading {
-                Reading::Resolved(r) => r.spread.clone(),
-                Reading::Finding(w) => panic!("{w}"),
+                CampaignResult::Resolved(r) => r.spread.clone(),
+                CampaignResult::Finding(w) => panic!("{w}"),
             }
         };
         let one = spread_of(&[core(0, "2025-03-01", 0.15, 0.075, true, 0.2)]).unwrap();
@@ -839,12 +839,12 @@ mod tests {
             core(2, "2025-10-01", ca, ti, false, 0.2),
         ];
         match &read(&apps, &single, &[])[0].reading {
-            Reading::Resolved(r) => assert!(
+            CampaignResult::Resolved(r) => assert!(
                 r.spread.as_ref().unwrap_err().contains("one core"),
                 "{:?}",
                 r.spread
             ),
-            Reading::Finding(w) => panic!("{w}"),
+            CampaignResult::Finding(w) => panic!("{w}"),
         }
     }
 
