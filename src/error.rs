@@ -208,6 +208,12 @@ impl From<crate::accounting::project_view::ViewError> for Error {
     }
 }
 
+impl From<crate::ledger::reading_fields::ReadingError> for Error {
+    fn from(e: crate::ledger::reading_fields::ReadingError) -> Self {
+        Error::entry(&e.project, Some(e.seq as i64), e.field)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

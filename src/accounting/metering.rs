@@ -3,6 +3,7 @@
 //! 98.443). The reading is kept as given, with every factor used, so each gram can be traced.
 
 use crate::chem::gas_mix::{Balance, StreamComposition};
+use crate::ledger::reading_fields::checked;
 use crate::ledger::{Reading, bounds};
 use crate::quantity::mass::{MassError, grams_of_f64};
 use crate::quantity::volume::{DensityMethod, StandardVolume};
@@ -220,10 +221,9 @@ fn push_source(r: &mut Reading, input: &MeterInput<'_>, f: Fraction) {
 /// assumed). Imported meter-days (`co2_fraction_mean`, from the file's required column) and
 /// readings without a CO2 fraction (a leak rate, a rock route) rest on none.
 pub fn assumed_fraction(r: &Reading) -> bool {
-    match (r.get("co2_fraction_source"), r.get("co2_fraction")) {
-        (Some(source), _) => source == "assumed",
-        (None, Some(f)) => Fraction::parse(f).is_ok_and(|f| f == Fraction::ONE),
-        (None, None) => false,
+    match checked(r.co2_fraction_assumed()) {
+        Some(assumed) => assumed,
+        None => checked(r.co2_fraction()) == Some(Fraction::ONE),
     }
 }
 

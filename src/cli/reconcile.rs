@@ -404,7 +404,7 @@ fn recompute_table<'a>(
     );
     let mut checked = 0;
     for e in entries {
-        let (Some(sha), Some(meter)) = (e.reading.get("file_sha256"), e.meter.as_deref()) else {
+        let (Some(sha), Some(meter)) = (e.reading.text("file_sha256"), e.meter.as_deref()) else {
             continue;
         };
         if e.kind == EntryKind::Survey || e.corrects.is_some() {

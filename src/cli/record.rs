@@ -9,6 +9,7 @@ use crate::accounting::metering::{
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
+use crate::ledger::reading_fields::{FractionBasis, SurveyFinding, checked};
 use crate::ledger::seal::{Replaced, Seal, late_replaces};
 use crate::ledger::tally::Tally;
 use crate::ledger::{Entry, EntryKind, Period, Project, Reading, SealedEntry};
@@ -814,7 +815,7 @@ impl Surveyed<'_> {
     fn covers(&self, survey: &Entry) -> bool {
         match self {
             Surveyed::Site(s) => survey.site == *s,
-            Surveyed::Pathway(p) => survey.reading.get("pathway") == Some(p),
+            Surveyed::Pathway(p) => survey.reading.pathway() == Some(p),
         }
     }
 }
@@ -835,7 +836,7 @@ fn leak_bounds(
             EntryKind::Survey
                 if surveyed.covers(e)
                     && e.period.to <= to
-                    && e.reading.get("result") == Some("no-leak") =>
+                    && checked(e.reading.survey_finding()) == Some(SurveyFinding::NoLeak) =>
             {
                 survey = survey.max(Some(e.period.to));
             }
@@ -854,8 +855,8 @@ fn leak_bounds(
 fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
     let mut q = given.clone();
     if !q.is_given() {
-        q.mass = was.get("mass").map(str::to_string);
-        q.volume = was.get("volume").map(str::to_string);
+        q.mass = was.text("mass").map(str::to_string);
+        q.volume = was.text("volume").map(str::to_string);
         if !q.is_given() {
             return Err(Error::field(
                 "--co2-fraction",
@@ -865,23 +866,25 @@ fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
         }
     }
     // An assumed fraction stays assumed: the correction states none either.
-    let fraction = was.get("co2_fraction").or(was.get("co2_fraction_mean"));
+    let fraction = was.text("co2_fraction").or(was.text("co2_fraction_mean"));
     let fraction = fraction.filter(|_| !assumed_fraction(was));
     q.co2_fraction = q.co2_fraction.or(fraction.map(str::to_string));
-    q.co2_basis = q.co2_basis.or(match was.get("co2_basis") {
-        Some("mol") => Some(Basis::Mol),
-        Some("mass") => Some(Basis::Mass),
-        _ => None,
+    q.co2_basis = q.co2_basis.or(match checked(was.co2_basis()) {
+        Some(FractionBasis::Mol) => Some(Basis::Mol),
+        Some(FractionBasis::Mass) => Some(Basis::Mass),
+        None => None,
     });
-    q.density = q.density.or(match was.get("density_method") {
+    q.density = q.density.or(match was.density_method() {
         Some("regulatory") => Some(DensityArg::Regulatory),
         Some("eos") => Some(DensityArg::Eos),
         _ => None,
     });
     q.impurities = q
         .impurities
-        .or(was.get("impurities_mol").map(str::to_string));
-    q.uncertainty = q.uncertainty.or(was.get("uncertainty").map(str::to_string));
+        .or(was.text("impurities_mol").map(str::to_string));
+    q.uncertainty = q
+        .uncertainty
+        .or(was.text("uncertainty").map(str::to_string));
     Ok(q)
 }
 
@@ -1101,7 +1104,7 @@ pub(super) fn commit_with(
         };
         within_limit(tally.magnitude, std::slice::from_ref(&entry)).map_err(|e| {
             let mass = entry.mass.to_string();
-            Error::field("--mass", entry.reading.get("mass").unwrap_or(&mass), e)
+            Error::field("--mass", entry.reading.text("mass").unwrap_or(&mass), e)
         })?;
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;

@@ -448,7 +448,7 @@ fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<(
     let cores = tx.effective_at_site(&a.project, EntryKind::SoilSample, &a.site)?;
     if let Some(b) = cores
         .iter()
-        .filter(|e| e.reading.get("baseline").is_some())
+        .filter(|e| e.reading.flag("baseline"))
         .find(|e| e.period.from >= date)
     {
         return Err(Error::field(
