@@ -176,9 +176,10 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
 /// the file's day, not as an option the file does not have.
 fn refused_row(file_name: &str, e: AppendError) -> Error {
     match e {
-        AppendError::OutOfBounds(b) if b.option == "--from" || b.option == "--to" => {
+        AppendError::OutOfBounds(b) if b.field == "period_from" || b.field == "period_to" => {
             Error::Refused(format!("{file_name}: meter-day {}: {}", b.value, b.why))
         }
+        AppendError::Sealed(s) => Error::field("FILE", file_name, super::sealed(&s)),
         e => Error::field("FILE", file_name, e),
     }
 }

@@ -53,3 +53,14 @@ fn text_of_at_most(field: &str, value: &str, max: usize) -> Result<()> {
     }
     Ok(())
 }
+
+/// An entry's field out of bounds, named by the option it comes from (`period_from` →
+/// `--from`, a reading's `pathway` → `--pathway`).
+pub fn out_of_bounds(b: &bounds::OutOfBounds) -> Error {
+    let option = match b.field.as_str() {
+        "period_from" => "--from".to_string(),
+        "period_to" => "--to".to_string(),
+        name => format!("--{}", name.replace('_', "-")),
+    };
+    Error::field(&option, &bounds::shown(&b.value), &b.why)
+}

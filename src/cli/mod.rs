@@ -268,6 +268,21 @@ fn over_permit(e: crate::accounting::permit::Exceeded) -> crate::error::Error {
     ))
 }
 
+/// A sealed period's refusal with what the command line offers instead.
+fn sealed(e: &crate::ledger::seal::SealRefusal) -> String {
+    use crate::ledger::seal::SealRefusal;
+    match e {
+        SealRefusal::Sealed { .. } => {
+            format!("{e} (give --late to record it as a late adjustment dated now)")
+        }
+        SealRefusal::NoLateDifference { .. } => {
+            format!("{e}; record the new reading with --late instead")
+        }
+        SealRefusal::Backdated { .. } => format!("{e}: give a --from after it"),
+        SealRefusal::TodaySealed { .. } | SealRefusal::Overlap { .. } => e.to_string(),
+    }
+}
+
 /// Runs one line of arguments (as after `sinkbook`) against a given ledger; the demo's scripts
 /// go through the same parser and commands as a person typing them.
 pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Report> {

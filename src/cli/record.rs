@@ -1111,11 +1111,13 @@ pub(super) fn commit_with(
         let outcome =
             append(entry.clone(), site.as_ref(), tip, holder, rule).map_err(|e| match e {
                 AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
-                AppendError::NoSite { .. } => Error::Refused(e.to_string()),
+                AppendError::NoSite { .. } => Error::options("--site", format!("{e}: give --site")),
                 AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
                 AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
-                AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
-                AppendError::OutOfBounds(b) => Error::Refused(b.to_string()),
+                AppendError::Sealed(s) => {
+                    Error::field("--from/--to", &entry.period.to_string(), super::sealed(&s))
+                }
+                AppendError::OutOfBounds(b) => inputs::out_of_bounds(&b),
             })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {

@@ -133,7 +133,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         let project = known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;
         admit_setting(&seals, from, today, ctx.late)
-            .map_err(|e| Error::field("--from", &from.to_string(), e))?;
+            .map_err(|e| Error::field("--from", &from.to_string(), super::sealed(&e)))?;
         let mut all = tx.settings(&a.code)?;
         if let Some((_, option, text, _)) = deductions.first()
             && project.method != crate::ledger::Method::EnhancedWeathering

@@ -169,7 +169,7 @@ impl fmt::Display for SealRefusal {
         match self {
             Self::Sealed { label, seq, days } => write!(
                 f,
-                "{days} falls in period {label}, sealed by seq {seq}; nothing written (give --late to record it as a late adjustment dated now)"
+                "{days} falls in period {label}, sealed by seq {seq}; nothing written"
             ),
             Self::TodaySealed { label, seq } => write!(
                 f,
@@ -177,14 +177,14 @@ impl fmt::Display for SealRefusal {
             ),
             Self::NoLateDifference { kind } => write!(
                 f,
-                "a late correction of a {kind} entry cannot be kept as a difference (its reports recompute it from the reading); record the new reading with --late instead"
+                "a late correction of a {kind} entry cannot be kept as a difference (its reports recompute it from the reading)"
             ),
             Self::Overlap { label, seq } => {
                 write!(f, "overlaps period {label}, sealed by seq {seq}")
             }
             Self::Backdated { from, label, seq } => write!(
                 f,
-                "would take effect from {from}, inside period {label} sealed by seq {seq}; a setting never reaches back into a sealed period (not even with --late): give a --from after it"
+                "would take effect from {from}, inside period {label} sealed by seq {seq}; a setting never reaches back into a sealed period, not even as a late adjustment"
             ),
         }
     }
