@@ -177,7 +177,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
 fn refused_row(file_name: &str, e: AppendError) -> Error {
     match e {
         AppendError::OutOfBounds(b) if b.field == "period_from" || b.field == "period_to" => {
-            Error::Refused(format!("{file_name}: meter-day {}: {}", b.value, b.why))
+            Error::input(file_name, format!("meter-day {}: {}", b.value, b.why))
         }
         AppendError::Sealed(s) => Error::field("FILE", file_name, super::sealed(&s)),
         e => Error::field("FILE", file_name, e),
@@ -204,11 +204,14 @@ fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
         String::new()
     };
     if n > 0 && !skip_bad {
-        return Err(Error::Refused(format!(
-            "{file_name}: {n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
-            if n == 1 { "" } else { "s" },
-            listed(&plan.bad)
-        )));
+        return Err(Error::input(
+            file_name,
+            format!(
+                "{n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
+                if n == 1 { "" } else { "s" },
+                listed(&plan.bad)
+            ),
+        ));
     }
     if plan.accepted == 0 {
         return Err(Error::field(
