@@ -1,5 +1,5 @@
-//! A stored reading value that does not decode, with every hash recomputed over it so that only
-//! the decoding can tell: reports stop with exit 3 naming the project, the seq and the field,
+//! A stored reading value that does not decode (an injection's meter uncertainty "abc", its
+//! meter type "sonic"), with every hash recomputed over it so that only the decoding can tell: reports stop with exit 3 naming the project, the seq and the field,
 //! instead of reading the value as absent (an uncertainty of 0) or as a default.
 
 mod common;
@@ -10,10 +10,10 @@ use sinkbook::ledger::canonical::encode;
 use sinkbook::ledger::hash::{chain_hash, leaf_hash};
 use sinkbook::store::{Store, Wait};
 
-/// TFS with three injections, the last stating its meter's uncertainty.
+/// TFS with three injections.
 fn ledger() -> Ledger {
     let l = common::on_file(Ledger::with_tfs);
-    for m in 1..=2 {
+    for m in 1..=3 {
         let r = l.inject(
             "TF-I1",
             "30000 t",
@@ -23,27 +23,12 @@ fn ledger() -> Ledger {
         );
         assert_eq!(r.code, 0, "{}", r.err);
     }
-    let r = l.run(&[
-        "record",
-        "injection",
-        "TFS",
-        "--site",
-        "TF-I1",
-        "--mass",
-        "30000 t",
-        "--uncertainty",
-        "1.5%",
-        "--from",
-        "2026-03-01",
-        "--to",
-        "2026-03-28",
-    ]);
-    assert_eq!(r.code, 0, "{}", r.err);
     l
 }
 
-/// Rewrites the chain tip's `field` to `value` and its leaf and chain hashes to match, as a
-/// forger who knows the format would (the triggers dropped first). Returns the tip's seq.
+/// Sets the chain tip's reading `field` to `value` (added when the reading has none) and its
+/// leaf and chain hashes to match, as a forger who knows the format would (the triggers dropped
+/// first). Returns the tip's seq.
 fn forge(l: &Ledger, field: &str, value: &str) -> u64 {
     let entries = Store::open(&l.path, Wait::default())
         .unwrap()
@@ -51,8 +36,10 @@ fn forge(l: &Ledger, field: &str, value: &str) -> u64 {
         .unwrap();
     let (tip, before) = entries.split_last().unwrap();
     let mut e = tip.entry.clone();
-    let slot = e.reading.0.iter_mut().find(|(n, _)| n == field).unwrap();
-    slot.1 = value.to_string();
+    match e.reading.0.iter_mut().find(|(n, _)| n == field) {
+        Some(slot) => slot.1 = value.to_string(),
+        None => e.reading.push(field, value),
+    }
     let leaf = leaf_hash(&encode(&e));
     let chain = chain_hash(before.last().unwrap().chain, leaf);
     let reading = serde_json::to_string(&e.reading.0).unwrap();
