@@ -5,7 +5,6 @@
 use super::Context;
 use super::record::DensityArg;
 use super::setup::known_project;
-use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::meter_day::{MeterDay, Source};
@@ -123,7 +122,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
             }
             let tally = tx.tally(&a.project)?;
             let standing = super::record::standing(tx, &project, tally, &new)?;
-            permit::check(&project, &standing, &new, &gone, a.over_permit).map_err(super::over_permit)?
+            super::permit_check(&project, &standing, &new, &gone, a.over_permit)?
         } else {
             Vec::new()
         };

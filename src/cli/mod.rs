@@ -39,6 +39,7 @@ mod record_rock;
 mod rock_inputs;
 mod weathering;
 
+use crate::accounting::permit;
 use crate::error::Result;
 use crate::report::{Format, Report};
 use crate::store::{Store, Wait};
@@ -261,11 +262,53 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     }
 }
 
-/// A permit passed without `--over-permit`: refused, saying how to record it anyway.
-fn over_permit(e: crate::accounting::permit::Exceeded) -> crate::error::Error {
-    crate::error::Error::Refused(format!(
-        "{e}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)"
-    ))
+/// The permit's check of an append, said for people: its notices as warnings; a limit passed
+/// without `--over-permit` refused, saying how to record it anyway.
+fn permit_check(
+    project: &crate::ledger::Project,
+    standing: &permit::Standing,
+    new: &[crate::ledger::Entry],
+    replaced: &[crate::ledger::Entry],
+    over_permit: bool,
+) -> Result<Vec<String>> {
+    use permit::Notice;
+    match permit::check(project, standing, new, replaced, over_permit) {
+        Ok(notices) => Ok(notices
+            .iter()
+            .map(|n| match n {
+                Notice::NearCapacity { pct } => format!(
+                    "project {} has used {pct:.2} % of its permitted capacity",
+                    project.code
+                ),
+                Notice::Recorded(p) => format!("recorded over the permit: {}", passed(p)),
+            })
+            .collect()),
+        Err(e) => Err(crate::error::Error::Refused(format!(
+            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
+            e.project,
+            e.passed.iter().map(passed).collect::<Vec<_>>().join("; ")
+        ))),
+    }
+}
+
+fn passed(p: &permit::Passed) -> String {
+    use crate::report::render::tonnes_text;
+    match *p {
+        permit::Passed::Capacity { stored, pct, cap } => format!(
+            "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
+            tonnes_text(stored),
+            tonnes_text(cap)
+        ),
+        permit::Passed::Annual {
+            year,
+            injected,
+            max,
+        } => format!(
+            "injection in {year} would be {} t, above the permitted annual maximum {} t",
+            tonnes_text(injected),
+            tonnes_text(max)
+        ),
+    }
 }
 
 /// A sealed period's refusal with what the command line offers instead.

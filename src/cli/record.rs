@@ -1136,8 +1136,7 @@ pub(super) fn commit_with(
                     .filter(|_| s.entry.corrects.is_some())
                     .cloned()
                     .collect();
-                warnings = permit::check(&project, &standing, new, &gone, over_permit)
-                    .map_err(super::over_permit)?;
+                warnings = super::permit_check(&project, &standing, new, &gone, over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }
