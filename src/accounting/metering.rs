@@ -6,7 +6,7 @@ use crate::chem::gas_mix::{Balance, StreamComposition};
 use crate::ledger::reading_fields::checked;
 use crate::ledger::{Reading, bounds};
 use crate::quantity::mass::{MassError, grams_of_f64};
-use crate::quantity::volume::{DensityMethod, StandardVolume};
+use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError};
 use crate::quantity::{Decimal, Fraction, Mass, MassReading};
 
 /// What a CO2 fraction is a fraction of.
@@ -67,6 +67,8 @@ pub enum MeterError {
     MolNeedsImpurities,
     /// A volumetric meter's CO2 fraction stated by mass.
     VolumeByMass,
+    /// The regulatory density asked for a volume at other reference conditions than its own.
+    RegulatoryConditions { value: String, why: String },
 }
 
 type Result<T> = std::result::Result<T, MeterError>;
@@ -181,9 +183,13 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             }
             let f = fraction(input.co2_fraction.unwrap_or("1"))?;
             let method = input.density.unwrap_or(DensityMethod::Eos);
-            let vm = v
-                .mass(method)
-                .map_err(|e| bad(MeterField::Volume, text, e))?;
+            let vm = v.mass(method).map_err(|e| match e {
+                VolumeError::RegulatoryNeedsStandard(_) => MeterError::RegulatoryConditions {
+                    value: text.into(),
+                    why: e.to_string(),
+                },
+                e => bad(MeterField::Volume, text, e),
+            })?;
             r.push("meter_type", "volumetric");
             r.push("volume", v.to_string());
             r.push("reference_conditions", v.conditions.to_string());

@@ -127,6 +127,9 @@ fn meter_error(e: MeterError) -> Error {
             "--impurities",
             "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)",
         ),
+        MeterError::RegulatoryConditions { value, why } => {
+            Error::field("--volume", &value, format!("{why} (use --density eos)"))
+        }
         MeterError::VolumeByMass => Error::field(
             "--co2-basis",
             "mass",
