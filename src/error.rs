@@ -199,6 +199,25 @@ impl From<crate::accounting::project_view::ViewError> for Error {
     fn from(e: crate::accounting::project_view::ViewError) -> Self {
         use crate::accounting::project_view::ViewError;
         match e {
+            ViewError::Undecodable {
+                project,
+                seq,
+                kind,
+                what,
+            } => Error::entry(
+                &project,
+                Some(seq as i64),
+                format!("stored {kind} reading: {what}"),
+            ),
+            ViewError::Feedstock {
+                ref project,
+                ref code,
+                ref what,
+            } => Error::entry(project, None, format!("feedstock {code}: {what}")),
+            ViewError::Setting {
+                ref project,
+                ref what,
+            } => Error::entry(project, None, format!("settings: {what}")),
             e if e.is_inconsistency() => Error::ledger(e),
             ViewError::Campaign(e) => Error::Refused(format!(
                 "the project's figures read soil campaigns by three-end-member with Ti: {e}"
