@@ -266,5 +266,12 @@ mod tests {
             "ledger inconsistent: project TFS seq 4: bad"
         );
         assert!(Error::internal("x").to_string().contains("please report"));
+        let placed = Error::field("--mass", "0 t", "must be greater than zero").at("kre line 4");
+        assert_eq!(
+            placed.to_string(),
+            "kre line 4: --mass \"0 t\": must be greater than zero"
+        );
+        let busy = Error::store(StoreKind::Busy, "the ledger is busy").at("kre line 4");
+        assert_eq!(busy.store_kind(), Some(StoreKind::Busy));
     }
 }

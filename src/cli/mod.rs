@@ -336,3 +336,18 @@ pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Repor
     cli.db = Some(db.to_path_buf());
     run(cli, now)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_script_line_that_does_not_parse_is_a_usage_error_wherever_it_stands() {
+        let words = ["record".to_string(), "nonsense".to_string()];
+        let e = run_line(&words, Path::new("never-opened.db"), Utc::now()).unwrap_err();
+        assert_eq!(e.exit_code(), 2, "{e}");
+        let at = e.at("tfs.sinkbook line 3");
+        assert_eq!(at.exit_code(), 2);
+        assert!(at.to_string().starts_with("tfs.sinkbook line 3: "), "{at}");
+    }
+}
