@@ -3,9 +3,7 @@
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::leakage;
-use crate::accounting::metering::{
-    Basis, Measured, MeterError, MeterField, MeterInput, assumed_fraction, measure,
-};
+use crate::accounting::metering::{Basis, Measured, MeterInput, assumed_fraction, measure};
 use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
@@ -89,7 +87,7 @@ impl QuantityArgs {
 
     /// The quantity options as a reading and grams; a refusal names the option.
     fn measure(&self) -> Result<Measured> {
-        measure(&self.input()).map_err(meter_error)
+        measure(&self.input()).map_err(inputs::meter_error)
     }
 
     fn input(&self) -> MeterInput<'_> {
@@ -102,39 +100,6 @@ impl QuantityArgs {
             impurities: self.impurities.as_deref(),
             uncertainty: self.uncertainty.as_deref(),
         }
-    }
-}
-
-/// A meter reading's refusal in the options' words.
-fn meter_error(e: MeterError) -> Error {
-    match e {
-        MeterError::Value { field, value, why } => {
-            let option = match field {
-                MeterField::Mass => "--mass",
-                MeterField::Volume => "--volume",
-                MeterField::Co2Fraction => "--co2-fraction",
-                MeterField::Impurities => "--impurities",
-                MeterField::Uncertainty => "--uncertainty",
-            };
-            Error::field(option, &value, why)
-        }
-        MeterError::BothQuantities => Error::options("--mass", "give --mass or --volume, not both"),
-        MeterError::NoQuantity => Error::options(
-            "--mass",
-            "a quantity is needed: --mass \"1250.5 t\" (mass meter) or --volume \"2.5 MMscf\" (volumetric meter)",
-        ),
-        MeterError::MolNeedsImpurities => Error::options(
-            "--impurities",
-            "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)",
-        ),
-        MeterError::RegulatoryConditions { value, why } => {
-            Error::field("--volume", &value, format!("{why} (use --density eos)"))
-        }
-        MeterError::VolumeByMass => Error::field(
-            "--co2-basis",
-            "mass",
-            "a volumetric meter's CO2 fraction is by volume: give it with --co2-basis mol",
-        ),
     }
 }
 
