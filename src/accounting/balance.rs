@@ -2,9 +2,10 @@
 //! (§98.443, RR-1 to RR-12) or ISO 27916 for CO2-EOR, every term its own figure.
 
 use crate::accounting::uncertainty::{
-    Estimate, Reading, Term, TermSign, mass_balance, sum_readings,
+    Estimate, MeteredMass as Reading, Term, TermSign, mass_balance, sum_readings,
 };
 use crate::ledger::period::{Bucket, Grouping, apportion};
+use crate::ledger::reading_fields::{LeakSide, checked};
 use crate::ledger::tally::entrained_fraction;
 use crate::ledger::{Entry, EntryKind, Method, Project};
 use crate::quantity::Mass;
@@ -223,7 +224,7 @@ impl TermReadings {
 /// site of the project: its pathway's).
 fn meter_key(e: &Entry) -> String {
     e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
-        "" => format!("pathway {}", e.reading.get("pathway").unwrap_or("")),
+        "" => format!("pathway {}", e.reading.pathway().unwrap_or("")),
         site => format!("site {site}"),
     })
 }
@@ -240,7 +241,7 @@ pub fn balance<'a>(
 ) -> Vec<BalanceLine> {
     let mut by: BTreeMap<Bucket, (Terms, TermReadings)> = BTreeMap::new();
     for e in entries {
-        let production_side = e.reading.get("side") == Some("production");
+        let production_side = checked(e.reading.leak_side()) == Some(LeakSide::Production);
         let u = rel_u(e);
         let reading = |g: i64| Reading {
             meter: meter_key(e),

@@ -7,6 +7,7 @@ use super::conservative::DeductionRule;
 use super::permanence::{Claim, ClaimRules, Durability, claim};
 use super::uncertainty::Estimate;
 use crate::ledger::period::Bucket;
+use crate::ledger::reading_fields::checked;
 use crate::ledger::setting::{Setting, SettingName, value_on};
 use crate::ledger::{Entry, Site};
 use crate::quantity::Mass;
@@ -21,8 +22,7 @@ pub const DEFAULT_HORIZON_YEARS: f64 = 100.0;
 /// The relative uncertainty (95 %) of an entry: its own, else the latest calibration of its site
 /// (and meter) on or before the period's start, else the site's; None where nothing is stated.
 pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[&Entry]) -> Option<f64> {
-    let parse = |s: &str| s.parse::<f64>().ok();
-    if let Some(u) = e.reading.get("uncertainty").and_then(parse) {
+    if let Some(u) = checked(e.reading.uncertainty()) {
         return Some(u);
     }
     let calibrated = calibrations
@@ -33,7 +33,7 @@ pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[&Entry]) -> Op
                 && c.period.to <= e.period.from
         })
         .max_by_key(|c| (c.period.to, c.seq))
-        .and_then(|c| c.reading.get("uncertainty").and_then(parse));
+        .and_then(|c| checked(c.reading.uncertainty()));
     calibrated.or_else(|| {
         sites
             .iter()

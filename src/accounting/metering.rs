@@ -3,10 +3,10 @@
 //! 98.443). The reading is kept as given, with every factor used, so each gram can be traced.
 
 use crate::chem::gas_mix::{Balance, StreamComposition};
-use crate::error::{Error, Result};
+use crate::ledger::reading_fields::checked;
 use crate::ledger::{Reading, bounds};
 use crate::quantity::mass::{MassError, grams_of_f64};
-use crate::quantity::volume::{DensityMethod, StandardVolume};
+use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError};
 use crate::quantity::{Decimal, Fraction, Mass, MassReading};
 
 /// What a CO2 fraction is a fraction of.
@@ -40,6 +40,47 @@ pub struct MeterInput<'a> {
     pub uncertainty: Option<&'a str>,
 }
 
+/// Which of a meter reading's quantities a `MeterError` is about.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MeterField {
+    Mass,
+    Volume,
+    Co2Fraction,
+    Impurities,
+    Uncertainty,
+}
+
+/// Why quantities do not make a meter reading; the command line names the options.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum MeterError {
+    /// A value that is not acceptable.
+    Value {
+        field: MeterField,
+        value: String,
+        why: String,
+    },
+    /// Both a mass and a volume.
+    BothQuantities,
+    /// Neither a mass nor a volume.
+    NoQuantity,
+    /// A CO2 mole fraction below 1 on a mass meter, without the other gases to convert it.
+    MolNeedsImpurities,
+    /// A volumetric meter's CO2 fraction stated by mass.
+    VolumeByMass,
+    /// The regulatory density asked for a volume at other reference conditions than its own.
+    RegulatoryConditions { value: String, why: String },
+}
+
+type Result<T> = std::result::Result<T, MeterError>;
+
+fn bad(field: MeterField, value: &str, why: impl std::fmt::Display) -> MeterError {
+    MeterError::Value {
+        field,
+        value: value.into(),
+        why: why.to_string(),
+    }
+}
+
 /// A reading and the grams of CO2 it comes to.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Measured {
@@ -51,7 +92,7 @@ pub struct Measured {
 pub const CONVERSIONS: &str = "sinkbook-conversions-1";
 
 fn fraction(text: &str) -> Result<Fraction> {
-    Fraction::parse(text).map_err(|e| Error::field("--co2-fraction", text, e))
+    Fraction::parse(text).map_err(|e| bad(MeterField::Co2Fraction, text, e))
 }
 
 /// `N2=0.02,Ar=0.005` → mole fractions of the whole stream.
@@ -59,14 +100,14 @@ fn impurities(text: &str) -> Result<Vec<(String, f64)>> {
     text.split(',')
         .map(|part| {
             let (name, x) = part.split_once('=').ok_or_else(|| {
-                Error::field(
-                    "--impurities",
+                bad(
+                    MeterField::Impurities,
                     part,
                     "write GAS=mole fraction, e.g. N2=0.02",
                 )
             })?;
             let x = crate::quantity::Decimal::parse(x.trim())
-                .map_err(|e| Error::field("--impurities", part, e))?;
+                .map_err(|e| bad(MeterField::Impurities, part, e))?;
             Ok((name.trim().to_string(), x.to_f64()))
         })
         .collect()
@@ -77,16 +118,12 @@ fn mass_fraction_from_mol(x: Fraction, impurity_text: Option<&str>) -> Result<f6
     if x == Fraction::ONE {
         return Ok(1.0);
     }
-    let text = impurity_text.ok_or_else(|| {
-        Error::Refused(
-            "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)".into(),
-        )
-    })?;
+    let text = impurity_text.ok_or(MeterError::MolNeedsImpurities)?;
     let list = impurities(text)?;
     let refs: Vec<(&str, f64)> = list.iter().map(|(n, v)| (n.as_str(), *v)).collect();
     StreamComposition::from_mole_fractions(x.to_f64(), &refs, Balance::Stated)
         .map(|s| s.co2_mass_fraction())
-        .map_err(|e| Error::field("--impurities", text, e))
+        .map_err(|e| bad(MeterField::Impurities, text, e))
 }
 
 /// Turns the typed quantity options into a reading and grams; a reading's own uncertainty is
@@ -95,7 +132,7 @@ pub fn measure(input: &MeterInput<'_>) -> Result<Measured> {
     let mut m = measure_quantity(input)?;
     if let Some(u) = input.uncertainty {
         let d = crate::quantity::fraction::parse_uncertainty(u)
-            .map_err(|e| Error::field("--uncertainty", u, e))?;
+            .map_err(|e| bad(MeterField::Uncertainty, u, e))?;
         m.reading.push("uncertainty", d.to_string());
     }
     Ok(m)
@@ -104,12 +141,10 @@ pub fn measure(input: &MeterInput<'_>) -> Result<Measured> {
 fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
     let mut r = Reading::default();
     match (input.mass, input.volume) {
-        (Some(_), Some(_)) => Err(Error::Refused("give --mass or --volume, not both".into())),
-        (None, None) => Err(Error::Refused(
-            "a quantity is needed: --mass \"1250.5 t\" (mass meter) or --volume \"2.5 MMscf\" (volumetric meter)".into(),
-        )),
+        (Some(_), Some(_)) => Err(MeterError::BothQuantities),
+        (None, None) => Err(MeterError::NoQuantity),
         (Some(text), None) => {
-            let m = MassReading::parse(text).map_err(|e| Error::field("--mass", text, e))?;
+            let m = MassReading::parse(text).map_err(|e| bad(MeterField::Mass, text, e))?;
             let basis = input.co2_basis.unwrap_or(Basis::Mass);
             let f = fraction(input.co2_fraction.unwrap_or("1"))?;
             r.push("meter_type", "mass");
@@ -117,7 +152,9 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("co2_fraction", f.to_string());
             push_source(&mut r, input, f);
             r.push("co2_basis", basis.name());
-            let exact = m.grams_exact().map_err(|e| Error::field("--mass", text, e))?;
+            let exact = m
+                .grams_exact()
+                .map_err(|e| bad(MeterField::Mass, text, e))?;
             let grams = match basis {
                 Basis::Mass => co2_of_stream_mass(exact, f).map(Mass::grams),
                 Basis::Mol => {
@@ -132,22 +169,27 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             }
             .map(Mass::from_grams)
             .filter(|m| m.within_limit())
-            .ok_or_else(|| Error::field("--mass", text, MassError::TooLarge))?;
-            bounds::grams(grams).map_err(|e| Error::field("--mass", text, e))?;
-            Ok(Measured { reading: r, mass: grams })
+            .ok_or_else(|| bad(MeterField::Mass, text, MassError::TooLarge))?;
+            bounds::grams(grams).map_err(|e| bad(MeterField::Mass, text, e))?;
+            Ok(Measured {
+                reading: r,
+                mass: grams,
+            })
         }
         (None, Some(text)) => {
-            let v = StandardVolume::parse(text).map_err(|e| Error::field("--volume", text, e))?;
+            let v = StandardVolume::parse(text).map_err(|e| bad(MeterField::Volume, text, e))?;
             if input.co2_basis == Some(Basis::Mass) {
-                return Err(Error::field(
-                    "--co2-basis",
-                    "mass",
-                    "a volumetric meter's CO2 fraction is by volume: give it with --co2-basis mol",
-                ));
+                return Err(MeterError::VolumeByMass);
             }
             let f = fraction(input.co2_fraction.unwrap_or("1"))?;
             let method = input.density.unwrap_or(DensityMethod::Eos);
-            let vm = v.mass(method).map_err(|e| Error::field("--volume", text, e))?;
+            let vm = v.mass(method).map_err(|e| match e {
+                VolumeError::RegulatoryNeedsStandard(_) => MeterError::RegulatoryConditions {
+                    value: text.into(),
+                    why: e.to_string(),
+                },
+                e => bad(MeterField::Volume, text, e),
+            })?;
             r.push("meter_type", "volumetric");
             r.push("volume", v.to_string());
             r.push("reference_conditions", v.conditions.to_string());
@@ -159,8 +201,8 @@ fn measure_quantity(input: &MeterInput<'_>) -> Result<Measured> {
             r.push("co2_basis", "mol");
             r.push("conversions", CONVERSIONS);
             let mass = co2_of_stream_kg(vm.kg, f)
-                .ok_or_else(|| Error::field("--volume", text, MassError::TooLarge))?;
-            bounds::grams(mass).map_err(|e| Error::field("--volume", text, e))?;
+                .ok_or_else(|| bad(MeterField::Volume, text, MassError::TooLarge))?;
+            bounds::grams(mass).map_err(|e| bad(MeterField::Volume, text, e))?;
             Ok(Measured { reading: r, mass })
         }
     }
@@ -185,10 +227,9 @@ fn push_source(r: &mut Reading, input: &MeterInput<'_>, f: Fraction) {
 /// assumed). Imported meter-days (`co2_fraction_mean`, from the file's required column) and
 /// readings without a CO2 fraction (a leak rate, a rock route) rest on none.
 pub fn assumed_fraction(r: &Reading) -> bool {
-    match (r.get("co2_fraction_source"), r.get("co2_fraction")) {
-        (Some(source), _) => source == "assumed",
-        (None, Some(f)) => Fraction::parse(f).is_ok_and(|f| f == Fraction::ONE),
-        (None, None) => false,
+    match checked(r.co2_fraction_assumed()) {
+        Some(assumed) => assumed,
+        None => checked(r.co2_fraction()) == Some(Fraction::ONE),
     }
 }
 
@@ -299,6 +340,6 @@ mod tests {
             co2_basis: Some(Basis::Mass),
             ..Default::default()
         };
-        assert!(measure(&v).unwrap_err().to_string().contains("--co2-basis"));
+        assert_eq!(measure(&v).unwrap_err(), MeterError::VolumeByMass);
     }
 }

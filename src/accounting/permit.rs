@@ -1,11 +1,9 @@
 //! Permits: cumulative stored against the permitted capacity and a year's injection against an
 //! annual maximum, checked before new entries are written.
 
-use crate::error::{Error, Result};
 use crate::ledger::tally::{in_year, stored_share};
 use crate::ledger::{Entry, EntryKind, Project};
 use crate::quantity::Mass;
-use crate::report::render::tonnes_text;
 use chrono::Datelike;
 use std::collections::{BTreeMap, BTreeSet};
 
@@ -18,6 +16,35 @@ pub struct Standing {
     pub injected: BTreeMap<i32, Mass>,
 }
 
+/// A limit of the permit the ledger would pass, with the figures.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Passed {
+    /// Cumulative stored would be `stored`, `pct` % of the permitted capacity `cap`.
+    Capacity { stored: Mass, pct: f64, cap: Mass },
+    /// A year's injection would be `injected`, above the permitted annual maximum `max`.
+    Annual {
+        year: i32,
+        injected: Mass,
+        max: Mass,
+    },
+}
+
+/// What the permit says of an append it lets through.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Notice {
+    /// More than 90 % of the permitted capacity used: `pct` %.
+    NearCapacity { pct: f64 },
+    /// A limit passed and acknowledged (`over_permit`): recorded, and every report flags it.
+    Recorded(Passed),
+}
+
+/// The limits an append would pass, unacknowledged: nothing is written.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Exceeded {
+    pub project: String,
+    pub passed: Vec<Passed>,
+}
+
 /// The years whose injection the annual maximum is checked for: those the new entries end in.
 pub fn years(new: &[Entry]) -> BTreeSet<i32> {
     new.iter().map(|e| e.period.to.year()).collect()
@@ -26,7 +53,7 @@ pub fn years(new: &[Entry]) -> BTreeSet<i32> {
 /// Checks the ledger as it would be with `new` appended, `replaced` being the entries the new
 /// corrections replace: past 100 % of the permitted capacity, or past the annual maximum, it is
 /// refused unless `over_permit` acknowledges it (the ledger records what happened); past 90 % it
-/// warns. Returns the warnings. The figures are the balance's own (`ledger::tally`), moved by
+/// warns. Returns what it lets through with a notice. The figures are the balance's own (`ledger::tally`), moved by
 /// what the new entries add and the replaced ones no longer count.
 pub fn check(
     project: &Project,
@@ -34,7 +61,7 @@ pub fn check(
     new: &[Entry],
     replaced: &[Entry],
     over_permit: bool,
-) -> Result<Vec<String>> {
+) -> Result<Vec<Notice>, Exceeded> {
     let share = |es: &[Entry]| {
         es.iter()
             .fold(0i64, |sum, e| sum.saturating_add(stored_share(e)))
@@ -57,16 +84,9 @@ pub fn check(
     if let Some(cap) = project.permit_capacity.filter(|c| c.is_positive()) {
         let pct = 100.0 * stored.grams() as f64 / cap.grams() as f64;
         if stored > cap {
-            exceeded.push(format!(
-                "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
-                tonnes_text(stored),
-                tonnes_text(cap)
-            ));
+            exceeded.push(Passed::Capacity { stored, pct, cap });
         } else if pct > 90.0 {
-            warnings.push(format!(
-                "project {} has used {pct:.2} % of its permitted capacity",
-                project.code
-            ));
+            warnings.push(Notice::NearCapacity { pct });
         }
     }
     if let Some(max) = project.permit_annual {
@@ -74,26 +94,21 @@ pub fn check(
             let before = standing.injected.get(&year).copied().unwrap_or(Mass::ZERO);
             let injected = before + injected_in(new, year) - injected_in(replaced, year);
             if injected > max {
-                exceeded.push(format!(
-                    "injection in {year} would be {} t, above the permitted annual maximum {} t",
-                    tonnes_text(injected),
-                    tonnes_text(max)
-                ));
+                exceeded.push(Passed::Annual {
+                    year,
+                    injected,
+                    max,
+                });
             }
         }
     }
     if !exceeded.is_empty() && !over_permit {
-        return Err(Error::Refused(format!(
-            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
-            project.code,
-            exceeded.join("; ")
-        )));
+        return Err(Exceeded {
+            project: project.code.clone(),
+            passed: exceeded,
+        });
     }
-    warnings.extend(
-        exceeded
-            .into_iter()
-            .map(|e| format!("recorded over the permit: {e}")),
-    );
+    warnings.extend(exceeded.into_iter().map(Notice::Recorded));
     Ok(warnings)
 }
 
@@ -281,9 +296,9 @@ mod tests {
             false,
         )
         .unwrap();
-        assert_eq!(
-            w,
-            ["project TFS has used 98.42 % of its permitted capacity"]
+        assert!(
+            matches!(w[..], [Notice::NearCapacity { pct }] if (pct - 98.421_046_1).abs() < 1e-6),
+            "{w:?}"
         );
         let e = check(
             &cap,
@@ -292,11 +307,11 @@ mod tests {
             &[effective[0].clone()],
             false,
         )
-        .unwrap_err()
-        .to_string();
+        .unwrap_err();
         assert!(
-            e.contains("cumulative stored 1,084.210 t would be 108.42 %"),
-            "{e}"
+            matches!(e.passed[..], [Passed::Capacity { stored, cap, .. }]
+                if stored.grams() == 1_084_210_461 && cap.grams() == 1_000_000_000),
+            "{e:?}"
         );
     }
 
@@ -321,11 +336,16 @@ mod tests {
         };
         assert_eq!(
             check(&p, &standing, &new(200_000_000), &[], false).unwrap(),
-            Vec::<String>::new()
+            []
         );
-        let e = check(&p, &standing, &new(202_000_000), &[], false)
-            .unwrap_err()
-            .to_string();
-        assert!(e.contains("injection in 2026 would be 1,001.000 t, above the permitted annual maximum 1,000.000 t"), "{e}");
+        let e = check(&p, &standing, &new(202_000_000), &[], false).unwrap_err();
+        assert_eq!(
+            e.passed,
+            [Passed::Annual {
+                year: 2026,
+                injected: Mass::from_grams(1_001_000_000),
+                max: Mass::from_grams(1_000_000_000),
+            }]
+        );
     }
 }

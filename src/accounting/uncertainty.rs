@@ -117,7 +117,7 @@ fn quadrature(parts: impl Iterator<Item = f64>) -> f64 {
 
 /// One metered mass: `rel_u` is the meter's relative uncertainty for this reading.
 #[derive(Debug, Clone, PartialEq)]
-pub struct Reading {
+pub struct MeteredMass {
     pub meter: String,
     pub mass: Mass,
     pub rel_u: f64,
@@ -141,7 +141,7 @@ pub struct MeteredSum {
 /// Adds readings. Within a meter the absolute uncertainties add linearly (U = Σ uᵢ·xᵢ): a
 /// meter's bias repeats in every reading and does not average out. Meters are independent of one
 /// another, so the meters' totals combine in quadrature (U = √Σ U_meter²).
-pub fn sum_readings(readings: &[Reading]) -> Result<MeteredSum, UncertaintyError> {
+pub fn sum_readings(readings: &[MeteredMass]) -> Result<MeteredSum, UncertaintyError> {
     let mut by_meter: BTreeMap<&str, (usize, i64, f64)> = BTreeMap::new();
     for (i, r) in readings.iter().enumerate() {
         let of = || format!("reading {} (meter {:?})", i + 1, r.meter);
@@ -265,8 +265,8 @@ mod tests {
         Mass::from_grams(tonnes * 1_000_000)
     }
 
-    fn reading(meter: &str, tonnes: i64, rel_u: f64) -> Reading {
-        Reading {
+    fn reading(meter: &str, tonnes: i64, rel_u: f64) -> MeteredMass {
+        MeteredMass {
             meter: meter.into(),
             mass: t(tonnes),
             rel_u,
@@ -306,7 +306,7 @@ mod tests {
     fn readings_of_one_meter_keep_its_relative_uncertainty() {
         // The correlated-meter rule: twelve monthly readings of one ±1 % meter are still ±1 %,
         // not ±1 %/√12 as independent readings would be.
-        let readings: Vec<Reading> = (1..=12)
+        let readings: Vec<MeteredMass> = (1..=12)
             .map(|m| reading("TF-I1", 40_000 + 1000 * m, 0.01))
             .collect();
         let s = sum_readings(&readings).unwrap();
@@ -395,7 +395,7 @@ mod tests {
             e.to_string(),
             "rel_u of factor 2 is NaN: must be a finite number ≥ 0"
         );
-        let big = Reading {
+        let big = MeteredMass {
             meter: "M".into(),
             mass: Mass::from_grams(i64::MAX),
             rel_u: 0.0,
@@ -430,9 +430,9 @@ mod tests {
             rs in proptest::collection::vec(
                 (0usize..3, 0i64..1_000_000_000_000_000, -1.0f64..1.0), 0..20)
         ) {
-            let readings: Vec<Reading> = rs
+            let readings: Vec<MeteredMass> = rs
                 .iter()
-                .map(|&(m, g, u)| Reading {
+                .map(|&(m, g, u)| MeteredMass {
                     meter: format!("M{m}"),
                     mass: Mass::from_grams(g),
                     rel_u: u,

@@ -71,7 +71,7 @@ impl Writer {
         let text = line.to_text();
         self.checker
             .push(text.trim_end_matches('\n'))
-            .map_err(|e| Error::Inconsistent(format!("the ledger does not export whole: {e}")))?;
+            .map_err(|e| Error::ledger(format!("the ledger does not export whole: {e}")))?;
         self.out
             .write_all(text.as_bytes())
             .map_err(|e| Error::field("--out", &self.name, e))
@@ -134,7 +134,7 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     let trailer = w.checker.trailer();
     w.put(&trailer)?;
     persist(w.out, &a.out, &name)?;
-    let t = w.checker.finish().map_err(Error::Inconsistent)?;
+    let t = w.checker.finish().map_err(Error::ledger)?;
     Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
 }
 
@@ -241,12 +241,12 @@ pub fn read_checked(path: &Path, mut f: impl FnMut(&Item) -> Result<()>) -> Resu
     each_line(path, |n, text| {
         let item = checker
             .push(text)
-            .map_err(|e| Error::Inconsistent(format!("bundle {name} line {n}: {e}")))?;
+            .map_err(|e| Error::ledger(format!("bundle {name} line {n}: {e}")))?;
         f(&item)
     })?;
     let t = checker
         .finish()
-        .map_err(|e| Error::Inconsistent(format!("bundle {name}: {e}")))?;
+        .map_err(|e| Error::ledger(format!("bundle {name}: {e}")))?;
     Ok(Checked {
         project: checker.project().to_string(),
         trailer: t,

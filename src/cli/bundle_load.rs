@@ -52,7 +52,7 @@ struct Loader {
 }
 
 fn not_extension(project: &str, what: impl std::fmt::Display) -> Error {
-    Error::Inconsistent(format!(
+    Error::ledger(format!(
         "bundle of project {project} is not an extension of the ledger's copy: {what}; nothing written"
     ))
 }
@@ -353,7 +353,7 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
             loader.item(tx, &code, item)
         })?;
         if c.trailer != first {
-            return Err(Error::Inconsistent(format!(
+            return Err(Error::ledger(format!(
                 "bundle {} changed while it was being loaded; nothing written",
                 file.display()
             )));

@@ -59,7 +59,7 @@ pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
     let chart = line_chart(&views, grouping, deduction, a.totals)?;
     let svg = chart
         .to_svg()
-        .map_err(|e| Error::Refused(format!("chart: {e}")))?;
+        .map_err(|e| Error::internal(format!("chart: {e}")))?;
     std::fs::write(&a.out, &svg)
         .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
     let mut t = Table::new(

@@ -39,8 +39,12 @@ struct Step {
 }
 
 fn volume_mass(v: &StandardVolume, a: &ConvertArgs, field: &str, text: &str) -> Result<VolumeMass> {
-    v.mass(DensityMethod::from(a.density))
-        .map_err(|e| Error::field(field, text, e))
+    v.mass(DensityMethod::from(a.density)).map_err(|e| match e {
+        VolumeError::RegulatoryNeedsStandard(_) => {
+            Error::field(field, text, format!("{e} (use --density eos)"))
+        }
+        e => Error::field(field, text, e),
+    })
 }
 
 pub fn convert(a: ConvertArgs) -> Result<Report> {

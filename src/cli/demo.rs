@@ -1,7 +1,7 @@
 //! `demo`: a fresh ledger built from the embedded sample projects, and its tables.
 
 use super::run_line;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::Store;
@@ -120,7 +120,10 @@ fn script_lines(text: &str) -> impl Iterator<Item = (usize, &str)> {
 }
 
 fn io(e: std::io::Error) -> Error {
-    Error::Store(format!("demo: could not write the sample files: {e}"))
+    Error::store(
+        StoreKind::System,
+        format!("demo: could not write the sample files: {e}"),
+    )
 }
 
 /// The folders the scripts name besides `$SAMPLES`: `$KEYS`, for the key files the demo makes
@@ -191,9 +194,8 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
     for (name, text) in SAMPLES.iter().filter(|(n, _)| n.ends_with(".sinkbook")) {
         for (n, line) in script_lines(text) {
             let words = shlex::split(&folders.substitute(line))
-                .ok_or_else(|| Error::Refused(format!("{name} line {n}: unbalanced quotes")))?;
-            run_line(&words, db, now)
-                .map_err(|e| Error::Refused(format!("{name} line {n}: {e}")))?;
+                .ok_or_else(|| Error::Usage(format!("{name} line {n}: unbalanced quotes")))?;
+            run_line(&words, db, now).map_err(|e| e.at(&format!("{name} line {n}")))?;
         }
     }
     let run = |words: &[&str]| {

@@ -201,10 +201,10 @@ impl InventoryArgs {
 
 fn needed<'a>(v: &'a Option<String>, option: &str, stage: Stage) -> Result<&'a str> {
     v.as_deref().ok_or_else(|| {
-        Error::Refused(format!(
-            "{option} is required to compute {} emissions",
-            stage.name()
-        ))
+        Error::options(
+            option,
+            format!("{option} is required to compute {} emissions", stage.name()),
+        )
     })
 }
 
@@ -250,8 +250,9 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
     .flatten()
     .collect();
     if stages.len() > 1 {
-        return Err(Error::Refused(
-            "give one life-cycle stage per record (--quarrying, --grinding, --transport or --spreading-fuel)".into(),
+        return Err(Error::options(
+            "--stage",
+            "give one life-cycle stage per record (--quarrying, --grinding, --transport or --spreading-fuel)",
         ));
     }
     if let Some(t) = &i.factor_source {
@@ -267,8 +268,9 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
         ));
     }
     let Some(stage) = i.computed().or(i.stage) else {
-        return Err(Error::Refused(
-            "a life-cycle emission needs --stage or a stage's inputs".into(),
+        return Err(Error::options(
+            "--stage",
+            "a life-cycle emission needs --stage or a stage's inputs",
         ));
     };
     let category = a.category.unwrap_or(stage.category());
@@ -279,10 +281,10 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
         return commit(ctx, e, b.reading.key.clone(), false);
     }
     if b.reading.quantity.mass.is_some() || b.reading.quantity.volume.is_some() {
-        return Err(Error::Refused(format!(
-            "give --mass or the {} inputs, not both",
-            stage.name()
-        )));
+        return Err(Error::options(
+            "--mass",
+            format!("give --mass or the {} inputs, not both", stage.name()),
+        ));
     }
     commit_with(ctx, b.reading.key.clone(), false, |tx| {
         let period = period(

@@ -4,7 +4,7 @@
 
 use super::Context;
 use super::setup::known_project;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::plan::{Options, Plan, plan};
 use crate::ledger::{EntryKind, Hash, Site};
@@ -50,7 +50,7 @@ fn replan(
     watch: Option<(&str, NaiveDate)>,
 ) -> Result<Plan> {
     let bad = |what: String| {
-        Error::Inconsistent(format!(
+        Error::ledger(format!(
             "project {project} import {} ({}): {what}",
             i.id, i.file_name
         ))
@@ -119,7 +119,7 @@ pub fn check(tx: &mut Tx<'_>, project: &str) -> Result<usize> {
     let imports = tx.imports(project)?;
     for i in &imports {
         let bad = |what: String| {
-            Error::Inconsistent(format!(
+            Error::ledger(format!(
                 "project {project} import {} ({}): {what}",
                 i.id, i.file_name
             ))
@@ -131,7 +131,7 @@ pub fn check(tx: &mut Tx<'_>, project: &str) -> Result<usize> {
         loop {
             let n = reader
                 .read(&mut buf)
-                .map_err(|e| Error::Store(e.to_string()))?;
+                .map_err(|e| Error::store(StoreKind::Other, e.to_string()))?;
             if n == 0 {
                 break;
             }

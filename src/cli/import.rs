@@ -217,11 +217,14 @@ fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
         String::new()
     };
     if n > 0 && !skip_bad {
-        return Err(Error::Refused(format!(
-            "{file_name}: {n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
-            if n == 1 { "" } else { "s" },
-            listed(&plan.bad)
-        )));
+        return Err(Error::input(
+            file_name,
+            format!(
+                "{n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
+                if n == 1 { "" } else { "s" },
+                listed(&plan.bad)
+            ),
+        ));
     }
     if plan.accepted == 0 {
         return Err(Error::field(

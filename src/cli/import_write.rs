@@ -4,7 +4,6 @@
 
 use super::Context;
 use super::import::listed;
-use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_day::{MeterDay, Source, permit_entries};
 use crate::import::overlap::{self, Covered};
@@ -100,7 +99,7 @@ fn permit_warnings(
     let mut gone = Vec::new();
     for t in corrects.iter().flatten() {
         let replaced = tx.entry_at(code, *t)?.ok_or_else(|| {
-            Error::Inconsistent(format!(
+            Error::ledger(format!(
                 "project {code} has no seq {t}, which an effective meter-day named"
             ))
         })?;
@@ -108,16 +107,17 @@ fn permit_warnings(
     }
     let tally = tx.tally(code)?;
     let standing = super::record::standing(tx, to.project, tally, &new)?;
-    permit::check(to.project, &standing, &new, &gone, to.over_permit)
+    super::permit_check(to.project, &standing, &new, &gone, to.over_permit)
 }
 
 /// An append refused for one of the file's meter-days; a day out of the window is named as
 /// the file's day, not as an option the file does not have.
 fn refused_row(file_name: &str, e: AppendError) -> Error {
     match e {
-        AppendError::OutOfBounds(b) if b.option == "--from" || b.option == "--to" => {
-            Error::Refused(format!("{file_name}: meter-day {}: {}", b.value, b.why))
+        AppendError::OutOfBounds(b) if b.field == "period_from" || b.field == "period_to" => {
+            Error::input(file_name, format!("meter-day {}: {}", b.value, b.why))
         }
+        AppendError::Sealed(s) => Error::field("FILE", file_name, super::sealed(&s)),
         e => Error::field("FILE", file_name, e),
     }
 }
@@ -138,7 +138,7 @@ fn covered_days(
     let mut covered = Covered::new();
     for c in tx.covered_days(project, kind.name(), first, last)? {
         let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
-            Error::Inconsistent(format!(
+            Error::ledger(format!(
                 "project {project} seq {}: period_from {:?} is not a date",
                 c.seq, c.day
             ))

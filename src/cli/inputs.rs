@@ -1,5 +1,6 @@
 //! Turning option values into typed values, with errors that name the option and the value.
 
+use crate::accounting::metering::{MeterError, MeterField};
 use crate::error::{Error, Result};
 use crate::ledger::bounds;
 use crate::ledger::period::parse_date;
@@ -52,4 +53,48 @@ fn text_of_at_most(field: &str, value: &str, max: usize) -> Result<()> {
         ));
     }
     Ok(())
+}
+
+/// An entry's field out of bounds, named by the option it comes from (`period_from` →
+/// `--from`, a reading's `pathway` → `--pathway`).
+pub fn out_of_bounds(b: &bounds::OutOfBounds) -> Error {
+    let option = match b.field.as_str() {
+        "period_from" => "--from".to_string(),
+        "period_to" => "--to".to_string(),
+        name => format!("--{}", name.replace('_', "-")),
+    };
+    Error::field(&option, &bounds::shown(&b.value), &b.why)
+}
+
+/// A meter reading's refusal in the options' words.
+pub fn meter_error(e: MeterError) -> Error {
+    match e {
+        MeterError::Value { field, value, why } => {
+            let option = match field {
+                MeterField::Mass => "--mass",
+                MeterField::Volume => "--volume",
+                MeterField::Co2Fraction => "--co2-fraction",
+                MeterField::Impurities => "--impurities",
+                MeterField::Uncertainty => "--uncertainty",
+            };
+            Error::field(option, &value, why)
+        }
+        MeterError::BothQuantities => Error::options("--mass", "give --mass or --volume, not both"),
+        MeterError::NoQuantity => Error::options(
+            "--mass",
+            "a quantity is needed: --mass \"1250.5 t\" (mass meter) or --volume \"2.5 MMscf\" (volumetric meter)",
+        ),
+        MeterError::MolNeedsImpurities => Error::options(
+            "--impurities",
+            "--co2-basis mol with --mass needs the stream's other gases to convert to a mass fraction: --impurities N2=0.015,Ar=0.005 (mole fractions adding up to 1 with the CO2)",
+        ),
+        MeterError::RegulatoryConditions { value, why } => {
+            Error::field("--volume", &value, format!("{why} (use --density eos)"))
+        }
+        MeterError::VolumeByMass => Error::field(
+            "--co2-basis",
+            "mass",
+            "a volumetric meter's CO2 fraction is by volume: give it with --co2-basis mol",
+        ),
+    }
 }

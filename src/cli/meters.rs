@@ -8,8 +8,9 @@ use crate::error::{Error, Result};
 use crate::import::overlap::hand_corrections;
 use crate::ledger::correction::effective;
 use crate::ledger::period::{Bucket, Grouping, apportion};
+use crate::ledger::reading_fields::{FractionBasis, MeterType, checked};
 use crate::ledger::{Entry, EntryKind};
-use crate::quantity::{Mass, MassReading};
+use crate::quantity::Mass;
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use chrono::Datelike;
@@ -43,12 +44,12 @@ struct Row {
 }
 
 fn conversion(e: &Entry) -> String {
-    match (e.reading.get("meter_type"), e.reading.get("density_method")) {
-        (Some("volumetric"), Some("regulatory")) => {
+    match (checked(e.reading.meter_type()), e.reading.density_method()) {
+        (Some(MeterType::Volumetric), Some("regulatory")) => {
             "volume × D (40 CFR 98.443) × CO2 vol. fraction".into()
         }
-        (Some("volumetric"), _) => "volume × ρ (Span–Wagner) × CO2 vol. fraction".into(),
-        (_, _) if e.reading.get("co2_basis") == Some("mol") => {
+        (Some(MeterType::Volumetric), _) => "volume × ρ (Span–Wagner) × CO2 vol. fraction".into(),
+        (_, _) if checked(e.reading.co2_basis()) == Some(FractionBasis::Mol) => {
             "mass × CO2 mass fraction (from mole fraction)".into()
         }
         _ => "mass × CO2 mass fraction".into(),
@@ -58,8 +59,11 @@ fn conversion(e: &Entry) -> String {
 /// The basis of an entry's CO2 fraction: as recorded, else as its meter type implies (an
 /// imported mass reading's fraction is by mass, a volume's by mole).
 fn basis(e: &Entry) -> &'static str {
-    match (e.reading.get("co2_basis"), e.reading.get("meter_type")) {
-        (Some("mol"), _) | (None, Some("volumetric")) => "mole",
+    match (
+        checked(e.reading.co2_basis()),
+        checked(e.reading.meter_type()),
+    ) {
+        (Some(FractionBasis::Mol), _) | (None, Some(MeterType::Volumetric)) => "mole",
         _ => "mass",
     }
 }
@@ -68,26 +72,27 @@ fn basis(e: &Entry) -> &'static str {
 /// entry recorded (standard volumes are never bare).
 fn unit(e: &Entry) -> String {
     match (
-        e.reading.get("meter_type"),
-        e.reading.get("reference_conditions"),
+        checked(e.reading.meter_type()),
+        e.reading.reference_conditions(),
     ) {
-        (Some("volumetric"), Some(c)) => format!("m³ at {c}"),
-        (Some("volumetric"), None) => "m³ (reference conditions not recorded)".into(),
+        (Some(MeterType::Volumetric), Some(c)) => format!("m³ at {c}"),
+        (Some(MeterType::Volumetric), None) => "m³ (reference conditions not recorded)".into(),
         _ => "t".into(),
     }
 }
 
 /// The metered quantity of an entry: grams for a mass meter, m³ for a volumetric one.
-fn metered_quantity(e: &Entry) -> Option<f64> {
-    match e.reading.get("meter_type")? {
-        "mass" => MassReading::parse(e.reading.get("mass")?)
-            .ok()?
-            .grams_exact()
-            .ok()
+fn metered_quantity(e: &Entry) -> Result<Option<f64>> {
+    let bad = |f| Error::from(e.field_error(f));
+    Ok(match e.reading.meter_type().map_err(bad)? {
+        Some(MeterType::Mass) => e
+            .reading
+            .exact_grams("mass")
+            .map_err(bad)?
             .map(|g| g.to_f64()),
-        "volumetric" => e.reading.get("volume_m3")?.parse().ok(),
-        _ => None,
-    }
+        Some(MeterType::Volumetric) => e.reading.volume_m3().map_err(bad)?,
+        None => None,
+    })
 }
 
 pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
@@ -105,17 +110,14 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
     // A row is one meter's quarter in one unit and one basis, so no cell mixes unlike figures.
     let mut rows: BTreeMap<(String, Bucket, String, &str), Row> = BTreeMap::new();
     for e in effective(&all) {
-        let Some(q) = metered_quantity(e) else {
+        let Some(q) = metered_quantity(e)? else {
             continue;
         };
-        let fraction: f64 = e
-            .reading
-            .get("co2_fraction")
-            .or(e.reading.get("co2_fraction_mean"))
-            .and_then(|f| f.parse().ok())
-            .unwrap_or(1.0);
+        let fraction: f64 = checked(e.reading.co2_fraction())
+            .or(checked(e.reading.co2_fraction_mean()))
+            .map_or(1.0, |f| f.to_f64());
         let meter = e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
-            "" => format!("({})", e.reading.get("pathway").unwrap_or("no site")),
+            "" => format!("({})", e.reading.pathway().unwrap_or("no site")),
             site => format!("({site})"),
         });
         let total_days = e.period.days() as f64;
@@ -132,7 +134,9 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
                 .or_default();
             r.site = e.site.clone();
             r.kind = Some(e.kind);
-            r.meter_type = e.reading.get("meter_type").unwrap_or("").to_string();
+            r.meter_type = checked(e.reading.meter_type())
+                .map_or("", MeterType::name)
+                .to_string();
             let c = conversion(e);
             if r.conversion.is_empty() || r.conversion == c {
                 r.conversion = c;

@@ -40,6 +40,7 @@ mod record_rock;
 mod rock_inputs;
 mod weathering;
 
+use crate::accounting::permit;
 use crate::error::Result;
 use crate::report::{Format, Report};
 use crate::store::{Store, Wait};
@@ -262,13 +263,92 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     }
 }
 
+/// The permit's check of an append, said for people: its notices as warnings; a limit passed
+/// without `--over-permit` refused, saying how to record it anyway.
+fn permit_check(
+    project: &crate::ledger::Project,
+    standing: &permit::Standing,
+    new: &[crate::ledger::Entry],
+    replaced: &[crate::ledger::Entry],
+    over_permit: bool,
+) -> Result<Vec<String>> {
+    use permit::Notice;
+    match permit::check(project, standing, new, replaced, over_permit) {
+        Ok(notices) => Ok(notices
+            .iter()
+            .map(|n| match n {
+                Notice::NearCapacity { pct } => format!(
+                    "project {} has used {pct:.2} % of its permitted capacity",
+                    project.code
+                ),
+                Notice::Recorded(p) => format!("recorded over the permit: {}", passed(p)),
+            })
+            .collect()),
+        Err(e) => Err(crate::error::Error::Refused(format!(
+            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
+            e.project,
+            e.passed.iter().map(passed).collect::<Vec<_>>().join("; ")
+        ))),
+    }
+}
+
+fn passed(p: &permit::Passed) -> String {
+    use crate::report::render::tonnes_text;
+    match *p {
+        permit::Passed::Capacity { stored, pct, cap } => format!(
+            "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
+            tonnes_text(stored),
+            tonnes_text(cap)
+        ),
+        permit::Passed::Annual {
+            year,
+            injected,
+            max,
+        } => format!(
+            "injection in {year} would be {} t, above the permitted annual maximum {} t",
+            tonnes_text(injected),
+            tonnes_text(max)
+        ),
+    }
+}
+
+/// A sealed period's refusal with what the command line offers instead.
+fn sealed(e: &crate::ledger::seal::SealRefusal) -> String {
+    use crate::ledger::seal::SealRefusal;
+    match e {
+        SealRefusal::Sealed { .. } => {
+            format!("{e} (give --late to record it as a late adjustment dated now)")
+        }
+        SealRefusal::NoLateDifference { .. } => {
+            format!("{e}; record the new reading with --late instead")
+        }
+        SealRefusal::Backdated { .. } => format!("{e}: give a --from after it"),
+        SealRefusal::TodaySealed { .. } | SealRefusal::Overlap { .. } => e.to_string(),
+    }
+}
+
 /// Runs one line of arguments (as after `sinkbook`) against a given ledger; the demo's scripts
 /// go through the same parser and commands as a person typing them.
 pub fn run_line(words: &[String], db: &Path, now: DateTime<Utc>) -> Result<Report> {
     let argv = std::iter::once("sinkbook".to_string()).chain(words.iter().cloned());
     let mut cli = Cli::try_parse_from(argv).map_err(|e| {
-        crate::error::Error::Refused(e.to_string().lines().next().unwrap_or("").to_string())
+        crate::error::Error::Usage(e.to_string().lines().next().unwrap_or("").to_string())
     })?;
     cli.db = Some(db.to_path_buf());
     run(cli, now)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_script_line_that_does_not_parse_is_a_usage_error_wherever_it_stands() {
+        let words = ["record".to_string(), "nonsense".to_string()];
+        let e = run_line(&words, Path::new("never-opened.db"), Utc::now()).unwrap_err();
+        assert_eq!(e.exit_code(), 2, "{e}");
+        let at = e.at("tfs.sinkbook line 3");
+        assert_eq!(at.exit_code(), 2);
+        assert!(at.to_string().starts_with("tfs.sinkbook line 3: "), "{at}");
+    }
 }

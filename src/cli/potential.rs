@@ -41,7 +41,7 @@ pub fn potential(a: PotentialArgs) -> Result<Report> {
     match (&a.oxides, &a.mineral) {
         (Some(o), _) => oxides(o, &a),
         (None, Some(m)) => mineral(m, &a),
-        (None, None) => Err(Error::Refused("give --oxides or --mineral".into())),
+        (None, None) => Err(Error::options("--oxides", "give --oxides or --mineral")),
     }
 }
 

@@ -80,7 +80,7 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
             Error::field("SEQ", &a.seq.to_string(), "is not an entry of this project")
         })?;
         let audit_path = path.finish().ok_or_else(|| {
-            Error::Inconsistent(format!(
+            Error::ledger(format!(
                 "project {} has fewer entries than seal seq {} covers",
                 a.project, seal.seq
             ))
@@ -91,7 +91,7 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
     // bytes, or a seal that does not match the leaves, is the ledger's fault, not the reader's.
     let proven = p
         .check()
-        .map_err(|w| Error::Inconsistent(format!("project {} seq {}: {w}", a.project, a.seq)))?;
+        .map_err(|w| Error::ledger(format!("project {} seq {}: {w}", a.project, a.seq)))?;
     let json = serde_json::to_string_pretty(&p).expect("a proof serializes") + "\n";
     std::fs::write(&a.out, json)
         .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
@@ -110,9 +110,9 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
 
 pub fn check_proof(a: CheckProofArgs) -> Result<Report> {
     let p: InclusionProof = crate::import::read_json(&a.file)?;
-    let proven = p.check().map_err(|w| {
-        Error::Inconsistent(format!("proof {} does not hold: {w}", a.file.display()))
-    })?;
+    let proven = p
+        .check()
+        .map_err(|w| Error::ledger(format!("proof {} does not hold: {w}", a.file.display())))?;
     Ok(Report::default()
         .line(format!(
             "the proof holds: {} seq {} is leaf {} of the tree of {} entries with head {}",

@@ -53,7 +53,7 @@ pub struct ReconcileArgs {
 
 /// A report's figure: `1234.5 t`, `0 t`, `-3 kt` (a number and a mass unit).
 fn report_mass(line: u64, value: &str, unit: &str) -> Result<Mass> {
-    let bad = |why: String| Error::Refused(format!("report line {line}: {why}"));
+    let bad = |why: String| Error::input(format!("report line {line}"), why);
     let n = Decimal::parse(value).map_err(|e| bad(format!("value {value:?}: {e}")))?;
     let u = MassUnit::from_symbol(unit)
         .ok_or_else(|| bad(format!("unit {unit:?} is not a mass unit")))?;
@@ -106,10 +106,10 @@ fn read_report(path: &PathBuf) -> Result<MonitoringReport> {
         let f = |i: usize| r.field(i).unwrap_or("\u{fffd}").trim();
         let period: ReportingPeriod = f(p)
             .parse()
-            .map_err(|e| Error::Refused(format!("report line {}: period: {e}", r.line)))?;
-        let quantity: ReportedQuantity = f(q)
-            .parse()
-            .map_err(|e| Error::Refused(format!("report line {}: quantity: {e}", r.line)))?;
+            .map_err(|e| Error::input(format!("report line {}", r.line), format!("period: {e}")))?;
+        let quantity: ReportedQuantity = f(q).parse().map_err(|e| {
+            Error::input(format!("report line {}", r.line), format!("quantity: {e}"))
+        })?;
         figures.push(Figure {
             period,
             quantity,
@@ -404,7 +404,7 @@ fn recompute_table<'a>(
     );
     let mut checked = 0;
     for e in entries {
-        let (Some(sha), Some(meter)) = (e.reading.get("file_sha256"), e.meter.as_deref()) else {
+        let (Some(sha), Some(meter)) = (e.reading.text("file_sha256"), e.meter.as_deref()) else {
             continue;
         };
         if e.kind == EntryKind::Survey || e.corrects.is_some() {

@@ -136,7 +136,7 @@ impl<'a> ChainStates<'a> {
     }
 
     fn wrong(&self, project: &str, r: &Recorded) -> Error {
-        Error::Inconsistent(format!(
+        Error::ledger(format!(
             "project {project}: reconciliations row seq {} names a chain of {} entries with head {}, which the chain never had",
             r.seq,
             r.chain_size,

@@ -254,7 +254,7 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     reading.push("dic_background", background.to_string());
     reading.push("dic_injectate", injectate.to_string());
     reading.push("dic_unit", a.unit.clone());
-    let sample = evidence::tracer_sample(&reading).map_err(Error::Refused)?;
+    let sample = evidence::tracer_sample(&reading).map_err(Error::internal)?;
     let found = mineralized_fraction(&sample).map_err(|e| tracer_refusal(&e, &a))?;
     let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
         context(
@@ -448,7 +448,7 @@ fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<(
     let cores = tx.effective_at_site(&a.project, EntryKind::SoilSample, &a.site)?;
     if let Some(b) = cores
         .iter()
-        .filter(|e| e.reading.get("baseline").is_some())
+        .filter(|e| e.reading.flag("baseline"))
         .find(|e| e.period.from >= date)
     {
         return Err(Error::field(

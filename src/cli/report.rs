@@ -247,7 +247,7 @@ fn sections(
     bal.figure = Some(
         chart
             .to_svg()
-            .map_err(|e| Error::Refused(format!("report chart: {e}")))?,
+            .map_err(|e| Error::internal(format!("report chart: {e}")))?,
     );
 
     let mut metering = Section::new("meters", "Meters by quarter");
@@ -294,7 +294,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
             .map(|e| {
                 Seal::from_entry(&e.entry)
                     .map(|s| (s, e))
-                    .map_err(Error::Inconsistent)
+                    .map_err(Error::ledger)
             })
             .collect::<Result<Vec<_>>>()?;
         let statements = judge_all(tx, &a.project)?;

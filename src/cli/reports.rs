@@ -363,7 +363,7 @@ fn permit_notes<'a>(
         }
     }
     let over: Vec<String> = entries
-        .filter(|e| e.reading.get("over_permit").is_some())
+        .filter(|e| e.reading.flag("over_permit"))
         .map(|e| e.seq.to_string())
         .collect();
     if !over.is_empty() {
@@ -389,22 +389,20 @@ fn leakage_table<'a>(project: &Project, entries: impl Iterator<Item = &'a Entry>
         ]),
     );
     let mut leaks: Vec<&Entry> = entries.filter(|e| e.kind == EntryKind::Leakage).collect();
-    leaks.sort_by(|a, b| {
-        (a.reading.get("pathway"), a.period).cmp(&(b.reading.get("pathway"), b.period))
-    });
+    leaks.sort_by(|a, b| (a.reading.pathway(), a.period).cmp(&(b.reading.pathway(), b.period)));
     for e in &leaks {
         // A rate per hour runs 24 h a day; a rate per day counts its days alone.
-        let rate = e.reading.get("rate").map(|r| match r.ends_with("/h") {
+        let rate = e.reading.text("rate").map(|r| match r.ends_with("/h") {
             true => format!("{r} × 24 h × {} d", e.period.days()),
             false => format!("{r} × {} d", e.period.days()),
         });
-        let how = match (rate, e.reading.get("backdated_to_survey")) {
+        let how = match (rate, e.reading.text("backdated_to_survey")) {
             (Some(r), Some(s)) => format!("{r}, start backdated to the no-leak survey of {s}"),
             (Some(r), None) => r,
             (None, _) => "metered".to_string(),
         };
         t.push(vec![
-            Cell::opt_text(e.reading.get("pathway")),
+            Cell::opt_text(e.reading.pathway()),
             Cell::text(&e.site),
             Cell::text(e.period.to_string()),
             Cell::text(how),
@@ -435,7 +433,7 @@ fn reversals_table<'a>(
     );
     for e in entries.filter(|e| e.kind == EntryKind::Reversal) {
         t.push(vec![
-            Cell::opt_text(e.reading.get("pathway")),
+            Cell::opt_text(e.reading.pathway()),
             Cell::text(&e.site),
             Cell::text(e.period.from.to_string()),
             Cell::Tonnes(e.mass),

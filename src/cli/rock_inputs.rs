@@ -82,7 +82,11 @@ pub fn depth(option: &str, text: &str) -> Result<(String, Depth)> {
 pub fn refused(e: &InputError, options: &[(&str, &str, &str)]) -> Error {
     match options.iter().find(|(field, ..)| *field == e.field) {
         Some((_, option, text)) => Error::field(option, text, format!("must be {}", e.rule)),
-        None => Error::Refused(e.to_string()),
+        None => Error::field(
+            &e.field,
+            &e.value.to_string(),
+            format!("must be {}", e.rule),
+        ),
     }
 }
 

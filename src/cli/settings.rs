@@ -110,8 +110,9 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         values.push((deduction_setting(*deduction), v.to_string()));
     }
     if values.is_empty() {
-        return Err(Error::Refused(
-            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years, --claim-period or a deduction parameter (--strong-acid, --cation-retention, --secondary-carbonate, --ocean-efficiency)".into(),
+        return Err(Error::options(
+            "--buffer",
+            "nothing to set: give --buffer, --assumed-annual-loss, --horizon, --years-held, --equivalence-years, --claim-period or a deduction parameter (--strong-acid, --cation-retention, --secondary-carbonate, --ocean-efficiency)",
         ));
     }
     if let Some(s) = &a.source {
@@ -132,7 +133,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         let project = known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;
         admit_setting(&seals, from, today, ctx.late)
-            .map_err(|e| Error::field("--from", &from.to_string(), e))?;
+            .map_err(|e| Error::field("--from", &from.to_string(), super::sealed(&e)))?;
         let mut all = tx.settings(&a.code)?;
         if let Some((_, option, text, _)) = deductions.first()
             && project.method != crate::ledger::Method::EnhancedWeathering

@@ -23,7 +23,7 @@ pub struct ManualArgs {}
 
 fn text(bytes: Vec<u8>) -> Result<Report> {
     let text = String::from_utf8(bytes)
-        .map_err(|e| Error::Refused(format!("generated text is not UTF-8: {e}")))?;
+        .map_err(|e| Error::internal(format!("generated text is not UTF-8: {e}")))?;
     Ok(Report {
         text: Some(text),
         ..Report::default()
@@ -49,7 +49,7 @@ pub fn manual(_: ManualArgs) -> Result<Report> {
     let mut out = Vec::new();
     clap_mangen::Man::new(Cli::command())
         .render(&mut out)
-        .map_err(|e| Error::Refused(format!("manual: {e}")))?;
+        .map_err(|e| Error::internal(format!("manual: {e}")))?;
     let mut report = text(out)?;
     report.text = report.text.map(|t| {
         t.chars()

@@ -4,7 +4,7 @@
 use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use crate::ledger::Hash;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::{Seal, parse_period};
@@ -83,8 +83,12 @@ pub fn key(c: KeyCommand) -> Result<Report> {
     match c {
         KeyCommand::New { out } => {
             let mut seed = [0u8; 32];
-            getrandom::fill(&mut seed)
-                .map_err(|e| Error::Store(format!("no randomness for a new key: {e}")))?;
+            getrandom::fill(&mut seed).map_err(|e| {
+                Error::store(
+                    StoreKind::System,
+                    format!("no randomness for a new key: {e}"),
+                )
+            })?;
             let public = ed25519_dalek::SigningKey::from_bytes(&seed)
                 .verifying_key()
                 .to_bytes();

@@ -39,7 +39,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
     if a.deep {
         let integrity = store.integrity_check()?;
         if integrity != ["ok"] {
-            return Err(Error::Inconsistent(format!(
+            return Err(Error::ledger(format!(
                 "SQLite integrity_check: {}",
                 integrity.join("; ")
             )));
@@ -105,7 +105,7 @@ fn check_ledger_chain(
             break;
         }
         for s in &page {
-            walk.step(s).map_err(Error::Inconsistent)?;
+            walk.step(s).map_err(Error::ledger)?;
             next = s.link.seq + 1;
             let l = &s.link;
             if only.is_some_and(|p| p != l.project) {
@@ -114,13 +114,13 @@ fn check_ledger_chain(
             let row = l.record.describe(&l.project, &l.item);
             match tx.linked_row(l.record, &l.project, &l.item)? {
                 None => {
-                    return Err(Error::Inconsistent(format!(
+                    return Err(Error::ledger(format!(
                         "ledger link {}: {row} is gone: the ledger no longer holds the row it links",
                         l.seq
                     )));
                 }
                 Some(h) if h != l.row => {
-                    return Err(Error::Inconsistent(format!(
+                    return Err(Error::ledger(format!(
                         "ledger link {}: {row} is not the row linked (its hash {} differs from the link's {})",
                         l.seq,
                         h.head(),
@@ -133,13 +133,13 @@ fn check_ledger_chain(
     }
     for record in Record::ALL {
         if let Some((project, item)) = tx.unlinked(record, only)? {
-            return Err(Error::Inconsistent(format!(
+            return Err(Error::ledger(format!(
                 "{} is in no ledger link: written outside sinkbook, or its link was removed",
                 record.describe(&project, &item)
             )));
         }
     }
-    walk.finish().map_err(Error::Inconsistent)
+    walk.finish().map_err(Error::ledger)
 }
 
 /// One project's rows against their hashes, its chain streamed and checked with its seals, and
@@ -149,9 +149,8 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
     super::evidence::check(tx, &p.code)?;
-    let at = |seq: u64, what: String| {
-        Error::Inconsistent(format!("project {} seq {seq}: {what}", p.code))
-    };
+    let at =
+        |seq: u64, what: String| Error::ledger(format!("project {} seq {seq}: {what}", p.code));
     let listed = tx
         .seal_entries(&p.code)?
         .iter()
@@ -180,7 +179,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
         if let Err(w) = j.signature.as_ref().and(j.seal.as_ref()) {
-            return Err(Error::Inconsistent(format!(
+            return Err(Error::ledger(format!(
                 "project {} statement {}: {w}",
                 p.code, j.statement.seq
             )));
@@ -189,7 +188,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     if let Some(h) = expected
         && !holds_expected
     {
-        return Err(Error::Inconsistent(format!(
+        return Err(Error::ledger(format!(
             "project {}: the chain no longer holds head {} (it has {} entries, head {})",
             p.code,
             h.head(),

@@ -23,7 +23,7 @@ pub fn each_line(path: &Path, mut f: impl FnMut(u64, &str) -> Result<()>) -> Res
             return Ok(());
         }
         n += 1;
-        let damaged = |what: &str| Error::Inconsistent(format!("bundle {name} line {n}: {what}"));
+        let damaged = |what: &str| Error::ledger(format!("bundle {name} line {n}: {what}"));
         if buf.pop() != Some(b'\n') {
             return Err(damaged("no newline at its end (the file is cut short?)"));
         }

@@ -5,7 +5,7 @@ use super::csv_records::Record;
 use crate::accounting::metering::{Basis, co2_of_stream_kg, co2_of_stream_mass};
 use crate::error::{Error, Result};
 use crate::quantity::mass::round_half_even_f64;
-use crate::quantity::volume::{DensityMethod, StandardVolume};
+use crate::quantity::volume::{DensityMethod, StandardVolume, VolumeError};
 use crate::quantity::{Decimal, Fraction, Mass, MassUnit};
 use chrono::{DateTime, NaiveDate};
 use std::collections::HashMap;
@@ -159,7 +159,12 @@ impl Converter {
                 }
                 let v = StandardVolume::parse(&format!("1 {unit}"))
                     .map_err(|e| format!("unit {unit:?}: {e}"))?;
-                let m = v.mass(density).map_err(|e| format!("unit {unit:?}: {e}"))?;
+                let m = v.mass(density).map_err(|e| match e {
+                    VolumeError::RegulatoryNeedsStandard(_) => {
+                        format!("unit {unit:?}: {e} (import it with --density eos)")
+                    }
+                    e => format!("unit {unit:?}: {e}"),
+                })?;
                 Ok(UnitFactor::Volume {
                     kg_per_unit: m.kg,
                     m3_per_unit: m.m3,

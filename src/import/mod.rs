@@ -41,7 +41,7 @@ pub fn plan_file(
         // Dropping the receiver (on a failed write) stops the planner at its next part.
         let planned = planner
             .join()
-            .map_err(|_| Error::Store("the import's planner thread failed".into()))?;
+            .map_err(|_| Error::internal("the import's planner thread failed"))?;
         kept.and(planned)
     })
 }

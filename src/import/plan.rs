@@ -234,7 +234,7 @@ pub fn plan(
         .into_inner()
         .finish()
         .map_err(|e| file_error(&e))?
-        .ok_or_else(|| Error::Store("the import stopped: its evidence could not be kept".into()))?;
+        .ok_or_else(|| Error::internal("the import stopped: its evidence could not be kept"))?;
     // Sized once: a file of a million meter-days would otherwise hold two copies while growing.
     let mut days = Vec::with_capacity(rollup.meters.iter().map(|(_, m)| m.days.len()).sum());
     days.extend(

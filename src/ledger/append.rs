@@ -66,7 +66,7 @@ impl std::fmt::Display for AppendError {
             ),
             Self::NoSite { entry } => write!(
                 f,
-                "{entry} entries are recorded at a site: give --site (only leakage and reversal may name a pathway instead)"
+                "{entry} entries are recorded at a site (only leakage and reversal may name a pathway instead)"
             ),
             Self::KeyTaken { key, seq } => write!(
                 f,

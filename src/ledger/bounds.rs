@@ -70,44 +70,43 @@ pub fn activity_date(d: NaiveDate, today: NaiveDate) -> Result<(), String> {
 /// A field of an entry that is out of bounds: which, its value, and why.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct OutOfBounds {
-    /// The option the field comes from (`--note`, `--from`, `--pathway` ...).
-    pub option: String,
+    /// The entry's field: `key`, `meter`, `note`, `reason`, a reading field's name (`pathway`
+    /// ...), `period_from` or `period_to`; the command line names its option.
+    pub field: String,
     pub value: String,
     pub why: String,
 }
 
 impl std::fmt::Display for OutOfBounds {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(f, "{} {:?}: {}", self.option, shown(&self.value), self.why)
+        write!(f, "{} {:?}: {}", self.field, shown(&self.value), self.why)
     }
 }
 
 /// Checks every free-text field, each value of the reading and both ends of the period of an
-/// entry about to be appended, whichever command or file it came from. The reading's values
-/// are named by the option they come from (`pathway` → `--pathway`).
+/// entry about to be appended, whichever command or file it came from.
 pub fn entry(e: &Entry, today: NaiveDate) -> Result<(), OutOfBounds> {
-    let out = |option: &str, value: &str, why: String| OutOfBounds {
-        option: option.to_string(),
+    let out = |field: &str, value: &str, why: String| OutOfBounds {
+        field: field.to_string(),
         value: value.to_string(),
         why,
     };
     let texts = [
-        ("--key", Some(e.key.as_str())),
-        ("--meter", e.meter.as_deref()),
-        ("--note", e.note.as_deref()),
-        ("--reason", e.reason.as_deref()),
+        ("key", Some(e.key.as_str())),
+        ("meter", e.meter.as_deref()),
+        ("note", e.note.as_deref()),
+        ("reason", e.reason.as_deref()),
     ];
-    for (option, value) in texts {
+    for (field, value) in texts {
         if let Some(v) = value {
-            text(v, TEXT_MAX).map_err(|why| out(option, v, why))?;
+            text(v, TEXT_MAX).map_err(|why| out(field, v, why))?;
         }
     }
     for (name, v) in &e.reading.0 {
-        text(v, READING_MAX)
-            .map_err(|why| out(&format!("--{}", name.replace('_', "-")), v, why))?;
+        text(v, READING_MAX).map_err(|why| out(name, v, why))?;
     }
-    for (option, d) in [("--from", e.period.from), ("--to", e.period.to)] {
-        activity_date(d, today).map_err(|why| out(option, &d.to_string(), why))?;
+    for (field, d) in [("period_from", e.period.from), ("period_to", e.period.to)] {
+        activity_date(d, today).map_err(|why| out(field, &d.to_string(), why))?;
     }
     Ok(())
 }

@@ -14,6 +14,7 @@ pub mod merkle;
 pub mod period;
 pub mod project;
 pub mod proof;
+pub mod reading_fields;
 pub mod reconciliation;
 pub mod seal;
 pub mod seal_check;

@@ -6,6 +6,7 @@
 use super::entry::{Entry, EntryKind, Reading, Sign};
 use super::hash::Hash;
 use super::period::Period;
+use super::reading_fields::checked;
 use crate::quantity::Mass;
 use chrono::{DateTime, NaiveDate, Utc};
 use std::fmt;
@@ -168,7 +169,7 @@ impl fmt::Display for SealRefusal {
         match self {
             Self::Sealed { label, seq, days } => write!(
                 f,
-                "{days} falls in period {label}, sealed by seq {seq}; nothing written (give --late to record it as a late adjustment dated now)"
+                "{days} falls in period {label}, sealed by seq {seq}; nothing written"
             ),
             Self::TodaySealed { label, seq } => write!(
                 f,
@@ -176,14 +177,14 @@ impl fmt::Display for SealRefusal {
             ),
             Self::NoLateDifference { kind } => write!(
                 f,
-                "a late correction of a {kind} entry cannot be kept as a difference (its reports recompute it from the reading); record the new reading with --late instead"
+                "a late correction of a {kind} entry cannot be kept as a difference (its reports recompute it from the reading)"
             ),
             Self::Overlap { label, seq } => {
                 write!(f, "overlaps period {label}, sealed by seq {seq}")
             }
             Self::Backdated { from, label, seq } => write!(
                 f,
-                "would take effect from {from}, inside period {label} sealed by seq {seq}; a setting never reaches back into a sealed period (not even with --late): give a --from after it"
+                "would take effect from {from}, inside period {label} sealed by seq {seq}; a setting never reaches back into a sealed period, not even as a late adjustment"
             ),
         }
     }
@@ -299,12 +300,12 @@ pub fn admit_setting(
 
 /// Whether an entry is a late adjustment, and of which sealed period.
 pub fn late_for(e: &Entry) -> Option<&str> {
-    e.reading.get("late_for")
+    e.reading.late_for()
 }
 
 /// The seq a late correction replaces, if the entry is one.
 pub fn late_replaces(e: &Entry) -> Option<u64> {
-    e.reading.get("late_replaces").and_then(|s| s.parse().ok())
+    checked(e.reading.late_replaces())
 }
 
 /// Checks a new seal's period against the seals before it.
@@ -404,7 +405,12 @@ mod tests {
         let late = admit(&seals, inside, None, true, today).unwrap();
         assert_eq!(late.period, Period::day(today));
         assert_eq!(late_for(&late), Some("2026"));
-        assert_eq!(late.reading.get("late_from"), Some("2026-12-20"));
+        assert_eq!(
+            late.reading
+                .day("late_from")
+                .map(|d| d.map(|d| d.to_string())),
+            Ok(Some("2026-12-20".into()))
+        );
         assert_eq!(late.mass, Mass::from_grams(5));
 
         let sealed_today = [seal("2027-02", 50)];

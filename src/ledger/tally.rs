@@ -4,6 +4,7 @@
 
 use super::entry::{Entry, EntryKind, Reading};
 use super::period::{Grouping, Period, apportion};
+use super::reading_fields::checked;
 use crate::quantity::Mass;
 
 /// A project's figures through one entry of its chain.
@@ -46,10 +47,7 @@ pub fn entrained_fraction(e: &Entry) -> f64 {
 
 /// The entrained fraction X a reading states (0 when none).
 pub fn entrained_in(reading: &Reading) -> f64 {
-    reading
-        .get("entrained_fraction")
-        .and_then(|x| x.parse().ok())
-        .unwrap_or(0.0)
+    checked(reading.entrained_fraction()).unwrap_or(0.0)
 }
 
 /// What one entry adds to the RR cumulative stored figure, in grams (see [`share`]).

@@ -147,7 +147,7 @@ impl fmt::Display for VolumeError {
             Self::NotPositive => f.write_str("must be greater than zero"),
             Self::RegulatoryNeedsStandard(c) => write!(
                 f,
-                "the regulatory density (40 CFR 98.443) is for volumes at 60 °F and 1 atm; this volume is at {c} (use --density eos)"
+                "the regulatory density (40 CFR 98.443) is for volumes at 60 °F and 1 atm; this volume is at {c}"
             ),
             Self::Density(e) => write!(f, "{e}"),
         }

@@ -3,7 +3,7 @@
 //! the few statements diesel cannot build for both at once go through `on_backend!`.
 
 use super::Wait;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use diesel::connection::{AnsiTransactionManager, Connection, TransactionManager};
 use diesel::pg::PgConnection;
 use diesel::result::{DatabaseErrorKind, Error as DieselError};
@@ -30,29 +30,22 @@ macro_rules! on_backend {
 }
 pub(crate) use on_backend;
 
-/// Marks a store error worth another attempt: a deadlock or a serialization failure
-/// (PostgreSQL 40P01, 40001), which leave the database as it was.
-const BUSY: &str = "the ledger is busy";
-
-/// Marks a lock another writer held past `--wait`: SQLite's busy timeout, PostgreSQL's lock
-/// timeout (55P03). The wait the user chose has run out, so the write is not tried again.
-const WAITED: &str = "another writer holds the ledger";
-
 /// How many times a write turned away for contention is tried in all, and the pause before the
 /// second try, doubled before each later one (0.1 + 0.2 + 0.4 + 0.8 s).
 const ATTEMPTS: u32 = 5;
 const FIRST_PAUSE: Duration = Duration::from_millis(100);
 
 impl From<DieselError> for Error {
+    /// The backend's reason becomes a `StoreKind`; the message keeps the backend's words.
     fn from(e: DieselError) -> Self {
-        match &e {
+        let (kind, message) = match &e {
             DieselError::DatabaseError(DatabaseErrorKind::SerializationFailure, _) => {
-                Error::Store(format!("{BUSY} ({e})"))
+                (StoreKind::Busy, format!("the ledger is busy ({e})"))
             }
             DieselError::DatabaseError(_, info)
                 if info.message().starts_with("deadlock detected") =>
             {
-                Error::Store(format!("{BUSY} ({e})"))
+                (StoreKind::Busy, format!("the ledger is busy ({e})"))
             }
             DieselError::DatabaseError(_, info)
                 if [
@@ -63,7 +56,10 @@ impl From<DieselError> for Error {
                 .iter()
                 .any(|m| info.message().starts_with(m)) =>
             {
-                Error::Store(format!("{WAITED} ({e})"))
+                (
+                    StoreKind::Locked,
+                    format!("another writer holds the ledger ({e})"),
+                )
             }
             DieselError::DatabaseError(_, info)
                 if info
@@ -71,25 +67,31 @@ impl From<DieselError> for Error {
                     .starts_with("new row violates row-level security policy")
                     || info.message().starts_with("permission denied for") =>
             {
-                Error::Refused(format!("{REFUSED} ({})", info.message()))
+                (StoreKind::Denied, info.message().to_string())
             }
             DieselError::DatabaseError(_, info) if super::connection::damaged(info.message()) => {
-                Error::Inconsistent(format!("the ledger file is damaged ({})", info.message()))
+                return Error::ledger(format!("the ledger file is damaged ({})", info.message()));
             }
-            _ => Error::Store(format!("ledger database error: {e}")),
-        }
+            DieselError::DatabaseError(DatabaseErrorKind::UniqueViolation, _) => {
+                (StoreKind::Unique, format!("ledger database error: {e}"))
+            }
+            DieselError::DatabaseError(DatabaseErrorKind::ClosedConnection, _) => {
+                (StoreKind::Connection, format!("ledger database error: {e}"))
+            }
+            _ if ["disk is full", "disk I/O error"]
+                .iter()
+                .any(|m| e.to_string().contains(m)) =>
+            {
+                (StoreKind::Disk, format!("ledger database error: {e}"))
+            }
+            _ => (StoreKind::Other, format!("ledger database error: {e}")),
+        };
+        Error::store(kind, message)
     }
 }
 
-/// Marks a write the registry's roles do not allow; `write` names the role in the message.
-const REFUSED: &str = "the registry refused the write";
-
 fn is_busy(e: &Error) -> bool {
-    matches!(e, Error::Store(m) if m.starts_with(BUSY))
-}
-
-fn waited_out(e: &Error) -> bool {
-    matches!(e, Error::Store(m) if m.starts_with(WAITED))
+    e.store_kind() == Some(StoreKind::Busy)
 }
 
 /// Runs `f` in one transaction: on SQLite taken at once (BEGIN IMMEDIATE), so two writers never
@@ -114,19 +116,25 @@ pub fn write<T>(
         done = transaction(conn, true, &mut f);
     }
     match done {
-        Err(e) if waited_out(&e) => Err(wait.ran_out()),
-        Err(e) if is_busy(&e) => Err(Error::Store(format!(
-            "{e}; tried {ATTEMPTS} times, pausing {:.1} s in all between tries; nothing was written, try again later",
-            (pause - FIRST_PAUSE).as_secs_f64()
-        ))),
-        Err(Error::Refused(m)) if m.starts_with(REFUSED) => Err(Error::Refused(format!(
+        Err(e) if e.store_kind() == Some(StoreKind::Locked) => Err(wait.ran_out()),
+        Err(e) if is_busy(&e) => Err(Error::store(
+            StoreKind::Busy,
+            format!(
+                "{e}; tried {ATTEMPTS} times, pausing {:.1} s in all between tries; nothing was written, try again later",
+                (pause - FIRST_PAUSE).as_secs_f64()
+            ),
+        )),
+        Err(Error::Store {
+            kind: StoreKind::Denied,
+            message,
+        }) => Err(Error::Refused(format!(
             "role {} may not write {}: an operator's role writes only its own operator's projects, a verifier's only signed statements, a regulator's nothing {}; nothing written",
             role(conn),
             match project.borrow().as_deref() {
                 Some(p) => format!("project {p}"),
                 None => "this".into(),
             },
-            m[REFUSED.len()..].trim_start()
+            format_args!("({message})")
         ))),
         done => done,
     }
@@ -197,13 +205,9 @@ mod tests {
 
     #[test]
     fn contention_is_told_apart_from_other_store_errors() {
-        assert!(is_busy(&Error::Store(format!(
-            "{BUSY} (deadlock detected)"
-        ))));
-        assert!(!is_busy(&Error::Store(
-            "ledger database error: disk full".into()
-        )));
-        assert!(!is_busy(&Error::Refused(BUSY.into())));
+        let waited_out = |e: &Error| e.store_kind() == Some(StoreKind::Locked);
+        assert!(!is_busy(&Error::store(StoreKind::Other, "disk full")));
+        assert!(!is_busy(&Error::Refused("the ledger is busy".into())));
         let locked = DieselError::DatabaseError(
             DatabaseErrorKind::Unknown,
             Box::new("database is locked".to_string()),

@@ -49,7 +49,7 @@ impl Tx<'_> {
             let r = row?;
             let s = r
                 .to_sealed()
-                .map_err(|what| inconsistent(format!("project {project} seq {}: {what}", r.seq)))?;
+                .map_err(|what| crate::error::Error::entry(project, Some(r.seq), what))?;
             f(s)?;
         }
         Ok(())

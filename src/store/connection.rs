@@ -2,7 +2,7 @@
 //! connection needs, applying the embedded migrations.
 
 use super::Wait;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use diesel::connection::SimpleConnection;
 use diesel::prelude::*;
 use diesel::sql_types::{Integer, Text};
@@ -38,7 +38,10 @@ fn store_error(path: &Path, e: impl std::fmt::Display) -> Error {
     if damaged(&m) {
         return damaged_file(path, m);
     }
-    Error::Store(format!("ledger {}: {m}", path.display()))
+    Error::store(
+        StoreKind::Connection,
+        format!("ledger {}: {m}", path.display()),
+    )
 }
 
 /// SQLite's words for a file whose pages do not hold together.
@@ -48,7 +51,7 @@ pub(super) fn damaged(message: &str) -> bool {
 }
 
 fn damaged_file(path: &Path, why: impl std::fmt::Display) -> Error {
-    Error::Inconsistent(format!(
+    Error::ledger(format!(
         "ledger file {} is damaged ({why}): restore it from a copy; nothing was read or written",
         path.display()
     ))
@@ -97,7 +100,10 @@ fn application_id(path: &Path, conn: &mut SqliteConnection) -> Result<i32> {
         .map(|r| r.application_id)
         .map_err(|e| match sqlite {
             Some(_) => damaged_file(path, e),
-            None => Error::Refused(format!("{} is not a sinkbook ledger ({e})", path.display())),
+            None => Error::store(
+                StoreKind::NotALedger,
+                format!("{} is not a sinkbook ledger ({e})", path.display()),
+            ),
         })
 }
 
@@ -119,18 +125,24 @@ fn configure(path: &Path, conn: &mut SqliteConnection) -> Result<()> {
 /// Opens an existing ledger.
 pub fn open(path: &Path, wait: Wait) -> Result<SqliteConnection> {
     if !path.is_file() {
-        return Err(Error::Refused(format!(
-            "ledger {} does not exist (create it with `sinkbook init`, or name another with --db or SINKBOOK_DB)",
-            path.display()
-        )));
+        return Err(Error::store(
+            StoreKind::Connection,
+            format!(
+                "ledger {} does not exist (create it with `sinkbook init`, or name another with --db or SINKBOOK_DB)",
+                path.display()
+            ),
+        ));
     }
     let mut conn = connect(path, wait)?;
     let id = application_id(path, &mut conn)?;
     if id != APPLICATION_ID {
-        return Err(Error::Refused(format!(
-            "{} is not a sinkbook ledger (SQLite application_id {id:#x}, expected {APPLICATION_ID:#x})",
-            path.display()
-        )));
+        return Err(Error::store(
+            StoreKind::NotALedger,
+            format!(
+                "{} is not a sinkbook ledger (SQLite application_id {id:#x}, expected {APPLICATION_ID:#x})",
+                path.display()
+            ),
+        ));
     }
     configure(path, &mut conn)?;
     Ok(conn)
@@ -150,10 +162,13 @@ pub fn create(path: &Path, wait: Wait) -> Result<(SqliteConnection, bool)> {
             .get_result::<Count>(&mut conn)
             .map_err(|e| store_error(path, e))?;
         if id != 0 || tables.n != 0 {
-            return Err(Error::Refused(format!(
-                "{} is not a sinkbook ledger and is not empty; refusing to touch it",
-                path.display()
-            )));
+            return Err(Error::store(
+                StoreKind::NotALedger,
+                format!(
+                    "{} is not a sinkbook ledger and is not empty; refusing to touch it",
+                    path.display()
+                ),
+            ));
         }
         drop(conn);
     }

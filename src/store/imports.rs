@@ -5,7 +5,7 @@ use super::Tx;
 use super::backend::{Conn, placeholders};
 use super::rows::ImportRow;
 use super::schema::{import_evidence, imports};
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use crate::ledger::Hash;
 use chrono::NaiveDate;
 use diesel::prelude::*;
@@ -82,7 +82,7 @@ impl Tx<'_> {
                 return Ok(value);
             }
             discarded = Some(value);
-            Err(Error::Store("discarded".into()))
+            Err(Error::internal("discarded"))
         });
         match kept {
             Ok(v) => Ok(v),
@@ -310,11 +310,15 @@ pub fn room_for(db: &std::path::Path, bytes: u64, what: &str) -> Result<()> {
 /// A write that failed for want of disk, said plainly; other errors pass unchanged.
 pub fn disk_error(e: Error) -> Error {
     match &e {
-        Error::Store(m) if m.contains("disk is full") || m.contains("disk I/O error") => {
-            Error::Store(format!(
-                "could not write the ledger file ({m}): the disk is full or the file is larger than this process may write; nothing was written, the ledger is as it was"
-            ))
-        }
+        Error::Store {
+            kind: StoreKind::Disk,
+            message,
+        } => Error::store(
+            StoreKind::Disk,
+            format!(
+                "could not write the ledger file ({message}): the disk is full or the file is larger than this process may write; nothing was written, the ledger is as it was"
+            ),
+        ),
         _ => e,
     }
 }
@@ -353,15 +357,19 @@ mod tests {
 
     #[test]
     fn disk_errors_are_said_plainly() {
-        let e = disk_error(Error::Store(
-            "ledger database error: database or disk is full".into(),
+        let e = disk_error(Error::store(
+            StoreKind::Disk,
+            "ledger database error: database or disk is full",
         ));
         assert!(
             e.to_string()
                 .contains("the disk is full or the file is larger"),
             "{e}"
         );
-        let other = Error::Store("ledger database error: database is locked".into());
+        let other = Error::store(
+            StoreKind::Locked,
+            "ledger database error: database is locked",
+        );
         assert_eq!(disk_error(other.clone()), other);
     }
 }

@@ -126,7 +126,7 @@ impl Tx<'_> {
             super::postgres::lock_ledger_chain(c)?;
         }
         let row = Hash::from_hex(row)
-            .ok_or_else(|| Error::Store(format!("row hash {row:?} of a new row is not hex")))?;
+            .ok_or_else(|| Error::internal(format!("row hash {row:?} of a new row is not hex")))?;
         let tip: Option<(i64, String)> = ledger_chain::table
             .order(ledger_chain::seq.desc())
             .select((ledger_chain::seq, ledger_chain::chain_hash))
@@ -319,7 +319,7 @@ impl Tx<'_> {
                 let row = self
                     .linked_row(record, &k.project, &k.item)?
                     .ok_or_else(|| {
-                        Error::Store(format!(
+                        Error::internal(format!(
                             "{} vanished while linked",
                             record.describe(&k.project, &k.item)
                         ))

@@ -211,9 +211,8 @@ impl Tx<'_> {
         let mut injected = Mass::ZERO;
         for r in rows {
             let day = |v: &str| {
-                parse_date(v).map_err(|e| {
-                    Error::Inconsistent(format!("project {project}: period date {v:?} {e}"))
-                })
+                parse_date(v)
+                    .map_err(|e| Error::entry(project, None, format!("period date {v:?} {e}")))
             };
             let period = Period {
                 from: day(&r.period_from)?,
@@ -227,8 +226,7 @@ impl Tx<'_> {
 
 /// A row decoded and checked against its own leaf hash.
 fn checked(project: &str, r: &EntryRow) -> Result<SealedEntry> {
-    let bad =
-        |what: String| Error::Inconsistent(format!("project {project} seq {}: {what}", r.seq));
+    let bad = |what: String| Error::entry(project, Some(r.seq), what);
     let s = r.to_sealed().map_err(bad)?;
     if leaf_hash(&encode(&s.entry)) != s.leaf {
         return Err(bad("its fields differ from its leaf hash".into()));

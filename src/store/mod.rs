@@ -157,14 +157,14 @@ fn read_back(project: &str, rows: &[EntryRow]) -> Result<Vec<SealedEntry>> {
     rows.iter()
         .map(|r| {
             r.to_sealed()
-                .map_err(|what| inconsistent(format!("project {project} seq {}: {what}", r.seq)))
+                .map_err(|what| Error::entry(project, Some(r.seq), what))
         })
         .collect()
 }
 
 /// A stored row that no longer reads back is a sign of tampering or corruption.
 fn inconsistent(what: String) -> Error {
-    Error::Inconsistent(what)
+    Error::ledger(what)
 }
 
 impl Tx<'_> {
@@ -174,7 +174,7 @@ impl Tx<'_> {
             .select(ProjectRow::as_select())
             .load(self.conn)?;
         rows.iter()
-            .map(|r| r.to_project().map_err(inconsistent))
+            .map(|r| r.to_project().map_err(Error::ledger))
             .collect()
     }
 
@@ -185,7 +185,7 @@ impl Tx<'_> {
             .select(ProjectRow::as_select())
             .first(self.conn)
             .optional()?;
-        row.map(|r| r.to_project().map_err(inconsistent))
+        row.map(|r| r.to_project().map_err(Error::ledger))
             .transpose()
     }
 
@@ -205,7 +205,7 @@ impl Tx<'_> {
             .select(SiteRow::as_select())
             .load(self.conn)?;
         rows.iter()
-            .map(|r| r.to_site().map_err(inconsistent))
+            .map(|r| r.to_site().map_err(Error::ledger))
             .collect()
     }
 
@@ -215,7 +215,7 @@ impl Tx<'_> {
             .select(SiteRow::as_select())
             .first(self.conn)
             .optional()?;
-        row.map(|r| r.to_site().map_err(inconsistent)).transpose()
+        row.map(|r| r.to_site().map_err(Error::ledger)).transpose()
     }
 
     pub fn add_site(&mut self, s: &Site) -> Result<()> {
@@ -257,9 +257,8 @@ impl Tx<'_> {
         self.seal_entries(project)?
             .iter()
             .map(|s| {
-                crate::ledger::seal::Seal::from_entry(&s.entry).map_err(|what| {
-                    inconsistent(format!("project {project} seq {}: {what}", s.entry.seq))
-                })
+                crate::ledger::seal::Seal::from_entry(&s.entry)
+                    .map_err(|what| Error::entry(project, Some(s.entry.seq as i64), what))
             })
             .collect()
     }
@@ -275,7 +274,7 @@ impl Tx<'_> {
             .select(rows::SignatureRow::as_select())
             .load(self.conn)?;
         rows.iter()
-            .map(|r| r.to_statement().map_err(inconsistent))
+            .map(|r| r.to_statement().map_err(Error::ledger))
             .collect()
     }
 
@@ -295,7 +294,8 @@ impl Tx<'_> {
             .select(EntryRow::as_select())
             .first(self.conn)
             .optional()?;
-        row.map(|r| r.to_sealed().map_err(inconsistent)).transpose()
+        row.map(|r| r.to_sealed().map_err(Error::ledger))
+            .transpose()
     }
 
     /// The seq the next entry takes and the chain head it links to. In a write on the registry
@@ -312,9 +312,7 @@ impl Tx<'_> {
             None => Ok((0, Hash::GENESIS)),
             Some((seq, chain)) => {
                 let head = Hash::from_hex(&chain).ok_or_else(|| {
-                    inconsistent(format!(
-                        "project {project} seq {seq}: chain_hash is not a SHA-256 hex digest"
-                    ))
+                    Error::entry(project, Some(seq), "chain_hash is not a SHA-256 hex digest")
                 })?;
                 Ok((seq as u64 + 1, head))
             }
@@ -409,7 +407,7 @@ impl Tx<'_> {
             .select(SettingRow::as_select())
             .load(self.conn)?;
         rows.iter()
-            .map(|r| r.to_setting().map_err(inconsistent))
+            .map(|r| r.to_setting().map_err(Error::ledger))
             .collect()
     }
 

@@ -2,7 +2,7 @@
 //! connection needs, the embedded migrations, and the lock that keeps each project's chain whole.
 
 use super::Wait;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use diesel::connection::SimpleConnection;
 use diesel::pg::PgConnection;
 use diesel::prelude::*;
@@ -19,7 +19,7 @@ pub fn url(db: &Path) -> Option<&str> {
 }
 
 fn store_error(url: &str, e: impl std::fmt::Display) -> Error {
-    Error::Store(format!("registry {url}: {e}"))
+    Error::store(StoreKind::Connection, format!("registry {url}: {e}"))
 }
 
 #[derive(QueryableByName)]
@@ -58,9 +58,10 @@ fn migrate(url: &str, conn: &mut PgConnection) -> Result<()> {
 pub fn open(url: &str, wait: Wait) -> Result<PgConnection> {
     let mut conn = connect(url, wait)?;
     if !is_registry(url, &mut conn)? {
-        return Err(Error::Refused(format!(
-            "{url} holds no sinkbook registry (create it with `sinkbook init --db {url}`)"
-        )));
+        return Err(Error::store(
+            StoreKind::NotALedger,
+            format!("{url} holds no sinkbook registry (create it with `sinkbook init --db {url}`)"),
+        ));
     }
     // The owner migrates; an application role may create nothing, and reads and writes the
     // tables as the owner left them.

@@ -221,6 +221,7 @@ impl EntryRow {
             evidence,
             recorded_by: self.recorded_by.clone(),
         };
+        crate::ledger::reading_fields::check(&entry.reading).map_err(|e| e.to_string())?;
         Ok(SealedEntry {
             entry,
             leaf: hash("leaf_hash", &self.leaf_hash)?,

@@ -135,9 +135,7 @@ impl Tx<'_> {
                 Err(e) => return Err(e.into()),
             };
             last_seq = Some(row.seq);
-            let bad = |what: String| {
-                Error::Inconsistent(format!("project {project} seq {}: {what}", row.seq))
-            };
+            let bad = |what: String| Error::entry(project, Some(row.seq), what);
             let sealed = row.to_sealed().map_err(bad)?;
             let target = Target {
                 kind: target_kind
@@ -150,7 +148,7 @@ impl Tx<'_> {
             };
             let corrected_kind = target.kind;
             walk.step(&sealed, target)
-                .map_err(|finding| Error::Inconsistent(finding.to_string()))?;
+                .map_err(|finding| Error::ledger(finding.to_string()))?;
             let replaced = match (corrected_kind, t_grams, t_reading) {
                 (Some(kind), Some(g), Some(r)) => {
                     let reading = serde_json::from_str(&r).map(Reading).map_err(|e| {
@@ -204,14 +202,14 @@ impl Tx<'_> {
             .optional()
             .ok()
             .flatten();
-        let at = match (seq, after) {
-            (Some(s), _) => format!("seq {s}"),
-            (None, Some(a)) => format!("the row after seq {a}"),
-            (None, None) => "its first row".to_string(),
-        };
-        Error::Inconsistent(format!(
-            "project {project} {at}: a stored field does not decode ({e})"
-        ))
+        let what = format!("a stored field does not decode ({e})");
+        match (seq, after) {
+            (Some(_), _) => Error::entry(project, seq, what),
+            (None, Some(a)) => {
+                Error::entry(project, None, format!("the row after seq {a}: {what}"))
+            }
+            (None, None) => Error::entry(project, None, format!("its first row: {what}")),
+        }
     }
 }
 

@@ -1,7 +1,7 @@
 //! How long a writer waits for another writer to finish (`--wait`): SQLite's busy timeout and
 //! PostgreSQL's lock timeout, and the words the command gives up with when the wait runs out.
 
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, StoreKind};
 use std::fmt;
 use std::time::Duration;
 
@@ -48,9 +48,12 @@ impl Wait {
 
     /// The refusal when another writer held the ledger past the wait; nothing was written.
     pub fn ran_out(self) -> Error {
-        Error::Store(format!(
-            "waited {self} for another writer to finish, and it still holds the ledger; nothing was written (try again, or wait longer with --wait, e.g. --wait 10m)"
-        ))
+        Error::store(
+            StoreKind::Locked,
+            format!(
+                "waited {self} for another writer to finish, and it still holds the ledger; nothing was written (try again, or wait longer with --wait, e.g. --wait 10m)"
+            ),
+        )
     }
 }
 
@@ -104,7 +107,7 @@ mod tests {
         ] {
             let e = Wait::parse(bad).unwrap_err();
             assert!(
-                matches!(&e, Error::Refused(m) if m.starts_with(&format!("--wait {bad:?}: "))),
+                matches!(&e, Error::Input { field, value: Some(v), .. } if field == "--wait" && v == bad),
                 "{bad}: {e}"
             );
         }

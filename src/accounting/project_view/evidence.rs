@@ -11,27 +11,28 @@ use crate::accounting::weathering::composition::{
 };
 use crate::ledger::feedstock::Feedstock;
 use crate::ledger::{Entry, Reading};
+use crate::quantity::Decimal;
 use crate::quantity::mass::grams_of_f64;
 use crate::quantity::measure::{DENSITY, parse_depth, parse_measure};
-use crate::quantity::{Decimal, MassReading};
 
 type Decoded<T> = Result<T, String>;
 
-fn field<'a>(r: &'a Reading, name: &str) -> Decoded<&'a str> {
-    r.get(name)
+fn field<'a>(r: &'a Reading, name: &'static str) -> Decoded<&'a str> {
+    r.text(name)
         .ok_or_else(|| format!("reading has no {name} field"))
 }
 
-fn decimal(r: &Reading, name: &str) -> Decoded<f64> {
-    let v = field(r, name)?;
-    Decimal::parse(v)
-        .map(|d| d.to_f64())
-        .map_err(|err| format!("{name} {v:?}: {err}"))
+fn decimal(r: &Reading, name: &'static str) -> Decoded<f64> {
+    r.number(name)
+        .map_err(|e| e.to_string())?
+        .ok_or_else(|| format!("reading has no {name} field"))
 }
 
-fn grams(r: &Reading, name: &str) -> Decoded<i64> {
-    let m = MassReading::parse(field(r, name)?).map_err(|e| e.to_string())?;
-    Ok(m.to_mass().map_err(|e| e.to_string())?.grams())
+fn grams(r: &Reading, name: &'static str) -> Decoded<i64> {
+    r.grams(name)
+        .map_err(|e| e.to_string())?
+        .map(|m| m.grams())
+        .ok_or_else(|| format!("reading has no {name} field"))
 }
 
 fn undecodable(e: &Entry, what: String) -> ViewError {
@@ -86,10 +87,7 @@ pub fn batch_of(e: &Entry) -> Result<Batch, ViewError> {
             Ok(Carbonation::Uptake { .. }) => 0,
             Err(why) => return Err(why.to_string()),
         };
-        let rel_u = r
-            .get("uncertainty")
-            .map(|_| decimal(r, "uncertainty"))
-            .transpose()?;
+        let rel_u = r.uncertainty().map_err(|e| e.to_string())?;
         Ok(Batch {
             fed_g,
             product_g,
@@ -126,7 +124,7 @@ pub fn core_of(e: &Entry) -> Result<Core, ViewError> {
             .ok_or_else(|| format!("conc_unit {unit_text:?} is not a concentration unit"))?;
         let values: Vec<(String, f64)> = SOIL_ELEMENTS
             .iter()
-            .filter(|s| r.get(s).is_some())
+            .filter(|s| r.flag(s))
             .map(|s| decimal(r, s).map(|v| (s.to_string(), v)))
             .collect::<Decoded<_>>()?;
         Ok(Core {
@@ -136,7 +134,7 @@ pub fn core_of(e: &Entry) -> Result<Core, ViewError> {
             depth,
             bulk_density: rho.base,
             analysis: SoilAnalysis::new(&values, unit).map_err(|e| e.to_string())?,
-            baseline: r.get("baseline").is_some(),
+            baseline: r.flag("baseline"),
         })
     };
     read().map_err(|w| undecodable(e, w))

@@ -78,7 +78,7 @@ impl ProjectFigures {
     pub fn carbonation_findings(&self) -> impl Iterator<Item = (&Entry, &str)> {
         self.view.batches.iter().filter_map(|&(i, _)| {
             let e = &self.view.entries[i];
-            e.reading.get("finding").map(|f| (e, f))
+            e.reading.text("finding").map(|f| (e, f))
         })
     }
 }

@@ -4,7 +4,7 @@
 //! docs/uncertainty.md gives the formulas.
 
 use super::ProjectFigures;
-use crate::accounting::uncertainty::{Reading, sum_readings};
+use crate::accounting::uncertainty::{MeteredMass as Reading, sum_readings};
 use crate::ledger::Method;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::quantity::Mass;

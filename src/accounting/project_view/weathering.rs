@@ -6,8 +6,8 @@
 
 use super::{ProjectFigures, ViewError};
 use crate::accounting::weathering::campaign::{
-    CampaignLine, DissolutionMethod, Emission, Field, Inputs, Reading, RollupLine, Settings,
-    campaigns, rollup,
+    CampaignLine, CampaignResult as Reading, DissolutionMethod, Emission, Field, Inputs,
+    RollupLine, Settings, campaigns, rollup,
 };
 use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions, RemovalError};

@@ -414,6 +414,8 @@ fn entry_value(line: Line, project: &str) -> Result<SealedEntry, String> {
     if leaf_now != leaf_stored {
         return Err(format!("entry seq {seq} differs from its leaf_hash"));
     }
+    crate::ledger::reading_fields::check(&entry.reading)
+        .map_err(|e| format!("entry seq {seq}: {e}"))?;
     Ok(SealedEntry {
         entry,
         leaf: leaf_stored,

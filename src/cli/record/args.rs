@@ -1,7 +1,9 @@
 //! The options of `record`: one subcommand per entry kind, and the quantity and reading options
 //! they share.
 
-use crate::accounting::metering::{Basis, MeterInput};
+use crate::accounting::metering::{Basis, Measured, MeterInput, measure};
+use crate::cli::inputs;
+use crate::error::Result;
 use crate::quantity::volume::DensityMethod;
 use clap::{Args, Subcommand, ValueEnum};
 
@@ -68,6 +70,11 @@ impl From<DensityArg> for DensityMethod {
 impl QuantityArgs {
     pub(super) fn is_given(&self) -> bool {
         self.mass.is_some() || self.volume.is_some()
+    }
+
+    /// The quantity options as a reading and grams; a refusal names the option.
+    pub(super) fn measure(&self) -> Result<Measured> {
+        measure(&self.input()).map_err(inputs::meter_error)
     }
 
     pub(super) fn input(&self) -> MeterInput<'_> {

@@ -2,8 +2,8 @@
 //! one write transaction, and the table of what was recorded.
 
 use crate::accounting::permit;
-use crate::cli::Context;
 use crate::cli::setup::known_project;
+use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
 use crate::ledger::seal::{Replaced, Seal, late_replaces};
@@ -68,18 +68,22 @@ pub(in crate::cli) fn commit_with(
         };
         within_limit(tally.magnitude, std::slice::from_ref(&entry)).map_err(|e| {
             let mass = entry.mass.to_string();
-            Error::field("--mass", entry.reading.get("mass").unwrap_or(&mass), e)
+            Error::field("--mass", entry.reading.text("mass").unwrap_or(&mass), e)
         })?;
         let holder = tx.entry_by_key(&entry.project, &entry.key)?;
         let tip = tx.chain_tip(&entry.project)?;
         let outcome =
             append(entry.clone(), site.as_ref(), tip, holder, rule).map_err(|e| match e {
                 AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
-                AppendError::NoSite { .. } => Error::Refused(e.to_string()),
+                AppendError::NoSite { .. } => Error::options("--site", format!("{e}: give --site")),
                 AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
                 AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
-                AppendError::Sealed(_) => Error::field("--from/--to", &entry.period.to_string(), e),
-                AppendError::OutOfBounds(b) => Error::Refused(b.to_string()),
+                AppendError::Sealed(s) => Error::field(
+                    "--from/--to",
+                    &entry.period.to_string(),
+                    crate::cli::sealed(&s),
+                ),
+                AppendError::OutOfBounds(b) => inputs::out_of_bounds(&b),
             })?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {
@@ -98,7 +102,7 @@ pub(in crate::cli) fn commit_with(
                     .filter(|_| s.entry.corrects.is_some())
                     .cloned()
                     .collect();
-                warnings = permit::check(&project, &standing, new, &gone, over_permit)?;
+                warnings = crate::cli::permit_check(&project, &standing, new, &gone, over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }

@@ -2,10 +2,11 @@
 //! belongs to its kind.
 
 use super::{DensityArg, QuantityArgs, commit_with, optional_text, period};
-use crate::accounting::metering::{Basis, assumed_fraction, measure};
+use crate::accounting::metering::{Basis, assumed_fraction};
 use crate::cli::setup::known_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
+use crate::ledger::reading_fields::{FractionBasis, checked};
 use crate::ledger::{Entry, EntryKind, Reading};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
@@ -64,8 +65,8 @@ const KIND_FIELDS: &[&str] = &[
 fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
     let mut q = given.clone();
     if !q.is_given() {
-        q.mass = was.get("mass").map(str::to_string);
-        q.volume = was.get("volume").map(str::to_string);
+        q.mass = was.text("mass").map(str::to_string);
+        q.volume = was.text("volume").map(str::to_string);
         if !q.is_given() {
             return Err(Error::field(
                 "--co2-fraction",
@@ -75,23 +76,25 @@ fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
         }
     }
     // An assumed fraction stays assumed: the correction states none either.
-    let fraction = was.get("co2_fraction").or(was.get("co2_fraction_mean"));
+    let fraction = was.text("co2_fraction").or(was.text("co2_fraction_mean"));
     let fraction = fraction.filter(|_| !assumed_fraction(was));
     q.co2_fraction = q.co2_fraction.or(fraction.map(str::to_string));
-    q.co2_basis = q.co2_basis.or(match was.get("co2_basis") {
-        Some("mol") => Some(Basis::Mol),
-        Some("mass") => Some(Basis::Mass),
-        _ => None,
+    q.co2_basis = q.co2_basis.or(match checked(was.co2_basis()) {
+        Some(FractionBasis::Mol) => Some(Basis::Mol),
+        Some(FractionBasis::Mass) => Some(Basis::Mass),
+        None => None,
     });
-    q.density = q.density.or(match was.get("density_method") {
+    q.density = q.density.or(match was.density_method() {
         Some("regulatory") => Some(DensityArg::Regulatory),
         Some("eos") => Some(DensityArg::Eos),
         _ => None,
     });
     q.impurities = q
         .impurities
-        .or(was.get("impurities_mol").map(str::to_string));
-    q.uncertainty = q.uncertainty.or(was.get("uncertainty").map(str::to_string));
+        .or(was.text("impurities_mol").map(str::to_string));
+    q.uncertainty = q
+        .uncertainty
+        .or(was.text("uncertainty").map(str::to_string));
     Ok(q)
 }
 
@@ -227,7 +230,7 @@ fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
             ));
         }
         let q = restated(&a.quantity, &target.reading)?;
-        let m = measure(&q.input())?;
+        let m = q.measure()?;
         let mut reading = m.reading;
         for (n, v) in &target.reading.0 {
             if KIND_FIELDS.contains(&n.as_str()) {

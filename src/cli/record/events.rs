@@ -63,8 +63,9 @@ pub(super) fn reversal(a: ReversalArgs, ctx: &Context) -> Result<Entry> {
     reading.push("mass", m.to_string());
     match (&a.site, &a.pathway) {
         (None, None) => {
-            return Err(Error::Refused(
-                "say where the CO2 was lost: --site, --pathway or both".into(),
+            return Err(Error::options(
+                "--site",
+                "say where the CO2 was lost: --site, --pathway or both",
             ));
         }
         (_, Some(p)) => {

@@ -1,13 +1,14 @@
 //! `record leakage`: a metered or rated leak, backdated to the last clean survey when its start
 //! is unknown.
 
-use super::{LeakageArgs, RecordArgs, commit, draft, required};
+use super::{LeakageArgs, RecordArgs, commit_with, draft, required};
 use crate::accounting::leakage;
-use crate::accounting::metering::measure;
 use crate::cli::setup::known_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
+use crate::ledger::reading_fields::{SurveyFinding, checked};
 use crate::ledger::{Entry, EntryKind, Period, Reading};
+use crate::quantity::Mass;
 use crate::report::Report;
 use crate::store::Tx;
 use chrono::NaiveDate;
@@ -26,82 +27,101 @@ pub(super) fn leakage_record(ctx: &Context, a: LeakageArgs) -> Result<Report> {
         required(&b.reading.to, "--to")?,
         ctx.now.date_naive(),
     )?;
-    let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
-    let from = match (&b.reading.from, a.since_last_survey) {
-        (Some(_), true) => {
-            return Err(Error::Refused(
-                "give --from or --since-last-survey, not both".into(),
-            ));
-        }
-        (Some(f), false) => inputs::activity_date("--from", f, ctx.now.date_naive())?,
-        (None, true) => {
-            let surveyed = match &a.site {
-                Some(site) => Surveyed::Site(site),
-                None => Surveyed::Pathway(&a.pathway),
-            };
-            let (survey, injection) = ctx
-                .open()?
-                .read(|tx| leak_bounds(tx, &b.project, surveyed, to))?;
-            let start = leakage::unknown_leak_start(survey, injection).ok_or_else(|| {
-                Error::field(
-                    "--since-last-survey",
-                    surveyed.name(),
-                    format!(
-                        "no survey of this {} up to {to} found no leak and no injection is recorded: give --from",
-                        surveyed.what()
-                    ),
-                )
-            })?;
-            if start.day() > to {
-                return Err(Error::field(
-                    "--to",
-                    &to.to_string(),
-                    format!(
-                        "injection began on {}: a leak of what was stored cannot end before it",
-                        start.day()
-                    ),
-                ));
-            }
-            extra.push((start.field(), start.day().to_string()));
-            start.day()
-        }
-        (None, false) => {
-            return Err(Error::Refused(
-                "--from is required (or --since-last-survey)".into(),
-            ));
-        }
-    };
-    let period = Period::new(from, to).map_err(|e| Error::field("--to", &to.to_string(), e))?;
-    let (mut reading, mass) = match &a.rate {
-        Some(rate) => {
-            if b.reading.quantity.is_given() {
-                return Err(Error::Refused(
-                    "give --rate or a quantity (--mass/--volume), not both".into(),
-                ));
-            }
-            let r = leakage::LeakRate::parse(rate).map_err(|e| Error::field("--rate", rate, e))?;
-            let mass = r
-                .emitted(period)
-                .map_err(|e| Error::field("--rate", rate, e))?;
-            let mut reading = Reading::default();
-            reading.push("rate", r.to_string());
-            reading.push("days", period.days().to_string());
-            reading.push(
-                "method",
-                "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
-            );
-            (reading, mass)
-        }
-        None => {
-            let m = measure(&b.reading.quantity.input())?;
-            (m.reading, m.mass)
-        }
-    };
-    for (n, v) in extra {
-        reading.push(n, v);
+    if a.rate.is_some() && b.reading.quantity.is_given() {
+        return Err(Error::options(
+            "--rate",
+            "give --rate or a quantity (--mass/--volume), not both",
+        ));
     }
-    let entry = draft(EntryKind::Leakage, b, reading, mass, period, ctx)?;
-    commit(ctx, entry, b.reading.key.clone(), false)
+    let given_from = match (&b.reading.from, a.since_last_survey) {
+        (Some(_), true) => {
+            return Err(Error::options(
+                "--from",
+                "give --from or --since-last-survey, not both",
+            ));
+        }
+        (Some(f), false) => Some(inputs::activity_date("--from", f, ctx.now.date_naive())?),
+        (None, true) => None,
+        (None, false) => {
+            return Err(Error::options(
+                "--from",
+                "--from is required (or --since-last-survey)",
+            ));
+        }
+    };
+    // The last survey is read in the transaction that appends, so the start it gives is the
+    // one the ledger holds when the leak is written.
+    commit_with(ctx, b.reading.key.clone(), false, |tx| {
+        let mut extra: Vec<(&str, String)> = vec![("pathway", a.pathway.clone())];
+        let from = match given_from {
+            Some(from) => from,
+            None => {
+                let start = since_last_survey(tx, &a, to)?;
+                extra.push((start.field(), start.day().to_string()));
+                start.day()
+            }
+        };
+        let period = Period::new(from, to).map_err(|e| Error::field("--to", &to.to_string(), e))?;
+        let (mut reading, mass) = leak_quantity(&a, b, period)?;
+        for (n, v) in extra {
+            reading.push(n, v);
+        }
+        draft(EntryKind::Leakage, b, reading, mass, period, ctx)
+    })
+}
+
+/// `--since-last-survey`: the day an unknown leak is taken to start from, read in `tx`.
+fn since_last_survey(
+    tx: &mut Tx<'_>,
+    a: &LeakageArgs,
+    to: NaiveDate,
+) -> Result<leakage::LeakStart> {
+    let surveyed = match &a.site {
+        Some(site) => Surveyed::Site(site),
+        None => Surveyed::Pathway(&a.pathway),
+    };
+    let (survey, injection) = leak_bounds(tx, &a.project, surveyed, to)?;
+    let start = leakage::unknown_leak_start(survey, injection).ok_or_else(|| {
+        Error::field(
+            "--since-last-survey",
+            surveyed.name(),
+            format!(
+                "no survey of this {} up to {to} found no leak and no injection is recorded: give --from",
+                surveyed.what()
+            ),
+        )
+    })?;
+    if start.day() > to {
+        return Err(Error::field(
+            "--to",
+            &to.to_string(),
+            format!(
+                "injection began on {}: a leak of what was stored cannot end before it",
+                start.day()
+            ),
+        ));
+    }
+    Ok(start)
+}
+
+/// A leak's reading and grams: from `--rate` over the period's days, or a measured quantity.
+fn leak_quantity(a: &LeakageArgs, b: &RecordArgs, period: Period) -> Result<(Reading, Mass)> {
+    let Some(rate) = &a.rate else {
+        let m = b.reading.quantity.measure()?;
+        return Ok((m.reading, m.mass));
+    };
+    let r = leakage::LeakRate::parse(rate).map_err(|e| Error::field("--rate", rate, e))?;
+    let mass = r
+        .emitted(period)
+        .map_err(|e| Error::field("--rate", rate, e))?;
+    let mut reading = Reading::default();
+    reading.push("rate", r.to_string());
+    reading.push("days", period.days().to_string());
+    reading.push(
+        "method",
+        "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
+    );
+    Ok((reading, mass))
 }
 
 /// What a leak's last no-leak survey is looked for by: its site, or, for a leak at no site of
@@ -129,7 +149,7 @@ impl Surveyed<'_> {
     fn covers(&self, survey: &Entry) -> bool {
         match self {
             Surveyed::Site(s) => survey.site == *s,
-            Surveyed::Pathway(p) => survey.reading.get("pathway") == Some(p),
+            Surveyed::Pathway(p) => survey.reading.pathway() == Some(p),
         }
     }
 }
@@ -150,7 +170,7 @@ fn leak_bounds(
             EntryKind::Survey
                 if surveyed.covers(e)
                     && e.period.to <= to
-                    && e.reading.get("result") == Some("no-leak") =>
+                    && checked(e.reading.survey_finding()) == Some(SurveyFinding::NoLeak) =>
             {
                 survey = survey.max(Some(e.period.to));
             }

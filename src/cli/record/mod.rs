@@ -11,7 +11,6 @@ pub(super) use commit::{commit, commit_with, replaced, standing};
 pub use correct::{CorrectArgs, correct};
 
 use super::{Context, inputs};
-use crate::accounting::metering::measure;
 use crate::error::{Error, Result};
 use crate::ledger::{Entry, EntryKind, Period, Reading};
 use crate::quantity::Mass;
@@ -29,7 +28,7 @@ pub(super) fn period(from: &str, to: &str, today: NaiveDate) -> Result<Period> {
 
 pub(super) fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str> {
     v.as_deref()
-        .ok_or_else(|| Error::Refused(format!("{field} is required (ISO 8601 date)")))
+        .ok_or_else(|| Error::options(field, format!("{field} is required (ISO 8601 date)")))
 }
 
 fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
@@ -74,7 +73,7 @@ pub(super) fn metered(
     extra: &[(&str, String)],
     ctx: &Context,
 ) -> Result<Entry> {
-    let m = measure(&b.reading.quantity.input())?;
+    let m = b.reading.quantity.measure()?;
     let mut reading = m.reading;
     for (n, v) in extra {
         reading.push(n, v.clone());

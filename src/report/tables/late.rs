@@ -1,6 +1,7 @@
 //! The late-adjustments table: entries recorded after the period they cover was sealed.
 
 use crate::ledger::Entry;
+use crate::ledger::reading_fields::checked;
 use crate::ledger::seal::{late_for, late_replaces};
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
@@ -29,7 +30,8 @@ pub fn late_table<'a>(entries: impl IntoIterator<Item = (&'a str, &'a Entry)>) -
         let Some(sealed) = late_for(e) else {
             continue;
         };
-        let day = |name: &str| e.reading.get(name).map_or(Cell::Empty, Cell::text);
+        let day =
+            |name| checked(e.reading.day(name)).map_or(Cell::Empty, |d| Cell::text(d.to_string()));
         t.push(vec![
             Cell::text(project),
             Cell::Int(e.seq as i64),

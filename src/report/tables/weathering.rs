@@ -4,7 +4,9 @@
 use crate::accounting::project_view::{
     CampaignTotal, EmissionsInScope, ProjectFigures, campaign_total, default_settings,
 };
-use crate::accounting::weathering::campaign::{CampaignLine, DissolutionMethod, Reading, Settings};
+use crate::accounting::weathering::campaign::{
+    CampaignLine, CampaignResult, DissolutionMethod, Settings,
+};
 use crate::accounting::weathering::removal::Deductions;
 use crate::error::Result;
 use crate::ledger::Project;
@@ -91,7 +93,7 @@ pub fn campaign_table(
             l.rate_t_per_ha.map_or(Cell::Empty, |r| Cell::Number(r, 1)),
         ];
         match &l.reading {
-            Reading::Resolved(r) => {
+            CampaignResult::Resolved(r) => {
                 row.extend([
                     r.found_t_per_ha.map_or(Cell::Empty, |f| Cell::Number(f, 1)),
                     Cell::Tonnes(l.potential),
@@ -101,7 +103,7 @@ pub fn campaign_table(
                 row.extend(r.removal.deducted.map(|(_, m)| Cell::Tonnes(m)));
                 row.extend([Cell::Tonnes(l.emissions), Cell::Tonnes(r.net), Cell::Empty]);
             }
-            Reading::Finding(why) => {
+            CampaignResult::Finding(why) => {
                 let short = why.split(':').next().unwrap_or(why).to_string();
                 findings.push(format!("{} {}: {why}", l.field, l.date));
                 row.extend([Cell::Empty, Cell::Tonnes(l.potential), Cell::text(short)]);

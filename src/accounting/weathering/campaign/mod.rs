@@ -102,7 +102,7 @@ pub struct Emission<'a> {
 
 /// What a campaign's cores say.
 #[derive(Debug, Clone, PartialEq)]
-pub enum Reading {
+pub enum CampaignResult {
     Resolved(Resolved),
     /// No number: why, in words a person can act on.
     Finding(String),
@@ -153,7 +153,7 @@ pub struct CampaignLine {
     pub potential: Mass,
     /// Emissions recorded at the field whose periods ended by the campaign.
     pub emissions: Mass,
-    pub reading: Reading,
+    pub reading: CampaignResult,
 }
 
 impl CampaignLine {
@@ -163,7 +163,7 @@ impl CampaignLine {
 
     /// The same campaign with other deduction parameters: gross stays, removal and net follow.
     pub fn deduct(&mut self, deductions: &Deductions) -> Result<(), RemovalError> {
-        if let Reading::Resolved(r) = &mut self.reading {
+        if let CampaignResult::Resolved(r) = &mut self.reading {
             r.removal = removal(r.gross.total, deductions)?;
             let whole_gross = if r.dissolved_fraction > 0.0 {
                 r.gross.total.scale(1.0 / r.dissolved_fraction)
@@ -359,10 +359,10 @@ fn campaign(
         rate_t_per_ha: area_m2.map(|a| applied_t / (a / 1e4)),
         potential: Mass::ZERO,
         emissions,
-        reading: Reading::Finding(String::new()),
+        reading: CampaignResult::Finding(String::new()),
     };
     let Some(feedstock) = feedstock else {
-        line.reading = Reading::Finding(if codes.is_empty() {
+        line.reading = CampaignResult::Finding(if codes.is_empty() {
             format!("no feedstock applied to {field} before {date}")
         } else {
             format!(
@@ -394,7 +394,7 @@ fn read_soil(
     applied_t: f64,
     area_m2: Option<f64>,
     emissions: Mass,
-) -> Result<Reading, CampaignError> {
+) -> Result<CampaignResult, CampaignError> {
     let (soil, rho_s) = composite(base_cores);
     let soil = EndMember {
         analysis: soil_analysis(&soil, &core_name(base_cores), s)?,
@@ -404,7 +404,7 @@ fn read_soil(
     let sample = soil_analysis(&sample, &core_name(cores), s)?;
     let feed = feedstock_member(feedstock, s)?;
     if base_cores[0].depth != cores[0].depth {
-        return Ok(Reading::Finding(format!(
+        return Ok(CampaignResult::Finding(format!(
             "sampled over {}–{} m, the baseline over {}–{} m: cores must cover the same depth",
             cores[0].depth.top_m,
             cores[0].depth.bottom_m,
@@ -418,7 +418,7 @@ fn read_soil(
         DissolutionMethod::Tau => bulk_tau(soil, feed, sample, applied_t, area_m2, thickness),
     };
     Ok(match dissolve(soil, sample) {
-        Err(why) => Reading::Finding(why),
+        Err(why) => CampaignResult::Finding(why),
         Ok((f, found_t_per_ha)) => {
             let cations: Vec<_> = feedstock
                 .analysis
@@ -432,7 +432,7 @@ fn read_soil(
                 let whole = removal(gross_co2(1.0, applied_t, &cations)?.total, &s.deductions)?;
                 removal(g.total, &s.deductions).map(|r| (g, r, whole.net))
             }) {
-                Ok((gross, removal, removal_whole)) => Reading::Resolved(Resolved {
+                Ok((gross, removal, removal_whole)) => CampaignResult::Resolved(Resolved {
                     dissolved_fraction: f,
                     found_t_per_ha,
                     net: removal.net - emissions,
@@ -441,7 +441,7 @@ fn read_soil(
                     spread,
                     removal_whole,
                 }),
-                Err(e) => Reading::Finding(e.to_string()),
+                Err(e) => CampaignResult::Finding(e.to_string()),
             }
         }
     })

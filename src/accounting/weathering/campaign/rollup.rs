@@ -1,7 +1,7 @@
 //! The campaigns credited period by period: each brings the change since its field's previous
 //! campaign.
 
-use super::{Application, CampaignLine, Emission, Reading};
+use super::{Application, CampaignLine, CampaignResult, Emission};
 use crate::accounting::uncertainty::{self, Estimate, Term, TermSign};
 use crate::accounting::weathering::removal::Deduction;
 use crate::ledger::period::{Bucket, Grouping, apportion};
@@ -65,7 +65,7 @@ pub fn rollup(
     let exact = |m: Mass| Estimate::absolute(m, Mass::ZERO);
     let mut last: BTreeMap<&str, (Mass, [Mass; 4], Estimate)> = BTreeMap::new();
     for l in lines {
-        let Reading::Resolved(r) = &l.reading else {
+        let CampaignResult::Resolved(r) = &l.reading else {
             continue;
         };
         let b = grouping.bucket(l.date);

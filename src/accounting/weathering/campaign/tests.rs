@@ -85,8 +85,8 @@ fn read(apps: &[Application], cores: &[Core], emissions: &[Emission<'_>]) -> Vec
 
 fn finding(l: &CampaignLine) -> &str {
     match &l.reading {
-        Reading::Finding(w) => w,
-        Reading::Resolved(r) => panic!("resolved: {r:?}"),
+        CampaignResult::Finding(w) => w,
+        CampaignResult::Resolved(r) => panic!("resolved: {r:?}"),
     }
 }
 
@@ -111,8 +111,8 @@ fn campaigns_restate_and_rollup_credits_the_change() {
     }];
     let lines = read(&apps, &cores, &emissions);
     let resolved = |l: &CampaignLine| match &l.reading {
-        Reading::Resolved(r) => r.clone(),
-        Reading::Finding(w) => panic!("{w}"),
+        CampaignResult::Resolved(r) => r.clone(),
+        CampaignResult::Finding(w) => panic!("{w}"),
     };
     let (r1, r2) = (resolved(&lines[0]), resolved(&lines[1]));
     assert!((r1.dissolved_fraction - 0.1).abs() < 1e-9);
@@ -146,8 +146,8 @@ fn replicate_cores_spread_and_baseline_replicates_add_in_quadrature() {
         let mut all = baseline.to_vec();
         all.extend(sampled.iter().cloned());
         match &read(&apps, &all, &[])[0].reading {
-            Reading::Resolved(r) => r.spread.clone(),
-            Reading::Finding(w) => panic!("{w}"),
+            CampaignResult::Resolved(r) => r.spread.clone(),
+            CampaignResult::Finding(w) => panic!("{w}"),
         }
     };
     let one = spread_of(&[core(0, "2025-03-01", 0.15, 0.075, true, 0.2)]).unwrap();
@@ -173,12 +173,12 @@ fn replicate_cores_spread_and_baseline_replicates_add_in_quadrature() {
         core(2, "2025-10-01", ca, ti, false, 0.2),
     ];
     match &read(&apps, &single, &[])[0].reading {
-        Reading::Resolved(r) => assert!(
+        CampaignResult::Resolved(r) => assert!(
             r.spread.as_ref().unwrap_err().contains("one core"),
             "{:?}",
             r.spread
         ),
-        Reading::Finding(w) => panic!("{w}"),
+        CampaignResult::Finding(w) => panic!("{w}"),
     }
 }
 
