@@ -20,7 +20,7 @@ pub const DEFAULT_HORIZON_YEARS: f64 = 100.0;
 
 /// The relative uncertainty (95 %) of an entry: its own, else the latest calibration of its site
 /// (and meter) on or before the period's start, else the site's; None where nothing is stated.
-pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[&Entry]) -> Option<f64> {
+pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[Entry]) -> Option<f64> {
     let parse = |s: &str| s.parse::<f64>().ok();
     if let Some(u) = e.reading.get("uncertainty").and_then(parse) {
         return Some(u);

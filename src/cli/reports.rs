@@ -144,7 +144,7 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }
-    if let Some(t) = super::late::late_table(figures.entries().map(|e| (a.project.as_str(), e))) {
+    if let Some(t) = super::late::late_table(figures.listed().map(|e| (a.project.as_str(), e))) {
         report = report.table(t);
     }
     Ok(report)
@@ -164,7 +164,7 @@ fn geological_balance(
         BalanceMethod::Rr => rr_table(project, &lines, &by),
         BalanceMethod::Iso27916 => iso_table(project, &lines, &by),
     };
-    permit_notes(&mut t, project, &lines, figures.entries());
+    permit_notes(&mut t, project, &lines, figures.over_permit());
     t.note("Entries spanning periods are split by days. Project emissions are reported beside storage, not deducted from it; the claims deduct them.");
     t.note(uncertainty_note(figures));
     let (assumed, n) = figures.on_assumed_fraction();
@@ -178,10 +178,10 @@ fn geological_balance(
         ));
     }
     let mut report = Report::default().table(t);
-    if let Some(l) = leakage_table(project, figures.entries()) {
+    if let Some(l) = leakage_table(project, figures.listed()) {
         report = report.table(l);
     }
-    if let Some(r) = reversals_table(project, figures.entries()) {
+    if let Some(r) = reversals_table(project, figures.listed()) {
         report = report.table(r);
     }
     claims_tables(figures, a.method, deduction, report)
@@ -319,12 +319,7 @@ fn iso_table(project: &Project, lines: &[BalanceLine], by: &str) -> Table {
 }
 
 /// Flags a permit exceeded, whether by the figures or by a record made with --over-permit.
-fn permit_notes<'a>(
-    t: &mut Table,
-    project: &Project,
-    lines: &[BalanceLine],
-    entries: impl Iterator<Item = &'a Entry>,
-) {
+fn permit_notes(t: &mut Table, project: &Project, lines: &[BalanceLine], over_permit: &[u64]) {
     match (project.permit_capacity, lines.last()) {
         (Some(cap), Some(last)) if last.cumulative_stored > cap => t.note(format!(
             "PERMIT EXCEEDED: cumulative stored {} t is above the permitted capacity {} t.",
@@ -362,10 +357,7 @@ fn permit_notes<'a>(
             }
         }
     }
-    let over: Vec<String> = entries
-        .filter(|e| e.reading.get("over_permit").is_some())
-        .map(|e| e.seq.to_string())
-        .collect();
+    let over: Vec<String> = over_permit.iter().map(u64::to_string).collect();
     if !over.is_empty() {
         t.note(format!(
             "Recorded over the permit (--over-permit): seq {}.",

@@ -149,7 +149,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let late = super::late::late_table(
         views
             .iter()
-            .flat_map(|v| v.entries().map(move |e| (v.project().code.as_str(), e))),
+            .flat_map(|v| v.listed().map(move |e| (v.project().code.as_str(), e))),
     );
     let mut report = Report::default().table(t);
     if let Some(l) = late {

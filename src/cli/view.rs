@@ -1,10 +1,10 @@
 //! A project's entries fed to the pure view inside the command's transaction: the one place a
-//! command turns stored rows into the figures every report reads.
+//! command turns stored rows into the figures every report reads. The rows stream: each is
+//! decoded and checked as the walk reads it, folded, and dropped.
 
 use super::setup::known_project;
 use crate::accounting::project_view::{ProjectFigures, ProjectView, Registrations};
 use crate::error::Result;
-use crate::ledger::correction::effective;
 use crate::store::Tx;
 use chrono::{DateTime, NaiveDate, Utc};
 
@@ -31,17 +31,21 @@ pub fn load_through(
     settings.retain(|s| held(s.recorded_at));
     let mut feedstocks = tx.feedstocks(code)?;
     feedstocks.retain(|f| held(f.registered_at));
-    let mut view = ProjectView::new(Registrations {
-        project,
-        sites,
-        settings,
-        feedstocks,
-    })?
-    .through(through);
-    let mut entries = tx.entries(code)?;
-    entries.retain(|s| held(s.entry.recorded_at));
-    for e in effective(&entries) {
-        view.add(e)?;
-    }
-    Ok(view.finish())
+    let evidence = tx
+        .effective_evidence(code, as_of)?
+        .into_iter()
+        .map(|s| s.entry)
+        .collect();
+    let mut view = ProjectView::new(
+        Registrations {
+            project,
+            sites,
+            settings,
+            feedstocks,
+            evidence,
+        },
+        through,
+    )?;
+    tx.for_each_effective_entry(code, as_of, |s| Ok(view.add(&s.entry)?))?;
+    Ok(view.finish()?)
 }

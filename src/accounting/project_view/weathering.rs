@@ -6,15 +6,15 @@
 
 use super::{ProjectFigures, ViewError};
 use crate::accounting::weathering::campaign::{
-    CampaignLine, DissolutionMethod, Emission, Field, Inputs, Reading, RollupLine, Settings,
-    campaigns, rollup,
+    CampaignLine, DissolutionMethod, Field, Inputs, Reading, RollupLine, Settings, campaigns,
+    rollup,
 };
 use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions, RemovalError};
 use crate::accounting::weathering::three_end_member::Resolution;
+use crate::ledger::SiteKind;
 use crate::ledger::period::{Bucket, Grouping};
 use crate::ledger::setting::{SettingName, in_force};
-use crate::ledger::{EntryKind, SiteKind};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
 use chrono::NaiveDate;
@@ -63,17 +63,6 @@ pub struct CampaignTotal {
 }
 
 impl ProjectFigures {
-    fn emissions(&self) -> Vec<Emission<'_>> {
-        self.entries()
-            .filter(|e| e.kind == EntryKind::Emission)
-            .map(|e| Emission {
-                site: &e.site,
-                period: e.period,
-                mass: e.mass,
-            })
-            .collect()
-    }
-
     /// Each soil campaign of the fields (or the one field), read with `s`.
     pub fn weathering_campaigns(
         &self,
@@ -108,7 +97,7 @@ impl ProjectFigures {
             .filter(|c| wanted(&c.field))
             .cloned()
             .collect();
-        let emissions = self.emissions();
+        let emissions = self.view.emissions.per_site_end();
         campaigns(
             &Inputs {
                 fields: &fields,
@@ -214,7 +203,8 @@ impl ProjectFigures {
             .iter()
             .filter(|l| matches!(l.reading, Reading::Finding(_)))
             .count();
-        let roll = rollup(&lines, &self.view.applications, &self.emissions(), grouping);
+        let emissions = self.view.emissions.per_period(grouping);
+        let roll = rollup(&lines, &self.view.applications, &emissions, grouping);
         Ok((roll, unread))
     }
 
@@ -226,12 +216,7 @@ impl ProjectFigures {
             .filter(|s| s.kind == SiteKind::Field)
             .map(|s| s.code.as_str())
             .collect();
-        let sum = |keep: &dyn Fn(&str) -> bool| -> Mass {
-            self.entries()
-                .filter(|e| e.kind == EntryKind::Emission && keep(&e.site))
-                .map(|e| e.mass)
-                .sum()
-        };
+        let sum = |keep: &dyn Fn(&str) -> bool| self.view.emissions.at_sites(keep);
         EmissionsInScope {
             recorded: sum(&|site| only.is_none_or(|f| f == site)),
             elsewhere: sum(&|site| only.is_none() && !fields.contains(&site)),
