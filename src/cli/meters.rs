@@ -5,13 +5,13 @@ use super::Context;
 use super::setup::known_project;
 use crate::accounting::metering::assumed_fraction;
 use crate::error::{Error, Result};
-use crate::import::overlap::hand_corrections;
-use crate::ledger::correction::effective;
+use crate::import::overlap::HandCorrection;
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::{Entry, EntryKind};
 use crate::quantity::{Mass, MassReading};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
+use crate::store::Tx;
 use chrono::Datelike;
 use clap::Args;
 use std::collections::BTreeMap;
@@ -90,6 +90,86 @@ fn metered_quantity(e: &Entry) -> Option<f64> {
     }
 }
 
+/// The rows of the table, by meter, quarter, unit and basis.
+type Rows = BTreeMap<(String, Bucket, String, &'static str), Row>;
+
+/// Adds an effective entry's metered quantity to the rows of its meter's quarters in `year`.
+fn add_row(rows: &mut Rows, e: &Entry, year: i32) {
+    let Some(q) = metered_quantity(e) else {
+        return;
+    };
+    let fraction: f64 = e
+        .reading
+        .get("co2_fraction")
+        .or(e.reading.get("co2_fraction_mean"))
+        .and_then(|f| f.parse().ok())
+        .unwrap_or(1.0);
+    let meter = e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
+        "" => format!("({})", e.reading.get("pathway").unwrap_or("no site")),
+        site => format!("({site})"),
+    });
+    let total_days = e.period.days() as f64;
+    for (bucket, g) in apportion(e.mass.grams(), e.period, Grouping::Quarter) {
+        if bucket.year != year {
+            continue;
+        }
+        let days = (bucket.last_day().min(e.period.to) - e.period.from.max(bucket.first_day()))
+            .num_days() as f64
+            + 1.0;
+        let share = q * days / total_days;
+        let r = rows
+            .entry((meter.clone(), bucket, unit(e), basis(e)))
+            .or_default();
+        r.site = e.site.clone();
+        r.kind = Some(e.kind);
+        r.meter_type = e.reading.get("meter_type").unwrap_or("").to_string();
+        let c = conversion(e);
+        if r.conversion.is_empty() || r.conversion == c {
+            r.conversion = c;
+        } else {
+            r.conversion = "mixed (see entries)".into();
+        }
+        r.readings += 1;
+        r.quantity += share;
+        r.weighted_fraction += share * fraction;
+        r.co2 += Mass::from_grams(g);
+        if assumed_fraction(&e.reading) {
+            r.assumed += Mass::from_grams(g);
+        }
+    }
+}
+
+/// The effective entries that correct an imported meter-day by hand (`by_hand`: those
+/// without a file that correct something), each line walked back by seq to the entry that
+/// came from a file.
+fn hand_corrections(
+    tx: &mut Tx<'_>,
+    project: &str,
+    by_hand: Vec<Entry>,
+) -> Result<Vec<HandCorrection>> {
+    let mut found = Vec::new();
+    for e in by_hand {
+        let mut at = e.corrects;
+        while let Some(seq) = at {
+            let Some(t) = tx.entry_at(project, seq)? else {
+                break;
+            };
+            if let Some(ev) = &t.entry.evidence {
+                found.push(HandCorrection {
+                    seq: e.seq,
+                    meter: e.meter.clone().unwrap_or_default(),
+                    day: e.period.from,
+                    imported_seq: t.entry.seq,
+                    file: ev.file_name.clone(),
+                });
+                break;
+            }
+            at = t.entry.corrects;
+        }
+    }
+    Ok(found)
+}
+
 pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
     if !(1900..=9999).contains(&a.year) {
         return Err(Error::field(
@@ -98,56 +178,21 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             "is not a plausible reporting year",
         ));
     }
-    let all = ctx.open()?.read(|tx| {
-        known_project(tx, &a.project)?;
-        tx.entries(&a.project)
-    })?;
     // A row is one meter's quarter in one unit and one basis, so no cell mixes unlike figures.
-    let mut rows: BTreeMap<(String, Bucket, String, &str), Row> = BTreeMap::new();
-    for e in effective(&all) {
-        let Some(q) = metered_quantity(e) else {
-            continue;
-        };
-        let fraction: f64 = e
-            .reading
-            .get("co2_fraction")
-            .or(e.reading.get("co2_fraction_mean"))
-            .and_then(|f| f.parse().ok())
-            .unwrap_or(1.0);
-        let meter = e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
-            "" => format!("({})", e.reading.get("pathway").unwrap_or("no site")),
-            site => format!("({site})"),
-        });
-        let total_days = e.period.days() as f64;
-        for (bucket, g) in apportion(e.mass.grams(), e.period, Grouping::Quarter) {
-            if bucket.year != a.year {
-                continue;
+    let mut rows: Rows = BTreeMap::new();
+    let hand = ctx.open()?.read(|tx| {
+        known_project(tx, &a.project)?;
+        let mut by_hand = Vec::new();
+        tx.for_each_effective_entry(&a.project, None, |s| {
+            let e = &s.entry;
+            if e.evidence.is_none() && e.corrects.is_some() {
+                by_hand.push(e.clone());
             }
-            let days = (bucket.last_day().min(e.period.to) - e.period.from.max(bucket.first_day()))
-                .num_days() as f64
-                + 1.0;
-            let share = q * days / total_days;
-            let r = rows
-                .entry((meter.clone(), bucket, unit(e), basis(e)))
-                .or_default();
-            r.site = e.site.clone();
-            r.kind = Some(e.kind);
-            r.meter_type = e.reading.get("meter_type").unwrap_or("").to_string();
-            let c = conversion(e);
-            if r.conversion.is_empty() || r.conversion == c {
-                r.conversion = c;
-            } else {
-                r.conversion = "mixed (see entries)".into();
-            }
-            r.readings += 1;
-            r.quantity += share;
-            r.weighted_fraction += share * fraction;
-            r.co2 += Mass::from_grams(g);
-            if assumed_fraction(&e.reading) {
-                r.assumed += Mass::from_grams(g);
-            }
-        }
-    }
+            add_row(&mut rows, e, a.year);
+            Ok(())
+        })?;
+        hand_corrections(tx, &a.project, by_hand)
+    })?;
     let mut t = Table::new(
         "meters",
         format!("Meters by quarter, {}, project {}", a.year, a.project),
@@ -203,7 +248,7 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
         t.note(assumed_note(assumed, a.year));
     }
     let mut report = Report::default().table(t);
-    report.warnings = hand_corrections(&all, effective(&all))
+    report.warnings = hand
         .into_iter()
         .filter(|h| h.day.year() == a.year)
         .map(|h| h.to_string())
