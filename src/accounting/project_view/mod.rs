@@ -13,6 +13,8 @@ mod emissions;
 mod error;
 pub mod evidence;
 mod ex_situ;
+#[cfg(test)]
+mod fold_tests;
 mod geological;
 mod reported;
 mod rock_uncertainty;
