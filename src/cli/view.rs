@@ -5,6 +5,7 @@
 use super::setup::known_project;
 use crate::accounting::project_view::{ProjectFigures, ProjectView, Registrations};
 use crate::error::Result;
+use crate::ledger::SealedEntry;
 use crate::store::Tx;
 use chrono::{DateTime, NaiveDate, Utc};
 
@@ -22,6 +23,18 @@ pub fn load_through(
     code: &str,
     as_of: Option<DateTime<Utc>>,
     through: Option<NaiveDate>,
+) -> Result<ProjectFigures> {
+    load_seeing(tx, code, as_of, through, |_| {})
+}
+
+/// [`load_through`], handing `each` every row the walk reads (those that are replaced too),
+/// for a command that needs the chain itself as well as the figures in one pass.
+pub fn load_seeing(
+    tx: &mut Tx<'_>,
+    code: &str,
+    as_of: Option<DateTime<Utc>>,
+    through: Option<NaiveDate>,
+    mut each: impl FnMut(&SealedEntry),
 ) -> Result<ProjectFigures> {
     let project = known_project(tx, code)?;
     let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
@@ -46,6 +59,12 @@ pub fn load_through(
         },
         through,
     )?;
-    tx.for_each_effective_entry(code, as_of, |s| Ok(view.add(&s.entry)?))?;
+    tx.walk_chain(code, as_of, |row| {
+        each(row.sealed);
+        if row.replaced_by.is_none() {
+            view.add(&row.sealed.entry)?;
+        }
+        Ok(())
+    })?;
     Ok(view.finish()?)
 }
