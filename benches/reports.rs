@@ -28,7 +28,11 @@ fn group_by(db: &Path) -> f64 {
         .arg("SELECT kind, sum(grams) FROM entries GROUP BY kind")
         .output()
         .expect("sqlite3 runs");
-    assert!(o.status.success(), "sqlite3: {}", String::from_utf8_lossy(&o.stderr));
+    assert!(
+        o.status.success(),
+        "sqlite3: {}",
+        String::from_utf8_lossy(&o.stderr)
+    );
     t.elapsed().as_secs_f64()
 }
 
@@ -53,7 +57,11 @@ fn median(mut v: Vec<f64>) -> f64 {
 
 fn main() {
     let rows: u64 = std::env::var("SINKBOOK_BENCH_ROWS")
-        .map(|r| r.trim().parse().expect("SINKBOOK_BENCH_ROWS is a whole number of rows"))
+        .map(|r| {
+            r.trim()
+                .parse()
+                .expect("SINKBOOK_BENCH_ROWS is a whole number of rows")
+        })
         .unwrap_or(1_000_000);
     let dir = tempfile::tempdir().unwrap();
     let (csv, db) = (dir.path().join("meters.csv"), dir.path().join("bench.db"));
@@ -64,16 +72,28 @@ fn main() {
     agreeing_report(&db, &report);
     let svg = dir.path().join("chart.svg");
     let steps: [(&str, Vec<&str>); 5] = [
-        ("balance TFS --by quarter", vec!["balance", "TFS", "--by", "quarter"]),
+        (
+            "balance TFS --by quarter",
+            vec!["balance", "TFS", "--by", "quarter"],
+        ),
         ("totals", vec!["totals"]),
-        ("meters TFS --year 2024", vec!["meters", "TFS", "--year", "2024"]),
+        (
+            "meters TFS --year 2024",
+            vec!["meters", "TFS", "--year", "2024"],
+        ),
         (
             "reconcile TFS REPORT",
             vec!["reconcile", "TFS", report.to_str().unwrap()],
         ),
-        ("chart TFS", vec!["chart", "TFS", "--out", svg.to_str().unwrap()]),
+        (
+            "chart TFS",
+            vec!["chart", "TFS", "--out", svg.to_str().unwrap()],
+        ),
     ];
-    println!("{rows} entries; load average at the start: {}", load_average());
+    println!(
+        "{rows} entries; load average at the start: {}",
+        load_average()
+    );
     println!("| report | sinkbook (s) | GROUP BY (s) | ÷ GROUP BY | peak MB |");
     println!("|---|---|---|---|---|");
     for (name, args) in &steps {
@@ -82,7 +102,10 @@ fn main() {
             base.push(group_by(&db));
             let (secs, mb, _) = common::measured(&db, args);
             ours.push(secs);
-            peak = peak.max(mb);
+            peak = match (peak, mb) {
+                (Some(p), Some(m)) => Some(p.max(m)),
+                (p, m) => p.or(m),
+            };
         }
         let (ours, base) = (median(ours), median(base));
         println!(
