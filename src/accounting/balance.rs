@@ -1,15 +1,14 @@
 //! The mass balance of geological storage by reporting period: 40 CFR Part 98 Subpart RR
 //! (§98.443, RR-1 to RR-12) or ISO 27916 for CO2-EOR, every term its own figure.
 
-use crate::accounting::uncertainty::{
-    Estimate, MeteredMass as Reading, Term, TermSign, mass_balance, sum_readings,
-};
+use crate::accounting::uncertainty::{Estimate, Term, TermSign, mass_balance, sum_meters};
 use crate::ledger::period::{Bucket, Grouping, apportion};
 use crate::ledger::reading_fields::{LeakSide, checked};
 use crate::ledger::tally::entrained_fraction;
-use crate::ledger::{Entry, EntryKind, Method, Project};
+use crate::ledger::{Entry, EntryKind, Method, Period, Project};
 use crate::quantity::Mass;
-use std::collections::BTreeMap;
+use std::borrow::Cow;
+use std::collections::{BTreeMap, HashMap};
 
 /// Which published balance a table follows.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
@@ -129,109 +128,286 @@ pub struct BalanceLine {
     pub cumulative_uncertainty: Estimate,
 }
 
-/// The readings behind each term of the balance, for its uncertainty: readings of one meter add
-/// their uncertainties linearly, different meters and terms combine in quadrature.
-#[derive(Default, Clone)]
-struct TermReadings {
-    receipts: Vec<Reading>,
-    redeliveries: Vec<Reading>,
-    injected: Vec<Reading>,
-    separated: Vec<Reading>,
-    entrained: Vec<Reading>,
-    surface_leakage: Vec<Reading>,
-    leaks_injection_side: Vec<Reading>,
-    leaks_production_side: Vec<Reading>,
+/// The terms whose readings carry an uncertainty, in [`PeriodSums::readings`] order.
+const RECEIPTS: usize = 0;
+const REDELIVERIES: usize = 1;
+const INJECTED: usize = 2;
+const SEPARATED: usize = 3;
+const ENTRAINED: usize = 4;
+const SURFACE_LEAKAGE: usize = 5;
+const LEAKS_INJECTION: usize = 6;
+const LEAKS_PRODUCTION: usize = 7;
+const SLOTS: usize = 8;
+
+fn slot(kind: EntryKind, production_side: bool) -> Option<usize> {
+    Some(match kind {
+        EntryKind::Receipt => RECEIPTS,
+        EntryKind::Redelivery => REDELIVERIES,
+        EntryKind::Injection => INJECTED,
+        EntryKind::Production => SEPARATED,
+        EntryKind::Leakage => SURFACE_LEAKAGE,
+        EntryKind::EquipmentLeak if production_side => LEAKS_PRODUCTION,
+        EntryKind::EquipmentLeak => LEAKS_INJECTION,
+        _ => return None,
+    })
 }
 
-impl TermReadings {
-    fn slot(&mut self, kind: EntryKind, production_side: bool) -> Option<&mut Vec<Reading>> {
-        Some(match kind {
-            EntryKind::Receipt => &mut self.receipts,
-            EntryKind::Redelivery => &mut self.redeliveries,
-            EntryKind::Injection => &mut self.injected,
-            EntryKind::Production => &mut self.separated,
-            EntryKind::Leakage => &mut self.surface_leakage,
-            EntryKind::EquipmentLeak if production_side => &mut self.leaks_production_side,
-            EntryKind::EquipmentLeak => &mut self.leaks_injection_side,
-            _ => return None,
-        })
+/// One meter's readings in one term, added up: grams, and Σ rel_u·grams (a meter's readings
+/// add their uncertainties linearly).
+#[derive(Debug, Default, Clone, Copy)]
+struct MeterSum {
+    grams: i64,
+    u: f64,
+}
+
+/// The readings of one term by meter (the meter's number in [`Meters`]). A reading
+/// `sum_readings` would refuse (no meter, a negative piece, an uncertainty that is not a
+/// number ≥ 0, a sum beyond i64 grams) makes the term count 0 ± 0, as it always has.
+#[derive(Debug, Default, Clone)]
+struct TermSum {
+    meters: BTreeMap<u32, MeterSum>,
+    refused: bool,
+}
+
+impl TermSum {
+    fn add(&mut self, meter: Option<u32>, grams: i64, rel_u: f64) {
+        let Some(meter) = meter.filter(|_| grams >= 0 && rel_u.is_finite() && rel_u >= 0.0) else {
+            self.refused = true;
+            return;
+        };
+        let m = self.meters.entry(meter).or_default();
+        match m.grams.checked_add(grams) {
+            Some(g) => m.grams = g,
+            None => self.refused = true,
+        }
+        m.u += rel_u * grams as f64;
     }
 
-    fn extend(&mut self, other: &TermReadings) {
-        self.receipts.extend_from_slice(&other.receipts);
-        self.redeliveries.extend_from_slice(&other.redeliveries);
-        self.injected.extend_from_slice(&other.injected);
-        self.separated.extend_from_slice(&other.separated);
-        self.entrained.extend_from_slice(&other.entrained);
-        self.surface_leakage
-            .extend_from_slice(&other.surface_leakage);
-        self.leaks_injection_side
-            .extend_from_slice(&other.leaks_injection_side);
-        self.leaks_production_side
-            .extend_from_slice(&other.leaks_production_side);
+    fn merge(&mut self, other: &TermSum) {
+        self.refused |= other.refused;
+        for (id, o) in &other.meters {
+            let m = self.meters.entry(*id).or_default();
+            match m.grams.checked_add(o.grams) {
+                Some(g) => m.grams = g,
+                None => self.refused = true,
+            }
+            m.u += o.u;
+        }
     }
 
+    /// The term with its uncertainty: meters in the order of their names, in quadrature.
+    fn estimate(&self, meters: &Meters) -> Estimate {
+        let zero = Estimate::absolute(Mass::ZERO, Mass::ZERO);
+        if self.refused {
+            return zero;
+        }
+        let mut by_name: Vec<(&str, MeterSum)> = self
+            .meters
+            .iter()
+            .map(|(id, m)| (meters.name(*id), *m))
+            .collect();
+        by_name.sort_by(|a, b| a.0.cmp(b.0));
+        sum_meters(
+            by_name
+                .into_iter()
+                .map(|(_, m)| (Mass::from_grams(m.grams), m.u)),
+        )
+        .unwrap_or(zero)
+    }
+}
+
+/// The meters readings are summed by, each name kept once.
+#[derive(Debug, Default)]
+pub struct Meters {
+    names: Vec<String>,
+    index: HashMap<String, u32>,
+}
+
+impl Meters {
+    /// The number of the meter a reading's systematic error belongs to: its meter, or its
+    /// site's (a leak at no site of the project: its pathway's); None for a blank meter name.
+    fn of(&mut self, e: &Entry) -> Option<u32> {
+        let key: Cow<'_, str> = match (&e.meter, e.site.as_str()) {
+            (Some(m), _) => Cow::Borrowed(m.as_str()),
+            (None, "") => Cow::Owned(format!("pathway {}", e.reading.pathway().unwrap_or(""))),
+            (None, site) => Cow::Owned(format!("site {site}")),
+        };
+        if key.trim().is_empty() {
+            return None;
+        }
+        if let Some(id) = self.index.get(key.as_ref()) {
+            return Some(*id);
+        }
+        let id = u32::try_from(self.names.len()).ok()?;
+        self.names.push(key.to_string());
+        self.index.insert(key.into_owned(), id);
+        Some(id)
+    }
+
+    fn name(&self, id: u32) -> &str {
+        &self.names[id as usize]
+    }
+}
+
+/// One period's terms and the sums of their readings.
+#[derive(Debug, Default, Clone)]
+struct PeriodSums {
+    terms: Terms,
+    readings: [TermSum; SLOTS],
+}
+
+impl PeriodSums {
     /// The stored figure with its uncertainty, by the method's terms.
-    fn estimate(&self, method: BalanceMethod) -> Estimate {
+    fn estimate(&self, method: BalanceMethod, meters: &Meters) -> Estimate {
         use TermSign::{Adds, Deducts};
         // Produced CO2 is (1 + X)·S from the separator meter alone: the entrained part carries
         // the same meter's error, so U = (1 + X)·S·u, added linearly with the separated part.
-        let produced: Vec<Reading> = self
-            .separated
-            .iter()
-            .chain(&self.entrained)
-            .cloned()
-            .collect();
-        let terms: Vec<(&str, TermSign, &Vec<Reading>)> = match method {
+        let mut produced = self.readings[SEPARATED].clone();
+        produced.merge(&self.readings[ENTRAINED]);
+        let r = &self.readings;
+        let terms: Vec<(&str, TermSign, &TermSum)> = match method {
             BalanceMethod::Rr => vec![
-                ("injected", Adds, &self.injected),
+                ("injected", Adds, &r[INJECTED]),
                 ("produced", Deducts, &produced),
-                ("surface leakage", Deducts, &self.surface_leakage),
-                ("leaks injection side", Deducts, &self.leaks_injection_side),
-                (
-                    "leaks production side",
-                    Deducts,
-                    &self.leaks_production_side,
-                ),
+                ("surface leakage", Deducts, &r[SURFACE_LEAKAGE]),
+                ("leaks injection side", Deducts, &r[LEAKS_INJECTION]),
+                ("leaks production side", Deducts, &r[LEAKS_PRODUCTION]),
             ],
             BalanceMethod::Iso27916 => vec![
-                ("receipts", Adds, &self.receipts),
-                ("redeliveries", Deducts, &self.redeliveries),
-                ("leaks injection side", Deducts, &self.leaks_injection_side),
-                (
-                    "leaks production side",
-                    Deducts,
-                    &self.leaks_production_side,
-                ),
-                ("surface leakage", Deducts, &self.surface_leakage),
-                ("entrained", Deducts, &self.entrained),
+                ("receipts", Adds, &r[RECEIPTS]),
+                ("redeliveries", Deducts, &r[REDELIVERIES]),
+                ("leaks injection side", Deducts, &r[LEAKS_INJECTION]),
+                ("leaks production side", Deducts, &r[LEAKS_PRODUCTION]),
+                ("surface leakage", Deducts, &r[SURFACE_LEAKAGE]),
+                ("entrained", Deducts, &r[ENTRAINED]),
             ],
         };
         let terms: Vec<Term> = terms
             .into_iter()
-            .map(|(name, sign, readings)| Term {
+            .map(|(name, sign, sum)| Term {
                 name: name.to_string(),
                 sign,
-                estimate: sum_readings(readings)
-                    .map_or(Estimate::absolute(Mass::ZERO, Mass::ZERO), |s| s.total),
+                estimate: sum.estimate(meters),
             })
             .collect();
         mass_balance(&terms).unwrap_or(Estimate::absolute(Mass::ZERO, Mass::ZERO))
     }
+
+    fn merge(&mut self, other: &PeriodSums) {
+        for (mine, theirs) in self.readings.iter_mut().zip(&other.readings) {
+            mine.merge(theirs);
+        }
+    }
 }
 
-/// The meter a reading's systematic error belongs to: its meter, or its site's (a leak at no
-/// site of the project: its pathway's).
-fn meter_key(e: &Entry) -> String {
-    e.meter.clone().unwrap_or_else(|| match e.site.as_str() {
-        "" => format!("pathway {}", e.reading.pathway().unwrap_or("")),
-        site => format!("site {site}"),
-    })
+/// Calls `f` with each bucket of `grouping` a period touches and its grams, split by days as
+/// [`apportion`] splits them (a period inside one bucket without splitting).
+pub fn each_piece(grams: i64, period: Period, grouping: Grouping, mut f: impl FnMut(Bucket, i64)) {
+    let first = grouping.bucket(period.from);
+    if first == grouping.bucket(period.to) {
+        return f(first, grams);
+    }
+    for (b, g) in apportion(grams, period, grouping) {
+        f(b, g);
+    }
 }
 
-/// Balances the effective entries of a project by period. Entries spanning periods are split by
-/// days, exactly in whole grams; cumulative figures run from the first reporting period.
-/// `rel_u` gives each entry's relative uncertainty (95 %); 0 where none is stated.
+/// The mass balance folded entry by entry, at every grouping a report may ask for: sums by
+/// period, term and meter, never the readings, so it holds periods × meters whatever the
+/// number of entries. Entries spanning periods are split by days, exactly in whole grams.
+#[derive(Debug, Default)]
+pub struct BalanceSums {
+    meters: Meters,
+    by: [BTreeMap<Bucket, PeriodSums>; 3],
+}
+
+fn rank(g: Grouping) -> usize {
+    match g {
+        Grouping::Month => 0,
+        Grouping::Quarter => 1,
+        Grouping::Year => 2,
+    }
+}
+
+const GROUPINGS: [Grouping; 3] = [Grouping::Month, Grouping::Quarter, Grouping::Year];
+
+impl BalanceSums {
+    /// Takes one effective entry with its relative uncertainty (95 %; 0 where none is stated).
+    /// Every entry opens the periods it covers, whatever its kind.
+    pub fn add(&mut self, e: &Entry, rel_u: f64) {
+        let production_side = checked(e.reading.leak_side()) == Some(LeakSide::Production);
+        let slot = slot(e.kind, production_side);
+        let meter = match slot {
+            Some(_) => self.meters.of(e),
+            None => None,
+        };
+        let entrained =
+            (e.kind == EntryKind::Production).then(|| e.mass.scale(entrained_fraction(e)).grams());
+        for g in GROUPINGS {
+            let by = &mut self.by[rank(g)];
+            each_piece(e.mass.grams(), e.period, g, |b, grams| {
+                let p = by.entry(b).or_default();
+                p.terms
+                    .add(e.kind, production_side, Mass::from_grams(grams));
+                if let Some(s) = slot {
+                    p.readings[s].add(meter, grams, rel_u);
+                }
+            });
+            if let Some(x) = entrained {
+                each_piece(x, e.period, g, |b, grams| {
+                    let p = by.entry(b).or_default();
+                    p.terms.entrained += Mass::from_grams(grams);
+                    p.readings[ENTRAINED].add(meter, grams, rel_u);
+                });
+            }
+        }
+    }
+
+    /// The balance by period; cumulative figures run from the first reporting period.
+    pub fn lines(
+        &self,
+        project: &Project,
+        grouping: Grouping,
+        method: BalanceMethod,
+    ) -> Vec<BalanceLine> {
+        let mut cum_injected = Mass::ZERO;
+        let mut cum_stored = Mass::ZERO;
+        let mut cum = PeriodSums::default();
+        let capacity = project.permit_capacity.filter(|c| c.is_positive());
+        self.by[rank(grouping)]
+            .iter()
+            .map(|(bucket, sums)| {
+                let terms = sums.terms;
+                let (stored, equation) = terms.stored(method);
+                // A facility that produces fluids reports by RR-11 in every period, a quarter
+                // without production included (the figure is the same: its produced terms are 0).
+                let equation = match equation {
+                    "RR-12" if project.method == Method::Eor => "RR-11",
+                    e => e,
+                };
+                cum_injected += terms.injected;
+                cum_stored += stored;
+                cum.merge(sums);
+                BalanceLine {
+                    uncertainty: sums.estimate(method, &self.meters),
+                    cumulative_uncertainty: cum.estimate(method, &self.meters),
+                    bucket: *bucket,
+                    terms,
+                    stored,
+                    equation,
+                    cumulative_injected: cum_injected,
+                    cumulative_stored: cum_stored,
+                    permit_used_pct: capacity
+                        .map(|c| 100.0 * cum_stored.grams() as f64 / c.grams() as f64),
+                    headroom: capacity.map(|c| c - cum_stored),
+                }
+            })
+            .collect()
+    }
+}
+
+/// Balances the effective entries of a project by period (see [`BalanceSums`]). `rel_u` gives
+/// each entry's relative uncertainty (95 %); 0 where none is stated.
 pub fn balance<'a>(
     project: &Project,
     entries: impl Iterator<Item = &'a Entry>,
@@ -239,62 +415,11 @@ pub fn balance<'a>(
     method: BalanceMethod,
     rel_u: &dyn Fn(&Entry) -> f64,
 ) -> Vec<BalanceLine> {
-    let mut by: BTreeMap<Bucket, (Terms, TermReadings)> = BTreeMap::new();
+    let mut sums = BalanceSums::default();
     for e in entries {
-        let production_side = checked(e.reading.leak_side()) == Some(LeakSide::Production);
-        let u = rel_u(e);
-        let reading = |g: i64| Reading {
-            meter: meter_key(e),
-            mass: Mass::from_grams(g),
-            rel_u: u,
-        };
-        for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
-            let (terms, readings) = by.entry(b).or_default();
-            terms.add(e.kind, production_side, Mass::from_grams(g));
-            if let Some(slot) = readings.slot(e.kind, production_side) {
-                slot.push(reading(g));
-            }
-        }
-        if e.kind == EntryKind::Production {
-            let entrained = e.mass.scale(entrained_fraction(e));
-            for (b, g) in apportion(entrained.grams(), e.period, grouping) {
-                let (terms, readings) = by.entry(b).or_default();
-                terms.entrained += Mass::from_grams(g);
-                readings.entrained.push(reading(g));
-            }
-        }
+        sums.add(e, rel_u(e));
     }
-    let mut cum_injected = Mass::ZERO;
-    let mut cum_stored = Mass::ZERO;
-    let mut cum_readings = TermReadings::default();
-    by.into_iter()
-        .map(|(bucket, (terms, readings))| {
-            let (stored, equation) = terms.stored(method);
-            // A facility that produces fluids reports by RR-11 in every period, a quarter
-            // without production included (the figure is the same: its produced terms are 0).
-            let equation = match equation {
-                "RR-12" if project.method == Method::Eor => "RR-11",
-                e => e,
-            };
-            cum_injected += terms.injected;
-            cum_stored += stored;
-            let capacity = project.permit_capacity.filter(|c| c.is_positive());
-            cum_readings.extend(&readings);
-            BalanceLine {
-                uncertainty: readings.estimate(method),
-                cumulative_uncertainty: cum_readings.estimate(method),
-                bucket,
-                terms,
-                stored,
-                equation,
-                cumulative_injected: cum_injected,
-                cumulative_stored: cum_stored,
-                permit_used_pct: capacity
-                    .map(|c| 100.0 * cum_stored.grams() as f64 / c.grams() as f64),
-                headroom: capacity.map(|c| c - cum_stored),
-            }
-        })
-        .collect()
+    sums.lines(project, grouping, method)
 }
 
 #[cfg(test)]

@@ -21,7 +21,7 @@ pub const DEFAULT_HORIZON_YEARS: f64 = 100.0;
 
 /// The relative uncertainty (95 %) of an entry: its own, else the latest calibration of its site
 /// (and meter) on or before the period's start, else the site's; None where nothing is stated.
-pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[&Entry]) -> Option<f64> {
+pub fn rel_uncertainty(e: &Entry, sites: &[Site], calibrations: &[Entry]) -> Option<f64> {
     if let Some(u) = checked(e.reading.uncertainty()) {
         return Some(u);
     }

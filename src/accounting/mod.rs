@@ -9,6 +9,7 @@ pub mod input;
 pub mod leakage;
 pub mod lifecycle;
 pub mod materiality;
+pub mod meter_quarters;
 pub mod metering;
 pub mod permanence;
 pub mod permit;

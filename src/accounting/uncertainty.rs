@@ -182,6 +182,16 @@ pub fn sum_readings(readings: &[MeteredMass]) -> Result<MeteredSum, UncertaintyE
     Ok(MeteredSum { meters, total })
 }
 
+/// Meters' totals already added up, each (grams, absolute uncertainty in grams), combined as
+/// [`sum_readings`] combines them (in quadrature, in the order given): for sums folded reading
+/// by reading without keeping the readings.
+pub fn sum_meters(meters: impl Iterator<Item = (Mass, f64)>) -> Result<Estimate, UncertaintyError> {
+    combine(
+        meters.map(|(value, abs_u_grams)| (1, Estimate { value, abs_u_grams })),
+        "the sum of the readings",
+    )
+}
+
 /// t(0.975, ν) for ν = 1 … 30 degrees of freedom: the two-sided 95 % quantile of Student's
 /// t distribution (computed by integrating the density numerically; agrees with the printed
 /// tables to the digits shown).

@@ -15,7 +15,7 @@ use crate::accounting::project_view::bearing;
 use crate::error::{Error, Result};
 use crate::import::csv_records::Records;
 use crate::ledger::period::Grouping;
-use crate::ledger::{Entry, EntryKind, Hash};
+use crate::ledger::{EntryKind, Hash};
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::{Decimal, Mass, MassUnit};
 use crate::report::names;
@@ -189,12 +189,7 @@ fn compare(
     let view = load(tx, &a.project, None)?;
     let recompute = if a.recompute {
         let totals = super::evidence::reading_totals(tx, &a.project)?;
-        let all = tx.entries(&a.project)?;
-        Some(recompute_table(
-            &a.project,
-            all.iter().map(|s| &s.entry),
-            &totals,
-        ))
+        Some(recompute_table(tx, &a.project, &totals)?)
     } else {
         None
     };
@@ -374,12 +369,8 @@ fn misstatement_rule(route: crate::ledger::Method, method: BalanceMethod) -> Str
     )
 }
 
-/// Every imported meter-day recomputed from its raw readings.
-fn recompute_table<'a>(
-    project: &str,
-    entries: impl Iterator<Item = &'a Entry>,
-    totals: &[ReadingTotal],
-) -> Table {
+/// Every imported meter-day recomputed from its raw readings, the chain read row by row.
+fn recompute_table(tx: &mut Tx<'_>, project: &str, totals: &[ReadingTotal]) -> Result<Table> {
     let by: HashMap<(&str, &str, &str), &ReadingTotal> = totals
         .iter()
         .map(|t| {
@@ -403,12 +394,13 @@ fn recompute_table<'a>(
         ]),
     );
     let mut checked = 0;
-    for e in entries {
+    tx.for_each_entry(project, None, |s| {
+        let e = &s.entry;
         let (Some(sha), Some(meter)) = (e.reading.text("file_sha256"), e.meter.as_deref()) else {
-            continue;
+            return Ok(());
         };
         if e.kind == EntryKind::Survey || e.corrects.is_some() {
-            continue;
+            return Ok(());
         }
         checked += 1;
         let day = e.period.from.to_string();
@@ -428,10 +420,11 @@ fn recompute_table<'a>(
                 }),
             ]),
         }
-    }
+        Ok(())
+    })?;
     t.note(format!(
         "{checked} imported meter-days recomputed from their raw readings; {} differ.",
         t.rows.len()
     ));
-    t
+    Ok(t)
 }

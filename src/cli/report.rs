@@ -98,7 +98,7 @@ fn late_section(view: &ProjectFigures, year: i32) -> Section {
     let code = &view.project().code;
     let year_text = year.to_string();
     let late = late_table(
-        view.entries()
+        view.listed()
             .filter(|e| late_for(e).is_some_and(|p| p.starts_with(&year_text)))
             .map(|e| (code.as_str(), e)),
     );

@@ -2,7 +2,7 @@
 //! before it, and the period's stored, conservative and claimable figures as reported.
 
 use super::Context;
-use super::view::load;
+use super::view::load_seeing;
 use crate::accounting::conservative::DeductionRule;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
@@ -70,14 +70,11 @@ pub fn record_seal(
     label: &str,
     period: Period,
 ) -> Result<(Seal, SealedEntry)> {
-    let view = load(tx, project, None)?;
     let seals = tx.seals(project)?;
     check_new(&seals, period).map_err(|e| Error::field("--period", label, e))?;
+    // One walk of the chain gives the figures and the tree over every leaf.
     let mut tree = TreeBuilder::default();
-    tx.for_each_entry(project, None, |s| {
-        tree.push(s.leaf);
-        Ok(())
-    })?;
+    let view = load_seeing(tx, project, None, None, |s| tree.push(s.leaf))?;
     let (next, head) = tx.chain_tip(project)?;
     let seal = Seal {
         seq: next,

@@ -6,11 +6,11 @@
 use super::Context;
 use super::claims::{backdated_notes, deduction_rule};
 use super::dates::DateArgs;
-use crate::accounting::project_view::{ProjectFigures, TotalsLine};
+use crate::accounting::project_view::TotalsLine;
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project};
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::totals as table;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -78,30 +78,7 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         Ok(views)
     })?;
     let by_year = a.by.is_some();
-    let mut t = Table::new(
-        "totals",
-        "Totals across projects",
-        columns(&[
-            names::PROJECT,
-            names::YEAR,
-            names::METHOD,
-            names::OPERATOR,
-            names::PERMIT,
-            names::RECEIVED_T,
-            names::INJECTED_T,
-            names::STORED_GEOLOGICAL_T,
-            names::MINERALIZED_T,
-            names::WEATHERING_NET_REMOVAL_T,
-            names::CONSERVATIVE_T,
-            names::DURABLE_T,
-            names::BUFFER_HELD_T,
-            names::CLAIMABLE_GEOLOGICAL_T,
-            names::CLAIMABLE_MINERALIZED_T,
-            names::CLAIMABLE_WEATHERING_T,
-            names::REVERSED_T,
-            names::HEADROOM_T,
-        ]),
-    );
+    let mut t = table::empty();
     let mut all = TotalsLine::default();
     let mut backdated = Vec::new();
     for v in &views {
@@ -111,16 +88,10 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         }
         if by_year {
             for (year, line) in &totals.years {
-                let mut row = project_cells(v, Some(*year));
-                row.extend(cells(line));
-                row.push(Cell::Empty);
-                t.push(row);
+                table::project_row(&mut t, v.project(), Some(*year), line, None);
             }
         } else {
-            let mut row = project_cells(v, None);
-            row.extend(cells(&totals.total));
-            row.push(totals.headroom.map_or(Cell::Empty, Cell::Tonnes));
-            t.push(row);
+            table::project_row(&mut t, v.project(), None, &totals.total, totals.headroom);
         }
         all = all.checked_add(&totals.total).ok_or_else(|| {
             Error::Refused(
@@ -128,28 +99,13 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
             )
         })?;
     }
-    let mut row = vec![
-        Cell::text("all"),
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Empty,
-        Cell::Empty,
-    ];
-    row.extend(cells(&all));
-    row.push(Cell::Empty);
-    t.push(row);
-    t.note("Stored and claimable by route, never added across routes: geological, the 40 CFR 98.443 mass balance of injection projects (basalt mineralization counts here: the CO2 injected and kept, mineralized or not); mineralized, the carbonation uptake of ex-situ projects less their emissions; weathering net removal, removal less the project's emissions (default settings). Conservative, durable, buffer and claimable as each project's settings in force set them.");
-    for note in backdated {
-        t.note(note);
-    }
-    if !by_year {
-        t.note("Buffer and claimable are net of what reversals cancelled (buffer first, then claimable), in the year of the reversal, so the years add up to the project's line.");
-    }
+    table::all_row(&mut t, &all);
+    table::notes(&mut t, backdated, by_year);
     dates.mark(&mut t, "them");
     let late = super::late::late_table(
         views
             .iter()
-            .flat_map(|v| v.entries().map(move |e| (v.project().code.as_str(), e))),
+            .flat_map(|v| v.listed().map(move |e| (v.project().code.as_str(), e))),
     );
     let mut report = Report::default().table(t);
     if let Some(l) = late {
@@ -183,18 +139,4 @@ fn check_filter(
             format!("matches no project (known: {})", list.join(", "))
         },
     ))
-}
-
-fn cells(l: &TotalsLine) -> Vec<Cell> {
-    l.figures().map(Cell::Tonnes).to_vec()
-}
-
-fn project_cells(v: &ProjectFigures, year: Option<i32>) -> Vec<Cell> {
-    vec![
-        Cell::text(&v.project().code),
-        year.map_or(Cell::Empty, |y| Cell::text(y.to_string())),
-        Cell::text(v.project().method.name()),
-        Cell::text(&v.project().operator),
-        Cell::opt_text(v.project().permit_ref.as_deref()),
-    ]
 }

@@ -1,10 +1,11 @@
 //! A project's entries fed to the pure view inside the command's transaction: the one place a
-//! command turns stored rows into the figures every report reads.
+//! command turns stored rows into the figures every report reads. The rows stream: each is
+//! decoded and checked as the walk reads it, folded, and dropped.
 
 use super::setup::known_project;
 use crate::accounting::project_view::{ProjectFigures, ProjectView, Registrations};
 use crate::error::Result;
-use crate::ledger::correction::effective;
+use crate::ledger::SealedEntry;
 use crate::store::Tx;
 use chrono::{DateTime, NaiveDate, Utc};
 
@@ -23,6 +24,18 @@ pub fn load_through(
     as_of: Option<DateTime<Utc>>,
     through: Option<NaiveDate>,
 ) -> Result<ProjectFigures> {
+    load_seeing(tx, code, as_of, through, |_| {})
+}
+
+/// [`load_through`], handing `each` every row the walk reads (those that are replaced too),
+/// for a command that needs the chain itself as well as the figures in one pass.
+pub fn load_seeing(
+    tx: &mut Tx<'_>,
+    code: &str,
+    as_of: Option<DateTime<Utc>>,
+    through: Option<NaiveDate>,
+    mut each: impl FnMut(&SealedEntry),
+) -> Result<ProjectFigures> {
     let project = known_project(tx, code)?;
     let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
     let mut sites = tx.sites(code)?;
@@ -31,17 +44,27 @@ pub fn load_through(
     settings.retain(|s| held(s.recorded_at));
     let mut feedstocks = tx.feedstocks(code)?;
     feedstocks.retain(|f| held(f.registered_at));
-    let mut view = ProjectView::new(Registrations {
-        project,
-        sites,
-        settings,
-        feedstocks,
-    })?
-    .through(through);
-    let mut entries = tx.entries(code)?;
-    entries.retain(|s| held(s.entry.recorded_at));
-    for e in effective(&entries) {
-        view.add(e)?;
-    }
-    Ok(view.finish())
+    let evidence = tx
+        .effective_evidence(code, as_of)?
+        .into_iter()
+        .map(|s| s.entry)
+        .collect();
+    let mut view = ProjectView::new(
+        Registrations {
+            project,
+            sites,
+            settings,
+            feedstocks,
+            evidence,
+        },
+        through,
+    )?;
+    tx.walk_chain(code, as_of, |row| {
+        each(row.sealed);
+        if row.replaced_by.is_none() {
+            view.add(&row.sealed.entry)?;
+        }
+        Ok(())
+    })?;
+    Ok(view.finish()?)
 }

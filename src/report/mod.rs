@@ -1,14 +1,17 @@
 //! Everything formatted for people or programs: the only module that renders.
 
+pub mod balance;
 pub mod chart;
 mod fit;
 pub mod html;
 pub mod layout;
+pub mod meters;
 pub mod names;
 mod people;
 pub mod render;
 pub mod table;
 pub mod tables;
+pub mod totals;
 mod wrap;
 
 pub use layout::{Layout, Terminal};

@@ -13,7 +13,7 @@ use crate::quantity::Mass;
 use chrono::{DateTime, Utc};
 use diesel::dsl::sql;
 use diesel::prelude::*;
-use diesel::sql_types::{BigInt, Nullable, Text, Timestamp};
+use diesel::sql_types::{BigInt, Bool, Nullable, Text, Timestamp};
 
 /// The seq of the entry that replaces this one, among corrections recorded by the bound time
 /// (every correction when it is NULL); found through the index on (project, corrects). The
@@ -38,6 +38,10 @@ const TARGET_GRAMS: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
      (SELECT t.grams FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
 const TARGET_READING: &str = "CASE WHEN entries.corrects IS NULL THEN NULL ELSE \
      (SELECT t.reading FROM entries t WHERE t.project = entries.project AND t.seq = entries.corrects) END";
+
+/// The evidence kinds, spelled as the partial index `entries_evidence` spells them so the
+/// planner uses it.
+const EVIDENCE_KINDS: &str = "entries.kind IN ('calibration', 'tracer-sample')";
 
 /// A row as the walk reads it: the entry, what replaces it, what it corrects (kind, grams,
 /// reading), its first fellow corrector, and the running figures stored with it.
@@ -180,6 +184,38 @@ impl Tx<'_> {
             None => Ok(walk.finish()),
             Some(e) => Err(self.undecodable(project, last_seq, &e)),
         }
+    }
+
+    /// The project's entries of the kinds a report reads before the others (calibrations and
+    /// tracer samples, `accounting::project_view::EVIDENCE`) that no correction recorded by
+    /// `as_of` replaces, recorded by then, in seq order, through their partial index. Decoded,
+    /// not checked: the walk that follows checks every row, and the view that it met these.
+    pub fn effective_evidence(
+        &mut self,
+        project: &str,
+        as_of: Option<DateTime<Utc>>,
+    ) -> Result<Vec<SealedEntry>> {
+        let cut = as_of.map(|t| t.naive_utc());
+        let replaced_by = sql::<Nullable<BigInt>>(REPLACED_BY)
+            .bind::<Nullable<Timestamp>, _>(cut)
+            .sql(", c.recorded_at))");
+        let rows: Vec<EntryRow> = entries::table
+            .filter(entries::project.eq(project))
+            .filter(sql::<Bool>(EVIDENCE_KINDS))
+            .filter(replaced_by.is_null())
+            .order(entries::seq)
+            .select(EntryRow::as_select())
+            .load(self.conn)?;
+        let mut out = Vec::new();
+        for row in rows {
+            let sealed = row
+                .to_sealed()
+                .map_err(|what| Error::entry(project, Some(row.seq), what))?;
+            if cut.is_none_or(|t| sealed.entry.recorded_at.naive_utc() <= t) {
+                out.push(sealed);
+            }
+        }
+        Ok(out)
     }
 
     /// A stored row whose fields no longer decode (a byte changed in a text): named by its seq,

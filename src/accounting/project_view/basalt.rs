@@ -4,13 +4,15 @@
 
 use super::{ProjectFigures, ViewError, evidence};
 use crate::accounting::balance::BalanceMethod;
+use crate::accounting::balance::each_piece;
+use crate::accounting::input::{InputError, Rule};
 use crate::accounting::tracer::{
     Campaign, CampaignStatistics, Injection, Mineralized, PeriodMineralization, TracerError,
     apply_campaigns, campaign_statistics, mineralized_fraction,
 };
 use crate::accounting::uncertainty::replicate_mean;
-use crate::ledger::period::{Bucket, Grouping, apportion};
-use crate::ledger::{Entry, EntryKind};
+use crate::ledger::Entry;
+use crate::ledger::period::{Bucket, Grouping};
 use crate::quantity::Mass;
 use chrono::NaiveDate;
 use std::collections::BTreeMap;
@@ -116,41 +118,10 @@ impl ProjectFigures {
         &self,
         grouping: Grouping,
     ) -> Result<BTreeMap<Bucket, PeriodMineralization<NaiveDate>>, ViewError> {
-        let mut pieces: Vec<(Bucket, Injection<NaiveDate>)> = Vec::new();
-        for e in self.entries().filter(|e| e.kind == EntryKind::Injection) {
-            for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
-                let end = e.period.to.min(b.last_day());
-                pieces.push((
-                    b,
-                    Injection {
-                        end,
-                        mass: Mass::from_grams(g),
-                    },
-                ));
-            }
+        match &self.view.basalt {
+            Some(fold) => fold.split(grouping),
+            None => Ok(BTreeMap::new()),
         }
-        let usable: Vec<Campaign<NaiveDate>> = self
-            .campaigns
-            .iter()
-            .filter_map(|c| {
-                c.fraction().map(|fraction| Campaign {
-                    date: c.date,
-                    fraction,
-                })
-            })
-            .collect();
-        let injections: Vec<Injection<NaiveDate>> = pieces.iter().map(|p| p.1).collect();
-        let split = apply_campaigns(&injections, &usable).map_err(ViewError::Tracer)?;
-        let mut by: BTreeMap<Bucket, PeriodMineralization<NaiveDate>> = BTreeMap::new();
-        for ((b, _), s) in pieces.iter().zip(&split) {
-            let slot = by.entry(*b).or_insert(nothing_yet(*b));
-            slot.injected += s.injected;
-            slot.mineralized += s.mineralized;
-            slot.still_dissolved += s.still_dissolved;
-            slot.not_yet_sampled += s.not_yet_sampled;
-            slot.campaign = slot.campaign.or(s.campaign);
-        }
-        Ok(by)
     }
 
     /// Every period that injected or stored anything, split by the evidence.
@@ -183,6 +154,99 @@ impl ProjectFigures {
                 }
             })
             .collect())
+    }
+}
+
+/// A basalt project's injections split by the latest usable campaign as they are fed, by
+/// period at every grouping: each piece of an entry (split by days between periods) is split
+/// on its own, in whole grams, as [`apply_campaigns`] splits it. The campaigns are read before
+/// the injections (the view reads tracer samples first), so a campaign recorded after an
+/// injection still splits it.
+#[derive(Debug)]
+pub(super) struct BasaltFold {
+    latest: Vec<Campaign<NaiveDate>>,
+    by: [BTreeMap<Bucket, PeriodMineralization<NaiveDate>>; 3],
+    /// Pieces fed at each grouping, and the first that was refused (a negative mass).
+    pieces: [usize; 3],
+    refused: [Option<TracerError>; 3],
+}
+
+impl BasaltFold {
+    pub(super) fn new(campaigns: &[CampaignRead]) -> BasaltFold {
+        let latest = campaigns
+            .iter()
+            .filter_map(|c| {
+                c.fraction().map(|fraction| Campaign {
+                    date: c.date,
+                    fraction,
+                })
+            })
+            .max_by_key(|c| c.date);
+        BasaltFold {
+            latest: latest.into_iter().collect(),
+            by: Default::default(),
+            pieces: [0; 3],
+            refused: [None, None, None],
+        }
+    }
+
+    /// Takes one injection entry.
+    pub(super) fn add(&mut self, e: &Entry) -> Result<(), ViewError> {
+        for (i, grouping) in [Grouping::Month, Grouping::Quarter, Grouping::Year]
+            .into_iter()
+            .enumerate()
+        {
+            let mut failed = None;
+            each_piece(e.mass.grams(), e.period, grouping, |b, g| {
+                let n = self.pieces[i];
+                self.pieces[i] += 1;
+                if g < 0 {
+                    self.refused[i].get_or_insert(TracerError::Input(InputError {
+                        field: format!("injections[{n}].mass_g"),
+                        value: g as f64,
+                        rule: Rule::NonNegative,
+                    }));
+                    return;
+                }
+                let end = e.period.to.min(b.last_day());
+                let piece = Injection {
+                    end,
+                    mass: Mass::from_grams(g),
+                };
+                match apply_campaigns(&[piece], &self.latest) {
+                    Ok(split) => {
+                        let slot = self.by[i].entry(b).or_insert(nothing_yet(b));
+                        for s in split {
+                            slot.injected += s.injected;
+                            slot.mineralized += s.mineralized;
+                            slot.still_dissolved += s.still_dissolved;
+                            slot.not_yet_sampled += s.not_yet_sampled;
+                            slot.campaign = slot.campaign.or(s.campaign);
+                        }
+                    }
+                    Err(err) => failed = Some(err),
+                }
+            });
+            if let Some(err) = failed {
+                return Err(ViewError::Tracer(err));
+            }
+        }
+        Ok(())
+    }
+
+    fn split(
+        &self,
+        grouping: Grouping,
+    ) -> Result<BTreeMap<Bucket, PeriodMineralization<NaiveDate>>, ViewError> {
+        let i = match grouping {
+            Grouping::Month => 0,
+            Grouping::Quarter => 1,
+            Grouping::Year => 2,
+        };
+        match &self.refused[i] {
+            Some(err) => Err(ViewError::Tracer(err.clone())),
+            None => Ok(self.by[i].clone()),
+        }
     }
 }
 

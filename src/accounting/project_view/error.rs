@@ -15,6 +15,9 @@ pub enum ViewError {
         kind: EntryKind,
         what: String,
     },
+    /// The evidence read before the fold (calibrations, tracer samples) is not what the fold
+    /// met among the entries: the ledger changed under the read, or its rows disagree.
+    EvidenceDiffers { project: String, what: String },
     /// A registered feedstock whose stored analysis no longer reads.
     Feedstock {
         project: String,
@@ -35,6 +38,7 @@ impl ViewError {
     pub fn is_inconsistency(&self) -> bool {
         match self {
             ViewError::Undecodable { .. }
+            | ViewError::EvidenceDiffers { .. }
             | ViewError::Feedstock { .. }
             | ViewError::Setting { .. } => true,
             ViewError::Campaign(e) => matches!(e, CampaignError::UnknownFeedstock { .. }),
@@ -54,6 +58,10 @@ impl fmt::Display for ViewError {
             } => write!(
                 f,
                 "project {project} seq {seq}: stored {kind} reading: {what}"
+            ),
+            ViewError::EvidenceDiffers { project, what } => write!(
+                f,
+                "project {project}: the calibrations and tracer samples read by kind differ from its chain at {what}"
             ),
             ViewError::Feedstock {
                 project,

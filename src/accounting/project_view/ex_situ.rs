@@ -3,8 +3,8 @@
 //! by period.
 
 use super::ProjectFigures;
+use crate::ledger::Entry;
 use crate::ledger::period::{Bucket, Grouping, apportion};
-use crate::ledger::{Entry, EntryKind};
 use crate::quantity::Mass;
 use std::collections::BTreeMap;
 
@@ -40,8 +40,7 @@ impl ProjectFigures {
     /// days.
     pub fn carbonation(&self, grouping: Grouping) -> Vec<CarbonationLine> {
         let mut by: BTreeMap<Bucket, CarbonationLine> = BTreeMap::new();
-        for &(i, batch) in &self.view.batches {
-            let e = &self.view.entries[i];
+        for (e, batch) in &self.view.batches {
             for (b, g) in apportion(batch.fed_g, e.period, grouping) {
                 line(&mut by, b).fed_g += g;
             }
@@ -56,10 +55,8 @@ impl ProjectFigures {
                 line(&mut by, b).emissions += Mass::from_grams(g);
             }
         }
-        for e in self.entries().filter(|e| e.kind == EntryKind::Emission) {
-            for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
-                line(&mut by, b).emissions += Mass::from_grams(g);
-            }
+        for (b, m) in self.view.emissions.by_period(grouping) {
+            line(&mut by, *b).emissions += *m;
         }
         let (mut stored, mut net) = (Mass::ZERO, Mass::ZERO);
         by.into_values()
@@ -76,9 +73,9 @@ impl ProjectFigures {
 
     /// Batches whose solid lost CO2, with what the record found.
     pub fn carbonation_findings(&self) -> impl Iterator<Item = (&Entry, &str)> {
-        self.view.batches.iter().filter_map(|&(i, _)| {
-            let e = &self.view.entries[i];
-            e.reading.text("finding").map(|f| (e, f))
-        })
+        self.view
+            .batches
+            .iter()
+            .filter_map(|(e, _)| e.reading.text("finding").map(|f| (e, f)))
     }
 }

@@ -3,14 +3,18 @@
 //! (carbonation uptake net of the project's emissions), weathering (net removal). `balance`,
 //! `totals`, `reconcile`, `chart` and the claims all read their figures here.
 //!
-//! The view is a fold: the caller feeds a project's effective entries (those no correction
-//! replaces) one at a time in seq order with [`ProjectView::add`], each decoded once, then asks
-//! [`ProjectView::finish`] for the figures.
+//! The view is a fold: the caller reads the project's evidence (calibrations, tracer samples)
+//! first, then feeds its effective entries (those no correction replaces) one at a time in seq
+//! order with [`ProjectView::add`], each decoded once, then asks [`ProjectView::finish`] for
+//! the figures. What it holds grows with periods and meters, not with entries.
 
 mod basalt;
+mod emissions;
 mod error;
 pub mod evidence;
 mod ex_situ;
+#[cfg(test)]
+mod fold_tests;
 mod geological;
 mod reported;
 mod rock_uncertainty;
@@ -30,7 +34,7 @@ pub use weathering::{
     CampaignTotal, EmissionsInScope, campaign_total, deduction_setting, default_settings,
 };
 
-use super::balance::BalanceMethod;
+use super::balance::{BalanceMethod, BalanceSums};
 use super::buffer_pool::BufferPool;
 use super::claims::{ClaimBasis, PoolEvent, claim_pool, period_claim_net_of, rules};
 use super::conservative::DeductionRule;
@@ -40,34 +44,61 @@ use super::uncertainty::Estimate;
 use super::weathering::campaign::{Application, Core, Feedstock};
 use crate::ledger::feedstock::Feedstock as Registered;
 use crate::ledger::period::{Bucket, Grouping};
+use crate::ledger::seal::late_for;
 use crate::ledger::setting::{Setting, SettingName, in_force};
 use crate::ledger::{Entry, EntryKind, Method, Project, Site};
 use crate::quantity::Mass;
+use basalt::BasaltFold;
 use chrono::NaiveDate;
+use emissions::EmissionSums;
 use evidence::Batch;
+use geological::Calibrations;
 use std::collections::BTreeMap;
 
 /// Each claim period's claim, the pool after them, and its events.
 pub type ClaimPool = (Vec<(Bucket, Claim)>, BufferPool, Vec<PoolEvent>);
 
-/// What the view is built from besides the entries: the registrations and settings in force.
+/// What the view is built from besides the entries: the registrations and settings in force,
+/// and the evidence the metered entries are read with.
 pub struct Registrations {
     pub project: Project,
     pub sites: Vec<Site>,
     pub settings: Vec<Setting>,
     pub feedstocks: Vec<Registered>,
+    /// The project's effective entries of the [`EVIDENCE`] kinds, in seq order, read before
+    /// the fold: a calibration applies by activity date, so one recorded after a reading sets
+    /// its uncertainty; the latest tracer campaign splits every injection before it. The fold
+    /// checks that the entries fed include exactly these.
+    pub evidence: Vec<Entry>,
 }
 
-/// A project's figures, fed entry by entry.
+/// The kinds the view reads before the others (see [`Registrations::evidence`]).
+pub const EVIDENCE: [EntryKind; 2] = [EntryKind::Calibration, EntryKind::TracerSample];
+
+/// A project's figures, fed entry by entry. The metered entries are folded into sums by
+/// period, term and meter as they arrive; only the few entries the reports list one by one
+/// (late adjustments, leakage events, reversals) and the rock routes' evidence are kept.
 pub struct ProjectView {
     project: Project,
     sites: Vec<Site>,
     settings: Vec<Setting>,
     feedstocks: Vec<Feedstock>,
-    /// Effective entries in seq order, for the geological balance and the tables that list them.
-    entries: Vec<Entry>,
+    /// The evidence read first, and how many of its entries the fold has met.
+    evidence: Vec<Entry>,
+    evidence_met: usize,
+    calibrations: Calibrations,
+    balance: BalanceSums,
+    emissions: EmissionSums,
+    basalt: Option<BasaltFold>,
+    /// Effective entries the reports list one by one, in seq order.
+    listed: Vec<Entry>,
+    over_permit: Vec<u64>,
+    /// Balance-term tonnes on an assumed CO2 fraction and their entries; balance-term entries
+    /// that state no uncertainty anywhere.
+    assumed: (Mass, usize),
+    unstated: usize,
     samples: Vec<SampleRead>,
-    batches: Vec<(usize, Batch)>,
+    batches: Vec<(Entry, Batch)>,
     applications: Vec<Application>,
     cores: Vec<Core>,
     /// Count activity only up to this day (`--through`).
@@ -75,34 +106,54 @@ pub struct ProjectView {
 }
 
 impl ProjectView {
-    pub fn new(r: Registrations) -> Result<ProjectView, ViewError> {
+    /// A view counting activity up to and including `through` where given (see [`through`]);
+    /// claim periods then take the settings in force on their last day or on that day,
+    /// whichever is earlier.
+    pub fn new(r: Registrations, through: Option<NaiveDate>) -> Result<ProjectView, ViewError> {
         let feedstocks = r
             .feedstocks
             .iter()
             .map(evidence::analysed)
             .collect::<Result<_, _>>()?;
+        let evidence: Vec<Entry> = r
+            .evidence
+            .iter()
+            .filter_map(|e| match through {
+                Some(day) => through::entry_through(e, day).map(|c| c.into_owned()),
+                None => Some(e.clone()),
+            })
+            .collect();
+        let samples = evidence
+            .iter()
+            .filter(|e| e.kind == EntryKind::TracerSample)
+            .map(SampleRead::of)
+            .collect::<Result<Vec<_>, _>>()?;
+        let basalt = (r.project.method == Method::BasaltMineralization)
+            .then(|| BasaltFold::new(&basalt::campaigns(&samples)));
         Ok(ProjectView {
+            calibrations: Calibrations::new(&evidence),
             project: r.project,
             sites: r.sites,
             settings: r.settings,
             feedstocks,
-            entries: Vec::new(),
-            samples: Vec::new(),
+            evidence,
+            evidence_met: 0,
+            balance: BalanceSums::default(),
+            emissions: EmissionSums::default(),
+            basalt,
+            listed: Vec::new(),
+            over_permit: Vec::new(),
+            assumed: (Mass::ZERO, 0),
+            unstated: 0,
+            samples,
             batches: Vec::new(),
             applications: Vec::new(),
             cores: Vec::new(),
-            through: None,
+            through,
         })
     }
 
-    /// Counts activity only up to and including `day` (see [`through`]); claim periods take
-    /// the settings in force on their last day or on `day`, whichever is earlier.
-    pub fn through(mut self, day: Option<NaiveDate>) -> ProjectView {
-        self.through = day;
-        self
-    }
-
-    /// Takes one effective entry; its reading is decoded now, once.
+    /// Takes one effective entry, in seq order; its reading is decoded now, once.
     pub fn add(&mut self, e: &Entry) -> Result<(), ViewError> {
         let whole = e;
         let e = match self.through {
@@ -114,28 +165,72 @@ impl ProjectView {
         };
         let e = e.as_ref();
         match e.kind {
-            EntryKind::TracerSample => self.samples.push(SampleRead::of(e)?),
+            EntryKind::Calibration | EntryKind::TracerSample => self.meet_evidence(e)?,
             EntryKind::Carbonation => {
                 let mut b = evidence::batch_of(e)?;
                 if let Some(day) = self.through {
                     b = through::batch_through(b, whole.period, day);
                 }
-                self.batches.push((self.entries.len(), b));
+                self.batches.push((e.clone(), b));
             }
             EntryKind::Application => self.applications.push(evidence::application_of(e)?),
             EntryKind::SoilSample => self.cores.push(evidence::core_of(e)?),
+            EntryKind::Emission => self.emissions.add(e),
+            EntryKind::Injection => {
+                if let Some(b) = &mut self.basalt {
+                    b.add(e)?;
+                }
+            }
             _ => {}
         }
-        self.entries.push(e.clone());
+        let mut rel_u = 0.0;
+        if e.kind.is_balance_term() {
+            match self.calibrations.rel_uncertainty(e, &self.sites) {
+                Some(u) => rel_u = u,
+                None => self.unstated += 1,
+            }
+            if assumed_fraction(&e.reading) {
+                self.assumed = (self.assumed.0 + e.mass, self.assumed.1 + 1);
+            }
+        }
+        self.balance.add(e, rel_u);
+        if e.reading.flag("over_permit") {
+            self.over_permit.push(e.seq);
+        }
+        if late_for(e).is_some() || matches!(e.kind, EntryKind::Leakage | EntryKind::Reversal) {
+            self.listed.push(e.clone());
+        }
         Ok(())
     }
 
-    pub fn finish(self) -> ProjectFigures {
+    /// An entry of an evidence kind must be the next of the evidence read first.
+    fn meet_evidence(&mut self, e: &Entry) -> Result<(), ViewError> {
+        match self.evidence.get(self.evidence_met) {
+            Some(expected) if expected == e => {
+                self.evidence_met += 1;
+                Ok(())
+            }
+            _ => Err(self.evidence_differs(format!("seq {} ({})", e.seq, e.kind))),
+        }
+    }
+
+    fn evidence_differs(&self, what: String) -> ViewError {
+        ViewError::EvidenceDiffers {
+            project: self.project.code.clone(),
+            what,
+        }
+    }
+
+    /// The figures, once every effective entry has been fed.
+    pub fn finish(self) -> Result<ProjectFigures, ViewError> {
+        if let Some(e) = self.evidence.get(self.evidence_met) {
+            return Err(self.evidence_differs(format!("seq {} ({}) was not fed", e.seq, e.kind)));
+        }
         let campaigns = basalt::campaigns(&self.samples);
-        ProjectFigures {
+        Ok(ProjectFigures {
             view: self,
             campaigns,
-        }
+        })
     }
 }
 
@@ -154,9 +249,15 @@ impl ProjectFigures {
         &self.view.sites
     }
 
-    /// The effective entries, in seq order.
-    pub fn entries(&self) -> impl Iterator<Item = &Entry> {
-        self.view.entries.iter()
+    /// The effective entries the reports list one by one, in seq order: the late adjustments
+    /// (any kind), the leakage events and the reversals.
+    pub fn listed(&self) -> impl Iterator<Item = &Entry> {
+        self.view.listed.iter()
+    }
+
+    /// The seqs of the entries recorded over the permit (`--over-permit`).
+    pub fn over_permit(&self) -> &[u64] {
+        &self.view.over_permit
     }
 
     /// The one granularity at which the project's claims are made (`project set
@@ -337,14 +438,12 @@ impl ProjectFigures {
     /// produced, leaked, vented) that rest on a CO2 fraction no reading stated, and the number
     /// of entries they come from.
     pub fn on_assumed_fraction(&self) -> (Mass, usize) {
-        self.entries()
-            .filter(|e| e.kind.is_balance_term() && assumed_fraction(&e.reading))
-            .fold((Mass::ZERO, 0), |(m, n), e| (m + e.mass, n + 1))
+        self.view.assumed
     }
 
-    /// Every reversal recorded, as (date, mass).
+    /// Every reversal recorded.
     fn reversals(&self) -> impl Iterator<Item = &Entry> {
-        self.entries().filter(|e| e.kind == EntryKind::Reversal)
+        self.listed().filter(|e| e.kind == EntryKind::Reversal)
     }
 }
 

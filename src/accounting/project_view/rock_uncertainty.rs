@@ -26,8 +26,7 @@ impl ProjectFigures {
     /// The uptake uncertainty of each period with carbonation batches.
     pub fn carbonation_uncertainty(&self, grouping: Grouping) -> BTreeMap<Bucket, UptakeU> {
         let mut readings: BTreeMap<Bucket, (Vec<Reading>, UptakeU)> = BTreeMap::new();
-        for &(i, batch) in &self.view.batches {
-            let e = &self.view.entries[i];
+        for (e, batch) in &self.view.batches {
             for (b, g) in apportion(e.mass.grams(), e.period, grouping) {
                 let (list, u) = readings.entry(b).or_default();
                 u.batches += 1;

@@ -6,15 +6,15 @@
 
 use super::{ProjectFigures, ViewError};
 use crate::accounting::weathering::campaign::{
-    CampaignLine, CampaignResult as Reading, DissolutionMethod, Emission, Field, Inputs,
-    RollupLine, Settings, campaigns, rollup,
+    CampaignLine, CampaignResult, DissolutionMethod, Field, Inputs, RollupLine, Settings,
+    campaigns, rollup,
 };
 use crate::accounting::weathering::composition::Immobile;
 use crate::accounting::weathering::removal::{Cation, Deduction, Deductions, RemovalError};
 use crate::accounting::weathering::three_end_member::Resolution;
+use crate::ledger::SiteKind;
 use crate::ledger::period::{Bucket, Grouping};
 use crate::ledger::setting::{SettingName, in_force};
-use crate::ledger::{EntryKind, SiteKind};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
 use chrono::NaiveDate;
@@ -63,17 +63,6 @@ pub struct CampaignTotal {
 }
 
 impl ProjectFigures {
-    fn emissions(&self) -> Vec<Emission<'_>> {
-        self.entries()
-            .filter(|e| e.kind == EntryKind::Emission)
-            .map(|e| Emission {
-                site: &e.site,
-                period: e.period,
-                mass: e.mass,
-            })
-            .collect()
-    }
-
     /// Each soil campaign of the fields (or the one field), read with `s`.
     pub fn weathering_campaigns(
         &self,
@@ -108,7 +97,7 @@ impl ProjectFigures {
             .filter(|c| wanted(&c.field))
             .cloned()
             .collect();
-        let emissions = self.emissions();
+        let emissions = self.view.emissions.per_site_end();
         campaigns(
             &Inputs {
                 fields: &fields,
@@ -212,9 +201,10 @@ impl ProjectFigures {
         self.project_deductions(&mut lines, &Ok)?;
         let unread = lines
             .iter()
-            .filter(|l| matches!(l.reading, Reading::Finding(_)))
+            .filter(|l| matches!(l.reading, CampaignResult::Finding(_)))
             .count();
-        let roll = rollup(&lines, &self.view.applications, &self.emissions(), grouping);
+        let emissions = self.view.emissions.per_period(grouping);
+        let roll = rollup(&lines, &self.view.applications, &emissions, grouping);
         Ok((roll, unread))
     }
 
@@ -226,12 +216,7 @@ impl ProjectFigures {
             .filter(|s| s.kind == SiteKind::Field)
             .map(|s| s.code.as_str())
             .collect();
-        let sum = |keep: &dyn Fn(&str) -> bool| -> Mass {
-            self.entries()
-                .filter(|e| e.kind == EntryKind::Emission && keep(&e.site))
-                .map(|e| e.mass)
-                .sum()
-        };
+        let sum = |keep: &dyn Fn(&str) -> bool| self.view.emissions.at_sites(keep);
         EmissionsInScope {
             recorded: sum(&|site| only.is_none_or(|f| f == site)),
             elsewhere: sum(&|site| only.is_none() && !fields.contains(&site)),
@@ -243,7 +228,9 @@ impl ProjectFigures {
 pub fn campaign_total(lines: &[CampaignLine], recorded: Mass) -> CampaignTotal {
     let mut latest: Vec<&CampaignLine> = Vec::new();
     for l in lines.iter().rev() {
-        if matches!(l.reading, Reading::Resolved(_)) && !latest.iter().any(|x| x.field == l.field) {
+        if matches!(l.reading, CampaignResult::Resolved(_))
+            && !latest.iter().any(|x| x.field == l.field)
+        {
             latest.push(l);
         }
     }
@@ -256,7 +243,7 @@ pub fn campaign_total(lines: &[CampaignLine], recorded: Mass) -> CampaignTotal {
         net: Mass::ZERO,
     };
     for l in &latest {
-        if let Reading::Resolved(r) = &l.reading {
+        if let CampaignResult::Resolved(r) = &l.reading {
             t.applied_g += l.applied_g;
             t.potential += l.potential;
             t.gross += r.gross.total;
