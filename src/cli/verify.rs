@@ -5,11 +5,12 @@ use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::ledger::ledger_chain::{LinkWalk, Record};
 use crate::ledger::seal_check::SealCheck;
-use crate::ledger::{EntryKind, Project};
+use crate::ledger::{Entry, EntryKind, Project};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
-use crate::store::Tx;
+use crate::store::{StoredImport, Tx};
 use clap::Args;
+use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct VerifyArgs {
@@ -58,6 +59,8 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             names::CHAIN_HEAD,
             names::CHAIN_HASH.programs(),
             names::RESULT,
+            names::LEDGER_LINKS.programs(),
+            names::LEDGER_HASH.programs(),
         ]),
     );
     let (links, ledger_head) = store.read(|tx| {
@@ -67,8 +70,11 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             Some(code) => vec![super::setup::known_project(tx, code)?],
             None => projects,
         };
+        let (links, head) = ledger;
         for p in chosen {
-            t.push(check_project(tx, &p, expected)?);
+            let mut row = check_project(tx, &p, expected)?;
+            row.extend([Cell::Int(links as i64), Cell::text(head.to_hex())]);
+            t.push(row);
         }
         Ok(ledger)
     })?;
@@ -77,9 +83,11 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
         ledger_head.to_hex()
     ));
-    if a.deep {
-        t.note("SQLite's integrity_check found the file's structure whole.");
-    }
+    t.note(if a.deep {
+        "SQLite's integrity_check found the file's structure whole."
+    } else {
+        "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
+    });
     if expected.is_some() {
         t.note("The published chain head given with --expect-head is still held by the chain.");
     }
@@ -148,7 +156,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     let sites = tx.sites(&p.code)?;
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
-    super::evidence::check(tx, &p.code)?;
+    let mut unnamed = Unnamed::new(super::evidence::check(tx, &p.code)?);
     let at = |seq: u64, what: String| {
         Error::Inconsistent(format!("project {} seq {seq}: {what}", p.code))
     };
@@ -170,12 +178,14 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         } else if !sites.iter().any(|x| x.code == e.site) {
             return Err(at(e.seq, format!("site {} is not registered", e.site)));
         }
+        unnamed.see(e);
         seals.push(row.sealed).map_err(|w| at(e.seq, w))?;
         states.check(&p.code, e.seq, row.sealed.chain)?;
         holds_expected |= expected == Some(row.sealed.chain);
         Ok(())
     })?;
     states.finish(&p.code, c.entries)?;
+    unnamed.finish(&p.code)?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
@@ -208,4 +218,37 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Cell::text(c.head.to_hex()),
         Cell::text("intact"),
     ])
+}
+
+/// The project's imported files no entry has named yet as its evidence: each must be named by
+/// the end of the walk (an import whose entries were cut from the chain's end leaves its file).
+struct Unnamed(HashMap<Hash, StoredImport>);
+
+impl Unnamed {
+    fn new(imports: Vec<StoredImport>) -> Self {
+        Unnamed(
+            imports
+                .into_iter()
+                .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i)))
+                .collect(),
+        )
+    }
+
+    fn see(&mut self, e: &Entry) {
+        if let Some(ev) = &e.evidence
+            && !self.0.is_empty()
+        {
+            self.0.remove(&ev.sha256);
+        }
+    }
+
+    fn finish(self, project: &str) -> Result<()> {
+        match self.0.into_values().min_by_key(|i| i.id) {
+            None => Ok(()),
+            Some(i) => Err(Error::Inconsistent(format!(
+                "project {project} import {} ({}): no entry of the chain names this file as its evidence",
+                i.id, i.file_name
+            ))),
+        }
+    }
 }

@@ -7,6 +7,7 @@ pub mod layout;
 pub mod names;
 mod people;
 pub mod render;
+pub mod stream;
 pub mod table;
 mod wrap;
 
