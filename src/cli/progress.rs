@@ -26,7 +26,7 @@ pub fn entries(doing: &str, total: u64) -> ProgressBar {
     bar(
         total,
         ENTRIES_WORTH_SHOWING,
-        "{msg} {bar:40} {human_pos}/{human_len} entries ({eta} left)",
+        "{msg} {bar:30} {human_pos}/{human_len} entries ({eta} left)",
         doing.to_string(),
     )
 }

@@ -10,6 +10,7 @@ use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
 use crate::store::{StoredImport, Tx};
 use clap::Args;
+use indicatif::ProgressBar;
 use std::collections::HashMap;
 
 #[derive(Debug, Args)]
@@ -71,11 +72,17 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             None => projects,
         };
         let (links, head) = ledger;
+        let mut total = 0;
+        for p in &chosen {
+            total += tx.chain_tip(&p.code)?.0;
+        }
+        let bar = super::progress::entries("verifying", total);
         for p in chosen {
-            let mut row = check_project(tx, &p, expected)?;
+            let mut row = check_project(tx, &p, expected, &bar)?;
             row.extend([Cell::Int(links as i64), Cell::text(head.to_hex())]);
             t.push(row);
         }
+        bar.finish_and_clear();
         Ok(ledger)
     })?;
     t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
@@ -152,7 +159,12 @@ fn check_ledger_chain(
 
 /// One project's rows against their hashes, its chain streamed and checked with its seals, and
 /// the published head if one is given; the project's row of the table.
-fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result<Vec<Cell>> {
+fn check_project(
+    tx: &mut Tx<'_>,
+    p: &Project,
+    expected: Option<Hash>,
+    bar: &ProgressBar,
+) -> Result<Vec<Cell>> {
     let sites = tx.sites(&p.code)?;
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
@@ -171,6 +183,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     let states = super::reconciliations::ChainStates::new(&reconciliations);
     let c = tx.walk_chain(&p.code, None, |row| {
         let e = &row.sealed.entry;
+        bar.inc(1);
         if e.site.is_empty() {
             if e.kind != EntryKind::Seal && !e.kind.site_optional() {
                 return Err(at(e.seq, format!("a {} entry names no site", e.kind)));
