@@ -43,3 +43,14 @@ fn bar(total: u64, worth: u64, template: &str, message: String) -> ProgressBar {
     bar.set_message(message);
     bar
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn small_work_draws_no_bar() {
+        assert!(entries("verifying", ENTRIES_WORTH_SHOWING - 1).is_hidden());
+        assert!(bytes("m.csv", BYTES_WORTH_SHOWING - 1).is_hidden());
+    }
+}
