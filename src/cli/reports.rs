@@ -88,7 +88,9 @@ fn walk_entries(
 ) -> Result<u64> {
     ctx.open()?.read(|tx| {
         known_project(tx, project)?;
-        let bar = super::progress::entries("listing entries", tx.chain_tip(project)?.0);
+        // The bar's length only: a tip that does not read back is the walk's to name.
+        let length = tx.chain_tip(project).map_or(0, |(next, _)| next);
+        let bar = super::progress::entries("listing entries", length);
         let c = tx.walk_chain(project, None, |row| {
             bar.inc(1);
             f(row.sealed, row.replaced_by)
