@@ -140,44 +140,6 @@ struct Figure {
     peak_mb: Option<f64>,
 }
 
-/// The median of `RECORDS` records into each ledger, taken in turns so both see the same
-/// load: `(at scale, at SMALL entries)`, each with its peak memory.
-fn records(big: &Path, small: &Path, day0: usize) -> ((f64, Option<f64>), (f64, Option<f64>)) {
-    let at = |db: &Path, i: usize| {
-        let day = format!("2026-06-{:02}", day0 + i);
-        let mass = format!("10.{i} t");
-        sinkbook(
-            db,
-            &[
-                "record",
-                "injection",
-                "TFS",
-                "--site",
-                "TF-I1",
-                "--mass",
-                &mass,
-                "--co2-fraction",
-                "0.985",
-                "--from",
-                &day,
-                "--to",
-                &day,
-            ],
-        )
-    };
-    let (mut b, mut s) = (Vec::new(), Vec::new());
-    for i in 0..RECORDS {
-        b.push(at(big, i));
-        s.push(at(small, i));
-    }
-    (median(b), median(s))
-}
-
-fn median(mut v: Vec<(f64, Option<f64>)>) -> (f64, Option<f64>) {
-    v.sort_by(|a, b| a.0.total_cmp(&b.0));
-    v[v.len() / 2]
-}
-
 /// Import, balance, totals and record on one backend; `round` counts the runs before, so each
 /// run's records into the small ledger are new entries (other days), not repeats of a key.
 fn measure(
@@ -194,7 +156,8 @@ fn measure(
     let (balance, balance_mb) = sinkbook(db, &["balance", "TFS", "--by", "quarter"]);
     let (totals, totals_mb) = sinkbook(db, &["totals"]);
     let sum = shell.sum();
-    let ((record, record_mb), (record_small, _)) = records(db, small, 1 + round * RECORDS);
+    let ((record, record_mb), (record_small, _)) =
+        common::records(db, small, 1 + round * RECORDS, RECORDS);
     [
         Figure {
             ours: import,
@@ -226,20 +189,8 @@ const STEPS: [(&str, &str); 4] = [
     ("record injection", "record at 100 entries"),
 ];
 
-fn mb(m: Option<f64>) -> String {
-    m.map_or("—".into(), |m| format!("{m:.0}"))
-}
-
 fn main() {
-    let sizes: Vec<u64> = std::env::var("SINKBOOK_BENCH_ROWS")
-        .unwrap_or_else(|_| "1000000".into())
-        .split(',')
-        .map(|r| {
-            r.trim()
-                .parse()
-                .expect("SINKBOOK_BENCH_ROWS is whole numbers of rows, comma-separated")
-        })
-        .collect();
+    let sizes = common::sizes("1000000");
     let Some(small_db) = Database::create("small") else {
         println!("PostgreSQL not measured: psql could not create a database on 127.0.0.1:5432");
         return;
@@ -292,11 +243,11 @@ fn main() {
                 f.ours,
                 f.baseline,
                 f.ours / f.baseline,
-                mb(f.peak_mb),
+                common::mb(f.peak_mb),
                 p.ours,
                 p.baseline,
                 p.ours / p.baseline,
-                mb(p.peak_mb),
+                common::mb(p.peak_mb),
                 p.ours / f.ours
             );
         }

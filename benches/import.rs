@@ -11,8 +11,10 @@
 
 mod common;
 
+use std::ffi::OsStr;
 use std::io::Write;
 use std::path::{Path, PathBuf};
+use std::process::Stdio;
 use std::time::Instant;
 
 /// Two meters, one mass (t) and one volumetric (Mscf), a reading every 63 s from 2025-01-01.
@@ -78,17 +80,17 @@ fn measure(dir: &Path, tag: &str, name: &str, csv: &Path, rows: u64) -> PathBuf 
         mb(peak)
     );
     let plain = dir.join(format!("{tag}-plain.db"));
+    let import = format!(".import {} readings", csv.display());
     let shell = [
-        "sqlite3".to_string(),
-        plain.display().to_string(),
-        ".mode csv".into(),
-        format!(".import {} readings", csv.display()),
+        plain.as_os_str(),
+        OsStr::new(".mode csv"),
+        OsStr::new(&import),
     ];
     let have_shell = std::process::Command::new("sqlite3")
         .arg("-version")
         .output()
         .is_ok();
-    match have_shell.then(|| common::measured_command(&shell)) {
+    match have_shell.then(|| common::peak(OsStr::new("sqlite3"), &shell, Stdio::piped())) {
         Some((secs, base_peak, o)) if o.status.success() => {
             println!(
                 "  sqlite3 .import   {secs:>8.3} s  {:>10.0} rows/s  peak {}  (baseline, same run)",

@@ -1,8 +1,11 @@
-//! Meter files the benchmarks import: generated, so every run measures the same rows.
+//! Meter files the benchmarks import (generated, so every run measures the same rows), the
+//! commands they time, and how they print the figures. Each bench uses part of it.
+#![allow(dead_code)]
 
+use std::ffi::OsStr;
 use std::io::Write;
 use std::path::Path;
-use std::process::Command;
+use std::process::{Command, Stdio};
 
 /// 1,000 mass meters on two wells, one daily total each from 2023-04-01, for `rows` / 1,000
 /// days: one entry per row.
@@ -44,10 +47,13 @@ pub fn sinkbook(db: &Path, args: &[&str]) -> std::process::Output {
 /// Runs sinkbook on `db` under `/usr/bin/time` when it is there, insisting on success: seconds,
 /// peak memory in MB (None without /usr/bin/time), and what it printed.
 pub fn measured(db: &Path, args: &[&str]) -> (f64, Option<f64>, std::process::Output) {
-    let mut cmd = vec![env!("CARGO_BIN_EXE_sinkbook").to_string(), "--db".into()];
-    cmd.push(db.to_str().unwrap().into());
-    cmd.extend(args.iter().map(|a| a.to_string()));
-    let (secs, peak, o) = measured_command(&cmd);
+    let mut words = vec![OsStr::new("--db"), db.as_os_str()];
+    words.extend(args.iter().map(OsStr::new));
+    let (secs, peak, o) = peak(
+        OsStr::new(env!("CARGO_BIN_EXE_sinkbook")),
+        &words,
+        Stdio::piped(),
+    );
     assert!(
         o.status.success(),
         "sinkbook {args:?}: {}",
@@ -56,20 +62,25 @@ pub fn measured(db: &Path, args: &[&str]) -> (f64, Option<f64>, std::process::Ou
     (secs, peak, o)
 }
 
-/// Runs `cmd` (program and arguments) under `/usr/bin/time` when it is there: seconds, peak
-/// memory in MB (None without /usr/bin/time), and what it printed, whether it succeeded or not.
-pub fn measured_command(cmd: &[String]) -> (f64, Option<f64>, std::process::Output) {
+/// Runs `program` under `/usr/bin/time` when it is there, its standard output to `stdout`:
+/// seconds, peak memory in MB (None without /usr/bin/time), and what it printed (its own
+/// standard error, then time's line).
+pub fn peak(
+    program: &OsStr,
+    args: &[&OsStr],
+    stdout: Stdio,
+) -> (f64, Option<f64>, std::process::Output) {
     let have_time = Path::new("/usr/bin/time").exists();
-    let mut c = if have_time {
+    let mut cmd = if have_time {
         let mut c = Command::new("/usr/bin/time");
-        c.args(["-f", "%M"]).arg(&cmd[0]);
+        c.args(["-f", "%M"]).arg(program);
         c
     } else {
-        Command::new(&cmd[0])
+        Command::new(program)
     };
-    c.args(&cmd[1..]);
+    cmd.args(args).stdout(stdout).stderr(Stdio::piped());
     let t = std::time::Instant::now();
-    let o = c.output().unwrap();
+    let o = cmd.output().unwrap();
     let secs = t.elapsed().as_secs_f64();
     let peak = have_time
         .then(|| {
@@ -83,12 +94,78 @@ pub fn measured_command(cmd: &[String]) -> (f64, Option<f64>, std::process::Outp
     (secs, peak, o)
 }
 
-/// The machine's load average over 1, 5 and 15 minutes, as the benchmarks print beside their
-/// figures (the build machine is shared).
+/// The sizes to run, from `SINKBOOK_BENCH_ROWS` (comma-separated rows), else `default`.
+pub fn sizes(default: &str) -> Vec<u64> {
+    std::env::var("SINKBOOK_BENCH_ROWS")
+        .unwrap_or_else(|_| default.into())
+        .split(',')
+        .map(|r| {
+            r.trim()
+                .parse()
+                .expect("SINKBOOK_BENCH_ROWS is whole numbers of rows, comma-separated")
+        })
+        .collect()
+}
+
+/// The machine's load average over 1, 5 and 15 minutes (it is shared and noisy).
 pub fn load_average() -> String {
     std::fs::read_to_string("/proc/loadavg")
         .map(|l| l.split_whitespace().take(3).collect::<Vec<_>>().join(" "))
         .unwrap_or_else(|_| "unknown".into())
+}
+
+/// Peak memory for a table cell.
+pub fn mb(m: Option<f64>) -> String {
+    m.map_or("—".into(), |m| format!("{m:.0}"))
+}
+
+/// The median of several timed runs, by time.
+pub fn median(mut v: Vec<(f64, Option<f64>)>) -> (f64, Option<f64>) {
+    v.sort_by(|a, b| a.0.total_cmp(&b.0));
+    v[v.len() / 2]
+}
+
+/// The arguments of the `i`-th timed record: an injection on a day of June 2026 from `day0`.
+pub fn record_args(day0: usize, i: usize) -> Vec<String> {
+    [
+        "record",
+        "injection",
+        "TFS",
+        "--site",
+        "TF-I1",
+        "--mass",
+        &format!("10.{i} t"),
+        "--co2-fraction",
+        "0.985",
+        "--from",
+        &format!("2026-06-{:02}", day0 + i),
+        "--to",
+        &format!("2026-06-{:02}", day0 + i),
+    ]
+    .map(String::from)
+    .to_vec()
+}
+
+/// The median of `n` records into each ledger, taken in turns so both see the same load:
+/// `(into big, into small)`, each with its peak memory.
+pub fn records(
+    big: &Path,
+    small: &Path,
+    day0: usize,
+    n: usize,
+) -> ((f64, Option<f64>), (f64, Option<f64>)) {
+    let at = |db: &Path, i: usize| {
+        let args = record_args(day0, i);
+        let words: Vec<&str> = args.iter().map(String::as_str).collect();
+        let (secs, peak, _) = measured(db, &words);
+        (secs, peak)
+    };
+    let (mut b, mut s) = (Vec::new(), Vec::new());
+    for i in 0..n {
+        b.push(at(big, i));
+        s.push(at(small, i));
+    }
+    (median(b), median(s))
 }
 
 /// A new ledger at `db` with project TFS and its two injection wells.

@@ -220,6 +220,7 @@ impl Context {
 /// Runs one parsed command.
 pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
     let db = cli.db.clone();
+    let format = cli.format;
     let ctx = Context {
         db: db.clone().unwrap_or_else(|| PathBuf::from(DEFAULT_DB)),
         now,
@@ -232,7 +233,7 @@ pub fn run(cli: Cli, now: DateTime<Utc>) -> Result<Report> {
         Command::Site(c) => setup::site(&ctx, c),
         Command::Record(c) => record::record(&ctx, c),
         Command::Correct(a) => record::correct(&ctx, a),
-        Command::Entries(a) => reports::entries(&ctx, a),
+        Command::Entries(a) => reports::entries(&ctx, a, format),
         Command::Balance(a) => reports::balance(&ctx, a),
         Command::Import(a) => import::import(&ctx, a),
         Command::Readings(a) => evidence::readings(&ctx, a),

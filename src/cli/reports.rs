@@ -9,89 +9,161 @@ use super::setup::known_project;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::claims::PoolEvent;
 use crate::accounting::project_view::ProjectFigures;
-use crate::error::Result;
-use crate::ledger::Method;
+use crate::error::{Error, Result, StoreKind};
 use crate::ledger::period::Grouping;
+use crate::ledger::{Method, SealedEntry};
 use crate::report::balance as tables;
 use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::stream::RowStream;
+use crate::report::{Cell, Column, Format, Report, Table, columns};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Args)]
 pub struct EntriesArgs {
     /// Project code (e.g. TFS)
     pub project: String,
+    /// List from this seq on [default: 0]
+    #[arg(long, value_name = "SEQ")]
+    pub from_seq: Option<u64>,
+    /// List at most this many entries [default: every one as JSON or CSV; a page of 10,000 in
+    /// a table]
+    #[arg(long, value_name = "N")]
+    pub limit: Option<u64>,
 }
 
-pub fn entries(ctx: &Context, a: EntriesArgs) -> Result<Report> {
+/// The most rows a table for people holds unless `--limit` says otherwise: a table is fitted
+/// to its widest cell, so it is drawn whole, in memory.
+const TABLE_PAGE: u64 = 10_000;
+
+/// Every entry of a project, each checked as it is read. JSON and CSV are written to standard
+/// output row by row as the chain is read (memory stays flat); a table holds one page.
+pub fn entries(ctx: &Context, a: EntriesArgs, format: Format) -> Result<Report> {
+    let from = a.from_seq.unwrap_or(0);
+    let page = |limit: u64| move |seq: u64| seq >= from && seq - from < limit;
+    if format != Format::Table {
+        let shown = page(a.limit.unwrap_or(u64::MAX));
+        let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+        let mut rows = RowStream::new(out, format, entry_columns());
+        walk_entries(ctx, &a.project, |s, by| match shown(s.entry.seq) {
+            true => rows.row(&entry_cells(s, by)).map_err(standard_output),
+            false => Ok(()),
+        })?;
+        rows.finish().map_err(standard_output)?;
+        return Ok(Report::written());
+    }
+    let limit = a.limit.unwrap_or(TABLE_PAGE);
+    let shown = page(limit);
     let mut t = Table::new(
         "entries",
         format!("Entries, project {}", a.project),
-        columns(&[
-            names::SEQ,
-            names::KIND,
-            names::SITE,
-            names::PERIOD,
-            names::PERIOD_FROM.programs(),
-            names::PERIOD_TO.programs(),
-            names::READING,
-            names::CO2_T,
-            names::CO2_G.programs(),
-            names::SIGN,
-            names::CORRECTS,
-            names::CORRECTED_BY,
-            names::REASON.programs(),
-            names::KEY.programs(),
-            names::METER.programs(),
-            names::NOTE.programs(),
-            names::RECORDED_AT.programs(),
-            names::EVIDENCE_NAME.programs(),
-            names::EVIDENCE_SHA256.programs(),
-            names::RECORDED_BY.programs(),
-            names::LEAF_HASH.programs(),
-            names::CHAIN_HEAD,
-            names::CHAIN_HASH.programs(),
-        ]),
+        entry_columns(),
     );
     let mut any_replaced = false;
-    ctx.open()?.read(|tx| {
-        known_project(tx, &a.project)?;
-        tx.walk_chain(&a.project, None, |row| {
-            let (s, by) = (row.sealed, row.replaced_by);
+    let total = walk_entries(ctx, &a.project, |s, by| {
+        if shown(s.entry.seq) {
             any_replaced |= by.is_some();
-            let e = &s.entry;
-            t.push(vec![
-                Cell::Int(e.seq as i64),
-                Cell::text(e.kind.name()),
-                Cell::text(&e.site),
-                Cell::text(e.period.to_string()),
-                Cell::text(e.period.from.to_string()),
-                Cell::text(e.period.to.to_string()),
-                Cell::Pairs(e.reading.0.clone()),
-                Cell::Tonnes(e.mass),
-                Cell::Int(e.mass.grams()),
-                Cell::text(e.sign.name()),
-                e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
-                by.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
-                Cell::opt_text(e.reason.as_deref()),
-                Cell::text(&e.key),
-                Cell::opt_text(e.meter.as_deref()),
-                Cell::opt_text(e.note.as_deref()),
-                Cell::text(e.recorded_at.format("%Y-%m-%dT%H:%M:%S%.6fZ").to_string()),
-                Cell::opt_text(e.evidence.as_ref().map(|v| v.file_name.clone())),
-                Cell::opt_text(e.evidence.as_ref().map(|v| v.sha256.to_hex())),
-                Cell::opt_text(e.recorded_by.as_deref()),
-                Cell::text(s.leaf.to_hex()),
-                Cell::text(s.chain.head()),
-                Cell::text(s.chain.to_hex()),
-            ]);
-            Ok(())
-        })
+            t.push(entry_cells(s, by));
+        }
+        Ok(())
     })?;
     if any_replaced {
         t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
     }
+    if from.saturating_add(limit) < total {
+        let next = from + limit;
+        t.note(format!(
+            "Listed: {} of {total} entries, from seq {from}; `--from-seq {next}` lists the next {limit}, and `--format csv` or `--format json` lists every entry as it is read.",
+            t.rows.len()
+        ));
+    }
     Ok(Report::default().table(t))
+}
+
+/// Walks the project's chain, checking every entry, with a bar for a long one; hands `f` each
+/// entry and the seq that corrects it. Returns the chain's length.
+fn walk_entries(
+    ctx: &Context,
+    project: &str,
+    mut f: impl FnMut(&SealedEntry, Option<u64>) -> Result<()>,
+) -> Result<u64> {
+    ctx.open()?.read(|tx| {
+        known_project(tx, project)?;
+        // The bar's length only: a tip that does not read back is the walk's to name.
+        let length = tx.chain_tip(project).map_or(0, |(next, _)| next);
+        let bar = super::progress::entries("listing entries", length);
+        let c = tx.walk_chain(project, None, |row| {
+            bar.inc(1);
+            f(row.sealed, row.replaced_by)
+        })?;
+        bar.finish_and_clear();
+        Ok(c.entries)
+    })
+}
+
+/// A write to standard output that failed (a closed pipe, a full disk).
+fn standard_output(e: std::io::Error) -> Error {
+    Error::store(
+        StoreKind::System,
+        format!("standard output: {e} (the listing was not written in full)"),
+    )
+}
+
+fn entry_columns() -> Vec<Column> {
+    columns(&[
+        names::SEQ,
+        names::KIND,
+        names::SITE,
+        names::PERIOD,
+        names::PERIOD_FROM.programs(),
+        names::PERIOD_TO.programs(),
+        names::READING,
+        names::CO2_T,
+        names::CO2_G.programs(),
+        names::SIGN,
+        names::CORRECTS,
+        names::CORRECTED_BY,
+        names::REASON.programs(),
+        names::KEY.programs(),
+        names::METER.programs(),
+        names::NOTE.programs(),
+        names::RECORDED_AT.programs(),
+        names::EVIDENCE_NAME.programs(),
+        names::EVIDENCE_SHA256.programs(),
+        names::RECORDED_BY.programs(),
+        names::LEAF_HASH.programs(),
+        names::CHAIN_HEAD,
+        names::CHAIN_HASH.programs(),
+    ])
+}
+
+/// One entry's row, `by` the seq of the entry that corrects it.
+fn entry_cells(s: &SealedEntry, by: Option<u64>) -> Vec<Cell> {
+    let e = &s.entry;
+    vec![
+        Cell::Int(e.seq as i64),
+        Cell::text(e.kind.name()),
+        Cell::text(&e.site),
+        Cell::text(e.period.to_string()),
+        Cell::text(e.period.from.to_string()),
+        Cell::text(e.period.to.to_string()),
+        Cell::Pairs(e.reading.0.clone()),
+        Cell::Tonnes(e.mass),
+        Cell::Int(e.mass.grams()),
+        Cell::text(e.sign.name()),
+        e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+        by.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+        Cell::opt_text(e.reason.as_deref()),
+        Cell::text(&e.key),
+        Cell::opt_text(e.meter.as_deref()),
+        Cell::opt_text(e.note.as_deref()),
+        Cell::text(e.recorded_at.format("%Y-%m-%dT%H:%M:%S%.6fZ").to_string()),
+        Cell::opt_text(e.evidence.as_ref().map(|v| v.file_name.clone())),
+        Cell::opt_text(e.evidence.as_ref().map(|v| v.sha256.to_hex())),
+        Cell::opt_text(e.recorded_by.as_deref()),
+        Cell::text(s.leaf.to_hex()),
+        Cell::text(s.chain.head()),
+        Cell::text(s.chain.to_hex()),
+    ]
 }
 
 /// Calendar grouping of `--by`.

@@ -5,11 +5,13 @@ use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::ledger::ledger_chain::{LinkWalk, Record};
 use crate::ledger::seal_check::SealCheck;
-use crate::ledger::{EntryKind, Project};
+use crate::ledger::{Entry, EntryKind, Project};
 use crate::report::names;
 use crate::report::{Cell, Report, Table, columns};
-use crate::store::Tx;
+use crate::store::{StoredImport, Tx};
 use clap::Args;
+use indicatif::ProgressBar;
+use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct VerifyArgs {
@@ -58,6 +60,8 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             names::CHAIN_HEAD,
             names::CHAIN_HASH.programs(),
             names::RESULT,
+            names::LEDGER_LINKS.programs(),
+            names::LEDGER_HASH.programs(),
         ]),
     );
     let (links, ledger_head) = store.read(|tx| {
@@ -67,9 +71,19 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             Some(code) => vec![super::setup::known_project(tx, code)?],
             None => projects,
         };
-        for p in chosen {
-            t.push(check_project(tx, &p, expected)?);
+        let (links, head) = ledger;
+        // The bar's length only: a tip that does not read back is the walk's to name.
+        let mut total = 0;
+        for p in &chosen {
+            total += tx.chain_tip(&p.code).map_or(0, |(next, _)| next);
         }
+        let bar = super::progress::entries("verifying", total);
+        for p in chosen {
+            let mut row = check_project(tx, &p, expected, &bar)?;
+            row.extend([Cell::Int(links as i64), Cell::text(head.to_hex())]);
+            t.push(row);
+        }
+        bar.finish_and_clear();
         Ok(ledger)
     })?;
     t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
@@ -77,9 +91,11 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
         ledger_head.to_hex()
     ));
-    if a.deep {
-        t.note("SQLite's integrity_check found the file's structure whole.");
-    }
+    t.note(if a.deep {
+        "SQLite's integrity_check found the file's structure whole."
+    } else {
+        "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
+    });
     if expected.is_some() {
         t.note("The published chain head given with --expect-head is still held by the chain.");
     }
@@ -144,11 +160,16 @@ fn check_ledger_chain(
 
 /// One project's rows against their hashes, its chain streamed and checked with its seals, and
 /// the published head if one is given; the project's row of the table.
-fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result<Vec<Cell>> {
+fn check_project(
+    tx: &mut Tx<'_>,
+    p: &Project,
+    expected: Option<Hash>,
+    bar: &ProgressBar,
+) -> Result<Vec<Cell>> {
     let sites = tx.sites(&p.code)?;
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
-    super::evidence::check(tx, &p.code)?;
+    let mut unnamed = Unnamed::new(super::evidence::check(tx, &p.code)?);
     let at =
         |seq: u64, what: String| Error::ledger(format!("project {} seq {seq}: {what}", p.code));
     let listed = tx
@@ -162,6 +183,7 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
     let states = super::reconciliations::ChainStates::new(&reconciliations);
     let c = tx.walk_chain(&p.code, None, |row| {
         let e = &row.sealed.entry;
+        bar.inc(1);
         if e.site.is_empty() {
             if e.kind != EntryKind::Seal && !e.kind.site_optional() {
                 return Err(at(e.seq, format!("a {} entry names no site", e.kind)));
@@ -169,12 +191,14 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         } else if !sites.iter().any(|x| x.code == e.site) {
             return Err(at(e.seq, format!("site {} is not registered", e.site)));
         }
+        unnamed.see(e);
         seals.push(row.sealed).map_err(|w| at(e.seq, w))?;
         states.check(&p.code, e.seq, row.sealed.chain)?;
         holds_expected |= expected == Some(row.sealed.chain);
         Ok(())
     })?;
     states.finish(&p.code, c.entries)?;
+    unnamed.finish(&p.code)?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
@@ -207,4 +231,37 @@ fn check_project(tx: &mut Tx<'_>, p: &Project, expected: Option<Hash>) -> Result
         Cell::text(c.head.to_hex()),
         Cell::text("intact"),
     ])
+}
+
+/// The project's imported files no entry has named yet as its evidence: each must be named by
+/// the end of the walk (an import whose entries were cut from the chain's end leaves its file).
+struct Unnamed(HashMap<Hash, StoredImport>);
+
+impl Unnamed {
+    fn new(imports: Vec<StoredImport>) -> Self {
+        Unnamed(
+            imports
+                .into_iter()
+                .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i)))
+                .collect(),
+        )
+    }
+
+    fn see(&mut self, e: &Entry) {
+        if let Some(ev) = &e.evidence
+            && !self.0.is_empty()
+        {
+            self.0.remove(&ev.sha256);
+        }
+    }
+
+    fn finish(self, project: &str) -> Result<()> {
+        match self.0.into_values().min_by_key(|i| i.id) {
+            None => Ok(()),
+            Some(i) => Err(Error::ledger(format!(
+                "project {project} import {} ({}): no entry of the chain names this file as its evidence",
+                i.id, i.file_name
+            ))),
+        }
+    }
 }

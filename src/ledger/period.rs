@@ -41,8 +41,25 @@ impl fmt::Display for Period {
 
 /// Parses an ISO 8601 calendar date (`2026-03-31`).
 pub fn parse_date(s: &str) -> Result<NaiveDate, String> {
-    NaiveDate::parse_from_str(s.trim(), "%Y-%m-%d")
-        .map_err(|_| "is not an ISO 8601 date (YYYY-MM-DD)".to_string())
+    let s = s.trim();
+    padded_date(s)
+        .or_else(|| NaiveDate::parse_from_str(s, "%Y-%m-%d").ok())
+        .ok_or_else(|| "is not an ISO 8601 date (YYYY-MM-DD)".to_string())
+}
+
+/// The form every stored date has (`2026-03-31`), read without chrono's format parser: each
+/// entry row read holds two.
+fn padded_date(s: &str) -> Option<NaiveDate> {
+    let b: &[u8; 10] = s.as_bytes().try_into().ok()?;
+    let num = |r: std::ops::Range<usize>| {
+        b[r].iter().try_fold(0u32, |n, &c| {
+            c.is_ascii_digit().then(|| n * 10 + u32::from(c - b'0'))
+        })
+    };
+    if b[4] != b'-' || b[7] != b'-' {
+        return None;
+    }
+    NaiveDate::from_ymd_opt(i32::try_from(num(0..4)?).ok()?, num(5..7)?, num(8..10)?)
 }
 
 /// Days since 1970-01-01, the canonical encoding of a date.

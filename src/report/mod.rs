@@ -9,6 +9,7 @@ pub mod meters;
 pub mod names;
 mod people;
 pub mod render;
+pub mod stream;
 pub mod table;
 pub mod tables;
 pub mod totals;

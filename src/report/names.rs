@@ -114,6 +114,8 @@ names! {
     LEAF_HEAD = "Leaf head", "leaf_head";
     LEAKS_AND_VENTS_INJECTION_T = "Leaks and vents, injection (t)", "leaks_and_vents_injection_t";
     LEAKS_AND_VENTS_PRODUCTION_T = "Leaks and vents, production (t)", "leaks_and_vents_production_t";
+    LEDGER_HASH = "Ledger hash", "ledger_hash";
+    LEDGER_LINKS = "Ledger links", "ledger_links";
     LEDGER_T = "Ledger (t)", "ledger_t";
     LINE = "Line", "line";
     LINES = "Lines", "lines";

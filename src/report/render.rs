@@ -2,7 +2,7 @@
 
 use super::layout::Layout;
 use super::people;
-use super::table::{Cell, Report, Table};
+use super::table::{Cell, Column, Report, Table};
 use serde_json::{Map, Value};
 
 /// Ends every human report that states figures (DESIGN.md).
@@ -106,21 +106,18 @@ fn json_cell(c: &Cell) -> Value {
     }
 }
 
+/// One row as a JSON object, keys in column order.
+pub(super) fn json_row(columns: &[Column], row: &[Cell]) -> Value {
+    let obj: Map<String, Value> = columns
+        .iter()
+        .zip(row)
+        .map(|(c, v)| (c.key.to_string(), json_cell(v)))
+        .collect();
+    Value::Object(obj)
+}
+
 fn json_rows(t: &Table) -> Value {
-    Value::Array(
-        t.rows
-            .iter()
-            .map(|row| {
-                let obj: Map<String, Value> = t
-                    .columns
-                    .iter()
-                    .zip(row)
-                    .map(|(c, v)| (c.key.to_string(), json_cell(v)))
-                    .collect();
-                Value::Object(obj)
-            })
-            .collect(),
-    )
+    Value::Array(t.rows.iter().map(|row| json_row(&t.columns, row)).collect())
 }
 
 /// One table: an array of row objects; several: an object of table id → rows; several that
@@ -170,19 +167,26 @@ fn csv_cell(c: &Cell) -> String {
     }
 }
 
+/// The header line of a CSV table: the columns' keys.
+pub(super) fn csv_header(columns: &[Column]) -> String {
+    let mut out = columns.iter().map(|c| c.key).collect::<Vec<_>>().join(",");
+    out.push('\n');
+    out
+}
+
+/// One row of a CSV table, with its line end.
+pub(super) fn csv_row(row: &[Cell]) -> String {
+    let mut out = row.iter().map(csv_cell).collect::<Vec<_>>().join(",");
+    out.push('\n');
+    out
+}
+
 /// One table: header and rows; several: each preceded by a `# id` line, a blank line between.
 fn csv(r: &Report) -> String {
     let one = |t: &Table| {
-        let mut out = t
-            .columns
-            .iter()
-            .map(|c| c.key)
-            .collect::<Vec<_>>()
-            .join(",");
-        out.push('\n');
+        let mut out = csv_header(&t.columns);
         for row in &t.rows {
-            out.push_str(&row.iter().map(csv_cell).collect::<Vec<_>>().join(","));
-            out.push('\n');
+            out.push_str(&csv_row(row));
         }
         out
     };

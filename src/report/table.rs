@@ -123,6 +123,15 @@ pub struct Report {
 }
 
 impl Report {
+    /// A report a streaming renderer ([`super::stream`]) has already written: nothing is left
+    /// to print.
+    pub fn written() -> Report {
+        Report {
+            text: Some(String::new()),
+            ..Report::default()
+        }
+    }
+
     pub fn line(mut self, l: impl Into<String>) -> Self {
         self.lines.push(l.into());
         self

@@ -323,21 +323,6 @@ pub fn disk_error(e: Error) -> Error {
     }
 }
 
-impl Tx<'_> {
-    /// How many of a project's entries name a file by its SHA-256 as their evidence.
-    pub fn entries_naming(&mut self, project: &str, sha256: &str) -> Result<i64> {
-        use super::schema::entries;
-        Ok(entries::table
-            .filter(
-                entries::project
-                    .eq(project)
-                    .and(entries::evidence_sha256.eq(sha256)),
-            )
-            .count()
-            .get_result(self.conn)?)
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;

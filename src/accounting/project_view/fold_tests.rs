@@ -5,7 +5,7 @@ use super::{ProjectView, Registrations, through::entry_through};
 use crate::accounting::balance::{BalanceLine, BalanceMethod, Terms};
 use crate::accounting::claims::rel_uncertainty;
 use crate::accounting::uncertainty::{
-    Estimate, Reading as Metered, Term, TermSign, mass_balance, sum_readings,
+    Estimate, MeteredMass as Metered, Term, TermSign, mass_balance, sum_readings,
 };
 use crate::ledger::correction::effective;
 use crate::ledger::period::{Bucket, Grouping, apportion, parse_date};
