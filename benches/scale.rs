@@ -2,7 +2,7 @@
 //! same ledger file measured in the same run: a generated meter file (one row per meter-day,
 //! so as many entries as rows) imported by `sinkbook import` (beside the sqlite3 shell's
 //! `.import` of the same CSV into a plain table), then `balance --by quarter`, `totals`,
-//! `meters`, `reconcile` (beside plain `GROUP BY` sums), `verify` (beside `sha256sum` over the
+//! `meters`, `reconcile`, `chart` (beside plain `GROUP BY` sums), `verify` (beside `sha256sum` over the
 //! bytes verify hashes), `entries --format json` (beside `sqlite3 -json`) and `record
 //! injection` (beside the same record into a 100-entry ledger). Time and peak memory
 //! (`/usr/bin/time`) of each, and their ratios, as a markdown table per size.
@@ -126,7 +126,9 @@ fn measure(rows: u64, small: &Path, round: usize) -> (Vec<Step>, u64) {
     let by_meter = "SELECT meter, count(*), sum(grams) FROM entries \
         WHERE period_from LIKE '2023-%' GROUP BY meter";
     let import = format!(".import --csv {csv_text} readings");
-    let plan: [Planned<'_>; 6] = [
+    let svg = dir.path().join("chart.svg");
+    let svg_text = svg.to_str().unwrap();
+    let plan: [Planned<'_>; 7] = [
         (
             "import",
             "sqlite3 `.import` of the CSV",
@@ -159,6 +161,14 @@ fn measure(rows: u64, small: &Path, round: usize) -> (Vec<Step>, u64) {
             &[],
             &db,
             by_kind,
+        ),
+        (
+            "chart",
+            "`GROUP BY` quarter, kind",
+            &["chart", "TFS", "--out", svg_text],
+            &[],
+            &db,
+            by_quarter,
         ),
         (
             "entries --format json",
