@@ -4,7 +4,7 @@
 
 use super::Context;
 use super::chart::line_chart;
-use super::claims::{deduction_rule, uncertainty_note};
+use super::claims::deduction_rule;
 use super::late::late_table;
 use super::meters::{MetersArgs, meters};
 use super::reconciliations::record_tables;
@@ -22,6 +22,7 @@ use crate::ledger::reconciliation::Recorded;
 use crate::ledger::seal::{Seal, late_for};
 use crate::report::html::{Page, Section, page};
 use crate::report::names;
+use crate::report::tables::claims::uncertainty_note;
 use crate::report::{Cell, Column, Report, Table, columns};
 use chrono::Datelike;
 use clap::Args;

@@ -4,12 +4,13 @@
 //! for activity through any date, as the ledger held it at the end of any date.
 
 use super::Context;
-use super::claims::{backdated_notes, deduction_rule};
+use super::claims::deduction_rule;
 use super::dates::DateArgs;
 use crate::accounting::project_view::TotalsLine;
 use crate::error::{Error, Result};
 use crate::ledger::{Method, Project};
 use crate::report::Report;
+use crate::report::tables::claims::backdated_notes;
 use crate::report::totals as table;
 use clap::Args;
 

@@ -1,9 +1,12 @@
 //! The tables commands show, built from the figures the pure modules compute: one file per
 //! topic. cli parses and calls; these decide columns, rows and notes.
 
+pub mod balance;
 pub mod bundle;
+pub mod claims;
 pub mod convert;
 pub mod density;
+pub mod entries;
 pub mod evidence;
 pub mod feedstock;
 pub mod late;
