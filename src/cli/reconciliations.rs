@@ -3,15 +3,17 @@
 //! annual page shows those of its year.
 
 use super::Context;
-use super::reconcile::{Compared, Level, MonitoringReport, ReconcileArgs, line_note};
+use super::reconcile::{Compared, Level, ReconcileArgs};
 use super::setup::known_project;
 use super::sign::RoleArg;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{recorded_lines, recorded_years};
 use crate::error::{Error, Result};
+use crate::import::monitoring_report::MonitoringReport;
 use crate::ledger::Hash;
 use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
+use crate::report::tables::reconcile::line_note;
 pub use crate::report::tables::reconciliations::{record_tables, recorded_table};
 use crate::store::Tx;
 use clap::Args;

@@ -13,6 +13,7 @@ pub mod late;
 pub mod mineralization;
 pub mod potential;
 pub mod proof;
+pub mod reconcile;
 pub mod reconciliations;
 pub mod record;
 pub mod registry;
