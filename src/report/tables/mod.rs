@@ -1,8 +1,10 @@
 //! The tables commands show, built from the figures the pure modules compute: one file per
 //! topic. cli parses and calls; these decide columns, rows and notes.
 
+pub mod annual;
 pub mod balance;
 pub mod bundle;
+pub mod chart;
 pub mod claims;
 pub mod convert;
 pub mod density;
@@ -17,6 +19,7 @@ pub mod reconcile;
 pub mod reconciliations;
 pub mod record;
 pub mod registry;
+pub mod seal;
 pub mod settings;
 pub mod setup;
 pub mod sign;
