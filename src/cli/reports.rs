@@ -11,7 +11,7 @@ use crate::ledger::period::Grouping;
 use crate::ledger::{Method, SealedEntry};
 use crate::report::stream::RowStream;
 use crate::report::tables::balance::{claims_tables, geological_balance};
-use crate::report::tables::entries::{entry_cells, entry_columns};
+use crate::report::tables::entries::{entries_notes, entry_cells, entry_columns};
 use crate::report::{Format, Report, Table};
 use clap::{Args, ValueEnum};
 
@@ -63,16 +63,7 @@ pub fn entries(ctx: &Context, a: EntriesArgs, format: Format) -> Result<Report> 
         }
         Ok(())
     })?;
-    if any_replaced {
-        t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
-    }
-    if from.saturating_add(limit) < total {
-        let next = from + limit;
-        t.note(format!(
-            "Listed: {} of {total} entries, from seq {from}; `--from-seq {next}` lists the next {limit}, and `--format csv` or `--format json` lists every entry as it is read.",
-            t.rows.len()
-        ));
-    }
+    entries_notes(&mut t, any_replaced, from, limit, total);
     Ok(Report::default().table(t))
 }
 

@@ -3,13 +3,10 @@
 
 use super::Context;
 use super::view::load_seeing;
-use crate::accounting::conservative::DeductionRule;
-use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::chain;
 use crate::ledger::merkle::TreeBuilder;
-use crate::ledger::period::Grouping;
-use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
+use crate::ledger::seal::{Seal, check_new, parse_period};
 use crate::ledger::{Entry, Period, SealedEntry};
 use crate::report::Report;
 pub use crate::report::tables::seal::seal_table;
@@ -23,29 +20,6 @@ pub struct SealArgs {
     /// The reporting period to close: a year (2026), a quarter (2026-Q1) or a month (2026-03)
     #[arg(long, value_name = "PERIOD")]
     pub period: String,
-}
-
-/// How a period label groups: a year, a quarter or a month.
-fn grouping(label: &str) -> Grouping {
-    match label.len() {
-        4 => Grouping::Year,
-        7 if label.as_bytes()[5] == b'Q' => Grouping::Quarter,
-        _ => Grouping::Month,
-    }
-}
-
-/// The period's figures as the reports state them: the project's stored figure for the period
-/// (by its method) and the claim the settings in force make of it.
-fn figures(view: &ProjectFigures, label: &str, period: Period) -> Result<Figures> {
-    let found = view
-        .claims(grouping(label), DeductionRule::WholeUncertainty)?
-        .into_iter()
-        .find(|(b, _)| b.first_day() == period.from);
-    Ok(found.map_or(Figures::default(), |(_, c)| Figures {
-        stored: c.stored,
-        conservative: c.conservative,
-        claimable: c.claimable,
-    }))
 }
 
 pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
@@ -82,7 +56,7 @@ pub fn record_seal(
         period,
         tree_size: tree.size(),
         root: tree.root(),
-        figures: figures(&view, label, period)?,
+        figures: view.seal_figures(label, period)?,
         recorded_at: ctx.now,
     };
     let entry = Entry {

@@ -19,6 +19,7 @@ mod geological;
 mod reconcile;
 mod reported;
 mod rock_uncertainty;
+mod sealed;
 mod series;
 mod through;
 mod totals;

@@ -2,7 +2,7 @@
 
 use crate::ledger::SealedEntry;
 use crate::report::names;
-use crate::report::{Cell, Column, columns};
+use crate::report::{Cell, Column, Table, columns};
 
 /// The columns of an entry's row.
 pub fn entry_columns() -> Vec<Column> {
@@ -61,4 +61,20 @@ pub fn entry_cells(s: &SealedEntry, by: Option<u64>) -> Vec<Cell> {
         Cell::text(s.chain.head()),
         Cell::text(s.chain.to_hex()),
     ]
+}
+
+/// The notes of a page of entries: what a "Corrected by" seq means, when any is shown, and how
+/// to list the rest when the page (`limit` rows from seq `from`) holds fewer than the chain's
+/// `total`.
+pub fn entries_notes(t: &mut Table, any_replaced: bool, from: u64, limit: u64, total: u64) {
+    if any_replaced {
+        t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
+    }
+    if from.saturating_add(limit) < total {
+        let next = from + limit;
+        t.note(format!(
+            "Listed: {} of {total} entries, from seq {from}; `--from-seq {next}` lists the next {limit}, and `--format csv` or `--format json` lists every entry as it is read.",
+            t.rows.len()
+        ));
+    }
 }

@@ -7,6 +7,7 @@ pub mod bundle;
 pub mod chart;
 pub mod claims;
 pub mod convert;
+pub mod dates;
 pub mod density;
 pub mod entries;
 pub mod evidence;
