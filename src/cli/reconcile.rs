@@ -12,7 +12,6 @@ use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
 use crate::ledger::{EntryKind, Hash};
-use crate::quantity::fraction::parse_uncertainty;
 use crate::report::tables::reconcile::{
     RecomputeTable, lines_table, materiality_basis, verdicts_table,
 };
@@ -59,19 +58,10 @@ impl Level {
     fn parse(text: Option<&str>) -> Result<Level> {
         let policy = match text {
             None => MaterialityPolicy::default(),
-            Some(t) => MaterialityPolicy {
-                share: parse_uncertainty(t)
-                    .map(|d| d.to_f64())
-                    .map_err(|e| Error::field("--materiality", t, e))?,
-            },
+            Some(t) => {
+                MaterialityPolicy::from_text(t).map_err(|e| Error::field("--materiality", t, e))?
+            }
         };
-        if !(policy.share > 0.0 && policy.share < 1.0) {
-            return Err(Error::field(
-                "--materiality",
-                text.unwrap_or_default(),
-                "must be above 0 % and below 100 %",
-            ));
-        }
         Ok(Level {
             policy,
             given: text.map(str::to_string),
