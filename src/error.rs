@@ -227,6 +227,14 @@ impl From<crate::accounting::project_view::ViewError> for Error {
     }
 }
 
+/// A recorded reconciliation that names a chain state the chain never had: the ledger does not
+/// check out.
+impl From<crate::ledger::reconciliation_states::UnseenState> for Error {
+    fn from(e: crate::ledger::reconciliation_states::UnseenState) -> Self {
+        Error::ledger(e.to_string())
+    }
+}
+
 impl From<crate::ledger::reading_fields::ReadingError> for Error {
     fn from(e: crate::ledger::reading_fields::ReadingError) -> Self {
         Error::entry(&e.project, Some(e.seq as i64), e.field)

@@ -8,6 +8,7 @@ use super::view::load_through;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::Result;
 use crate::report::Table;
+use crate::report::tables::dates::mark_dates;
 use crate::store::Tx;
 use chrono::{DateTime, NaiveDate, Utc};
 use clap::Args;
@@ -58,21 +59,8 @@ impl Dates {
         load_through(tx, code, self.as_of, self.through)
     }
 
-    /// Marks the first table of a report with the dates asked: its title says "activity
-    /// through D" and "as the ledger held `held` at T", and a note says how `--through`
-    /// counted.
+    /// Marks the first table of a report with the dates asked (see [`mark_dates`]).
     pub fn mark(&self, t: &mut Table, held: &str) {
-        if let Some(d) = self.through {
-            t.title += &format!(", activity through {d}");
-        }
-        if let Some(at) = self.as_of {
-            t.title += &format!(
-                ", as the ledger held {held} at {}",
-                at.format("%Y-%m-%d %H:%M:%S UTC")
-            );
-        }
-        if let Some(d) = self.through {
-            t.note(format!("Activity through {d}: an entry spanning that day counts for its days up to it, split by days as periods split entries; claims take the settings in force on that day where their period ends later."));
-        }
+        mark_dates(t, self.as_of, self.through, held);
     }
 }

@@ -60,21 +60,24 @@ pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
             "is not a plausible reporting year",
         ));
     }
+    ctx.open()?.read(|tx| meters_in(tx, &a))
+}
+
+/// The meters table of a year, read inside the caller's transaction.
+pub fn meters_in(tx: &mut Tx<'_>, a: &MetersArgs) -> Result<Report> {
     // A row is one meter's quarter in one unit and one basis, so no cell mixes unlike figures.
     let mut rows = MeterQuarters::new();
-    let hand = ctx.open()?.read(|tx| {
-        known_project(tx, &a.project)?;
-        let mut by_hand = Vec::new();
-        tx.for_each_effective_entry(&a.project, None, |s| {
-            let e = &s.entry;
-            if e.evidence.is_none() && e.corrects.is_some() {
-                by_hand.push(e.clone());
-            }
-            meter_quarters::add(&mut rows, e, a.year)?;
-            Ok(())
-        })?;
-        hand_corrections(tx, &a.project, by_hand)
+    known_project(tx, &a.project)?;
+    let mut by_hand = Vec::new();
+    tx.for_each_effective_entry(&a.project, None, |s| {
+        let e = &s.entry;
+        if e.evidence.is_none() && e.corrects.is_some() {
+            by_hand.push(e.clone());
+        }
+        meter_quarters::add(&mut rows, e, a.year)?;
+        Ok(())
     })?;
+    let hand = hand_corrections(tx, &a.project, by_hand)?;
     let t = crate::report::meters::table(&a.project, a.year, &rows);
     let mut report = Report::default().table(t);
     report.warnings = hand

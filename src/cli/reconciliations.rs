@@ -3,15 +3,17 @@
 //! annual page shows those of its year.
 
 use super::Context;
-use super::reconcile::{Compared, Level, MonitoringReport, ReconcileArgs, line_note};
+use super::reconcile::{Compared, Level, ReconcileArgs};
 use super::setup::known_project;
 use super::sign::RoleArg;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{recorded_lines, recorded_years};
-use crate::error::{Error, Result};
-use crate::ledger::Hash;
+use crate::error::Result;
+use crate::import::monitoring_report::MonitoringReport;
 use crate::ledger::reconciliation::Recorded;
+pub use crate::ledger::reconciliation_states::ChainStates;
 use crate::report::Report;
+use crate::report::tables::reconcile::line_note;
 pub use crate::report::tables::reconciliations::{record_tables, recorded_table};
 use crate::store::Tx;
 use clap::Args;
@@ -102,45 +104,4 @@ pub fn reconciliations(ctx: &Context, a: ReconciliationsArgs) -> Result<Report> 
     Ok(record_tables(&a.project, &chosen)
         .into_iter()
         .fold(Report::default(), Report::table))
-}
-
-/// The chain states the records name, found again as `verify` walks the chain: `check` is
-/// called with each entry's seq and chain hash, `finish` with the chain's length.
-pub struct ChainStates<'a> {
-    records: &'a [Recorded],
-}
-
-impl<'a> ChainStates<'a> {
-    pub fn new(records: &'a [Recorded]) -> Self {
-        ChainStates { records }
-    }
-
-    pub fn check(&self, project: &str, seq: u64, chain: Hash) -> Result<()> {
-        match self
-            .records
-            .iter()
-            .find(|r| r.chain_size == seq + 1 && r.chain_head != chain)
-        {
-            Some(r) => Err(self.wrong(project, r)),
-            None => Ok(()),
-        }
-    }
-
-    pub fn finish(&self, project: &str, entries: u64) -> Result<()> {
-        match self.records.iter().find(|r| {
-            r.chain_size > entries || (r.chain_size == 0 && r.chain_head != Hash::GENESIS)
-        }) {
-            Some(r) => Err(self.wrong(project, r)),
-            None => Ok(()),
-        }
-    }
-
-    fn wrong(&self, project: &str, r: &Recorded) -> Error {
-        Error::ledger(format!(
-            "project {project}: reconciliations row seq {} names a chain of {} entries with head {}, which the chain never had",
-            r.seq,
-            r.chain_size,
-            r.chain_head.head()
-        ))
-    }
 }

@@ -3,16 +3,13 @@
 
 use super::Context;
 use super::view::load_seeing;
-use crate::accounting::conservative::DeductionRule;
-use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::chain;
 use crate::ledger::merkle::TreeBuilder;
-use crate::ledger::period::Grouping;
-use crate::ledger::seal::{Figures, Seal, check_new, parse_period};
+use crate::ledger::seal::{Seal, check_new, parse_period};
 use crate::ledger::{Entry, Period, SealedEntry};
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+pub use crate::report::tables::seal::seal_table;
 use crate::store::Tx;
 use clap::Args;
 
@@ -23,29 +20,6 @@ pub struct SealArgs {
     /// The reporting period to close: a year (2026), a quarter (2026-Q1) or a month (2026-03)
     #[arg(long, value_name = "PERIOD")]
     pub period: String,
-}
-
-/// How a period label groups: a year, a quarter or a month.
-fn grouping(label: &str) -> Grouping {
-    match label.len() {
-        4 => Grouping::Year,
-        7 if label.as_bytes()[5] == b'Q' => Grouping::Quarter,
-        _ => Grouping::Month,
-    }
-}
-
-/// The period's figures as the reports state them: the project's stored figure for the period
-/// (by its method) and the claim the settings in force make of it.
-fn figures(view: &ProjectFigures, label: &str, period: Period) -> Result<Figures> {
-    let found = view
-        .claims(grouping(label), DeductionRule::WholeUncertainty)?
-        .into_iter()
-        .find(|(b, _)| b.first_day() == period.from);
-    Ok(found.map_or(Figures::default(), |(_, c)| Figures {
-        stored: c.stored,
-        conservative: c.conservative,
-        claimable: c.claimable,
-    }))
 }
 
 pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
@@ -82,7 +56,7 @@ pub fn record_seal(
         period,
         tree_size: tree.size(),
         root: tree.root(),
-        figures: figures(&view, label, period)?,
+        figures: view.seal_figures(label, period)?,
         recorded_at: ctx.now,
     };
     let entry = Entry {
@@ -92,40 +66,4 @@ pub fn record_seal(
     let s = chain::seal(entry, head);
     tx.append(std::slice::from_ref(&s))?;
     Ok((seal, s))
-}
-
-/// One line per seal: its period, tree head and the figures it fixed.
-pub fn seal_table(project: &str, seals: &[(Seal, SealedEntry)]) -> Table {
-    let mut t = Table::new(
-        "seals",
-        format!("Seals, project {project}"),
-        columns(&[
-            names::SEQ,
-            names::PERIOD,
-            names::TREE_SIZE,
-            names::TREE_HEAD,
-            names::ROOT.programs(),
-            names::STORED_T,
-            names::CONSERVATIVE_T,
-            names::CLAIMABLE_T,
-            names::SEALED_AT,
-            names::CHAIN_HASH.programs(),
-        ]),
-    );
-    for (s, e) in seals {
-        t.push(vec![
-            Cell::Int(s.seq as i64),
-            Cell::text(&s.label),
-            Cell::Int(s.tree_size as i64),
-            Cell::text(s.root.head()),
-            Cell::text(s.root.to_hex()),
-            Cell::Tonnes(s.figures.stored),
-            Cell::Tonnes(s.figures.conservative),
-            Cell::Tonnes(s.figures.claimable),
-            Cell::text(s.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
-            Cell::text(e.chain.to_hex()),
-        ]);
-    }
-    t.note("Tree head: the RFC 6962 Merkle tree head over the leaf hashes of the project's entries seq 0 up to the seal (docs/ledger-format.md). Anything recorded later that is dated in a sealed period is refused, or with --late kept as a late adjustment dated when it was recorded.");
-    t
 }

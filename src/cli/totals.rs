@@ -4,12 +4,14 @@
 //! for activity through any date, as the ledger held it at the end of any date.
 
 use super::Context;
-use super::claims::{backdated_notes, deduction_rule};
+use super::claims::deduction_rule;
 use super::dates::DateArgs;
 use crate::accounting::project_view::TotalsLine;
 use crate::error::{Error, Result};
-use crate::ledger::{Method, Project};
+use crate::ledger::Method;
+use crate::ledger::project_filter::{NoMatch, ProjectFilter};
 use crate::report::Report;
+use crate::report::tables::claims::backdated_notes;
 use crate::report::totals as table;
 use clap::Args;
 
@@ -51,27 +53,19 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         })?;
     }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
+    let filter = ProjectFilter {
+        operator: a.operator.as_deref(),
+        method: a.method.as_deref(),
+        permit: a.permit.as_deref(),
+    };
     let views = ctx.open()?.read(|tx| {
         let projects = tx.projects()?;
-        check_filter(&projects, "--operator", a.operator.as_deref(), |p| {
-            Some(p.operator.as_str())
-        })?;
-        check_filter(&projects, "--permit", a.permit.as_deref(), |p| {
-            p.permit_ref.as_deref()
-        })?;
+        if let Some(n) = filter.unmatched(&projects) {
+            return Err(no_match(n));
+        }
         let mut views = Vec::new();
         for p in projects {
-            let wanted = dates.as_of.is_none_or(|t| p.registered_at <= t)
-                && a.operator
-                    .as_ref()
-                    .is_none_or(|o| o.eq_ignore_ascii_case(&p.operator))
-                && a.method.as_ref().is_none_or(|m| m == p.method.name())
-                && a.permit.as_ref().is_none_or(|r| {
-                    p.permit_ref
-                        .as_ref()
-                        .is_some_and(|p| p.eq_ignore_ascii_case(r))
-                });
-            if wanted {
+            if dates.as_of.is_none_or(|t| p.registered_at <= t) && filter.admits(&p) {
                 views.push(dates.load(tx, &p.code)?);
             }
         }
@@ -114,29 +108,15 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     Ok(report)
 }
 
-/// A filter that matches no project is refused, listing the values the ledger knows
-/// (operators match whatever their case).
-fn check_filter(
-    projects: &[Project],
-    option: &str,
-    given: Option<&str>,
-    value: impl Fn(&Project) -> Option<&str>,
-) -> Result<()> {
-    let Some(given) = given else {
-        return Ok(());
-    };
-    let known: std::collections::BTreeSet<&str> = projects.iter().filter_map(&value).collect();
-    if known.iter().any(|k| k.eq_ignore_ascii_case(given)) {
-        return Ok(());
-    }
-    let list: Vec<&str> = known.into_iter().collect();
-    Err(Error::field(
-        option,
-        given,
-        if list.is_empty() {
+/// A filter that matches no project is refused, listing the values the ledger knows.
+fn no_match(n: NoMatch) -> Error {
+    Error::field(
+        &format!("--{}", n.filter),
+        &n.given,
+        if n.known.is_empty() {
             "matches no project (the ledger holds none with one)".to_string()
         } else {
-            format!("matches no project (known: {})", list.join(", "))
+            format!("matches no project (known: {})", n.known.join(", "))
         },
-    ))
+    )
 }

@@ -14,8 +14,8 @@ use crate::error::{Error, Result};
 use crate::ledger::{Method, SiteKind};
 use crate::quantity::Decimal;
 use crate::report::Report;
+pub use crate::report::tables::weathering::balance;
 use crate::report::tables::weathering::campaign_table;
-pub use crate::report::tables::weathering::{balance, parameter_notes};
 use clap::Args;
 
 /// The four deduction parameters of net removal, as `weathering` (a what-if) and `project set`

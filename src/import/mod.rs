@@ -8,6 +8,7 @@ pub mod evidence;
 pub mod instants;
 pub mod meter_csv;
 pub mod meter_day;
+pub mod monitoring_report;
 pub mod overlap;
 pub mod plan;
 

@@ -14,10 +14,12 @@
 //!   operator's reported figure under verification.
 
 mod judge;
+mod level;
 mod period;
 mod quantity;
 mod record;
 
+pub use level::LevelError;
 pub use period::{Granularity, ReportingPeriod};
 pub use quantity::ReportedQuantity;
 pub use record::{recorded_lines, recorded_years};

@@ -16,8 +16,10 @@ mod ex_situ;
 #[cfg(test)]
 mod fold_tests;
 mod geological;
+mod reconcile;
 mod reported;
 mod rock_uncertainty;
+mod sealed;
 mod series;
 mod through;
 mod totals;
@@ -26,6 +28,7 @@ mod weathering;
 pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, mineralization_total};
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
+pub use reconcile::ReconcileError;
 pub use reported::{bearing, reporting_period};
 pub use rock_uncertainty::UptakeU;
 pub use series::{Series, cumulative};

@@ -1,0 +1,80 @@
+//! The columns and cells of `entries`, one row per stored entry (the table, JSON and CSV alike).
+
+use crate::ledger::SealedEntry;
+use crate::report::names;
+use crate::report::{Cell, Column, Table, columns};
+
+/// The columns of an entry's row.
+pub fn entry_columns() -> Vec<Column> {
+    columns(&[
+        names::SEQ,
+        names::KIND,
+        names::SITE,
+        names::PERIOD,
+        names::PERIOD_FROM.programs(),
+        names::PERIOD_TO.programs(),
+        names::READING,
+        names::CO2_T,
+        names::CO2_G.programs(),
+        names::SIGN,
+        names::CORRECTS,
+        names::CORRECTED_BY,
+        names::REASON.programs(),
+        names::KEY.programs(),
+        names::METER.programs(),
+        names::NOTE.programs(),
+        names::RECORDED_AT.programs(),
+        names::EVIDENCE_NAME.programs(),
+        names::EVIDENCE_SHA256.programs(),
+        names::RECORDED_BY.programs(),
+        names::LEAF_HASH.programs(),
+        names::CHAIN_HEAD,
+        names::CHAIN_HASH.programs(),
+    ])
+}
+
+/// One entry's row, `by` the seq of the entry that corrects it.
+pub fn entry_cells(s: &SealedEntry, by: Option<u64>) -> Vec<Cell> {
+    let e = &s.entry;
+    vec![
+        Cell::Int(e.seq as i64),
+        Cell::text(e.kind.name()),
+        Cell::text(&e.site),
+        Cell::text(e.period.to_string()),
+        Cell::text(e.period.from.to_string()),
+        Cell::text(e.period.to.to_string()),
+        Cell::Pairs(e.reading.0.clone()),
+        Cell::Tonnes(e.mass),
+        Cell::Int(e.mass.grams()),
+        Cell::text(e.sign.name()),
+        e.corrects.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+        by.map_or(Cell::Empty, |c| Cell::Int(c as i64)),
+        Cell::opt_text(e.reason.as_deref()),
+        Cell::text(&e.key),
+        Cell::opt_text(e.meter.as_deref()),
+        Cell::opt_text(e.note.as_deref()),
+        Cell::text(e.recorded_at.format("%Y-%m-%dT%H:%M:%S%.6fZ").to_string()),
+        Cell::opt_text(e.evidence.as_ref().map(|v| v.file_name.clone())),
+        Cell::opt_text(e.evidence.as_ref().map(|v| v.sha256.to_hex())),
+        Cell::opt_text(e.recorded_by.as_deref()),
+        Cell::text(s.leaf.to_hex()),
+        Cell::text(s.chain.head()),
+        Cell::text(s.chain.to_hex()),
+    ]
+}
+
+/// The notes of a page of entries: what a "Corrected by" seq means, when any is shown, and how
+/// to list the rest when the page (`limit` rows from seq `from`) holds fewer than the chain's
+/// `total`.
+pub fn entries_notes(t: &mut Table, any_replaced: bool, from: u64, limit: u64, total: u64) {
+    if any_replaced {
+        t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
+    }
+    if from.saturating_add(limit) < total {
+        let next = from + limit;
+        t.note(format!(
+            "Listed: {} of {total} entries, from seq {from}; `--from-seq {next}` lists the next {limit}, and `--format csv` or `--format json` lists every entry as it is read.",
+            t.rows.len()
+        ));
+    }
+}
