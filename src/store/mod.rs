@@ -3,6 +3,8 @@
 
 pub(crate) mod backend;
 mod bundle;
+mod bundle_export;
+mod bundle_load;
 mod connection;
 mod feedstocks;
 mod imports;
@@ -24,6 +26,7 @@ use rows::{EntryRow, ProjectRow, SettingRow, SiteRow, TalliedRow};
 use schema::{entries, projects, settings, sites};
 
 pub use bundle::BundleImport;
+pub use bundle_load::{BundleAdded, BundleLoader};
 use std::cell::RefCell;
 use std::path::{Path, PathBuf};
 
