@@ -1,22 +1,20 @@
-//! The evidence of imports, read again: `readings` shows the rows behind a meter-day, `verify`
-//! recomputes each file's SHA-256 from its kept bytes, and `reconcile --recompute` re-plans
-//! every file to check the entries it made.
+//! The evidence of imports, read again: `readings` shows the rows behind a meter-day, and
+//! `reconcile --recompute` re-plans every file to check the entries it made (`verify`'s hash of
+//! the kept bytes is `Tx::check_evidence`).
 
 use super::Context;
 use super::setup::known_project;
-use crate::error::{Error, Result, StoreKind};
+use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::plan::{Options, Plan, plan};
-use crate::ledger::{EntryKind, Hash, Site};
+use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
 use crate::report::tables::evidence::readings_table;
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
-use sha2::{Digest, Sha256};
 use std::collections::HashMap;
-use std::io::Read;
 
 #[derive(Debug, Args)]
 pub struct ReadingsArgs {
@@ -111,45 +109,6 @@ pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal
         }));
     }
     Ok(out)
-}
-
-/// Checks each import of `project`: its kept bytes hash to the SHA-256 recorded and their size
-/// is the size recorded. Returns the imports checked, whose files the chain must name (verify
-/// sees that on its walk, without a scan of the chain per file).
-pub fn check(tx: &mut Tx<'_>, project: &str) -> Result<Vec<StoredImport>> {
-    let imports = tx.imports(project)?;
-    for i in &imports {
-        let bad = |what: String| {
-            Error::ledger(format!(
-                "project {project} import {} ({}): {what}",
-                i.id, i.file_name
-            ))
-        };
-        let mut sha = Sha256::new();
-        let mut bytes = 0u64;
-        let mut reader = tx.evidence(i.id);
-        let mut buf = vec![0u8; 1 << 16];
-        loop {
-            let n = reader
-                .read(&mut buf)
-                .map_err(|e| Error::store(StoreKind::Other, e.to_string()))?;
-            if n == 0 {
-                break;
-            }
-            sha.update(&buf[..n]);
-            bytes += n as u64;
-        }
-        let got = Hash(sha.finalize().into());
-        if got.to_hex() != i.sha256 || i64::try_from(bytes).ok() != Some(i.bytes) {
-            return Err(bad(format!(
-                "its kept bytes ({bytes} bytes, SHA-256 {}) are not the file imported ({} bytes, SHA-256 {})",
-                got.head(),
-                i.bytes,
-                short(&i.sha256)
-            )));
-        }
-    }
-    Ok(imports)
 }
 
 /// `readings`: the rows behind one meter-day, re-read from every file imported into the project.

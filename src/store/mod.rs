@@ -14,7 +14,9 @@ mod postgres;
 mod reconciliations;
 mod rows;
 mod schema;
+mod statements;
 mod stream;
+mod verify;
 pub mod wait;
 
 use crate::error::{Error, Result};
