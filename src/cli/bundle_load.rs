@@ -37,6 +37,6 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
         &file.display().to_string(),
         &project,
         &trailer,
-        &new,
+        [new.entries, new.signatures, new.reconciliations],
     )))
 }

@@ -5,10 +5,9 @@
 use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
-use crate::import::meter_csv::ColumnMap;
-use crate::import::plan::{Options, Plan, plan};
-use crate::ledger::{EntryKind, Site};
-use crate::quantity::volume::DensityMethod;
+use crate::import::plan::Plan;
+use crate::import::replan::{Kept, replan as replan_kept};
+use crate::ledger::Site;
 use crate::report::Report;
 use crate::report::tables::evidence::readings_table;
 use crate::store::{StoredImport, Tx};
@@ -38,8 +37,7 @@ pub struct ReadingTotal {
     pub rows: i64,
 }
 
-/// Re-reads import `i` of `project` as it was read when imported; a kept file that no longer
-/// hashes to its recorded SHA-256 is a ledger inconsistency.
+/// Re-reads import `i` of `project` from its kept bytes (`import::replan`).
 fn replan(
     tx: &mut Tx<'_>,
     project: &str,
@@ -47,43 +45,15 @@ fn replan(
     i: &StoredImport,
     watch: Option<(&str, NaiveDate)>,
 ) -> Result<Plan> {
-    let bad = |what: String| {
-        Error::ledger(format!(
-            "project {project} import {} ({}): {what}",
-            i.id, i.file_name
-        ))
-    };
-    let kind = EntryKind::from_name(&i.kind)
-        .ok_or_else(|| bad(format!("kind {:?} is not an entry kind", i.kind)))?;
-    let density = match i.density.as_str() {
-        "eos" => DensityMethod::Eos,
-        "regulatory" => DensityMethod::Regulatory,
-        other => return Err(bad(format!("density method {other:?} is not known"))),
-    };
-    let columns =
-        ColumnMap::parse(Some(&i.columns)).map_err(|e| bad(format!("column map: {e}")))?;
-    let opts = Options {
+    let kept = Kept {
+        id: i.id,
         file_name: &i.file_name,
-        project,
-        kind,
-        columns: &columns,
-        density,
-        sites,
-        watch,
+        sha256: &i.sha256,
+        kind: &i.kind,
+        columns: &i.columns,
+        density: &i.density,
     };
-    let p = plan(tx.evidence(i.id), &opts, |_| true).map_err(|e| bad(e.to_string()))?;
-    if p.sha256.to_hex() != i.sha256 {
-        return Err(bad(format!(
-            "its kept bytes hash to {}, not the recorded {}",
-            p.sha256.head(),
-            short(&i.sha256)
-        )));
-    }
-    Ok(p)
-}
-
-fn short(hex: &str) -> &str {
-    hex.get(..12).unwrap_or(hex)
+    replan_kept(tx.evidence(i.id), project, sites, &kept, watch)
 }
 
 fn sites_of(tx: &mut Tx<'_>, project: &str) -> Result<HashMap<String, Site>> {

@@ -100,7 +100,12 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     let import_id = tx.next_import_id()?;
     let plan = match read_file(tx, req, &sites, import_id)? {
         (plan, Some(prev)) => {
-            return Ok(Report::default().line(already_line(file_name, &a.project, &plan, &prev)));
+            return Ok(Report::default().line(already_line(
+                file_name,
+                &a.project,
+                &plan,
+                (prev.imported_at, prev.id, prev.rows),
+            )));
         }
         (plan, None) => plan,
     };

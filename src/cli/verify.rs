@@ -4,13 +4,13 @@ use super::Context;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::ledger::seal_check::SealCheck;
-use crate::ledger::{Entry, EntryKind, Project};
+use crate::ledger::unnamed_files::UnnamedFiles;
+use crate::ledger::{EntryKind, Project};
 use crate::report::tables::verify::{ledger_cells, notes, project_row, verify_table};
 use crate::report::{Cell, Report};
-use crate::store::{StoredImport, Tx};
+use crate::store::Tx;
 use clap::Args;
 use indicatif::ProgressBar;
-use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct VerifyArgs {
@@ -91,7 +91,12 @@ fn check_project(
     let sites = tx.sites(&p.code)?;
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
-    let mut unnamed = Unnamed::new(tx.check_evidence(&p.code)?);
+    let imports = tx.check_evidence(&p.code)?;
+    let mut unnamed = UnnamedFiles::new(
+        imports
+            .into_iter()
+            .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i.id, i.file_name))),
+    );
     let at =
         |seq: u64, what: String| Error::ledger(format!("project {} seq {seq}: {what}", p.code));
     let listed = tx
@@ -120,7 +125,7 @@ fn check_project(
         Ok(())
     })?;
     states.finish(&p.code, c.entries)?;
-    unnamed.finish(&p.code)?;
+    unnamed.finish(&p.code).map_err(Error::ledger)?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
@@ -148,37 +153,4 @@ fn check_project(
         c.entries,
         c.head,
     ))
-}
-
-/// The project's imported files no entry has named yet as its evidence: each must be named by
-/// the end of the walk (an import whose entries were cut from the chain's end leaves its file).
-struct Unnamed(HashMap<Hash, StoredImport>);
-
-impl Unnamed {
-    fn new(imports: Vec<StoredImport>) -> Self {
-        Unnamed(
-            imports
-                .into_iter()
-                .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i)))
-                .collect(),
-        )
-    }
-
-    fn see(&mut self, e: &Entry) {
-        if let Some(ev) = &e.evidence
-            && !self.0.is_empty()
-        {
-            self.0.remove(&ev.sha256);
-        }
-    }
-
-    fn finish(self, project: &str) -> Result<()> {
-        match self.0.into_values().min_by_key(|i| i.id) {
-            None => Ok(()),
-            Some(i) => Err(Error::ledger(format!(
-                "project {project} import {} ({}): no entry of the chain names this file as its evidence",
-                i.id, i.file_name
-            ))),
-        }
-    }
 }

@@ -10,6 +10,7 @@ pub mod meter_csv;
 pub mod meter_day;
 pub mod overlap;
 pub mod plan;
+pub mod replan;
 pub mod summary;
 
 use crate::error::{Error, Result};

@@ -4,17 +4,23 @@ use crate::import::plan::Plan;
 use crate::import::summary::Summary;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
-use crate::store::ImportSummary;
+use chrono::{DateTime, Utc};
 
-/// The line saying a file was imported before, and nothing was written.
-pub fn already_line(file_name: &str, project: &str, plan: &Plan, prev: &ImportSummary) -> String {
+/// The line saying a file was imported before (at `at` as import `id` of `rows` rows), and
+/// nothing was written.
+pub fn already_line(
+    file_name: &str,
+    project: &str,
+    plan: &Plan,
+    (at, id, rows): (DateTime<Utc>, i64, i64),
+) -> String {
     format!(
         "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
         plan.sha256.head(),
         project,
-        prev.imported_at.format("%Y-%m-%d %H:%M:%S UTC"),
-        prev.id,
-        prev.rows
+        at.format("%Y-%m-%d %H:%M:%S UTC"),
+        id,
+        rows
     )
 }
 
