@@ -3,6 +3,7 @@
 
 pub mod check;
 pub mod line;
+pub mod stop;
 
 pub use check::Checker;
 pub use line::{Item, Line};

@@ -1,22 +1,19 @@
-//! The evidence of imports, read again: `readings` shows the rows behind a meter-day, `verify`
-//! recomputes each file's SHA-256 from its kept bytes, and `reconcile --recompute` re-plans
-//! every file to check the entries it made.
+//! The evidence of imports, read again: `readings` shows the rows behind a meter-day, and
+//! `reconcile --recompute` re-plans every file to check the entries it made (`verify`'s hash of
+//! the kept bytes is `Tx::check_evidence`).
 
 use super::Context;
 use super::setup::known_project;
-use crate::error::{Error, Result, StoreKind};
-use crate::import::meter_csv::ColumnMap;
-use crate::import::plan::{Options, Plan, plan};
-use crate::ledger::{EntryKind, Hash, Site};
-use crate::quantity::volume::DensityMethod;
+use crate::error::{Error, Result};
+use crate::import::plan::Plan;
+use crate::import::replan::{Kept, replan as replan_kept};
+use crate::ledger::Site;
 use crate::report::Report;
 use crate::report::tables::evidence::readings_table;
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
-use sha2::{Digest, Sha256};
 use std::collections::HashMap;
-use std::io::Read;
 
 #[derive(Debug, Args)]
 pub struct ReadingsArgs {
@@ -40,8 +37,7 @@ pub struct ReadingTotal {
     pub rows: i64,
 }
 
-/// Re-reads import `i` of `project` as it was read when imported; a kept file that no longer
-/// hashes to its recorded SHA-256 is a ledger inconsistency.
+/// Re-reads import `i` of `project` from its kept bytes (`import::replan`).
 fn replan(
     tx: &mut Tx<'_>,
     project: &str,
@@ -49,43 +45,15 @@ fn replan(
     i: &StoredImport,
     watch: Option<(&str, NaiveDate)>,
 ) -> Result<Plan> {
-    let bad = |what: String| {
-        Error::ledger(format!(
-            "project {project} import {} ({}): {what}",
-            i.id, i.file_name
-        ))
-    };
-    let kind = EntryKind::from_name(&i.kind)
-        .ok_or_else(|| bad(format!("kind {:?} is not an entry kind", i.kind)))?;
-    let density = match i.density.as_str() {
-        "eos" => DensityMethod::Eos,
-        "regulatory" => DensityMethod::Regulatory,
-        other => return Err(bad(format!("density method {other:?} is not known"))),
-    };
-    let columns =
-        ColumnMap::parse(Some(&i.columns)).map_err(|e| bad(format!("column map: {e}")))?;
-    let opts = Options {
+    let kept = Kept {
+        id: i.id,
         file_name: &i.file_name,
-        project,
-        kind,
-        columns: &columns,
-        density,
-        sites,
-        watch,
+        sha256: &i.sha256,
+        kind: &i.kind,
+        columns: &i.columns,
+        density: &i.density,
     };
-    let p = plan(tx.evidence(i.id), &opts, |_| true).map_err(|e| bad(e.to_string()))?;
-    if p.sha256.to_hex() != i.sha256 {
-        return Err(bad(format!(
-            "its kept bytes hash to {}, not the recorded {}",
-            p.sha256.head(),
-            short(&i.sha256)
-        )));
-    }
-    Ok(p)
-}
-
-fn short(hex: &str) -> &str {
-    hex.get(..12).unwrap_or(hex)
+    replan_kept(tx.evidence(i.id), project, sites, &kept, watch)
 }
 
 fn sites_of(tx: &mut Tx<'_>, project: &str) -> Result<HashMap<String, Site>> {
@@ -111,45 +79,6 @@ pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal
         }));
     }
     Ok(out)
-}
-
-/// Checks each import of `project`: its kept bytes hash to the SHA-256 recorded and their size
-/// is the size recorded. Returns the imports checked, whose files the chain must name (verify
-/// sees that on its walk, without a scan of the chain per file).
-pub fn check(tx: &mut Tx<'_>, project: &str) -> Result<Vec<StoredImport>> {
-    let imports = tx.imports(project)?;
-    for i in &imports {
-        let bad = |what: String| {
-            Error::ledger(format!(
-                "project {project} import {} ({}): {what}",
-                i.id, i.file_name
-            ))
-        };
-        let mut sha = Sha256::new();
-        let mut bytes = 0u64;
-        let mut reader = tx.evidence(i.id);
-        let mut buf = vec![0u8; 1 << 16];
-        loop {
-            let n = reader
-                .read(&mut buf)
-                .map_err(|e| Error::store(StoreKind::Other, e.to_string()))?;
-            if n == 0 {
-                break;
-            }
-            sha.update(&buf[..n]);
-            bytes += n as u64;
-        }
-        let got = Hash(sha.finalize().into());
-        if got.to_hex() != i.sha256 || i64::try_from(bytes).ok() != Some(i.bytes) {
-            return Err(bad(format!(
-                "its kept bytes ({bytes} bytes, SHA-256 {}) are not the file imported ({} bytes, SHA-256 {})",
-                got.head(),
-                i.bytes,
-                short(&i.sha256)
-            )));
-        }
-    }
-    Ok(imports)
 }
 
 /// `readings`: the rows behind one meter-day, re-read from every file imported into the project.

@@ -8,20 +8,18 @@ use super::record::DensityArg;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
-use crate::import::meter_day::{MeterDay, Source};
+use crate::import::meter_day::Source;
 use crate::import::plan::{Options, Plan};
 use crate::import::plan_file;
-use crate::ledger::{EntryKind, SealedEntry, Site};
-use crate::quantity::Mass;
+use crate::import::summary::Summary;
+use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::report::Report;
+use crate::report::tables::import::{already_line, summary_line, summary_table};
 use crate::store::{BYTES_PER_ENTRY, ImportSummary, NewImport, Tx, disk_error, room_for};
-use chrono::NaiveDate;
 use clap::Args;
-use std::collections::{BTreeMap, HashMap};
+use std::collections::HashMap;
 use std::path::PathBuf;
-use std::sync::Arc;
 
 #[derive(Debug, Args)]
 pub struct ImportArgs {
@@ -102,13 +100,11 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     let import_id = tx.next_import_id()?;
     let plan = match read_file(tx, req, &sites, import_id)? {
         (plan, Some(prev)) => {
-            return Ok(Report::default().line(format!(
-                "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
-                plan.sha256.head(),
-                a.project,
-                prev.imported_at.format("%Y-%m-%d %H:%M:%S UTC"),
-                prev.id,
-                prev.rows
+            return Ok(Report::default().line(already_line(
+                file_name,
+                &a.project,
+                &plan,
+                (prev.imported_at, prev.id, prev.rows),
             )));
         }
         (plan, None) => plan,
@@ -158,7 +154,7 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
             summary.entries,
             summary.replaced,
         ))
-        .table(summary.table(&a.project));
+        .table(summary_table(summary, &a.project));
     report.warnings = warnings;
     Ok(report)
 }
@@ -234,104 +230,4 @@ fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
         ));
     }
     Ok(())
-}
-
-fn summary_line(
-    file_name: &str,
-    project: &str,
-    import_id: i64,
-    plan: &Plan,
-    entries: usize,
-    replaced: usize,
-) -> String {
-    let mut s = format!(
-        "imported {file_name} (SHA-256 {}) into {project} as import {import_id}: {} readings → {entries} entries",
-        plan.sha256.head(),
-        plan.accepted,
-    );
-    if replaced > 0 {
-        s.push_str(&format!(" ({replaced} replacing earlier meter-days)"));
-    }
-    if !plan.bad.is_empty() {
-        let lines = plan.bad_lines();
-        s.push_str(&format!(", {} bad rows skipped", plan.bad.len()));
-        if lines as usize > plan.bad.len() {
-            s.push_str(&format!(" ({lines} lines)"));
-        }
-    }
-    s
-}
-
-/// One meter's share of an import.
-struct MeterSummary {
-    days: u64,
-    readings: u64,
-    mass: Mass,
-    first: NaiveDate,
-    last: NaiveDate,
-    seqs: (u64, u64),
-}
-
-/// Per meter: days, readings and CO2 of the import, added up as its entries are sealed.
-#[derive(Default)]
-struct Summary {
-    by: BTreeMap<(Arc<str>, Arc<str>), MeterSummary>,
-    entries: usize,
-    replaced: usize,
-}
-
-impl Summary {
-    fn add(&mut self, d: &MeterDay, s: &SealedEntry) {
-        self.entries += 1;
-        self.replaced += usize::from(s.entry.corrects.is_some());
-        let seq = s.entry.seq;
-        let v = self
-            .by
-            .entry((Arc::clone(&d.meter), Arc::clone(&d.site)))
-            .or_insert(MeterSummary {
-                days: 0,
-                readings: 0,
-                mass: Mass::ZERO,
-                first: d.day,
-                last: d.day,
-                seqs: (seq, seq),
-            });
-        v.days += 1;
-        v.readings += d.rows;
-        v.mass += d.co2;
-        v.first = v.first.min(d.day);
-        v.last = v.last.max(d.day);
-        v.seqs = (v.seqs.0.min(seq), v.seqs.1.max(seq));
-    }
-
-    fn table(self, project: &str) -> Table {
-        let mut t = Table::new(
-            "import",
-            format!("Import into project {project}, by meter"),
-            columns(&[
-                names::METER,
-                names::SITE,
-                names::FIRST_DAY,
-                names::LAST_DAY,
-                names::DAYS,
-                names::READINGS,
-                names::CO2_T,
-                names::SEQ_RANGE,
-            ]),
-        );
-        for ((meter, site), m) in self.by {
-            t.push(vec![
-                Cell::text(meter.to_string()),
-                Cell::text(site.to_string()),
-                Cell::text(m.first.to_string()),
-                Cell::text(m.last.to_string()),
-                Cell::Int(m.days as i64),
-                Cell::Int(m.readings as i64),
-                Cell::Tonnes(m.mass),
-                Cell::text(format!("{}–{}", m.seqs.0, m.seqs.1)),
-            ]);
-        }
-        t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
-        t
-    }
 }

@@ -3,9 +3,8 @@
 use super::Context;
 use super::sign::judge_all;
 use crate::error::{Error, Result};
-use crate::ledger::signature::Role;
 use crate::report::Report;
-use crate::report::tables::registry::{LastSeal, operators_table};
+use crate::report::tables::registry::{LastSeal, operators_table, verifier_word};
 use crate::store::{RoleKind, Tx};
 use clap::{Args, Subcommand};
 
@@ -80,24 +79,7 @@ fn last_seal(tx: &mut Tx<'_>, code: &str) -> Result<Option<LastSeal>> {
     let Some(seal) = tx.seals(code)?.pop() else {
         return Ok(None);
     };
-    let verifiers: Vec<_> = judge_all(tx, code)?
-        .into_iter()
-        .filter(|j| {
-            j.statement.signed.seal_seq == seal.seq && j.statement.signed.role == Role::Verifier
-        })
-        .collect();
-    let statement = match verifiers
-        .iter()
-        .find(|j| j.signature.is_ok() && j.seal.is_ok())
-    {
-        Some(_) => "yes".to_string(),
-        None if verifiers.is_empty() => "no".to_string(),
-        None => format!(
-            "no: {} signed, none checks (see sinkbook statements {})",
-            verifiers.len(),
-            code
-        ),
-    };
+    let statement = verifier_word(&judge_all(tx, code)?, seal.seq, code);
     Ok(Some(LastSeal { seal, statement }))
 }
 

@@ -5,14 +5,12 @@ use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
 use crate::error::{Error, Result, StoreKind};
-use crate::ledger::Hash;
-use crate::ledger::merkle::TreeBuilder;
-use crate::ledger::seal::{Seal, parse_period};
+use crate::ledger::seal::parse_period;
 use crate::ledger::signature::{
     Role, Signed, fingerprint, key_file_text, parse_key_file, sign as sign_with,
 };
 pub use crate::ledger::statement_check::Judged;
-use crate::ledger::statement_check::{judged, seal_stands};
+use crate::ledger::statement_check::judged;
 use crate::report::Report;
 use crate::report::tables::sign::key_table;
 pub use crate::report::tables::sign::statements_table;
@@ -189,37 +187,9 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         .table(statements_table(&a.project, &[judged(s, Ok(()))])))
 }
 
-/// Every statement of a project judged: the signature over its bytes, and the seal it names —
-/// still in the chain, with the tree size and root signed, and that root still the head of the
-/// leaves before it.
+/// Every statement of a project judged (`Tx::judged_statements`).
 pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
-    let statements = tx.signatures(project)?;
-    if statements.is_empty() {
-        return Ok(Vec::new());
-    }
-    let seals = tx.seals(project)?;
-    let heads = heads_at(tx, project, &seals)?;
-    Ok(statements
-        .into_iter()
-        .map(|s| {
-            let seal = seal_stands(&s, &seals, &heads);
-            judged(s, seal)
-        })
-        .collect())
-}
-
-/// The tree head of the leaves before each seal, recomputed as the chain streams by.
-fn heads_at(tx: &mut Tx<'_>, project: &str, seals: &[Seal]) -> Result<Vec<(u64, Hash)>> {
-    let mut tree = TreeBuilder::default();
-    let mut heads = Vec::new();
-    tx.for_each_entry(project, None, |s| {
-        if seals.iter().any(|x| x.tree_size == tree.size()) {
-            heads.push((tree.size(), tree.root()));
-        }
-        tree.push(s.leaf);
-        Ok(())
-    })?;
-    Ok(heads)
+    tx.judged_statements(project)
 }
 
 pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {

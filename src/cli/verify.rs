@@ -3,15 +3,14 @@
 use super::Context;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
-use crate::ledger::ledger_chain::{LinkWalk, Record};
 use crate::ledger::seal_check::SealCheck;
-use crate::ledger::{Entry, EntryKind, Project};
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
-use crate::store::{StoredImport, Tx};
+use crate::ledger::unnamed_files::UnnamedFiles;
+use crate::ledger::{EntryKind, Project};
+use crate::report::tables::verify::{ledger_cells, notes, project_row, verify_table};
+use crate::report::{Cell, Report};
+use crate::store::Tx;
 use clap::Args;
 use indicatif::ProgressBar;
-use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct VerifyArgs {
@@ -47,25 +46,9 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             )));
         }
     }
-    let mut t = Table::new(
-        "verify",
-        "Ledger verification",
-        columns(&[
-            names::PROJECT,
-            names::SITES,
-            names::ENTRIES,
-            names::SEALS,
-            names::STATEMENTS,
-            names::RECONCILIATIONS,
-            names::CHAIN_HEAD,
-            names::CHAIN_HASH.programs(),
-            names::RESULT,
-            names::LEDGER_LINKS.programs(),
-            names::LEDGER_HASH.programs(),
-        ]),
-    );
+    let mut t = verify_table();
     let (links, ledger_head) = store.read(|tx| {
-        let ledger = check_ledger_chain(tx, a.project.as_deref(), expected_ledger)?;
+        let ledger = tx.check_ledger_chain(a.project.as_deref(), expected_ledger)?;
         let projects = tx.projects()?;
         let chosen: Vec<_> = match &a.project {
             Some(code) => vec![super::setup::known_project(tx, code)?],
@@ -80,82 +63,21 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         let bar = super::progress::entries("verifying", total);
         for p in chosen {
             let mut row = check_project(tx, &p, expected, &bar)?;
-            row.extend([Cell::Int(links as i64), Cell::text(head.to_hex())]);
+            row.extend(ledger_cells(links, head));
             t.push(row);
         }
         bar.finish_and_clear();
         Ok(ledger)
     })?;
-    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
-    t.note(format!(
-        "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
-        ledger_head.to_hex()
-    ));
-    t.note(if a.deep {
-        "SQLite's integrity_check found the file's structure whole."
-    } else {
-        "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
-    });
-    if expected.is_some() {
-        t.note("The published chain head given with --expect-head is still held by the chain.");
-    }
-    if expected_ledger.is_some() {
-        t.note("The published ledger head given with --expect-ledger-head is still held by the ledger chain.");
-    }
+    notes(
+        &mut t,
+        links,
+        ledger_head,
+        a.deep,
+        expected.is_some(),
+        expected_ledger.is_some(),
+    );
     Ok(Report::default().table(t))
-}
-
-/// The ledger chain walked link by link (every link's hashes; with `only`, the rows of that
-/// project) and every linked table searched for a row no link names. Returns the number of
-/// links and the ledger head.
-fn check_ledger_chain(
-    tx: &mut Tx<'_>,
-    only: Option<&str>,
-    expected: Option<Hash>,
-) -> Result<(u64, Hash)> {
-    let mut walk = LinkWalk::new(expected);
-    let mut next = 0;
-    loop {
-        let page = tx.links_from(next)?;
-        if page.is_empty() {
-            break;
-        }
-        for s in &page {
-            walk.step(s).map_err(Error::ledger)?;
-            next = s.link.seq + 1;
-            let l = &s.link;
-            if only.is_some_and(|p| p != l.project) {
-                continue;
-            }
-            let row = l.record.describe(&l.project, &l.item);
-            match tx.linked_row(l.record, &l.project, &l.item)? {
-                None => {
-                    return Err(Error::ledger(format!(
-                        "ledger link {}: {row} is gone: the ledger no longer holds the row it links",
-                        l.seq
-                    )));
-                }
-                Some(h) if h != l.row => {
-                    return Err(Error::ledger(format!(
-                        "ledger link {}: {row} is not the row linked (its hash {} differs from the link's {})",
-                        l.seq,
-                        h.head(),
-                        l.row.head()
-                    )));
-                }
-                Some(_) => {}
-            }
-        }
-    }
-    for record in Record::ALL {
-        if let Some((project, item)) = tx.unlinked(record, only)? {
-            return Err(Error::ledger(format!(
-                "{} is in no ledger link: written outside sinkbook, or its link was removed",
-                record.describe(&project, &item)
-            )));
-        }
-    }
-    walk.finish().map_err(Error::ledger)
 }
 
 /// One project's rows against their hashes, its chain streamed and checked with its seals, and
@@ -169,7 +91,12 @@ fn check_project(
     let sites = tx.sites(&p.code)?;
     tx.settings(&p.code)?;
     tx.feedstocks(&p.code)?;
-    let mut unnamed = Unnamed::new(super::evidence::check(tx, &p.code)?);
+    let imports = tx.check_evidence(&p.code)?;
+    let mut unnamed = UnnamedFiles::new(
+        imports
+            .into_iter()
+            .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i.id, i.file_name))),
+    );
     let at =
         |seq: u64, what: String| Error::ledger(format!("project {} seq {seq}: {what}", p.code));
     let listed = tx
@@ -198,7 +125,7 @@ fn check_project(
         Ok(())
     })?;
     states.finish(&p.code, c.entries)?;
-    unnamed.finish(&p.code)?;
+    unnamed.finish(&p.code).map_err(Error::ledger)?;
     let seals = seals.finish().map_err(|(seq, w)| at(seq, w))?.len();
     let statements = super::sign::judge_all(tx, &p.code)?;
     for j in &statements {
@@ -220,48 +147,10 @@ fn check_project(
             c.head.head()
         )));
     }
-    Ok(vec![
-        Cell::text(&p.code),
-        Cell::Int(sites.len() as i64),
-        Cell::Int(c.entries as i64),
-        Cell::Int(seals as i64),
-        Cell::Int(statements.len() as i64),
-        Cell::Int(reconciliations.len() as i64),
-        Cell::text(c.head.head()),
-        Cell::text(c.head.to_hex()),
-        Cell::text("intact"),
-    ])
-}
-
-/// The project's imported files no entry has named yet as its evidence: each must be named by
-/// the end of the walk (an import whose entries were cut from the chain's end leaves its file).
-struct Unnamed(HashMap<Hash, StoredImport>);
-
-impl Unnamed {
-    fn new(imports: Vec<StoredImport>) -> Self {
-        Unnamed(
-            imports
-                .into_iter()
-                .filter_map(|i| Some((Hash::from_hex(&i.sha256)?, i)))
-                .collect(),
-        )
-    }
-
-    fn see(&mut self, e: &Entry) {
-        if let Some(ev) = &e.evidence
-            && !self.0.is_empty()
-        {
-            self.0.remove(&ev.sha256);
-        }
-    }
-
-    fn finish(self, project: &str) -> Result<()> {
-        match self.0.into_values().min_by_key(|i| i.id) {
-            None => Ok(()),
-            Some(i) => Err(Error::ledger(format!(
-                "project {project} import {} ({}): no entry of the chain names this file as its evidence",
-                i.id, i.file_name
-            ))),
-        }
-    }
+    Ok(project_row(
+        &p.code,
+        &[sites.len(), seals, statements.len(), reconciliations.len()],
+        c.entries,
+        c.head,
+    ))
 }

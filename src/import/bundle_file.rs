@@ -1,6 +1,8 @@
 //! Reading a bundle file line by line, streamed: each line's text handed on with its number,
 //! so memory stays flat whatever the bundle's size.
 
+use crate::bundle::line::Trailer;
+use crate::bundle::{Checker, Item};
 use crate::error::{Error, Result};
 use std::io::BufRead;
 use std::path::Path;
@@ -30,4 +32,35 @@ pub fn each_line(path: &Path, mut f: impl FnMut(u64, &str) -> Result<()>) -> Res
         let text = std::str::from_utf8(&buf).map_err(|_| damaged("not UTF-8 text"))?;
         f(n, text)?;
     }
+}
+
+/// What a whole bundle was found to hold.
+pub struct Checked {
+    pub project: String,
+    pub trailer: Trailer,
+    pub seals: usize,
+    pub signatures: usize,
+    pub reconciliations: u64,
+}
+
+/// Reads a bundle through the checker, handing each checked line's value to `f`.
+pub fn read_checked(path: &Path, mut f: impl FnMut(&Item) -> Result<()>) -> Result<Checked> {
+    let name = path.display().to_string();
+    let mut checker = Checker::default();
+    each_line(path, |n, text| {
+        let item = checker
+            .push(text)
+            .map_err(|e| Error::ledger(format!("bundle {name} line {n}: {e}")))?;
+        f(&item)
+    })?;
+    let t = checker
+        .finish()
+        .map_err(|e| Error::ledger(format!("bundle {name}: {e}")))?;
+    Ok(Checked {
+        project: checker.project().to_string(),
+        trailer: t,
+        seals: checker.seals(),
+        signatures: checker.signatures(),
+        reconciliations: checker.reconciliations(),
+    })
 }

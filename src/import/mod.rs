@@ -11,6 +11,8 @@ pub mod meter_day;
 pub mod monitoring_report;
 pub mod overlap;
 pub mod plan;
+pub mod replan;
+pub mod summary;
 
 use crate::error::{Error, Result};
 use plan::{Options, Plan};

@@ -24,6 +24,7 @@ pub mod setting;
 pub mod signature;
 pub mod statement_check;
 pub mod tally;
+pub mod unnamed_files;
 
 pub use entry::{Entry, EntryKind, Evidence, Reading, SealedEntry, Sign};
 pub use hash::Hash;

@@ -4,6 +4,7 @@
 use super::rows::{EntryRow, ImportRow};
 use super::schema::{entries, imports};
 use super::{Tx, inconsistent};
+use crate::bundle::line::Import;
 use crate::error::Result;
 use crate::ledger::{Hash, SealedEntry};
 use diesel::connection::DefaultLoadingMode;
@@ -20,6 +21,22 @@ pub struct BundleImport {
     pub density: String,
     pub byte_count: i64,
     pub imported_at: chrono::DateTime<chrono::Utc>,
+}
+
+impl BundleImport {
+    /// The import as its bundle line holds it.
+    pub fn line(&self) -> Import {
+        Import {
+            file_name: self.file_name.clone(),
+            file_sha256: self.file_sha256,
+            kind: self.kind.clone(),
+            row_count: self.row_count,
+            columns_map: self.columns_map.clone(),
+            density: self.density.clone(),
+            byte_count: self.byte_count,
+            imported_at: self.imported_at,
+        }
+    }
 }
 
 impl Tx<'_> {

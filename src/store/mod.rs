@@ -3,6 +3,8 @@
 
 pub(crate) mod backend;
 mod bundle;
+mod bundle_export;
+mod bundle_load;
 mod connection;
 mod feedstocks;
 mod imports;
@@ -12,7 +14,9 @@ mod postgres;
 mod reconciliations;
 mod rows;
 mod schema;
+mod statements;
 mod stream;
+mod verify;
 pub mod wait;
 
 use crate::error::{Error, Result};
@@ -24,6 +28,7 @@ use rows::{EntryRow, ProjectRow, SettingRow, SiteRow, TalliedRow};
 use schema::{entries, projects, settings, sites};
 
 pub use bundle::BundleImport;
+pub use bundle_load::{BundleAdded, BundleLoader};
 use std::cell::RefCell;
 use std::path::{Path, PathBuf};
 

@@ -2,6 +2,8 @@
 
 use crate::ledger::Project;
 use crate::ledger::seal::Seal;
+use crate::ledger::signature::Role;
+use crate::ledger::statement_check::Judged;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
 
@@ -50,4 +52,27 @@ pub fn operators_table(rows: &[(Project, Option<LastSeal>)]) -> Table {
         ]);
     }
     t
+}
+
+/// Whether a verifier's statement over seal `seal_seq` of project `code` checks, among the
+/// project's statements judged: "yes", "no", or how many were signed and that none checks.
+pub fn verifier_word(judged: &[Judged], seal_seq: u64, code: &str) -> String {
+    let verifiers: Vec<_> = judged
+        .iter()
+        .filter(|j| {
+            j.statement.signed.seal_seq == seal_seq && j.statement.signed.role == Role::Verifier
+        })
+        .collect();
+    match verifiers
+        .iter()
+        .find(|j| j.signature.is_ok() && j.seal.is_ok())
+    {
+        Some(_) => "yes".to_string(),
+        None if verifiers.is_empty() => "no".to_string(),
+        None => format!(
+            "no: {} signed, none checks (see sinkbook statements {})",
+            verifiers.len(),
+            code
+        ),
+    }
 }

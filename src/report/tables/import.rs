@@ -1,0 +1,85 @@
+//! `import`'s summary: the line saying what was imported, and the table by meter.
+
+use crate::import::plan::Plan;
+use crate::import::summary::Summary;
+use crate::report::names;
+use crate::report::{Cell, Table, columns};
+use chrono::{DateTime, Utc};
+
+/// The line saying a file was imported before (at `at` as import `id` of `rows` rows), and
+/// nothing was written.
+pub fn already_line(
+    file_name: &str,
+    project: &str,
+    plan: &Plan,
+    (at, id, rows): (DateTime<Utc>, i64, i64),
+) -> String {
+    format!(
+        "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
+        plan.sha256.head(),
+        project,
+        at.format("%Y-%m-%d %H:%M:%S UTC"),
+        id,
+        rows
+    )
+}
+
+/// The line above the table: the file, its hash, readings and entries, what was replaced and
+/// skipped.
+pub fn summary_line(
+    file_name: &str,
+    project: &str,
+    import_id: i64,
+    plan: &Plan,
+    entries: usize,
+    replaced: usize,
+) -> String {
+    let mut s = format!(
+        "imported {file_name} (SHA-256 {}) into {project} as import {import_id}: {} readings → {entries} entries",
+        plan.sha256.head(),
+        plan.accepted,
+    );
+    if replaced > 0 {
+        s.push_str(&format!(" ({replaced} replacing earlier meter-days)"));
+    }
+    if !plan.bad.is_empty() {
+        let lines = plan.bad_lines();
+        s.push_str(&format!(", {} bad rows skipped", plan.bad.len()));
+        if lines as usize > plan.bad.len() {
+            s.push_str(&format!(" ({lines} lines)"));
+        }
+    }
+    s
+}
+
+/// Per meter: the days, readings and CO2 the import recorded, and the seqs they took.
+pub fn summary_table(summary: Summary, project: &str) -> Table {
+    let mut t = Table::new(
+        "import",
+        format!("Import into project {project}, by meter"),
+        columns(&[
+            names::METER,
+            names::SITE,
+            names::FIRST_DAY,
+            names::LAST_DAY,
+            names::DAYS,
+            names::READINGS,
+            names::CO2_T,
+            names::SEQ_RANGE,
+        ]),
+    );
+    for ((meter, site), m) in summary.by {
+        t.push(vec![
+            Cell::text(meter.to_string()),
+            Cell::text(site.to_string()),
+            Cell::text(m.first.to_string()),
+            Cell::text(m.last.to_string()),
+            Cell::Int(m.days as i64),
+            Cell::Int(m.readings as i64),
+            Cell::Tonnes(m.mass),
+            Cell::text(format!("{}–{}", m.seqs.0, m.seqs.1)),
+        ]);
+    }
+    t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
+    t
+}

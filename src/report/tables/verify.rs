@@ -1,0 +1,76 @@
+//! `verify`'s table: a row per project found intact, and the notes saying what was checked.
+
+use crate::ledger::Hash;
+use crate::report::names;
+use crate::report::{Cell, Table, columns};
+
+/// The table's columns; `project_row` and `ledger_cells` fill a row.
+pub fn verify_table() -> Table {
+    Table::new(
+        "verify",
+        "Ledger verification",
+        columns(&[
+            names::PROJECT,
+            names::SITES,
+            names::ENTRIES,
+            names::SEALS,
+            names::STATEMENTS,
+            names::RECONCILIATIONS,
+            names::CHAIN_HEAD,
+            names::CHAIN_HASH.programs(),
+            names::RESULT,
+            names::LEDGER_LINKS.programs(),
+            names::LEDGER_HASH.programs(),
+        ]),
+    )
+}
+
+/// A project found intact: its sites, seals, statements and reconciliations (`counts`, in that
+/// order), its entries and chain head.
+pub fn project_row(code: &str, counts: &[usize; 4], entries: u64, head: Hash) -> Vec<Cell> {
+    let [sites, seals, statements, reconciliations] = *counts;
+    vec![
+        Cell::text(code),
+        Cell::Int(sites as i64),
+        Cell::Int(entries as i64),
+        Cell::Int(seals as i64),
+        Cell::Int(statements as i64),
+        Cell::Int(reconciliations as i64),
+        Cell::text(head.head()),
+        Cell::text(head.to_hex()),
+        Cell::text("intact"),
+    ]
+}
+
+/// The ledger chain's cells, the same on every row: its links and head.
+pub fn ledger_cells(links: u64, head: Hash) -> [Cell; 2] {
+    [Cell::Int(links as i64), Cell::text(head.to_hex())]
+}
+
+/// What was checked: the projects' rows, the ledger chain of `links` links ending in `head`,
+/// the database's own check if `deep`, and the published heads given.
+pub fn notes(
+    t: &mut Table,
+    links: u64,
+    head: Hash,
+    deep: bool,
+    expected: bool,
+    expected_ledger: bool,
+) {
+    t.note("Checked: every project, site, setting and feedstock row against its hash; every entry's leaf and chain hash recomputed from its stored fields; sequences dense from 0; recorded_at never decreasing along a chain; corrections name an earlier entry of the same kind, each corrected once; every entry's site registered; every imported file's kept bytes against its SHA-256 and the entries that name it; every seal's tree head recomputed from the leaves before it, and an RFC 6962 consistency proof from each seal to the next; every signed statement's row hash and ed25519 signature, and the seal it signs still as signed; every recorded reconciliation's row hash, seqs dense from 0, each naming the one before it, and the chain state it names found in the chain.");
+    t.note(format!(
+        "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
+        head.to_hex()
+    ));
+    t.note(if deep {
+        "SQLite's integrity_check found the file's structure whole."
+    } else {
+        "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
+    });
+    if expected {
+        t.note("The published chain head given with --expect-head is still held by the chain.");
+    }
+    if expected_ledger {
+        t.note("The published ledger head given with --expect-ledger-head is still held by the ledger chain.");
+    }
+}

@@ -1,0 +1,44 @@
+//! A project's signed statements judged again from the ledger: each signature over its bytes,
+//! and the seal it names still standing over the leaves the chain holds before it.
+
+use super::Tx;
+use crate::error::Result;
+use crate::ledger::Hash;
+use crate::ledger::merkle::TreeBuilder;
+use crate::ledger::seal::Seal;
+use crate::ledger::statement_check::{Judged, judged, seal_stands};
+
+impl Tx<'_> {
+    /// Every statement of a project judged: the signature over its bytes, and the seal it names —
+    /// still in the chain, with the tree size and root signed, and that root still the head of the
+    /// leaves before it.
+    pub fn judged_statements(&mut self, project: &str) -> Result<Vec<Judged>> {
+        let statements = self.signatures(project)?;
+        if statements.is_empty() {
+            return Ok(Vec::new());
+        }
+        let seals = self.seals(project)?;
+        let heads = self.heads_at(project, &seals)?;
+        Ok(statements
+            .into_iter()
+            .map(|s| {
+                let seal = seal_stands(&s, &seals, &heads);
+                judged(s, seal)
+            })
+            .collect())
+    }
+
+    /// The tree head of the leaves before each seal, recomputed as the chain streams by.
+    fn heads_at(&mut self, project: &str, seals: &[Seal]) -> Result<Vec<(u64, Hash)>> {
+        let mut tree = TreeBuilder::default();
+        let mut heads = Vec::new();
+        self.for_each_entry(project, None, |s| {
+            if seals.iter().any(|x| x.tree_size == tree.size()) {
+                heads.push((tree.size(), tree.root()));
+            }
+            tree.push(s.leaf);
+            Ok(())
+        })?;
+        Ok(heads)
+    }
+}
