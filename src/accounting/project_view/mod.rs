@@ -27,7 +27,7 @@ pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, miner
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
 pub use reported::{bearing, reporting_period};
-pub use rock_uncertainty::UptakeU;
+pub use rock_uncertainty::{Unestimated, UptakeU};
 pub use series::{Series, cumulative};
 pub use totals::{ByRoute, ProjectTotals, Route, TotalsLine};
 pub use weathering::{

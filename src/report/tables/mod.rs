@@ -13,6 +13,7 @@ pub mod proof;
 pub mod reconciliations;
 pub mod record;
 pub mod registry;
+pub mod rock_findings;
 pub mod settings;
 pub mod setup;
 pub mod sign;
