@@ -6,6 +6,7 @@ pub mod carbonation;
 pub mod claims;
 pub mod conservative;
 pub mod input;
+pub mod inventory;
 pub mod leakage;
 pub mod lifecycle;
 pub mod materiality;

@@ -5,10 +5,7 @@
 use crate::accounting::input::InputError;
 use crate::error::{Error, Result};
 use crate::quantity::Decimal;
-pub use crate::quantity::measure::{
-    DENSITY, DISTANCE, Depth, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE,
-    Units, WORK_INDEX,
-};
+pub use crate::quantity::measure::{DENSITY, Depth, Measure, SIZE, Units};
 use crate::quantity::measure::{parse_depth, parse_measure};
 
 /// An exact decimal.
@@ -93,6 +90,7 @@ pub fn refused(e: &InputError, options: &[(&str, &str, &str)]) -> Error {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::quantity::measure::{DISTANCE, GRID};
 
     #[test]
     fn measures_and_shares() {
