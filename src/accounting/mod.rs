@@ -15,6 +15,7 @@ pub mod metering;
 pub mod permanence;
 pub mod permit;
 pub mod project_view;
+pub mod rock_record;
 pub mod tracer;
 pub mod uncertainty;
 pub mod weathering;
