@@ -8,11 +8,6 @@ use crate::quantity::Decimal;
 use crate::quantity::measure::parse_measure;
 pub use crate::quantity::measure::{DENSITY, Measure, SIZE, Units};
 
-/// An exact decimal.
-pub fn number(option: &str, text: &str) -> Result<Decimal> {
-    Decimal::parse(text.trim()).map_err(|e| Error::field(option, text, e))
-}
-
 /// A number with one of `units`, at least 0 (`positive` demands more than 0).
 pub fn measure(option: &str, text: &str, units: Units, positive: bool) -> Result<Measure> {
     parse_measure(text, units, positive).map_err(|why| Error::field(option, text, why))
