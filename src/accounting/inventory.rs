@@ -302,3 +302,55 @@ fn spreading(
     })
     .map_err(|e| refused(e, &[("spreading_g", Given::SpreadingFuel, fuel_text)]))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn run(stage: Stage, i: &Inputs<'_>) -> Result<(Emission, Reading)> {
+        let mut reading = Reading::default();
+        let area = || Ok::<_, InventoryError>(Area::parse("10 ha").expect("area"));
+        stage_emission(stage, i, area, &mut reading).map(|e| (e, reading))
+    }
+
+    #[test]
+    fn refusals_name_the_input_not_an_option() {
+        let i = Inputs {
+            quarrying: Some("2.5 kg/t"),
+            ..Inputs::default()
+        };
+        assert_eq!(
+            run(Stage::Quarrying, &i).unwrap_err(),
+            InventoryError::Missing(Given::RockMass, Stage::Quarrying)
+        );
+        let bond = Inputs {
+            grinding: Some(GrindingMethod::Bond),
+            d80: Some("20 mm"),
+            feed_f80: Some("12 mm"),
+            work_index: Some("18 kWh/t"),
+            rock_mass: Some("100 t"),
+            grid_factor: Some("0.35 kg/kWh"),
+            ..Inputs::default()
+        };
+        assert_eq!(
+            run(Stage::Grinding, &bond).unwrap_err(),
+            InventoryError::ProductNotFiner {
+                d80: "20 mm".into(),
+                feed_f80: "12 mm".into()
+            }
+        );
+    }
+
+    #[test]
+    fn quarrying_records_its_factor_and_source() {
+        let i = Inputs {
+            quarrying: Some("2.5 kg/t"),
+            rock_mass: Some("1000 t"),
+            ..Inputs::default()
+        };
+        let (e, reading) = run(Stage::Quarrying, &i).unwrap();
+        assert_eq!(e.mass.grams(), 2_500_000);
+        let source = ("quarrying_factor_source".to_string(), "given".to_string());
+        assert!(reading.0.contains(&source), "{reading:?}");
+    }
+}

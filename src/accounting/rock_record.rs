@@ -235,3 +235,51 @@ pub fn soil_sample(t: &SoilTexts<'_>) -> Result<Reading> {
     }
     Ok(reading)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn refusals_name_the_value_not_an_option() {
+        let soil = SoilTexts {
+            depth: "0-30 cm",
+            bulk_density: "2.8 t/m3",
+            unit: "mol/kg",
+            conc: "Ca=0.1,Ti=0.09",
+            baseline: false,
+        };
+        assert!(matches!(
+            soil_sample(&soil),
+            Err(RecordError::Value { given: Given::BulkDensity, ref text, .. }) if text == "2.8 t/m3"
+        ));
+        let tracer = TracerTexts {
+            tracer_ratio: "0.5",
+            dic_sample: "3",
+            dic_background: "1",
+            dic_injectate: "10",
+            unit: "ppm",
+        };
+        assert!(matches!(
+            tracer_sample(&tracer),
+            Err(RecordError::Value {
+                given: Given::DicUnit,
+                ..
+            })
+        ));
+    }
+
+    #[test]
+    fn a_baseline_core_is_flagged_in_its_reading() {
+        let soil = SoilTexts {
+            depth: "0-30 cm",
+            bulk_density: "1.3 t/m3",
+            unit: "mol/kg",
+            conc: "Ca=0.1,Mg=0.08,Na=0.05,K=0.06,Ti=0.09",
+            baseline: true,
+        };
+        let r = soil_sample(&soil).unwrap();
+        assert_eq!(r.0.first(), Some(&("depth".into(), "0-30 cm".into())));
+        assert_eq!(r.0.last(), Some(&("baseline".into(), "yes".into())));
+    }
+}

@@ -198,3 +198,34 @@ fn from_volume(v: &StandardVolume, quantity: &str, to: &str, o: &Options) -> Res
     );
     Ok(step)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const O: Options = Options {
+        density: DensityMethod::Eos,
+        route: Route::Carbonate,
+        redox: Redox::Oxidizing,
+    };
+
+    #[test]
+    fn carbon_to_co2_and_refusals_by_value() {
+        let c = convert("1 t", "C", "CO2", &O).unwrap();
+        assert!((c.result - CO2_PER_C).abs() < 1e-12, "{c:?}");
+        assert!(matches!(
+            convert("2.5 MMscf", "C", "CO2", &O),
+            Err(ConvertError::Value {
+                given: Given::Species,
+                ..
+            })
+        ));
+        assert!(matches!(
+            convert("1 t", "C", "kg", &O),
+            Err(ConvertError::Value {
+                given: Given::To,
+                ..
+            })
+        ));
+    }
+}

@@ -85,3 +85,21 @@ pub fn settings(
         deductions: Deductions::default(),
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reads_and_refuses_by_value() {
+        let s = settings(DissolutionMethod::Tau, "Zr", "Ca, Mg", "0.1").unwrap();
+        assert_eq!(s.mobile, vec![Cation::Ca, Cation::Mg]);
+        let e = settings(DissolutionMethod::Tau, "Ti", "Ca,Ca", "0.1").unwrap_err();
+        assert_eq!(
+            (e.given, e.why.as_str()),
+            (Given::Mobile, "Ca is given twice")
+        );
+        let e = settings(DissolutionMethod::Tau, "Ti", "Ca", "-1").unwrap_err();
+        assert_eq!(e.given, Given::MinImmobileContrast);
+    }
+}
