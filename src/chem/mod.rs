@@ -5,6 +5,7 @@
 //! against a published value. Molar masses come from one table (`elements`), so CO2 is
 //! 44.009 g/mol everywhere in the program.
 
+pub mod conversion;
 pub mod elements;
 pub mod formula;
 pub mod gas_mix;

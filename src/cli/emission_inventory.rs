@@ -6,60 +6,22 @@ use super::Context;
 use super::record::{
     Category, EmissionArgs, RecordArgs, commit, commit_with, draft, metered, period, required,
 };
-use super::rock_inputs::{
-    self as ri, DISTANCE, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE,
-    WORK_INDEX,
-};
-use crate::accounting::lifecycle::{
-    Emission, GridFactor, Grinding, LifecycleError, Mode, Spreading, TransportFactor,
-    grinding_emission, quarrying_emission, spreading_emission, transport_emission,
-};
+use super::rock_inputs as ri;
+use crate::accounting::inventory::{Given, Inputs, InventoryError, stage_emission};
+pub use crate::accounting::inventory::{GrindingMethod, Stage, TransportMode};
 use crate::error::{Error, Result};
 use crate::ledger::{EntryKind, Reading, SiteKind};
 use crate::quantity::area::Area;
 use crate::report::Report;
 use crate::store::Tx;
-use clap::{Args, ValueEnum};
+use clap::Args;
 
-#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
-pub enum Stage {
-    Quarrying,
-    Grinding,
-    Transport,
-    Spreading,
-}
-
-impl Stage {
-    fn name(self) -> &'static str {
-        match self {
-            Stage::Quarrying => "quarrying",
-            Stage::Grinding => "grinding",
-            Stage::Transport => "transport",
-            Stage::Spreading => "spreading",
-        }
+/// The record's category when none is given: transport's own, energy for the rest.
+fn category(stage: Stage) -> Category {
+    match stage {
+        Stage::Transport => Category::Transport,
+        Stage::Quarrying | Stage::Grinding | Stage::Spreading => Category::Energy,
     }
-
-    fn category(self) -> Category {
-        match self {
-            Stage::Transport => Category::Transport,
-            Stage::Quarrying | Stage::Grinding | Stage::Spreading => Category::Energy,
-        }
-    }
-}
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
-pub enum GrindingMethod {
-    /// E (GJ/t) = 6.62·d80^−1.16, d80 in µm (Strefler et al. 2018)
-    Strefler,
-    /// W = 10·Wi·(1/√P80 − 1/√F80) kWh/t (Bond's law)
-    Bond,
-}
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
-pub enum TransportMode {
-    Truck,
-    Rail,
-    Waterborne,
 }
 
 /// The life-cycle options of `record emission`.
@@ -199,39 +161,63 @@ impl InventoryArgs {
     }
 }
 
-fn needed<'a>(v: &'a Option<String>, option: &str, stage: Stage) -> Result<&'a str> {
-    v.as_deref().ok_or_else(|| {
-        Error::options(
-            option,
-            format!("{option} is required to compute {} emissions", stage.name()),
-        )
-    })
+impl InventoryArgs {
+    /// The inputs as the stages read them.
+    fn inputs(&self) -> Inputs<'_> {
+        Inputs {
+            quarrying: self.quarrying.as_deref(),
+            grinding: self.grinding,
+            d80: self.d80.as_deref(),
+            feed_f80: self.feed_f80.as_deref(),
+            work_index: self.work_index.as_deref(),
+            rock_mass: self.rock_mass.as_deref(),
+            grid_factor: self.grid_factor.as_deref(),
+            transport: self.transport,
+            distance: self.distance.as_deref(),
+            payload: self.payload.as_deref(),
+            transport_factor: self.transport_factor.as_deref(),
+            spreading_fuel: self.spreading_fuel.as_deref(),
+            fuel_factor: self.fuel_factor.as_deref(),
+            factor_source: self.factor_source.as_deref(),
+        }
+    }
 }
 
-fn tonnes(option: &str, text: &str) -> Result<(String, f64)> {
-    let (r, m) = super::inputs::mass(option, text)?;
-    Ok((r.to_string(), m.tonnes()))
+/// The option that gives each input.
+fn option(given: Given) -> &'static str {
+    match given {
+        Given::Quarrying => "--quarrying",
+        Given::D80 => "--d80",
+        Given::FeedF80 => "--feed-f80",
+        Given::WorkIndex => "--work-index",
+        Given::RockMass => "--rock-mass",
+        Given::GridFactor => "--grid-factor",
+        Given::Distance => "--distance",
+        Given::Payload => "--payload",
+        Given::TransportFactor => "--transport-factor",
+        Given::SpreadingFuel => "--spreading-fuel",
+        Given::FuelFactor => "--fuel-factor",
+    }
 }
 
-/// A given factor, recorded with its source (or "given").
-fn given(reading: &mut Reading, name: &str, m: &Measure, source: &Option<String>) {
-    reading.push(name, m.to_string());
-    reading.push(
-        &format!("{name}_source"),
-        source.clone().unwrap_or_else(|| "given".into()),
-    );
-}
-
-fn lifecycle_refusal(e: LifecycleError, options: &[(&str, &str, &str)]) -> Error {
-    match e {
-        LifecycleError::Input(e) => ri::refused(&e, options),
-        LifecycleError::ProductNotFiner { .. } => {
-            let text = |field| options.iter().find(|o| o.0 == field).map_or("", |o| o.2);
-            Error::field(
+impl From<InventoryError> for Error {
+    fn from(e: InventoryError) -> Error {
+        match e {
+            InventoryError::Missing(given, stage) => Error::options(
+                option(given),
+                format!(
+                    "{} is required to compute {} emissions",
+                    option(given),
+                    stage.name()
+                ),
+            ),
+            InventoryError::Value { given, text, why } => Error::field(option(given), &text, why),
+            InventoryError::Check(e) => ri::refused(&e, &[]),
+            InventoryError::ProductNotFiner { d80, feed_f80 } => Error::field(
                 "--d80",
-                text("product_p80_um"),
-                format!("must be finer than --feed-f80 {:?}", text("feed_f80_um")),
-            )
+                &d80,
+                format!("must be finer than --feed-f80 {feed_f80:?}"),
+            ),
         }
     }
 }
@@ -273,7 +259,7 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
             "a life-cycle emission needs --stage or a stage's inputs",
         ));
     };
-    let category = a.category.unwrap_or(stage.category());
+    let category = a.category.unwrap_or(category(stage));
     let category = format!("{category:?}").to_lowercase();
     if i.computed().is_none() {
         let extra = [("category", category), ("stage", stage.name().into())];
@@ -294,142 +280,17 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
         )?;
         let mut reading = Reading::default();
         reading.push("stage", stage.name());
-        let computed = match stage {
-            Stage::Quarrying => quarrying(i, &mut reading)?,
-            Stage::Grinding => grinding(i, &mut reading)?,
-            Stage::Transport => transport(i, &mut reading)?,
-            Stage::Spreading => spreading(tx, b, i, &mut reading)?,
-        };
+        let area = || spread_area(tx, b, i);
+        let computed = stage_emission(stage, &i.inputs(), area, &mut reading)?;
         reading.push("how", computed.how);
         reading.push("category", category.clone());
         draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)
     })
 }
 
-fn quarrying(i: &InventoryArgs, reading: &mut Reading) -> Result<Emission> {
-    let stage = Stage::Quarrying;
-    let text = needed(&i.quarrying, "--quarrying", stage)?;
-    let factor = ri::measure("--quarrying", text, PER_TONNE, false)?;
-    let rock_text = needed(&i.rock_mass, "--rock-mass", stage)?;
-    let (rock, rock_t) = tonnes("--rock-mass", rock_text)?;
-    reading.push("rock_mass", rock);
-    given(reading, "quarrying_factor", &factor, &i.factor_source);
-    quarrying_emission(rock_t, factor.base).map_err(|e| {
-        lifecycle_refusal(
-            e,
-            &[
-                ("rock_t", "--rock-mass", rock_text),
-                ("quarrying_g", "--rock-mass", rock_text),
-            ],
-        )
-    })
-}
-
-fn grinding(i: &InventoryArgs, reading: &mut Reading) -> Result<Emission> {
-    let stage = Stage::Grinding;
-    let method = i.grinding.expect("grinding stage");
-    let d80_text = needed(&i.d80, "--d80", stage)?;
-    let d80 = ri::measure("--d80", d80_text, SIZE, true)?;
-    let rock_text = needed(&i.rock_mass, "--rock-mass", stage)?;
-    let (rock, rock_t) = tonnes("--rock-mass", rock_text)?;
-    let grid_text = needed(&i.grid_factor, "--grid-factor", stage)?;
-    let grid = ri::measure("--grid-factor", grid_text, GRID, false)?;
-    reading.push(
-        "grinding_method",
-        match method {
-            GrindingMethod::Strefler => "strefler",
-            GrindingMethod::Bond => "bond",
-        },
-    );
-    reading.push("d80", d80.to_string());
-    let (how, f80_text) = match method {
-        GrindingMethod::Strefler => (Grinding::Strefler { size_um: d80.base }, ""),
-        GrindingMethod::Bond => {
-            let wi_text = needed(&i.work_index, "--work-index", stage)?;
-            let wi = ri::measure("--work-index", wi_text, WORK_INDEX, false)?;
-            let f80_text = needed(&i.feed_f80, "--feed-f80", stage)?;
-            let f80 = ri::measure("--feed-f80", f80_text, SIZE, true)?;
-            reading.push("feed_f80", f80.to_string());
-            given(reading, "work_index", &wi, &i.factor_source);
-            let bond = Grinding::Bond {
-                work_index_kwh_per_t: wi.base,
-                feed_f80_um: f80.base,
-                product_p80_um: d80.base,
-            };
-            (bond, f80_text)
-        }
-    };
-    reading.push("rock_mass", rock);
-    given(reading, "grid_factor", &grid, &i.factor_source);
-    let factor = if grid.unit == "kg/GJ" {
-        GridFactor::KgCo2PerGj(grid.number.to_f64())
-    } else {
-        GridFactor::KgCo2PerKwh(grid.base)
-    };
-    grinding_emission(how, rock_t, factor).map_err(|e| {
-        lifecycle_refusal(
-            e,
-            &[
-                ("rock_t", "--rock-mass", rock_text),
-                ("grinding_g", "--rock-mass", rock_text),
-                ("product_p80_um", "--d80", d80_text),
-                ("feed_f80_um", "--feed-f80", f80_text),
-            ],
-        )
-    })
-}
-
-fn transport(i: &InventoryArgs, reading: &mut Reading) -> Result<Emission> {
-    let stage = Stage::Transport;
-    let mode = match i.transport.expect("transport stage") {
-        TransportMode::Truck => Mode::Truck,
-        TransportMode::Rail => Mode::Rail,
-        TransportMode::Waterborne => Mode::Waterborne,
-    };
-    let km_text = needed(&i.distance, "--distance", stage)?;
-    let km = ri::measure("--distance", km_text, DISTANCE, false)?;
-    let t_text = needed(&i.payload, "--payload", stage)?;
-    let (payload, t) = tonnes("--payload", t_text)?;
-    let factor = match &i.transport_factor {
-        None => TransportFactor::epa_2018(mode),
-        Some(text) => TransportFactor {
-            mode,
-            kg_co2_per_tonne_km: ri::measure("--transport-factor", text, PER_TONNE_KM, false)?.base,
-            edition: i.factor_source.clone().unwrap_or_else(|| "given".into()),
-        },
-    };
-    reading.push("mode", mode.name());
-    reading.push("distance", km.to_string());
-    reading.push("payload", payload);
-    reading.push(
-        "transport_factor",
-        format!("{} kg/tkm", factor.kg_co2_per_tonne_km),
-    );
-    reading.push("transport_factor_edition", factor.edition.clone());
-    transport_emission(km.base, t, &factor).map_err(|e| {
-        lifecycle_refusal(
-            e,
-            &[
-                ("distance_km", "--distance", km_text),
-                ("payload_t", "--payload", t_text),
-                ("transport_g", "--payload", t_text),
-            ],
-        )
-    })
-}
-
-fn spreading(
-    tx: &mut Tx<'_>,
-    b: &RecordArgs,
-    i: &InventoryArgs,
-    reading: &mut Reading,
-) -> Result<Emission> {
-    let stage = Stage::Spreading;
-    let fuel_text = needed(&i.spreading_fuel, "--spreading-fuel", stage)?;
-    let fuel = ri::measure("--spreading-fuel", fuel_text, FUEL_RATE, false)?;
-    let k_text = needed(&i.fuel_factor, "--fuel-factor", stage)?;
-    let k = ri::measure("--fuel-factor", k_text, FUEL_FACTOR, false)?;
-    let area = match &i.area {
+/// The area spread: as given, or the field's registered one.
+fn spread_area(tx: &mut Tx<'_>, b: &RecordArgs, i: &InventoryArgs) -> Result<Area> {
+    Ok(match &i.area {
         Some(t) => Area::parse(t).map_err(|e| Error::field("--area", t, e))?,
         None => {
             super::setup::known_project(tx, &b.project)?;
@@ -446,15 +307,5 @@ fn spreading(
                 })?;
             Area::parse(&text).map_err(|e| Error::field("--site", &b.site, e))?
         }
-    };
-    let ha = area.m2() / 1e4;
-    reading.push("spreading_fuel", fuel.to_string());
-    reading.push("area", area.to_string());
-    given(reading, "fuel_factor", &k, &i.factor_source);
-    spreading_emission(Spreading::Fuel {
-        litres_per_ha: fuel.base,
-        area_ha: ha,
-        kg_co2_per_litre: k.base,
     })
-    .map_err(|e| lifecycle_refusal(e, &[("spreading_g", "--spreading-fuel", fuel_text)]))
 }

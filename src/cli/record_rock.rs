@@ -3,18 +3,20 @@
 //! field names written here are the ones read back here, and nowhere else.
 
 use super::record::{ReadingArgs, RecordArgs, commit_with, draft};
-use super::rock_inputs::{self as ri, DENSITY, Measure};
+use super::rock_inputs as ri;
 use super::setup::known_project;
 use super::{Context, inputs};
-use crate::accounting::carbonation::{Carbonation, uptake};
-use crate::accounting::project_view::evidence;
-use crate::accounting::tracer::{Mineralized, TracerError, mineralized_fraction};
-use crate::accounting::weathering::composition::{SoilAnalysis, Unit};
+use crate::accounting::carbonation::Carbonation;
+use crate::accounting::rock_record::{
+    CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
+    carbonation as carbonation_reading, soil_sample as soil_sample_reading,
+    tracer_sample as tracer_sample_reading,
+};
+use crate::accounting::tracer::Mineralized;
 use crate::error::{Error, Result};
 use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
-use crate::quantity::fraction::parse_uncertainty;
 use crate::report::Report;
 use crate::store::Tx;
 use chrono::NaiveDate;
@@ -145,14 +147,6 @@ pub struct SoilSampleArgs {
     pub entry: EntryOptions,
 }
 
-/// The units a DIC may be reported in; the mass balance is a ratio, so any one unit will do
-/// as long as all three concentrations share it.
-const DIC_UNITS: &[&str] = &["mmol/kg", "mmol/L", "umol/kg", "µmol/kg", "mol/kg", "mg/L"];
-
-/// No soil is denser than its minerals; quartz, the densest common one, is 2.65 t/m³
-/// (common practice).
-const MAX_SOIL_DENSITY_KG_M3: f64 = 2650.0;
-
 /// Checks what the ledger holds for a record of `kind`: the project's method, the site, and
 /// the entry a correction replaces. Returns the project's site.
 fn context(
@@ -232,30 +226,13 @@ fn entry(
 pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     let kind = EntryKind::TracerSample;
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let x = ri::number("--tracer-ratio", &a.tracer_ratio)?;
-    let dic = [
-        ("--dic-sample", &a.dic_sample),
-        ("--dic-background", &a.dic_background),
-        ("--dic-injectate", &a.dic_injectate),
-    ]
-    .map(|(option, text)| ri::number(option, text));
-    let [sample, background, injectate] = dic;
-    let (sample, background, injectate) = (sample?, background?, injectate?);
-    if !DIC_UNITS.contains(&a.unit.as_str()) {
-        return Err(Error::field(
-            "--unit",
-            &a.unit,
-            format!("is not a DIC unit (use {})", DIC_UNITS.join(", ")),
-        ));
-    }
-    let mut reading = Reading::default();
-    reading.push("tracer_ratio", x.to_string());
-    reading.push("dic_sample", sample.to_string());
-    reading.push("dic_background", background.to_string());
-    reading.push("dic_injectate", injectate.to_string());
-    reading.push("dic_unit", a.unit.clone());
-    let sample = evidence::tracer_sample(&reading).map_err(Error::internal)?;
-    let found = mineralized_fraction(&sample).map_err(|e| tracer_refusal(&e, &a))?;
+    let (reading, found) = tracer_sample_reading(&TracerTexts {
+        tracer_ratio: &a.tracer_ratio,
+        dic_sample: &a.dic_sample,
+        dic_background: &a.dic_background,
+        dic_injectate: &a.dic_injectate,
+        unit: &a.unit,
+    })?;
     let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
         context(
             tx,
@@ -285,65 +262,50 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     Ok(report)
 }
 
-fn tracer_refusal(e: &TracerError, a: &TracerSampleArgs) -> Error {
-    match e {
-        TracerError::Input(e) => ri::refused(
-            e,
-            &[
-                ("tracer_sample", "--tracer-ratio", &a.tracer_ratio),
-                (
-                    "tracer_sample/tracer_injectate",
-                    "--tracer-ratio",
-                    &a.tracer_ratio,
-                ),
-                ("dic_sample", "--dic-sample", &a.dic_sample),
-                ("dic_background", "--dic-background", &a.dic_background),
-                ("dic_injectate", "--dic-injectate", &a.dic_injectate),
-            ],
-        ),
-        other => Error::field("--tracer-ratio", &a.tracer_ratio, other),
+/// The option that gives each value of a rock record.
+fn option(given: Given) -> &'static str {
+    match given {
+        Given::TracerRatio => "--tracer-ratio",
+        Given::DicSample => "--dic-sample",
+        Given::DicBackground => "--dic-background",
+        Given::DicInjectate => "--dic-injectate",
+        Given::DicUnit | Given::ConcUnit => "--unit",
+        Given::FedMass => "--mass",
+        Given::Co2Before => "--co2-before",
+        Given::Co2After => "--co2-after",
+        Given::Uncertainty => "--uncertainty",
+        Given::Depth => "--depth",
+        Given::BulkDensity => "--bulk-density",
+        Given::Conc => "--conc",
+    }
+}
+
+impl From<RecordError> for Error {
+    fn from(e: RecordError) -> Error {
+        match e {
+            RecordError::Value { given, text, why } => Error::field(option(given), &text, why),
+            RecordError::Check(e) => ri::refused(&e, &[]),
+            RecordError::Unreadable(why) => Error::internal(why),
+        }
     }
 }
 
 /// A carbonation batch: the uptake is what the entry stores.
 pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     let kind = EntryKind::Carbonation;
-    let (fed, fed_g) = inputs::mass("--mass", &a.mass)?;
-    let before = ri::share("--co2-before", &a.co2_before)?;
-    let after = ri::share("--co2-after", &a.co2_after)?;
-    let u = a
-        .uncertainty
-        .as_deref()
-        .map(|u| parse_uncertainty(u).map_err(|e| Error::field("--uncertainty", u, e)))
-        .transpose()?;
-    let period = Period::new(
-        inputs::activity_date("--from", &a.from, ctx.now.date_naive())?,
-        inputs::activity_date("--to", &a.to, ctx.now.date_naive())?,
-    )
-    .map_err(|e| Error::field("--to", &a.to, e))?;
-    let result = uptake(fed_g.tonnes(), before.to_f64(), after.to_f64()).map_err(|e| {
-        ri::refused(
-            &e,
-            &[
-                ("fed_t", "--mass", &a.mass),
-                ("w_before", "--co2-before", &a.co2_before),
-                ("w_after", "--co2-after", &a.co2_after),
-                ("uptake_g", "--mass", &a.mass),
-            ],
+    let texts = CarbonationTexts {
+        mass: &a.mass,
+        co2_before: &a.co2_before,
+        co2_after: &a.co2_after,
+        uncertainty: a.uncertainty.as_deref(),
+    };
+    let (mut reading, result, period) = carbonation_reading(&texts, || {
+        Period::new(
+            inputs::activity_date("--from", &a.from, ctx.now.date_naive())?,
+            inputs::activity_date("--to", &a.to, ctx.now.date_naive())?,
         )
+        .map_err(|e| Error::field("--to", &a.to, e))
     })?;
-    let mut reading = Reading::default();
-    reading.push("fed_mass", fed.to_string());
-    reading.push("co2_before", before.to_string());
-    reading.push("co2_after", after.to_string());
-    reading.push("basis", "dry");
-    if let Some(u) = u {
-        reading.push("uncertainty", u.to_string());
-    }
-    reading.push(
-        "method",
-        "uptake = M(w_after − w_before)/(1 − w_after), CO2-free solid conserved",
-    );
     let (mass, finding) = match result {
         Carbonation::Uptake { co2, .. } => (co2, None),
         Carbonation::NoUptake { released, .. } => (
@@ -483,33 +445,17 @@ fn before_any_feedstock(tx: &mut Tx<'_>, a: &SoilSampleArgs, date: NaiveDate) ->
     }
 }
 
-fn conc_unit(text: &str) -> std::result::Result<Unit, String> {
-    Unit::from_name(text)
-        .ok_or_else(|| "is not a concentration unit (use mol/kg, mg/kg or wt%)".into())
-}
-
-fn soil_density(option: &str, text: &str) -> Result<Measure> {
-    let m = ri::measure(option, text, DENSITY, true)?;
-    if m.base > MAX_SOIL_DENSITY_KG_M3 {
-        return Err(Error::field(
-            option,
-            text,
-            "must be at most 2.65 t/m3, the density of quartz: no soil is denser",
-        ));
-    }
-    Ok(m)
-}
-
 /// A soil core: its depth, bulk density and elements, checked; a baseline may not follow feedstock.
 pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
     let kind = EntryKind::SoilSample;
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let (depth, _) = ri::depth("--depth", &a.depth)?;
-    let rho = soil_density("--bulk-density", &a.bulk_density)?;
-    let unit = conc_unit(&a.unit).map_err(|e| Error::field("--unit", &a.unit, e))?;
-    let conc = ri::pairs("--conc", &a.conc)?;
-    let (conc_text, values) = (ri::pair_texts(&conc), ri::pair_numbers(&conc));
-    SoilAnalysis::new(&values, unit).map_err(|e| Error::field("--conc", &a.conc, e))?;
+    let reading = soil_sample_reading(&SoilTexts {
+        depth: &a.depth,
+        bulk_density: &a.bulk_density,
+        unit: &a.unit,
+        conc: &a.conc,
+        baseline: a.baseline,
+    })?;
     commit_with(ctx, a.entry.key.clone(), false, |tx| {
         context(
             tx,
@@ -522,21 +468,11 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
         if a.baseline {
             before_any_feedstock(tx, &a, date)?;
         }
-        let mut reading = Reading::default();
-        reading.push("depth", depth.clone());
-        reading.push("bulk_density", rho.to_string());
-        reading.push("conc_unit", unit.name());
-        for (n, v) in conc_text.iter().cloned() {
-            reading.push(&n, v);
-        }
-        if a.baseline {
-            reading.push("baseline", "yes");
-        }
         entry(
             ctx,
             kind,
             (&a.project, &a.site),
-            reading,
+            reading.clone(),
             (Mass::ZERO, Period::day(date)),
             &a.entry,
         )

@@ -5,16 +5,8 @@
 use crate::accounting::input::InputError;
 use crate::error::{Error, Result};
 use crate::quantity::Decimal;
-pub use crate::quantity::measure::{
-    DENSITY, DISTANCE, Depth, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE,
-    Units, WORK_INDEX,
-};
-use crate::quantity::measure::{parse_depth, parse_measure};
-
-/// An exact decimal.
-pub fn number(option: &str, text: &str) -> Result<Decimal> {
-    Decimal::parse(text.trim()).map_err(|e| Error::field(option, text, e))
-}
+use crate::quantity::measure::parse_measure;
+pub use crate::quantity::measure::{DENSITY, Measure, SIZE, Units};
 
 /// A number with one of `units`, at least 0 (`positive` demands more than 0).
 pub fn measure(option: &str, text: &str, units: Units, positive: bool) -> Result<Measure> {
@@ -23,40 +15,12 @@ pub fn measure(option: &str, text: &str, units: Units, positive: bool) -> Result
 
 /// A share as `12.5%` or `0.125`, from 0 to 1.
 pub fn share(option: &str, text: &str) -> Result<Decimal> {
-    let t = text.trim();
-    let value = match t.strip_suffix('%') {
-        Some(p) => number(option, p.trim())?
-            .checked_mul(Decimal::parse("0.01").expect("valid"))
-            .ok_or_else(|| Error::field(option, text, "has too many digits"))?,
-        None => number(option, t)?,
-    };
-    let v = value.to_f64();
-    if !(0.0..=1.0).contains(&v) {
-        return Err(Error::field(
-            option,
-            text,
-            "must be from 0 to 1 (or 0% to 100%)",
-        ));
-    }
-    Ok(value)
+    crate::quantity::share::share(text).map_err(|(value, why)| Error::field(option, &value, why))
 }
 
 /// `NAME=VALUE,…` as names and exact decimals, in the order given.
 pub fn pairs(option: &str, text: &str) -> Result<Vec<(String, Decimal)>> {
-    text.split(',')
-        .map(|part| {
-            let (name, value) = part.split_once('=').ok_or_else(|| {
-                Error::field(
-                    option,
-                    text,
-                    format!("write NAME=VALUE, e.g. Ca=0.12 (at {part:?})"),
-                )
-            })?;
-            let v = Decimal::parse(value.trim())
-                .map_err(|e| Error::field(option, text, format!("{}: {e}", name.trim())))?;
-            Ok((name.trim().to_string(), v))
-        })
-        .collect()
+    crate::quantity::share::pairs(text).map_err(|why| Error::field(option, text, why))
 }
 
 /// Pairs as the reading records them.
@@ -70,11 +34,6 @@ pub fn pair_texts(pairs: &[(String, Decimal)]) -> Vec<(String, String)> {
 /// Pairs as numbers for the pure checks.
 pub fn pair_numbers(pairs: &[(String, Decimal)]) -> Vec<(String, f64)> {
     pairs.iter().map(|(n, v)| (n.clone(), v.to_f64())).collect()
-}
-
-/// A depth interval below the surface, `0-30 cm` or `0-0.3 m`, as recorded and in metres.
-pub fn depth(option: &str, text: &str) -> Result<(String, Depth)> {
-    parse_depth(text).map_err(|why| Error::field(option, text, why))
 }
 
 /// A refusal by a pure check, told in the option's words: `options` maps the check's field
@@ -93,6 +52,7 @@ pub fn refused(e: &InputError, options: &[(&str, &str, &str)]) -> Error {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::quantity::measure::{DISTANCE, GRID};
 
     #[test]
     fn measures_and_shares() {
@@ -112,11 +72,6 @@ mod tests {
         assert_eq!(share("--x", "12.5%").unwrap().to_string(), "0.125");
         assert!(share("--x", "101%").is_err());
         assert!(share("--x", "-0.1").is_err());
-        let (text, d) = depth("--depth", "0-30 cm").unwrap();
-        assert_eq!(text, "0-30 cm");
-        assert!((d.thickness_m() - 0.3).abs() < 1e-15);
-        assert!(depth("--depth", "30-10 cm").is_err());
-        assert!(depth("--depth", "0-30").is_err());
         let p = pairs("--conc", "Ca=0.10, Mg=1e-2").unwrap();
         assert_eq!(pair_texts(&p)[1], ("Mg".into(), "0.01".into()));
         assert!(pairs("--conc", "Ca:0.1").is_err());

@@ -7,9 +7,8 @@ use super::mineralization::route_project;
 use super::rock_inputs as ri;
 use crate::accounting::project_view::ViewError;
 use crate::accounting::weathering::campaign::{CampaignError, DissolutionMethod, Settings};
-use crate::accounting::weathering::composition::Immobile;
-use crate::accounting::weathering::removal::{Cation, Deduction, Deductions};
-use crate::accounting::weathering::three_end_member::Resolution;
+use crate::accounting::weathering::choice::{self, Given};
+use crate::accounting::weathering::removal::{Deduction, Deductions};
 use crate::error::{Error, Result};
 use crate::ledger::{Method, SiteKind};
 use crate::quantity::Decimal;
@@ -124,46 +123,13 @@ pub struct WeatheringArgs {
 }
 
 fn settings(a: &WeatheringArgs) -> Result<Settings> {
-    let immobile = Immobile::from_symbol(&a.immobile)
-        .ok_or_else(|| Error::field("--immobile", &a.immobile, "use Ti or Zr"))?;
-    let mut mobile = Vec::new();
-    for part in a.mobile.split(',').map(str::trim) {
-        let c = Cation::ALL
-            .into_iter()
-            .find(|c| c.symbol() == part)
-            .ok_or_else(|| {
-                Error::field(
-                    "--mobile",
-                    &a.mobile,
-                    format!("{part:?} is not Ca, Mg, Na or K"),
-                )
-            })?;
-        if mobile.contains(&c) {
-            return Err(Error::field(
-                "--mobile",
-                &a.mobile,
-                format!("{part} is given twice"),
-            ));
-        }
-        mobile.push(c);
-    }
-    let contrast = ri::number("--min-immobile-contrast", &a.min_immobile_contrast)?.to_f64();
-    if contrast < 0.0 {
-        return Err(Error::field(
-            "--min-immobile-contrast",
-            &a.min_immobile_contrast,
-            "must be at least 0",
-        ));
-    }
-    Ok(Settings {
-        method: a.method,
-        immobile,
-        mobile,
-        resolution: Resolution {
-            min_immobile_contrast: contrast,
-            ..Resolution::DEFAULT
-        },
-        deductions: Deductions::default(),
+    choice::settings(a.method, &a.immobile, &a.mobile, &a.min_immobile_contrast).map_err(|e| {
+        let option = match e.given {
+            Given::Immobile => "--immobile",
+            Given::Mobile => "--mobile",
+            Given::MinImmobileContrast => "--min-immobile-contrast",
+        };
+        Error::field(option, &e.text, e.why)
     })
 }
 

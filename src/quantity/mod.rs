@@ -6,6 +6,7 @@ pub mod decimal;
 pub mod fraction;
 pub mod mass;
 pub mod measure;
+pub mod share;
 pub mod volume;
 
 pub use decimal::Decimal;

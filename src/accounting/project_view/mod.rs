@@ -30,7 +30,7 @@ pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
 pub use reconcile::ReconcileError;
 pub use reported::{bearing, reporting_period};
-pub use rock_uncertainty::UptakeU;
+pub use rock_uncertainty::{Unestimated, UptakeU};
 pub use series::{Series, cumulative};
 pub use totals::{ByRoute, ProjectTotals, Route, TotalsLine};
 pub use weathering::{

@@ -22,6 +22,20 @@ pub struct UptakeU {
     pub batches: usize,
 }
 
+/// A period whose figure rests (wholly or partly) on inputs with no uncertainty estimate, and
+/// why; report/tables words it.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Unestimated {
+    /// Carbonation batches that state no uncertainty, of all the period's batches.
+    UnstatedBatches {
+        bucket: Bucket,
+        unstated: usize,
+        batches: usize,
+    },
+    /// A soil campaign with no replicate spread, in words.
+    Campaign { bucket: Bucket, why: String },
+}
+
 impl ProjectFigures {
     /// The uptake uncertainty of each period with carbonation batches.
     pub fn carbonation_uncertainty(&self, grouping: Grouping) -> BTreeMap<Bucket, UptakeU> {
@@ -54,19 +68,18 @@ impl ProjectFigures {
             .collect()
     }
 
-    /// In words, each period of `grouping` whose figure rests (wholly or partly) on inputs
-    /// with no uncertainty estimate, and why: what reports print beside the figures.
-    pub fn unestimated(&self, grouping: Grouping) -> Result<Vec<String>, super::ViewError> {
+    /// Each period of `grouping` whose figure rests (wholly or partly) on inputs with no
+    /// uncertainty estimate, and why: what reports print beside the figures.
+    pub fn unestimated(&self, grouping: Grouping) -> Result<Vec<Unestimated>, super::ViewError> {
         Ok(match self.view.project.method {
             Method::ExSituMineralization => self
                 .carbonation_uncertainty(grouping)
                 .into_iter()
                 .filter(|(_, u)| u.unstated > 0)
-                .map(|(b, u)| {
-                    format!(
-                        "{b}: {} of {} carbonation batches state no uncertainty (record carbonation --uncertainty) and count as exact",
-                        u.unstated, u.batches
-                    )
+                .map(|(bucket, u)| Unestimated::UnstatedBatches {
+                    bucket,
+                    unstated: u.unstated,
+                    batches: u.batches,
                 })
                 .collect(),
             Method::EnhancedWeathering => self
@@ -76,7 +89,10 @@ impl ProjectFigures {
                 .flat_map(|l| {
                     l.unestimated
                         .into_iter()
-                        .map(move |w| format!("{}: {w}; counted as exact", l.bucket))
+                        .map(move |why| Unestimated::Campaign {
+                            bucket: l.bucket,
+                            why,
+                        })
                 })
                 .collect(),
             _ => Vec::new(),

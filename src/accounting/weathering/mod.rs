@@ -8,6 +8,7 @@
 //! fraction into gross CO2 and its deductions. Background: docs/weathering.md.
 
 pub mod campaign;
+pub mod choice;
 pub mod composition;
 pub mod removal;
 pub mod tau;

@@ -21,6 +21,7 @@ pub mod reconcile;
 pub mod reconciliations;
 pub mod record;
 pub mod registry;
+pub mod rock_findings;
 pub mod seal;
 pub mod settings;
 pub mod setup;

@@ -103,8 +103,9 @@ pub fn campaign_table(
                 row.extend(r.removal.deducted.map(|(_, m)| Cell::Tonnes(m)));
                 row.extend([Cell::Tonnes(l.emissions), Cell::Tonnes(r.net), Cell::Empty]);
             }
-            CampaignResult::Finding(why) => {
-                let short = why.split(':').next().unwrap_or(why).to_string();
+            CampaignResult::Finding(finding) => {
+                let why = finding.to_string();
+                let short = why.split(':').next().unwrap_or(&why).to_string();
                 findings.push(format!("{} {}: {why}", l.field, l.date));
                 row.extend([Cell::Empty, Cell::Tonnes(l.potential), Cell::text(short)]);
                 row.extend(std::iter::repeat_n(Cell::Empty, 5));

@@ -112,11 +112,10 @@ pub(super) fn bulk_tau(
     feedstock: EndMember,
     sample: Analysis,
     applied_t: f64,
-    area_m2: Option<f64>,
+    area_m2: f64,
     thickness_m: f64,
 ) -> Result<(f64, Option<f64>), String> {
-    let area = area_m2.ok_or("the field has no area: register it with --area")?;
-    let kg_per_m3 = applied_t * 1e3 / (area * thickness_m);
+    let kg_per_m3 = applied_t * 1e3 / (area_m2 * thickness_m);
     let parent = forward_model(&soil, &feedstock, kg_per_m3, 0.0).map_err(weathering_finding)?;
     let t = tau(&parent, &sample).map_err(weathering_finding)?;
     let f = t.bulk_dissolved_fraction();

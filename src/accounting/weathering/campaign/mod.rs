@@ -21,7 +21,6 @@ pub use crate::quantity::measure::Depth;
 use chrono::NaiveDate;
 use dissolution::{bulk_tau, replicate_spread, three_end_member};
 use std::collections::BTreeMap;
-use std::fmt;
 
 /// How the dissolved fraction is read from the soil.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
@@ -104,8 +103,17 @@ pub struct Emission<'a> {
 #[derive(Debug, Clone, PartialEq)]
 pub enum CampaignResult {
     Resolved(Resolved),
-    /// No number: why, in words a person can act on.
-    Finding(String),
+    /// No number, and why (report/tables words it).
+    Finding(Finding),
+}
+
+/// Why a campaign gives no number.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Finding {
+    /// τ reads the applied rate, and the field has no area registered.
+    NoFieldArea,
+    /// Any other reason, in words a person can act on (none names an option).
+    Reading(String),
 }
 
 /// A campaign read to the end.
@@ -190,30 +198,7 @@ pub enum CampaignError {
     UnknownFeedstock { code: String },
 }
 
-impl fmt::Display for CampaignError {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        match self {
-            CampaignError::NoBaseline { field, date } => write!(
-                f,
-                "field {field} has no baseline soil sample (record soil-sample … --baseline) on or before its sample of {date}"
-            ),
-            CampaignError::MissingImmobile { material, element } => write!(
-                f,
-                "{material} has no {} analysed; choose an immobile element every analysis reports",
-                element.symbol()
-            ),
-            CampaignError::MissingMobile { material, cation } => write!(
-                f,
-                "{material} has no {} analysed; leave it out of the mobile cations or record it",
-                cation.symbol()
-            ),
-            CampaignError::UnknownFeedstock { code } => {
-                write!(f, "feedstock {code} is applied but not registered")
-            }
-        }
-    }
-}
-
+// Worded in report/tables/rock_findings.rs, where the options it points to are named.
 impl std::error::Error for CampaignError {}
 
 /// The ledger's view of one field's weathering.
@@ -359,17 +344,17 @@ fn campaign(
         rate_t_per_ha: area_m2.map(|a| applied_t / (a / 1e4)),
         potential: Mass::ZERO,
         emissions,
-        reading: CampaignResult::Finding(String::new()),
+        reading: CampaignResult::Finding(Finding::Reading(String::new())),
     };
     let Some(feedstock) = feedstock else {
-        line.reading = CampaignResult::Finding(if codes.is_empty() {
+        line.reading = CampaignResult::Finding(Finding::Reading(if codes.is_empty() {
             format!("no feedstock applied to {field} before {date}")
         } else {
             format!(
                 "{field} received several feedstocks ({}); the mass balance takes one",
                 codes.join(", ")
             )
-        });
+        }));
         return Ok(line);
     };
     let kg_per_t = feedstock.analysis.potential_kg_per_t();
@@ -404,21 +389,25 @@ fn read_soil(
     let sample = soil_analysis(&sample, &core_name(cores), s)?;
     let feed = feedstock_member(feedstock, s)?;
     if base_cores[0].depth != cores[0].depth {
-        return Ok(CampaignResult::Finding(format!(
+        return Ok(CampaignResult::Finding(Finding::Reading(format!(
             "sampled over {}–{} m, the baseline over {}–{} m: cores must cover the same depth",
             cores[0].depth.top_m,
             cores[0].depth.bottom_m,
             base_cores[0].depth.top_m,
             base_cores[0].depth.bottom_m
-        )));
+        ))));
     }
     let thickness = cores[0].depth.thickness_m();
+    let area_m2 = match (s.method, area_m2) {
+        (DissolutionMethod::Tau, None) => return Ok(CampaignResult::Finding(Finding::NoFieldArea)),
+        (_, area) => area.unwrap_or(0.0),
+    };
     let dissolve = |soil: EndMember, sample: Analysis| match s.method {
         DissolutionMethod::ThreeEndMember => three_end_member(soil, feed, sample, s, thickness),
         DissolutionMethod::Tau => bulk_tau(soil, feed, sample, applied_t, area_m2, thickness),
     };
     Ok(match dissolve(soil, sample) {
-        Err(why) => CampaignResult::Finding(why),
+        Err(why) => CampaignResult::Finding(Finding::Reading(why)),
         Ok((f, found_t_per_ha)) => {
             let cations: Vec<_> = feedstock
                 .analysis
@@ -441,7 +430,7 @@ fn read_soil(
                     spread,
                     removal_whole,
                 }),
-                Err(e) => CampaignResult::Finding(e.to_string()),
+                Err(e) => CampaignResult::Finding(Finding::Reading(e.to_string())),
             }
         }
     })

@@ -85,7 +85,8 @@ fn read(apps: &[Application], cores: &[Core], emissions: &[Emission<'_>]) -> Vec
 
 fn finding(l: &CampaignLine) -> &str {
     match &l.reading {
-        CampaignResult::Finding(w) => w,
+        CampaignResult::Finding(Finding::Reading(w)) => w,
+        CampaignResult::Finding(w) => panic!("{w}"),
         CampaignResult::Resolved(r) => panic!("resolved: {r:?}"),
     }
 }
