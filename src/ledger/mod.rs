@@ -1,6 +1,7 @@
 //! The ledger core: projects, entries, their canonical bytes and hash chain, corrections and
 //! periods. Pure: no database, files, printing or clock.
 
+pub mod admission;
 pub mod append;
 pub mod bounds;
 pub mod canonical;

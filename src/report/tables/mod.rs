@@ -8,6 +8,7 @@ pub mod evidence;
 pub mod feedstock;
 pub mod late;
 pub mod mineralization;
+pub mod permit;
 pub mod potential;
 pub mod proof;
 pub mod reconciliations;
