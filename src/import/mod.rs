@@ -10,6 +10,7 @@ pub mod meter_csv;
 pub mod meter_day;
 pub mod overlap;
 pub mod plan;
+pub mod script;
 
 use crate::error::{Error, Result};
 use plan::{Options, Plan};

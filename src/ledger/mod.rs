@@ -20,6 +20,7 @@ pub mod reconciliation;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;
+pub mod setting_change;
 pub mod signature;
 pub mod statement_check;
 pub mod tally;

@@ -3,6 +3,7 @@
 
 pub mod bundle;
 pub mod convert;
+pub mod demo;
 pub mod density;
 pub mod evidence;
 pub mod feedstock;
