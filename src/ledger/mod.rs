@@ -7,6 +7,7 @@ pub mod bounds;
 pub mod canonical;
 pub mod chain;
 pub mod correction;
+pub mod dated_fact;
 pub mod entry;
 pub mod feedstock;
 pub mod hash;

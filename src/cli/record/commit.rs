@@ -13,7 +13,7 @@ use crate::ledger::tally::Tally;
 use crate::ledger::{Entry, Project};
 use crate::quantity::Mass;
 use crate::report::Report;
-use crate::report::tables::record::recorded_table;
+use crate::report::tables::record::appended_report;
 use crate::store::Tx;
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
@@ -62,17 +62,7 @@ pub(in crate::cli) fn commit_with(
         }
         Ok((outcome, warnings))
     })?;
-    let mut report = match outcome {
-        Appended::New(s) => Report::default()
-            .line(format!("recorded {} seq {}", s.entry.project, s.entry.seq))
-            .table(recorded_table(&s)),
-        Appended::Existing(s) => Report::default()
-            .line(format!(
-                "already recorded as {} seq {} (key {}); nothing written",
-                s.entry.project, s.entry.seq, s.entry.key
-            ))
-            .table(recorded_table(&s)),
-    };
+    let mut report = appended_report(&outcome);
     report.warnings = warnings;
     Ok(report)
 }
