@@ -93,3 +93,67 @@ impl<'a> LeakBounds<'a> {
         Ok(start)
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::ledger::Period;
+
+    fn day(d: u32) -> NaiveDate {
+        NaiveDate::from_ymd_opt(2026, 3, d).unwrap()
+    }
+
+    fn entry(kind: EntryKind, site: &str, from: u32, to: u32, reading: &[(&str, &str)]) -> Entry {
+        let mut e = crate::accounting::restatement::tests::entry(kind, reading, 0);
+        e.site = site.into();
+        e.period = Period::new(day(from), day(to)).unwrap();
+        e
+    }
+
+    #[test]
+    fn the_latest_clear_survey_of_the_site_up_to_the_end_is_the_start() {
+        let mut b = LeakBounds::new(Surveyed::Site("TF-M1"), day(20));
+        b.add(&entry(EntryKind::Injection, "TF-I1", 1, 5, &[]));
+        b.add(&entry(
+            EntryKind::Survey,
+            "TF-M1",
+            8,
+            8,
+            &[("result", "no-leak")],
+        ));
+        b.add(&entry(
+            EntryKind::Survey,
+            "TF-M1",
+            12,
+            12,
+            &[("result", "leak-found")],
+        ));
+        b.add(&entry(
+            EntryKind::Survey,
+            "TF-M2",
+            15,
+            15,
+            &[("result", "no-leak")],
+        ));
+        b.add(&entry(
+            EntryKind::Survey,
+            "TF-M1",
+            25,
+            25,
+            &[("result", "no-leak")],
+        ));
+        assert_eq!(b.start(), Ok(LeakStart::LastClearSurvey(day(8))));
+    }
+
+    #[test]
+    fn without_a_survey_injection_bounds_it_and_nothing_is_unbounded() {
+        let mut b = LeakBounds::new(Surveyed::Pathway("fault F2"), day(10));
+        assert_eq!(b.start(), Err(StartError::Unbounded));
+        b.add(&entry(EntryKind::Injection, "TF-I1", 12, 14, &[]));
+        assert_eq!(b.start(), Err(StartError::AfterEnd { began: day(12) }));
+        let mut b = LeakBounds::new(Surveyed::Pathway("fault F2"), day(20));
+        b.add(&entry(EntryKind::Injection, "TF-I1", 12, 14, &[]));
+        b.add(&entry(EntryKind::Injection, "TF-I1", 3, 4, &[]));
+        assert_eq!(b.start(), Ok(LeakStart::InjectionBegan(day(3))));
+    }
+}

@@ -226,3 +226,101 @@ fn restated_single(
     }
     Ok(Some((reading, mass)))
 }
+
+#[cfg(test)]
+pub(crate) mod tests {
+    use super::*;
+    use crate::ledger::Period;
+    use chrono::{DateTime, NaiveDate};
+
+    /// An entry of `kind` at TF-I1 on 2026-01-31 with `reading` and `g` grams, seq 4.
+    pub(crate) fn entry(kind: EntryKind, reading: &[(&str, &str)], g: i64) -> Entry {
+        let mut r = Reading::default();
+        for (n, v) in reading {
+            r.push(n, *v);
+        }
+        let day = NaiveDate::from_ymd_opt(2026, 1, 31).unwrap();
+        Entry {
+            project: "TFS".into(),
+            seq: 4,
+            kind,
+            site: "TF-I1".into(),
+            period: Period::day(day),
+            reading: r,
+            mass: Mass::from_grams(g),
+            sign: kind.sign(),
+            recorded_at: DateTime::UNIX_EPOCH,
+            key: "k4".into(),
+            meter: None,
+            note: None,
+            corrects: None,
+            reason: None,
+            evidence: None,
+            recorded_by: None,
+        }
+    }
+
+    #[test]
+    fn a_survey_restates_no_quantity_and_names_the_first_value_given() {
+        let survey = entry(EntryKind::Survey, &[("result", "no-leak")], 0);
+        let given = Given {
+            meter: Some("FM-1"),
+            ..Given::default()
+        };
+        let e = restate(&survey, &given).unwrap_err();
+        assert_eq!(
+            e,
+            RestateError::Foreign {
+                given: Restated::Meter,
+                kind: EntryKind::Survey,
+                seq: 4,
+                allowed: &[],
+            }
+        );
+    }
+
+    #[test]
+    fn a_reversal_restates_its_mass_and_keeps_its_pathway() {
+        let reversal = entry(
+            EntryKind::Reversal,
+            &[("mass", "2 t"), ("pathway", "fault F2")],
+            2_000_000,
+        );
+        let mut given = Given::default();
+        given.quantity.mass = Some("3 t");
+        let (reading, mass) = restate(&reversal, &given).unwrap();
+        assert_eq!(mass, Mass::from_grams(3_000_000));
+        assert_eq!(reading.text("mass"), Some("3 t"));
+        assert_eq!(reading.text("pathway"), Some("fault F2"));
+    }
+
+    #[test]
+    fn a_fraction_alone_needs_a_quantity_to_apply_to_and_rock_is_recorded_again() {
+        let injection = entry(EntryKind::Injection, &[], 1_000_000);
+        let mut given = Given::default();
+        given.quantity.co2_fraction = Some("0.98");
+        assert_eq!(restate(&injection, &given), Err(RestateError::NoQuantity));
+        let sample = entry(EntryKind::SoilSample, &[], 0);
+        assert_eq!(
+            restate(&sample, &given),
+            Err(RestateError::NotMetered {
+                kind: EntryKind::SoilSample,
+                seq: 4
+            })
+        );
+    }
+
+    #[test]
+    fn a_metered_correction_keeps_the_fields_of_its_kind() {
+        let production = entry(
+            EntryKind::Production,
+            &[("mass", "10 t"), ("entrained_fraction", "0.02")],
+            10_000_000,
+        );
+        let mut given = Given::default();
+        given.quantity.mass = Some("12 t");
+        let (reading, mass) = restate(&production, &given).unwrap();
+        assert_eq!(mass, Mass::from_grams(12_000_000));
+        assert_eq!(reading.text("entrained_fraction"), Some("0.02"));
+    }
+}

@@ -47,3 +47,20 @@ pub fn entrained_fraction(text: &str) -> Option<Decimal> {
         .ok()
         .filter(|x| !x.to_f64().is_sign_negative() && x.to_f64() < 1.0)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_reversal_says_where_and_a_fraction_lies_in_zero_to_one() {
+        let m = MassReading::parse("2 t").unwrap();
+        assert_eq!(reversal(&m, None, None), Err(NoPlace));
+        let r = reversal(&m, None, Some("fault F2")).unwrap();
+        assert_eq!(r.text("pathway"), Some("fault F2"));
+        assert!(entrained_fraction("0.02").is_some());
+        assert!(entrained_fraction("1").is_none());
+        assert!(entrained_fraction("-0.1").is_none());
+        assert_eq!(survey(false, None).text("result"), Some("leak-found"));
+    }
+}

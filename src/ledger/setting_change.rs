@@ -102,3 +102,61 @@ pub fn rows(
         })
         .collect()
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn project(method: Method) -> Project {
+        Project {
+            code: "TFS".into(),
+            name: "Tamsin Flats Storage".into(),
+            method,
+            operator: "Northdeep Storage Cooperative".into(),
+            permit_ref: None,
+            permit_capacity: None,
+            permit_annual: None,
+            registered_at: DateTime::UNIX_EPOCH,
+        }
+    }
+
+    #[test]
+    fn shares_and_years_are_normalised_or_refused() {
+        assert_eq!(normalised(SettingName::Buffer, "10%"), Ok("0.1".into()));
+        assert_eq!(
+            normalised(SettingName::Horizon, "0"),
+            Err(ValueError::Years)
+        );
+        assert!(matches!(
+            normalised(SettingName::AnnualLeak, "150%"),
+            Err(ValueError::Share(_))
+        ));
+    }
+
+    #[test]
+    fn deductions_need_weathering_and_a_sealed_project_keeps_its_claim_period() {
+        let p = project(Method::SalineAquifer);
+        assert!(matches!(
+            check(&p, false, &[], &[], true),
+            Err(ChangeError::NotWeathering { .. })
+        ));
+        let quarter = [(SettingName::ClaimPeriod, "quarter".to_string())];
+        assert_eq!(
+            check(&p, true, &[], &quarter, false),
+            Err(ChangeError::ClaimPeriodKept {
+                given: "quarter".into(),
+                now: "year".into()
+            })
+        );
+        assert_eq!(check(&p, false, &[], &quarter, false), Ok(()));
+        let rows = rows(
+            &[],
+            "TFS",
+            &quarter,
+            DateTime::UNIX_EPOCH,
+            NaiveDate::MIN,
+            None,
+        );
+        assert_eq!((rows[0].seq, rows[0].effective), (0, Some(NaiveDate::MIN)));
+    }
+}
