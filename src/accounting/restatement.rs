@@ -279,19 +279,32 @@ pub(crate) mod tests {
         );
     }
 
+    /// `target` corrected by a new `--mass` alone.
+    fn with_mass(target: &Entry, mass: &'static str) -> (Reading, Mass) {
+        let mut given = Given::default();
+        given.quantity.mass = Some(mass);
+        restate(target, &given).unwrap()
+    }
+
     #[test]
-    fn a_reversal_restates_its_mass_and_keeps_its_pathway() {
+    fn a_reversal_restates_its_mass_and_a_metered_entry_keeps_the_fields_of_its_kind() {
         let reversal = entry(
             EntryKind::Reversal,
             &[("mass", "2 t"), ("pathway", "fault F2")],
             2_000_000,
         );
-        let mut given = Given::default();
-        given.quantity.mass = Some("3 t");
-        let (reading, mass) = restate(&reversal, &given).unwrap();
+        let (reading, mass) = with_mass(&reversal, "3 t");
         assert_eq!(mass, Mass::from_grams(3_000_000));
         assert_eq!(reading.text("mass"), Some("3 t"));
         assert_eq!(reading.text("pathway"), Some("fault F2"));
+        let production = entry(
+            EntryKind::Production,
+            &[("mass", "10 t"), ("entrained_fraction", "0.02")],
+            10_000_000,
+        );
+        let (reading, mass) = with_mass(&production, "12 t");
+        assert_eq!(mass, Mass::from_grams(12_000_000));
+        assert_eq!(reading.text("entrained_fraction"), Some("0.02"));
     }
 
     #[test]
@@ -308,19 +321,5 @@ pub(crate) mod tests {
                 seq: 4
             })
         );
-    }
-
-    #[test]
-    fn a_metered_correction_keeps_the_fields_of_its_kind() {
-        let production = entry(
-            EntryKind::Production,
-            &[("mass", "10 t"), ("entrained_fraction", "0.02")],
-            10_000_000,
-        );
-        let mut given = Given::default();
-        given.quantity.mass = Some("12 t");
-        let (reading, mass) = restate(&production, &given).unwrap();
-        assert_eq!(mass, Mass::from_grams(12_000_000));
-        assert_eq!(reading.text("entrained_fraction"), Some("0.02"));
     }
 }
