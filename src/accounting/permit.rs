@@ -45,6 +45,17 @@ pub struct Exceeded {
     pub passed: Vec<Passed>,
 }
 
+/// Whether entries of `kind` move the figures a permit limits (stored, injected).
+pub fn bears_on(kind: EntryKind) -> bool {
+    matches!(
+        kind,
+        EntryKind::Injection
+            | EntryKind::Production
+            | EntryKind::Leakage
+            | EntryKind::EquipmentLeak
+    )
+}
+
 /// The years whose injection the annual maximum is checked for: those the new entries end in.
 pub fn years(new: &[Entry]) -> BTreeSet<i32> {
     new.iter().map(|e| e.period.to.year()).collect()

@@ -2,122 +2,12 @@
 
 use super::run_line;
 use crate::error::{Error, Result, StoreKind};
-use crate::report::names;
-use crate::report::{Cell, Report, Table, columns};
+use crate::import::script::{SAMPLES, script_lines};
+use crate::report::Report;
+use crate::report::tables::demo::{OVERVIEW, TOUR, tour_table};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
 use std::path::Path;
-
-/// The sample files, embedded so the demo runs from any directory. Scripts (`.sinkbook`) run in
-/// this order; data files are written beside them and named in the scripts as `$SAMPLES/…`.
-const SAMPLES: &[(&str, &str)] = &[
-    (
-        "tfs.sinkbook",
-        include_str!("../../sample-projects/tfs.sinkbook"),
-    ),
-    (
-        "tfs-meters-2026.csv",
-        include_str!("../../sample-projects/tfs-meters-2026.csv"),
-    ),
-    (
-        "kre.sinkbook",
-        include_str!("../../sample-projects/kre.sinkbook"),
-    ),
-    (
-        "tfs-monitoring-report-2026.csv",
-        include_str!("../../sample-projects/tfs-monitoring-report-2026.csv"),
-    ),
-    (
-        "kre-monitoring-report-2026.csv",
-        include_str!("../../sample-projects/kre-monitoring-report-2026.csv"),
-    ),
-    (
-        "crb.sinkbook",
-        include_str!("../../sample-projects/crb.sinkbook"),
-    ),
-    (
-        "evw.sinkbook",
-        include_str!("../../sample-projects/evw.sinkbook"),
-    ),
-];
-
-/// What `demo --full` prints once the ledger is built, and what each command shows; the short
-/// demo lists them as the commands that show the detail.
-const TOUR: &[(&[&str], &str)] = &[
-    (
-        &["project", "list"],
-        "the projects, their methods and permits",
-    ),
-    (
-        &["balance", "TFS", "--by", "quarter"],
-        "TFS: mass balance by quarter, surface leakage, from stored to claimable, buffer pool",
-    ),
-    (
-        &["meters", "TFS", "--year", "2026"],
-        "TFS: each meter by quarter, CO2 concentration, conversion",
-    ),
-    (
-        &["balance", "KRE", "--by", "quarter"],
-        "KRE: mass balance by quarter (Subpart RR), claims, buffer pool",
-    ),
-    (
-        &["balance", "KRE", "--by", "year", "--method", "iso27916"],
-        "KRE: mass balance by year (ISO 27916)",
-    ),
-    (
-        &[
-            "reconcile",
-            "TFS",
-            "$SAMPLES/tfs-monitoring-report-2026.csv",
-        ],
-        "TFS: the ledger against the monitoring report, with materiality",
-    ),
-    (
-        &[
-            "reconcile",
-            "KRE",
-            "$SAMPLES/kre-monitoring-report-2026.csv",
-        ],
-        "KRE: the ledger against the monitoring report, with materiality",
-    ),
-    (
-        &["mineralization", "CRB", "--by", "year"],
-        "CRB: injected CO2 split into mineralized and still dissolved",
-    ),
-    (
-        &["feedstock", "list", "EVW"],
-        "EVW: the crushed basalt's composition and potential",
-    ),
-    (
-        &["weathering", "EVW"],
-        "EVW: each field and soil campaign from applied rock to net removal",
-    ),
-    (
-        &["balance", "EVW", "--by", "year"],
-        "EVW: net removal by year, claims",
-    ),
-    (&["verify"], "every hash and the ledger's structure checked"),
-    (&["totals"], "totals across projects"),
-];
-
-/// What the short demo prints: a command, and how many of its tables to keep (its first one
-/// is the balance; the rest are detail the tour lists).
-const OVERVIEW: &[(&[&str], usize)] = &[
-    (&["project", "list"], usize::MAX),
-    (&["balance", "TFS", "--by", "year"], 1),
-    (&["balance", "KRE", "--by", "year"], 1),
-    (&["balance", "CRB", "--by", "year"], 1),
-    (&["balance", "EVW", "--by", "year"], 1),
-    (&["totals"], usize::MAX),
-];
-
-/// Splits a script into command lines: blank lines and `#` comments skipped.
-fn script_lines(text: &str) -> impl Iterator<Item = (usize, &str)> {
-    text.lines()
-        .enumerate()
-        .map(|(i, l)| (i + 1, l.trim()))
-        .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'))
-}
 
 fn io(e: std::io::Error) -> Error {
     Error::store(
@@ -221,26 +111,6 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
         ));
     }
     Ok(report)
-}
-
-/// The commands that print the detailed tables, as a person would type them after `--db`.
-fn tour_table(db: &str) -> Table {
-    let mut t = Table::new(
-        "more",
-        "The detailed tables",
-        columns(&[names::COMMAND, names::SHOWS]),
-    );
-    for (words, shows) in TOUR {
-        let words: Vec<String> = words
-            .iter()
-            .map(|w| w.replace("$SAMPLES", "sample-projects"))
-            .collect();
-        t.push(vec![Cell::text(words.join(" ")), Cell::text(*shows)]);
-    }
-    t.note(format!(
-        "Each as sinkbook --db {db} COMMAND; sinkbook demo --full prints them all. The monitoring reports are in sample-projects/."
-    ));
-    t
 }
 
 #[derive(Debug, clap::Args)]

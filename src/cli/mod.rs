@@ -273,43 +273,16 @@ fn permit_check(
     replaced: &[crate::ledger::Entry],
     over_permit: bool,
 ) -> Result<Vec<String>> {
-    use permit::Notice;
+    use crate::report::tables::permit::{exceeded_line, notice_line};
     match permit::check(project, standing, new, replaced, over_permit) {
         Ok(notices) => Ok(notices
             .iter()
-            .map(|n| match n {
-                Notice::NearCapacity { pct } => format!(
-                    "project {} has used {pct:.2} % of its permitted capacity",
-                    project.code
-                ),
-                Notice::Recorded(p) => format!("recorded over the permit: {}", passed(p)),
-            })
+            .map(|n| notice_line(&project.code, n))
             .collect()),
         Err(e) => Err(crate::error::Error::Refused(format!(
-            "project {}: {}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
-            e.project,
-            e.passed.iter().map(passed).collect::<Vec<_>>().join("; ")
+            "{}; nothing written (record it with --over-permit: the ledger keeps what happened, and every report flags it)",
+            exceeded_line(&e)
         ))),
-    }
-}
-
-fn passed(p: &permit::Passed) -> String {
-    use crate::report::render::tonnes_text;
-    match *p {
-        permit::Passed::Capacity { stored, pct, cap } => format!(
-            "cumulative stored {} t would be {pct:.2} % of the permitted capacity {} t",
-            tonnes_text(stored),
-            tonnes_text(cap)
-        ),
-        permit::Passed::Annual {
-            year,
-            injected,
-            max,
-        } => format!(
-            "injection in {year} would be {} t, above the permitted annual maximum {} t",
-            tonnes_text(injected),
-            tonnes_text(max)
-        ),
     }
 }
 

@@ -478,15 +478,3 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
         )
     })
 }
-
-/// Whether entries of this kind are recorded here (not by a meter): `correct` cannot restate
-/// their readings from quantity options; they are recorded again with `--corrects`.
-pub fn is_rock_record(kind: EntryKind) -> bool {
-    matches!(
-        kind,
-        EntryKind::TracerSample
-            | EntryKind::Carbonation
-            | EntryKind::Application
-            | EntryKind::SoilSample
-    )
-}

@@ -8,12 +8,10 @@ use super::weathering::DeductionValues;
 use crate::accounting::project_view::deduction_setting;
 use crate::error::{Error, Result};
 use crate::ledger::seal::admit_setting;
-use crate::ledger::setting::{Setting, SettingName, in_force};
-use crate::quantity::Decimal;
-use crate::quantity::fraction::parse_uncertainty;
+use crate::ledger::setting::SettingName;
+use crate::ledger::setting_change::{ChangeError, check, normalised, rows};
 use crate::report::Report;
 use crate::report::tables::settings::settings_table;
-use chrono::NaiveDate;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -65,41 +63,28 @@ pub enum ClaimPeriod {
     Year,
 }
 
-/// A share in [0, 100 %), normalised to its decimal.
-fn share(field: &str, text: &str) -> Result<String> {
-    parse_uncertainty(text)
-        .map(|d| d.to_string())
-        .map_err(|e| Error::field(field, text, e))
-}
-
-/// A positive number of years.
-fn years(field: &str, text: &str) -> Result<String> {
-    Decimal::parse(text)
-        .ok()
-        .filter(|d| d.is_positive())
-        .map(|d| d.to_string())
-        .ok_or_else(|| Error::field(field, text, "must be a positive number of years"))
-}
-
 pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
-    let mut values: Vec<(SettingName, String)> = Vec::new();
-    if let Some(b) = &a.buffer {
-        values.push((SettingName::Buffer, share("--buffer", b)?));
-    }
-    if let Some(r) = &a.assumed_annual_loss {
-        values.push((SettingName::AnnualLeak, share("--assumed-annual-loss", r)?));
-    }
-    if let Some(h) = &a.horizon {
-        values.push((SettingName::Horizon, years("--horizon", h)?));
-    }
-    if let Some(y) = &a.years_held {
-        values.push((SettingName::YearsHeld, years("--years-held", y)?));
-    }
-    if let Some(e) = &a.equivalence_years {
-        values.push((
+    let given = [
+        (SettingName::Buffer, "--buffer", &a.buffer),
+        (
+            SettingName::AnnualLeak,
+            "--assumed-annual-loss",
+            &a.assumed_annual_loss,
+        ),
+        (SettingName::Horizon, "--horizon", &a.horizon),
+        (SettingName::YearsHeld, "--years-held", &a.years_held),
+        (
             SettingName::EquivalenceYears,
-            years("--equivalence-years", e)?,
-        ));
+            "--equivalence-years",
+            &a.equivalence_years,
+        ),
+    ];
+    let mut values: Vec<(SettingName, String)> = Vec::new();
+    for (name, option, text) in given {
+        if let Some(t) = text {
+            let v = normalised(name, t).map_err(|e| Error::field(option, t, e))?;
+            values.push((name, v));
+        }
     }
     if let Some(p) = a.claim_period {
         let name = format!("{p:?}").to_lowercase();
@@ -135,36 +120,25 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         admit_setting(&seals, from, today, ctx.late)
             .map_err(|e| Error::field("--from", &from.to_string(), super::sealed(&e)))?;
         let mut all = tx.settings(&a.code)?;
-        if let Some((_, option, text, _)) = deductions.first()
-            && project.method != crate::ledger::Method::EnhancedWeathering
-        {
-            return Err(Error::field(
-                option,
-                text,
+        let sealed = !seals.is_empty();
+        check(&project, sealed, &all, &values, !deductions.is_empty()).map_err(|e| match e {
+            ChangeError::NotWeathering { project, method } => {
+                let (option, text) = deductions.first().map_or(("", ""), |d| (d.1, d.2));
+                Error::field(
+                    option,
+                    text,
+                    format!("is a weathering deduction; project {project} has method {method}"),
+                )
+            }
+            ChangeError::ClaimPeriodKept { given, now } => Error::field(
+                "--claim-period",
+                &given,
                 format!(
-                    "is a weathering deduction; project {} has method {}",
-                    a.code, project.method
+                    "the project has sealed periods, claimed by {now}; the claim period cannot change"
                 ),
-            ));
-        }
-        if a.claim_period.is_some() && !seals.is_empty() {
-            claim_period_kept(&all, &values)?;
-        }
-        let next = all.len() as u64;
-        let new: Vec<Setting> = values
-            .iter()
-            .cloned()
-            .enumerate()
-            .map(|(i, (name, value))| Setting {
-                project: a.code.clone(),
-                seq: next + i as u64,
-                name,
-                value,
-                recorded_at: ctx.now,
-                effective: Some(from),
-                source: a.source.clone(),
-            })
-            .collect();
+            ),
+        })?;
+        let new = rows(&all, &a.code, &values, ctx.now, from, a.source.as_deref());
         tx.add_settings(&new)?;
         all.extend(new);
         Ok(all)
@@ -172,20 +146,4 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
     Ok(Report::default()
         .line(format!("settings of project {} recorded", a.code))
         .table(settings_table(&a.code, &all, ctx.now)))
-}
-
-/// Once a period is sealed the claim period stays as it was: claims made by another one would
-/// restate the sealed figures.
-fn claim_period_kept(all: &[Setting], values: &[(SettingName, String)]) -> Result<()> {
-    let now = in_force(all, SettingName::ClaimPeriod, NaiveDate::MAX).map_or("year", |s| &s.value);
-    match values.iter().find(|(n, _)| *n == SettingName::ClaimPeriod) {
-        Some((_, v)) if v != now => Err(Error::field(
-            "--claim-period",
-            v,
-            format!(
-                "the project has sealed periods, claimed by {now}; the claim period cannot change"
-            ),
-        )),
-        _ => Ok(()),
-    }
 }

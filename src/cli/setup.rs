@@ -90,13 +90,16 @@ pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
 
 /// The project named on the command line, or a refusal naming it.
 pub fn known_project(tx: &mut crate::store::Tx<'_>, code: &str) -> Result<Project> {
-    tx.project(code)?.ok_or_else(|| {
-        Error::field(
-            "project",
-            code,
-            "is not registered in this ledger (see `sinkbook project list`)",
-        )
-    })
+    tx.project(code)?.ok_or_else(|| unknown_project(code))
+}
+
+/// The refusal of a project code that no project is registered under.
+pub fn unknown_project(code: &str) -> Error {
+    Error::field(
+        "project",
+        code,
+        "is not registered in this ledger (see `sinkbook project list`)",
+    )
 }
 
 fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {

@@ -12,6 +12,7 @@ pub mod monitoring_report;
 pub mod overlap;
 pub mod plan;
 pub mod replan;
+pub mod script;
 pub mod summary;
 
 use crate::error::{Error, Result};

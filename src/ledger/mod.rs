@@ -1,11 +1,13 @@
 //! The ledger core: projects, entries, their canonical bytes and hash chain, corrections and
 //! periods. Pure: no database, files, printing or clock.
 
+pub mod admission;
 pub mod append;
 pub mod bounds;
 pub mod canonical;
 pub mod chain;
 pub mod correction;
+pub mod dated_fact;
 pub mod entry;
 pub mod feedstock;
 pub mod hash;
@@ -21,6 +23,7 @@ pub mod reconciliation_states;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;
+pub mod setting_change;
 pub mod signature;
 pub mod statement_check;
 pub mod tally;

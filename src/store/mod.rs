@@ -1,6 +1,7 @@
 //! The ledger file: the only module that speaks SQL. SQLite through diesel, migrations embedded
 //! and applied on open, every command in one transaction.
 
+mod append_reads;
 pub(crate) mod backend;
 mod bundle;
 mod bundle_export;

@@ -1,17 +1,19 @@
-//! The append every record makes: project and site checked, key resolved, the entry sealed in
-//! one write transaction, and the table of what was recorded.
+//! The append every record makes: the entry drafted and appended in one write transaction by
+//! the ledger's admission rules, their refusals said in the options' words, and the table of
+//! what was recorded.
 
 use crate::accounting::permit;
-use crate::cli::setup::known_project;
+use crate::cli::setup::unknown_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::append::{AppendError, Appended, SealRule, append, content_key, within_limit};
-use crate::ledger::seal::{Replaced, Seal, late_replaces};
+use crate::ledger::admission::{AdmitError, TargetError, admit};
+use crate::ledger::append::{AppendError, Appended, content_key};
+use crate::ledger::seal::{Replaced, Seal};
 use crate::ledger::tally::Tally;
-use crate::ledger::{Entry, EntryKind, Project};
+use crate::ledger::{Entry, Project};
 use crate::quantity::Mass;
 use crate::report::Report;
-use crate::report::tables::record::recorded_table;
+use crate::report::tables::record::appended_report;
 use crate::store::Tx;
 
 /// Appends in one immediate transaction: project and site checked, key resolved, entry sealed.
@@ -39,125 +41,83 @@ pub(in crate::cli) fn commit_with(
             entry.reading.push("over_permit", "acknowledged");
         }
         entry.key = key.clone().unwrap_or_else(|| content_key(&entry));
-        let project = known_project(tx, &entry.project)?;
-        let site = match entry.site.as_str() {
-            "" => None,
-            code => Some(tx.site(&entry.project, code)?.ok_or_else(|| {
-                Error::field(
-                    "--site",
-                    code,
-                    format!("is not a site of project {}", entry.project),
-                )
-            })?),
-        };
-        let tally = tx.tally(&entry.project)?;
-        let seals = tx.seals(&entry.project)?;
-        let (replaced, target) = match entry.corrects {
-            // Re-checked inside the write transaction, so a concurrent correction cannot slip in.
-            Some(target) => {
-                let (r, t) = replaced(tx, &entry.project, target, &seals)?;
-                (Some(r), Some(t))
-            }
-            None => (None, None),
-        };
-        let rule = SealRule {
-            seals: &seals,
-            late: ctx.late,
-            today: ctx.now.date_naive(),
-            replaced,
-        };
-        within_limit(tally.magnitude, std::slice::from_ref(&entry)).map_err(|e| {
-            let mass = entry.mass.to_string();
-            Error::field("--mass", entry.reading.text("mass").unwrap_or(&mass), e)
-        })?;
-        let holder = tx.entry_by_key(&entry.project, &entry.key)?;
-        let tip = tx.chain_tip(&entry.project)?;
+        let refused = |e| admit_refusal(&entry, e);
+        let reads = tx.append_reads(&entry)?.map_err(refused)?;
         let outcome =
-            append(entry.clone(), site.as_ref(), tip, holder, rule).map_err(|e| match e {
-                AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
-                AppendError::NoSite { .. } => Error::options("--site", format!("{e}: give --site")),
-                AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
-                AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
-                AppendError::Sealed(s) => Error::field(
-                    "--from/--to",
-                    &entry.period.to_string(),
-                    crate::cli::sealed(&s),
-                ),
-                AppendError::OutOfBounds(b) => inputs::out_of_bounds(&b),
-            })?;
+            admit(entry.clone(), &reads, ctx.late, ctx.now.date_naive()).map_err(refused)?;
         let mut warnings = Vec::new();
         if let Appended::New(s) = &outcome {
-            if matches!(
-                s.entry.kind,
-                EntryKind::Injection
-                    | EntryKind::Production
-                    | EntryKind::Leakage
-                    | EntryKind::EquipmentLeak
-            ) {
+            if permit::bears_on(s.entry.kind) {
                 let new = std::slice::from_ref(&s.entry);
-                let standing = standing(tx, &project, tally, new)?;
+                let standing = standing(tx, &reads.project, reads.tally, new)?;
                 // A late correction is a difference of its own, replacing nothing it counts.
-                let gone: Vec<Entry> = target
-                    .iter()
+                let gone: Vec<Entry> = (reads.target.iter())
                     .filter(|_| s.entry.corrects.is_some())
-                    .cloned()
+                    .map(|t| t.1.clone())
                     .collect();
-                warnings = crate::cli::permit_check(&project, &standing, new, &gone, over_permit)?;
+                warnings =
+                    crate::cli::permit_check(&reads.project, &standing, new, &gone, over_permit)?;
             }
             tx.append(std::slice::from_ref(s))?;
         }
         Ok((outcome, warnings))
     })?;
-    let mut report = match outcome {
-        Appended::New(s) => Report::default()
-            .line(format!("recorded {} seq {}", s.entry.project, s.entry.seq))
-            .table(recorded_table(&s)),
-        Appended::Existing(s) => Report::default()
-            .line(format!(
-                "already recorded as {} seq {} (key {}); nothing written",
-                s.entry.project, s.entry.seq, s.entry.key
-            ))
-            .table(recorded_table(&s)),
-    };
+    let mut report = appended_report(&outcome);
     report.warnings = warnings;
     Ok(report)
 }
 
-/// What a correction of `target` replaces, looked up by its seq: the latest entry of its line,
-/// and what it counts for now — its grams plus the late differences recorded against it since
-/// its period was sealed (read only when the project has seals, since only a sealed period
-/// takes late differences). Returns the replaced entry with it.
+/// An admission's refusal of `entry`, named by the option the refused value came from.
+fn admit_refusal(entry: &Entry, e: AdmitError) -> Error {
+    match e {
+        AdmitError::NoProject(code) => unknown_project(&code),
+        AdmitError::NoSuchSite { project, site } => Error::field(
+            "--site",
+            &site,
+            format!("is not a site of project {project}"),
+        ),
+        AdmitError::Target(e) => target_refusal(e),
+        AdmitError::Limit(e) => {
+            let mass = entry.mass.to_string();
+            Error::field("--mass", entry.reading.text("mass").unwrap_or(&mass), e)
+        }
+        AdmitError::Append(e) => match e {
+            AppendError::KeyTaken { .. } => Error::field("--key", &entry.key, e),
+            AppendError::NoSite { .. } => Error::options("--site", format!("{e}: give --site")),
+            AppendError::WrongSiteKind { .. } => Error::field("--site", &entry.site, e),
+            AppendError::BeyondLimit { .. } => Error::Refused(e.to_string()),
+            AppendError::Sealed(s) => Error::field(
+                "--from/--to",
+                &entry.period.to_string(),
+                crate::cli::sealed(&s),
+            ),
+            AppendError::OutOfBounds(b) => inputs::out_of_bounds(&b),
+        },
+    }
+}
+
+/// A correction's target refused, named by its seq.
+fn target_refusal(e: TargetError) -> Error {
+    match e {
+        TargetError::Uncorrectable { seq, why } => Error::field("seq", &seq.to_string(), why),
+        TargetError::LateDifference { seq, first } => Error::field(
+            "seq",
+            &seq.to_string(),
+            format!(
+                "is a late difference against seq {first}; correct seq {first} again with --late"
+            ),
+        ),
+    }
+}
+
+/// What a correction of `target` replaces (see [`Tx::replaced`]), with the entry it names.
 pub(in crate::cli) fn replaced(
     tx: &mut Tx<'_>,
     project: &str,
     target: u64,
     seals: &[Seal],
 ) -> Result<(Replaced, Entry)> {
-    let t = tx
-        .correction_target(project, target)?
-        .map_err(|e| Error::field("seq", &target.to_string(), e))?;
-    if let Some(first) = late_replaces(&t) {
-        return Err(Error::field(
-            "seq",
-            &target.to_string(),
-            format!(
-                "is a late difference against seq {first}; correct seq {first} again with --late"
-            ),
-        ));
-    }
-    let counted = if seals.is_empty() {
-        t.mass
-    } else {
-        tx.late_counted(&t)?
-    };
-    Ok((
-        Replaced {
-            seq: target,
-            period: t.period,
-            counted,
-        },
-        t,
-    ))
+    tx.replaced(project, target, seals)?.map_err(target_refusal)
 }
 
 /// Where the project stands for its permit before `new`: cumulative stored from the chain tip's
@@ -168,14 +128,12 @@ pub(in crate::cli) fn standing(
     tally: Tally,
     new: &[Entry],
 ) -> Result<permit::Standing> {
-    let mut injected = std::collections::BTreeMap::new();
-    if project.permit_annual.is_some() {
-        for year in permit::years(new) {
-            injected.insert(year, tx.injected_in_year(&project.code, year)?);
-        }
-    }
+    let years = match project.permit_annual {
+        Some(_) => permit::years(new),
+        None => Default::default(),
+    };
     Ok(permit::Standing {
         stored: Mass::from_grams(tally.stored),
-        injected,
+        injected: tx.injected_in_years(&project.code, years)?,
     })
 }

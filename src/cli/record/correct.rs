@@ -1,15 +1,12 @@
 //! `correct`: a new entry that replaces one, restating its quantity or period and keeping what
 //! belongs to its kind.
 
-use super::{DensityArg, QuantityArgs, commit_with, optional_text, period};
-use crate::accounting::metering::{Basis, assumed_fraction};
+use super::{QuantityArgs, commit_with, optional_text, period};
+use crate::accounting::restatement::{Given, RestateError, Restated, restate};
 use crate::cli::setup::known_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::reading_fields::{FractionBasis, checked};
-use crate::ledger::{Entry, EntryKind, Reading};
-use crate::quantity::Mass;
-use crate::quantity::fraction::parse_uncertainty;
+use crate::ledger::Entry;
 use crate::report::Report;
 use clap::{Args, ValueEnum};
 
@@ -48,56 +45,6 @@ pub struct CorrectArgs {
     pub over_permit: bool,
 }
 
-/// Reading fields that belong to the kind of entry, not to the meter: a correction of the
-/// quantity keeps them.
-const KIND_FIELDS: &[&str] = &[
-    "entrained_fraction",
-    "side",
-    "pathway",
-    "category",
-    "result",
-    "backdated_to_survey",
-    "stage",
-];
-
-/// The quantity of a correction: what it gives, and for the rest the corrected reading's own
-/// quantity, CO2 fraction, basis and density method.
-fn restated(given: &QuantityArgs, was: &Reading) -> Result<QuantityArgs> {
-    let mut q = given.clone();
-    if !q.is_given() {
-        q.mass = was.text("mass").map(str::to_string);
-        q.volume = was.text("volume").map(str::to_string);
-        if !q.is_given() {
-            return Err(Error::field(
-                "--co2-fraction",
-                q.co2_fraction.as_deref().unwrap_or(""),
-                "the corrected entry has no metered quantity to apply it to: give --mass or --volume",
-            ));
-        }
-    }
-    // An assumed fraction stays assumed: the correction states none either.
-    let fraction = was.text("co2_fraction").or(was.text("co2_fraction_mean"));
-    let fraction = fraction.filter(|_| !assumed_fraction(was));
-    q.co2_fraction = q.co2_fraction.or(fraction.map(str::to_string));
-    q.co2_basis = q.co2_basis.or(match checked(was.co2_basis()) {
-        Some(FractionBasis::Mol) => Some(Basis::Mol),
-        Some(FractionBasis::Mass) => Some(Basis::Mass),
-        None => None,
-    });
-    q.density = q.density.or(match was.density_method() {
-        Some("regulatory") => Some(DensityArg::Regulatory),
-        Some("eos") => Some(DensityArg::Eos),
-        _ => None,
-    });
-    q.impurities = q
-        .impurities
-        .or(was.text("impurities_mol").map(str::to_string));
-    q.uncertainty = q
-        .uncertainty
-        .or(was.text("uncertainty").map(str::to_string));
-    Ok(q)
-}
-
 pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     inputs::text("--reason", &a.reason)?;
     optional_text("--key", &a.key)?;
@@ -113,44 +60,34 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     })
 }
 
-/// The options of `correct` that restate what the `record` command of each kind takes; the
-/// rest (--reason, --site, --from, --to, --key, --note) apply to every kind.
-fn correctable(kind: EntryKind) -> &'static [&'static str] {
-    match kind {
-        EntryKind::Survey => &[],
-        EntryKind::Calibration => &["--uncertainty", "--meter"],
-        EntryKind::Reversal => &["--mass"],
-        k if crate::cli::record_rock::is_rock_record(k) => &[],
-        _ => &[
-            "--mass",
-            "--volume",
-            "--co2-fraction",
-            "--co2-basis",
-            "--density",
-            "--impurities",
-            "--uncertainty",
-            "--meter",
-        ],
+/// How the command line names a value a correction restates.
+fn option(r: Restated) -> &'static str {
+    match r {
+        Restated::Mass => "--mass",
+        Restated::Volume => "--volume",
+        Restated::Co2Fraction => "--co2-fraction",
+        Restated::Co2Basis => "--co2-basis",
+        Restated::Density => "--density",
+        Restated::Impurities => "--impurities",
+        Restated::Uncertainty => "--uncertainty",
+        Restated::Meter => "--meter",
     }
 }
 
-/// The kind-specific options a correction gives, with their values.
-fn kind_options(a: &CorrectArgs) -> Vec<(&'static str, String)> {
+/// The value given for `r`, as spelled on the command line.
+fn given_text(a: &CorrectArgs, r: Restated) -> String {
     let q = &a.quantity;
-    let texts = [
-        ("--mass", q.mass.clone()),
-        ("--volume", q.volume.clone()),
-        ("--co2-fraction", q.co2_fraction.clone()),
-        ("--co2-basis", q.co2_basis.and_then(|b| option_value(&b))),
-        ("--density", q.density.and_then(|d| option_value(&d))),
-        ("--impurities", q.impurities.clone()),
-        ("--uncertainty", q.uncertainty.clone()),
-        ("--meter", a.meter.clone()),
-    ];
-    texts
-        .into_iter()
-        .filter_map(|(o, v)| v.map(|v| (o, v)))
-        .collect()
+    let text = match r {
+        Restated::Mass => q.mass.clone(),
+        Restated::Volume => q.volume.clone(),
+        Restated::Co2Fraction => q.co2_fraction.clone(),
+        Restated::Co2Basis => q.co2_basis.and_then(|b| option_value(&b)),
+        Restated::Density => q.density.and_then(|d| option_value(&d)),
+        Restated::Impurities => q.impurities.clone(),
+        Restated::Uncertainty => q.uncertainty.clone(),
+        Restated::Meter => a.meter.clone(),
+    };
+    text.unwrap_or_default()
 }
 
 /// How a value of an enumerated option is spelled on the command line.
@@ -158,89 +95,54 @@ fn option_value(v: &impl ValueEnum) -> Option<String> {
     v.to_possible_value().map(|p| p.get_name().to_string())
 }
 
-/// Refuses options that do not belong to the corrected entry's kind (a survey has no mass).
-fn refuse_foreign_options(a: &CorrectArgs, target: &Entry) -> Result<()> {
-    let allowed = correctable(target.kind);
-    match kind_options(a)
-        .into_iter()
-        .find(|(o, _)| !allowed.contains(o))
-    {
-        None => Ok(()),
-        Some((option, value)) => Err(Error::field(
-            option,
-            &value,
+/// A restatement's refusal, named by the option (or the seq) it is about.
+fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
+    match e {
+        RestateError::Foreign {
+            given,
+            kind,
+            seq,
+            allowed,
+        } => Error::field(
+            option(given),
+            &given_text(a, given),
             format!(
-                "does not belong to a {} entry (seq {}); a {} correction takes {}",
-                target.kind,
-                target.seq,
-                target.kind,
+                "does not belong to a {kind} entry (seq {seq}); a {kind} correction takes {}",
                 if allowed.is_empty() {
                     "none of the quantity options".to_string()
                 } else {
-                    allowed.join(", ")
+                    allowed
+                        .iter()
+                        .map(|r| option(*r))
+                        .collect::<Vec<_>>()
+                        .join(", ")
                 }
             ),
-        )),
+        ),
+        RestateError::NotMetered { kind, seq } => Error::field(
+            "seq",
+            &seq.to_string(),
+            format!(
+                "is a {kind} entry, not a metered quantity: record it again with --corrects {seq} --reason …"
+            ),
+        ),
+        RestateError::NoQuantity => Error::field(
+            "--co2-fraction",
+            a.quantity.co2_fraction.as_deref().unwrap_or(""),
+            "the corrected entry has no metered quantity to apply it to: give --mass or --volume",
+        ),
+        RestateError::Value { given, value, why } => Error::field(option(given), &value, why),
+        RestateError::Meter(e) => inputs::meter_error(e),
     }
-}
-
-/// The reading of a correction of a calibration or a reversal: the recorded reading with the
-/// one value the options restate.
-fn restated_single(a: &CorrectArgs, target: &Entry) -> Result<Option<(Reading, Mass)>> {
-    let q = &a.quantity;
-    let (name, value, mass) = match (target.kind, &q.uncertainty, &q.mass) {
-        (EntryKind::Calibration, Some(u), _) => {
-            let d = parse_uncertainty(u).map_err(|e| Error::field("--uncertainty", u, e))?;
-            ("uncertainty", d.to_string(), target.mass)
-        }
-        (EntryKind::Reversal, _, Some(m)) => {
-            let (r, mass) = inputs::mass("--mass", m)?;
-            ("mass", r.to_string(), mass)
-        }
-        _ => return Ok(None),
-    };
-    let mut reading = target.reading.clone();
-    match reading.0.iter_mut().find(|(n, _)| n == name) {
-        Some(slot) => slot.1 = value,
-        None => reading.push(name, value),
-    }
-    Ok(Some((reading, mass)))
 }
 
 /// The correction of `target` the options describe.
 fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
-    let restates = a.quantity.is_given() || a.quantity.co2_fraction.is_some();
-    let single = if crate::cli::record_rock::is_rock_record(target.kind) && restates {
-        None
-    } else {
-        refuse_foreign_options(&a, &target)?;
-        restated_single(&a, &target)?
+    let given = Given {
+        quantity: a.quantity.input(),
+        meter: a.meter.as_deref(),
     };
-    let (reading, mass) = if let Some(r) = single {
-        r
-    } else if restates {
-        if crate::cli::record_rock::is_rock_record(target.kind) {
-            return Err(Error::field(
-                "seq",
-                &a.seq.to_string(),
-                format!(
-                    "is a {} entry, not a metered quantity: record it again with --corrects {} --reason …",
-                    target.kind, a.seq
-                ),
-            ));
-        }
-        let q = restated(&a.quantity, &target.reading)?;
-        let m = q.measure()?;
-        let mut reading = m.reading;
-        for (n, v) in &target.reading.0 {
-            if KIND_FIELDS.contains(&n.as_str()) {
-                reading.push(n, v.clone());
-            }
-        }
-        (reading, m.mass)
-    } else {
-        (target.reading.clone(), target.mass)
-    };
+    let (reading, mass) = restate(&target, &given).map_err(|e| refusal(&a, e))?;
     let from = a.from.unwrap_or_else(|| target.period.from.to_string());
     let to = a.to.unwrap_or_else(|| target.period.to.to_string());
     Ok(Entry {

@@ -7,22 +7,20 @@ use super::{
 };
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::{Entry, EntryKind, Period, Reading};
+use crate::ledger::dated_fact;
+use crate::ledger::{Entry, EntryKind, Period};
 use crate::quantity::Mass;
 use crate::quantity::fraction::parse_uncertainty;
 
 /// A production, its entrained fraction checked to lie in [0, 1).
 pub(super) fn production(a: &ProductionArgs, ctx: &Context) -> Result<Entry> {
-    let x = crate::quantity::Decimal::parse(&a.entrained_fraction)
-        .ok()
-        .filter(|x| !x.to_f64().is_sign_negative() && x.to_f64() < 1.0)
-        .ok_or_else(|| {
-            Error::field(
-                "--entrained-fraction",
-                &a.entrained_fraction,
-                "must be a number in [0, 1)",
-            )
-        })?;
+    let x = dated_fact::entrained_fraction(&a.entrained_fraction).ok_or_else(|| {
+        Error::field(
+            "--entrained-fraction",
+            &a.entrained_fraction,
+            "must be a number in [0, 1)",
+        )
+    })?;
     let extra = [("entrained_fraction", x.to_string())];
     metered(EntryKind::Production, &a.base, &extra, ctx)
 }
@@ -32,8 +30,7 @@ pub(super) fn calibration(a: CalibrationArgs, ctx: &Context) -> Result<Entry> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     let u = parse_uncertainty(&a.uncertainty)
         .map_err(|e| Error::field("--uncertainty", &a.uncertainty, e))?;
-    let mut reading = Reading::default();
-    reading.push("uncertainty", u.to_string());
+    let reading = dated_fact::calibration(u);
     let b = RecordArgs {
         project: a.project,
         site: a.site,
@@ -59,21 +56,17 @@ pub(super) fn reversal(a: ReversalArgs, ctx: &Context) -> Result<Entry> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     inputs::text("--reason", &a.reason)?;
     let (m, mass) = inputs::mass("--mass", &a.mass)?;
-    let mut reading = Reading::default();
-    reading.push("mass", m.to_string());
-    match (&a.site, &a.pathway) {
-        (None, None) => {
-            return Err(Error::options(
+    if let Some(p) = &a.pathway {
+        inputs::text("--pathway", p)?;
+    }
+    let reading = dated_fact::reversal(&m, a.site.as_deref(), a.pathway.as_deref()).map_err(
+        |dated_fact::NoPlace| {
+            Error::options(
                 "--site",
                 "say where the CO2 was lost: --site, --pathway or both",
-            ));
-        }
-        (_, Some(p)) => {
-            inputs::text("--pathway", p)?;
-            reading.push("pathway", p.clone());
-        }
-        (Some(_), None) => {}
-    }
+            )
+        },
+    )?;
     let b = RecordArgs {
         project: a.project,
         site: a.site.unwrap_or_default(),
@@ -90,19 +83,11 @@ pub(super) fn reversal(a: ReversalArgs, ctx: &Context) -> Result<Entry> {
 /// A leak survey of a site on a day, and what it found.
 pub(super) fn survey(a: SurveyArgs, ctx: &Context) -> Result<Entry> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let mut reading = Reading::default();
-    reading.push(
-        "result",
-        if a.result == SurveyResult::NoLeak {
-            "no-leak"
-        } else {
-            "leak-found"
-        },
-    );
     if let Some(p) = &a.pathway {
         inputs::text("--pathway", p)?;
-        reading.push("pathway", p.clone());
     }
+    let no_leak = a.result == SurveyResult::NoLeak;
+    let reading = dated_fact::survey(no_leak, a.pathway.as_deref());
     let b = RecordArgs {
         project: a.project,
         site: a.site,

@@ -2,12 +2,12 @@
 //! is unknown.
 
 use super::{LeakageArgs, RecordArgs, commit_with, draft, required};
+use crate::accounting::leak_start::{LeakBounds, StartError, Surveyed};
 use crate::accounting::leakage;
 use crate::cli::setup::known_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::reading_fields::{SurveyFinding, checked};
-use crate::ledger::{Entry, EntryKind, Period, Reading};
+use crate::ledger::{EntryKind, Period, Reading};
 use crate::quantity::Mass;
 use crate::report::Report;
 use crate::store::Tx;
@@ -80,28 +80,27 @@ fn since_last_survey(
         Some(site) => Surveyed::Site(site),
         None => Surveyed::Pathway(&a.pathway),
     };
-    let (survey, injection) = leak_bounds(tx, &a.project, surveyed, to)?;
-    let start = leakage::unknown_leak_start(survey, injection).ok_or_else(|| {
-        Error::field(
+    known_project(tx, &a.project)?;
+    let mut bounds = LeakBounds::new(surveyed, to);
+    tx.for_each_effective_entry(&a.project, None, |s| {
+        bounds.add(&s.entry);
+        Ok(())
+    })?;
+    bounds.start().map_err(|e| match e {
+        StartError::Unbounded => Error::field(
             "--since-last-survey",
             surveyed.name(),
             format!(
                 "no survey of this {} up to {to} found no leak and no injection is recorded: give --from",
                 surveyed.what()
             ),
-        )
-    })?;
-    if start.day() > to {
-        return Err(Error::field(
+        ),
+        StartError::AfterEnd { began } => Error::field(
             "--to",
             &to.to_string(),
-            format!(
-                "injection began on {}: a leak of what was stored cannot end before it",
-                start.day()
-            ),
-        ));
-    }
-    Ok(start)
+            format!("injection began on {began}: a leak of what was stored cannot end before it"),
+        ),
+    })
 }
 
 /// A leak's reading and grams: from `--rate` over the period's days, or a measured quantity.
@@ -122,64 +121,4 @@ fn leak_quantity(a: &LeakageArgs, b: &RecordArgs, period: Period) -> Result<(Rea
         "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
     );
     Ok((reading, mass))
-}
-
-/// What a leak's last no-leak survey is looked for by: its site, or, for a leak at no site of
-/// the project, its pathway (a survey that names the same pathway).
-#[derive(Debug, Clone, Copy)]
-enum Surveyed<'a> {
-    Site(&'a str),
-    Pathway(&'a str),
-}
-
-impl Surveyed<'_> {
-    fn name(&self) -> &str {
-        match self {
-            Surveyed::Site(s) | Surveyed::Pathway(s) => s,
-        }
-    }
-
-    fn what(&self) -> &'static str {
-        match self {
-            Surveyed::Site(_) => "site",
-            Surveyed::Pathway(_) => "pathway",
-        }
-    }
-
-    fn covers(&self, survey: &Entry) -> bool {
-        match self {
-            Surveyed::Site(s) => survey.site == *s,
-            Surveyed::Pathway(p) => survey.reading.pathway() == Some(p),
-        }
-    }
-}
-
-/// What bounds a leak's unknown start: the latest no-leak survey of the site (or pathway) on or
-/// before `to`, and the first day of the project's injection; read in one pass over the chain.
-fn leak_bounds(
-    tx: &mut Tx<'_>,
-    project: &str,
-    surveyed: Surveyed<'_>,
-    to: NaiveDate,
-) -> Result<(Option<NaiveDate>, Option<NaiveDate>)> {
-    known_project(tx, project)?;
-    let (mut survey, mut injection) = (None::<NaiveDate>, None::<NaiveDate>);
-    tx.for_each_effective_entry(project, None, |s| {
-        let e = &s.entry;
-        match e.kind {
-            EntryKind::Survey
-                if surveyed.covers(e)
-                    && e.period.to <= to
-                    && checked(e.reading.survey_finding()) == Some(SurveyFinding::NoLeak) =>
-            {
-                survey = survey.max(Some(e.period.to));
-            }
-            EntryKind::Injection => {
-                injection = Some(injection.map_or(e.period.from, |d| d.min(e.period.from)));
-            }
-            _ => {}
-        }
-        Ok(())
-    })?;
-    Ok((survey, injection))
 }

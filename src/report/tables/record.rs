@@ -1,8 +1,10 @@
-//! The table of an entry recorded: its seq, kind, grams, hashes and key.
+//! The table of an entry recorded: its seq, kind, grams, hashes and key, and the line saying
+//! whether it was written.
 
 use crate::ledger::SealedEntry;
+use crate::ledger::append::Appended;
 use crate::report::names;
-use crate::report::{Cell, Table, columns};
+use crate::report::{Cell, Report, Table, columns};
 
 pub fn recorded_table(s: &SealedEntry) -> Table {
     let e = &s.entry;
@@ -31,4 +33,19 @@ pub fn recorded_table(s: &SealedEntry) -> Table {
         Cell::text(s.chain.to_hex()),
     ]);
     t
+}
+
+/// What an append came to, said: the entry recorded, or the one its key already holds.
+pub fn appended_report(outcome: &Appended) -> Report {
+    match outcome {
+        Appended::New(s) => Report::default()
+            .line(format!("recorded {} seq {}", s.entry.project, s.entry.seq))
+            .table(recorded_table(s)),
+        Appended::Existing(s) => Report::default()
+            .line(format!(
+                "already recorded as {} seq {} (key {}); nothing written",
+                s.entry.project, s.entry.seq, s.entry.key
+            ))
+            .table(recorded_table(s)),
+    }
 }
