@@ -41,7 +41,12 @@ fn plain_verify_says_the_page_check_is_left_to_deep() {
     );
     let deep = l.ok(&["verify", "--deep"]);
     assert!(!deep.contains("Not run"), "{deep}");
-    assert!(deep.contains("integrity_check found"), "{deep}");
+    // SQLite checks the file's structure; the PostgreSQL server counts page checksum failures.
+    assert!(
+        deep.contains("SQLite's integrity_check found the file's structure whole")
+            || deep.contains("PostgreSQL server counts no page checksum failure"),
+        "{deep}"
+    );
 }
 
 /// An import whose entries were cut from the end of the chain leaves a chain that still links

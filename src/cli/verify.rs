@@ -6,7 +6,9 @@ use crate::ledger::Hash;
 use crate::ledger::seal_check::SealCheck;
 use crate::ledger::unnamed_files::UnnamedFiles;
 use crate::ledger::{EntryKind, Project};
-use crate::report::tables::verify::{ledger_cells, notes, project_row, verify_table};
+use crate::report::tables::verify::{
+    deep_check_name, ledger_cells, notes, project_row, verify_table,
+};
 use crate::report::{Cell, Report};
 use crate::store::Tx;
 use clap::Args;
@@ -37,11 +39,13 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
     let expected = hex("--expect-head", a.expect_head.as_deref())?;
     let expected_ledger = hex("--expect-ledger-head", a.expect_ledger_head.as_deref())?;
     let mut store = ctx.open()?;
-    if a.deep {
+    let deep = a.deep.then(|| store.deep_check());
+    if let Some(check) = deep {
         let integrity = store.integrity_check()?;
         if integrity != ["ok"] {
             return Err(Error::ledger(format!(
-                "SQLite integrity_check: {}",
+                "{}: {}",
+                deep_check_name(check),
                 integrity.join("; ")
             )));
         }
@@ -73,7 +77,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         &mut t,
         links,
         ledger_head,
-        a.deep,
+        deep,
         expected.is_some(),
         expected_ledger.is_some(),
     );

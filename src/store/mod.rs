@@ -148,6 +148,14 @@ impl Store {
         c.transaction(|c| postgres::add_role(c, name, kind, at))
     }
 
+    /// Which check of its own pages the database runs for `verify --deep`.
+    pub fn deep_check(&self) -> DeepCheck {
+        match &self.conn {
+            Conn::Sqlite(_) => DeepCheck::IntegrityCheck,
+            Conn::Pg(_) => DeepCheck::PageChecksums,
+        }
+    }
+
     /// The database's own check of its pages; "ok" when whole. SQLite checks the file's
     /// structure; the registry's server reports the page checksum failures it has seen.
     pub fn integrity_check(&mut self) -> Result<Vec<String>> {
@@ -427,4 +435,12 @@ impl Tx<'_> {
         }
         Ok(())
     }
+}
+
+/// The database's own check of its pages: SQLite's `PRAGMA integrity_check` of the file's
+/// structure, or the PostgreSQL server's count of page checksum failures in the database.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum DeepCheck {
+    IntegrityCheck,
+    PageChecksums,
 }

@@ -3,6 +3,7 @@
 use crate::ledger::Hash;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
+use crate::store::DeepCheck;
 
 /// The table's columns; `project_row` and `ledger_cells` fill a row.
 pub fn verify_table() -> Table {
@@ -42,18 +43,26 @@ pub fn project_row(code: &str, counts: &[usize; 4], entries: u64, head: Hash) ->
     ]
 }
 
+/// The name of the database's own check of its pages, as a finding of it is prefixed.
+pub fn deep_check_name(check: DeepCheck) -> &'static str {
+    match check {
+        DeepCheck::IntegrityCheck => "SQLite integrity_check",
+        DeepCheck::PageChecksums => "PostgreSQL page checksums",
+    }
+}
+
 /// The ledger chain's cells, the same on every row: its links and head.
 pub fn ledger_cells(links: u64, head: Hash) -> [Cell; 2] {
     [Cell::Int(links as i64), Cell::text(head.to_hex())]
 }
 
 /// What was checked: the projects' rows, the ledger chain of `links` links ending in `head`,
-/// the database's own check if `deep`, and the published heads given.
+/// the database's own check if `deep` ran, and the published heads given.
 pub fn notes(
     t: &mut Table,
     links: u64,
     head: Hash,
-    deep: bool,
+    deep: Option<DeepCheck>,
     expected: bool,
     expected_ledger: bool,
 ) {
@@ -62,10 +71,16 @@ pub fn notes(
         "Ledger chain: {links} links, each naming a project, site, setting, feedstock, import, statement, reconciliation or seal that is still there as linked, and every such row linked; ledger head {}.",
         head.to_hex()
     ));
-    t.note(if deep {
-        "SQLite's integrity_check found the file's structure whole."
-    } else {
-        "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
+    t.note(match deep {
+        Some(DeepCheck::IntegrityCheck) => {
+            "SQLite's integrity_check found the file's structure whole."
+        }
+        Some(DeepCheck::PageChecksums) => {
+            "The PostgreSQL server counts no page checksum failure in this database (of the pages it has read)."
+        }
+        None => {
+            "Not run: the database's own check of every page of the file (slow on a large ledger); `sinkbook verify --deep` runs it too."
+        }
     });
     if expected {
         t.note("The published chain head given with --expect-head is still held by the chain.");
