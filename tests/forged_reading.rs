@@ -32,7 +32,14 @@ fn ledger() -> Ledger {
 fn forge(l: &Ledger, field: &str, value: &str) -> u64 {
     let entries = Store::open(&l.path, Wait::default())
         .unwrap()
-        .read(|tx| tx.entries("TFS"))
+        .read(|tx| {
+            let mut all = Vec::new();
+            tx.for_each_entry("TFS", None, |s| {
+                all.push(s.clone());
+                Ok(())
+            })?;
+            Ok(all)
+        })
         .unwrap();
     let (tip, before) = entries.split_last().unwrap();
     let mut e = tip.entry.clone();

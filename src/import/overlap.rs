@@ -2,7 +2,6 @@
 //! the file is to replace the earlier export, becomes a correction of the entry it replaces.
 
 use super::meter_day::MeterDay;
-use crate::ledger::{Entry, SealedEntry};
 use chrono::NaiveDate;
 use std::collections::HashMap;
 
@@ -86,39 +85,6 @@ impl std::fmt::Display for HandCorrection {
             self.meter, self.day, self.seq, self.imported_seq, self.file
         )
     }
-}
-
-/// The effective entries that correct an imported meter-day by hand (without a file).
-pub fn hand_corrections<'a>(
-    entries: &'a [SealedEntry],
-    effective: impl Iterator<Item = &'a Entry>,
-) -> Vec<HandCorrection> {
-    let by_seq = |seq: u64| {
-        usize::try_from(seq)
-            .ok()
-            .and_then(|i| entries.get(i))
-            .map(|s| &s.entry)
-    };
-    effective
-        .filter(|e| e.evidence.is_none() && e.corrects.is_some())
-        .filter_map(|e| {
-            // Walk the line back to the first entry that came from a file.
-            let mut at = e.corrects.and_then(by_seq);
-            while let Some(t) = at {
-                if let Some(ev) = &t.evidence {
-                    return Some(HandCorrection {
-                        seq: e.seq,
-                        meter: e.meter.clone().unwrap_or_default(),
-                        day: e.period.from,
-                        imported_seq: t.seq,
-                        file: ev.file_name.clone(),
-                    });
-                }
-                at = t.corrects.and_then(by_seq);
-            }
-            None
-        })
-        .collect()
 }
 
 #[cfg(test)]

@@ -240,16 +240,6 @@ impl Tx<'_> {
         self.link(Record::Site, &s.project, &s.code, &row.row_hash)
     }
 
-    /// Every entry of a project in seq order, exactly as stored, each checked as it is read.
-    pub fn entries(&mut self, project: &str) -> Result<Vec<SealedEntry>> {
-        let mut all = Vec::new();
-        self.for_each_entry(project, None, |s| {
-            all.push(s.clone());
-            Ok(())
-        })?;
-        Ok(all)
-    }
-
     /// A project's seal entries in seq order: one per sealed period, so few, found through the
     /// partial index `entries_seals` (its condition written out as a literal, as the planner
     /// needs to match it; a bound 'seal' would scan the project's chain).
