@@ -86,6 +86,52 @@ pub struct Inputs<'a> {
     pub factor_source: Option<&'a str>,
 }
 
+impl Inputs<'_> {
+    /// The stage the inputs compute, if any: the first whose own input is given.
+    pub fn computed(&self) -> Option<Stage> {
+        self.stages().into_iter().next()
+    }
+
+    /// Every stage whose own input is given, in stage order.
+    fn stages(&self) -> Vec<Stage> {
+        [
+            (self.quarrying.is_some(), Stage::Quarrying),
+            (self.grinding.is_some(), Stage::Grinding),
+            (self.transport.is_some(), Stage::Transport),
+            (self.spreading_fuel.is_some(), Stage::Spreading),
+        ]
+        .into_iter()
+        .filter_map(|(given, stage)| given.then_some(stage))
+        .collect()
+    }
+
+    /// The one stage of a record: the one the inputs compute, which a `named` stage must agree
+    /// with, or the stage named when none is computed.
+    pub fn stage(&self, named: Option<Stage>) -> std::result::Result<Stage, StageError> {
+        if self.stages().len() > 1 {
+            return Err(StageError::Several);
+        }
+        match (named, self.computed()) {
+            (Some(named), Some(computed)) if named != computed => {
+                Err(StageError::Mismatch { named, computed })
+            }
+            (_, Some(stage)) | (Some(stage), None) => Ok(stage),
+            (None, None) => Err(StageError::Unnamed),
+        }
+    }
+}
+
+/// Why a record names no one life-cycle stage.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum StageError {
+    /// More than one stage's inputs are given.
+    Several,
+    /// The stage named is not the one the inputs compute.
+    Mismatch { named: Stage, computed: Stage },
+    /// Neither a stage nor a stage's inputs.
+    Unnamed,
+}
+
 /// Why a stage's emission cannot be computed from what was given.
 #[derive(Debug, Clone, PartialEq)]
 pub enum InventoryError {
@@ -311,6 +357,32 @@ mod tests {
         let mut reading = Reading::default();
         let area = || Ok::<_, InventoryError>(Area::parse("10 ha").expect("area"));
         stage_emission(stage, i, area, &mut reading).map(|e| (e, reading))
+    }
+
+    #[test]
+    fn one_stage_per_record() {
+        let quarry = Inputs {
+            quarrying: Some("2.5 kg/t"),
+            ..Inputs::default()
+        };
+        assert_eq!(quarry.stage(None), Ok(Stage::Quarrying));
+        assert_eq!(quarry.stage(Some(Stage::Quarrying)), Ok(Stage::Quarrying));
+        assert_eq!(
+            quarry.stage(Some(Stage::Transport)),
+            Err(StageError::Mismatch {
+                named: Stage::Transport,
+                computed: Stage::Quarrying
+            })
+        );
+        let both = Inputs {
+            transport: Some(TransportMode::Rail),
+            ..quarry
+        };
+        assert_eq!(both.stage(Some(Stage::Transport)), Err(StageError::Several));
+        let none = Inputs::default();
+        assert_eq!(none.computed(), None);
+        assert_eq!(none.stage(Some(Stage::Grinding)), Ok(Stage::Grinding));
+        assert_eq!(none.stage(None), Err(StageError::Unnamed));
     }
 
     #[test]

@@ -7,7 +7,7 @@ use super::record::{
     Category, EmissionArgs, RecordArgs, commit, commit_with, draft, metered, period, required,
 };
 use super::rock_inputs as ri;
-use crate::accounting::inventory::{Given, Inputs, InventoryError, stage_emission};
+use crate::accounting::inventory::{Given, Inputs, InventoryError, StageError, stage_emission};
 pub use crate::accounting::inventory::{GrindingMethod, Stage, TransportMode};
 use crate::error::{Error, Result};
 use crate::ledger::{EntryKind, Reading, SiteKind};
@@ -26,142 +26,64 @@ fn category(stage: Stage) -> Category {
 
 /// The life-cycle options of `record emission`.
 #[derive(Debug, Args, Default)]
+#[command(next_help_heading = "Life-cycle inventory")]
 pub struct InventoryArgs {
     /// The life-cycle stage of a given --mass (computed stages set it themselves)
-    #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
+    #[arg(long, value_enum)]
     pub stage: Option<Stage>,
     /// Quarrying at the quarry's factor, e.g. "2.5 kg/t" (with --rock-mass)
-    #[arg(
-        long,
-        value_name = "FACTOR",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "FACTOR", allow_hyphen_values = true)]
     pub quarrying: Option<String>,
     /// Grinding energy (with --rock-mass, --grid-factor and --d80; Bond also --work-index, --feed-f80)
-    #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
+    #[arg(long, value_enum)]
     pub grinding: Option<GrindingMethod>,
     /// Product size that 80 % passes, e.g. "50 um"
-    #[arg(
-        long,
-        value_name = "SIZE",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "SIZE", allow_hyphen_values = true)]
     pub d80: Option<String>,
     /// Feed size that 80 % passes, for Bond's law, e.g. "12 mm"
-    #[arg(
-        long,
-        value_name = "SIZE",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "SIZE", allow_hyphen_values = true)]
     pub feed_f80: Option<String>,
     /// Bond work index per metric tonne, e.g. "18 kWh/t"
-    #[arg(
-        long,
-        value_name = "ENERGY",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "ENERGY", allow_hyphen_values = true)]
     pub work_index: Option<String>,
     /// Rock quarried or ground, e.g. "1200 t"
-    #[arg(
-        long,
-        value_name = "MASS",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "MASS", allow_hyphen_values = true)]
     pub rock_mass: Option<String>,
     /// CO2 of the electricity used, e.g. "0.35 kg/kWh" (kg/kWh, g/kWh, kg/MWh, kg/GJ)
-    #[arg(
-        long,
-        value_name = "FACTOR",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "FACTOR", allow_hyphen_values = true)]
     pub grid_factor: Option<String>,
     /// Transport by this mode (with --distance and --payload)
-    #[arg(long, value_enum, help_heading = "Life-cycle inventory")]
+    #[arg(long, value_enum)]
     pub transport: Option<TransportMode>,
     /// Distance carried, e.g. "85 km"
-    #[arg(
-        long,
-        value_name = "DISTANCE",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "DISTANCE", allow_hyphen_values = true)]
     pub distance: Option<String>,
     /// Mass carried, e.g. "1200 t"
-    #[arg(
-        long,
-        value_name = "MASS",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "MASS", allow_hyphen_values = true)]
     pub payload: Option<String>,
     /// A transport factor instead of the US EPA 2018 one, e.g. "0.095 kg/tkm" (name it with --factor-source)
-    #[arg(
-        long,
-        value_name = "FACTOR",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "FACTOR", allow_hyphen_values = true)]
     pub transport_factor: Option<String>,
     /// Spreading: fuel burnt per hectare, e.g. "4 L/ha" (with --fuel-factor)
-    #[arg(
-        long,
-        value_name = "RATE",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "RATE", allow_hyphen_values = true)]
     pub spreading_fuel: Option<String>,
     /// CO2 per litre of the fuel, e.g. "2.68 kg/L"
-    #[arg(
-        long,
-        value_name = "FACTOR",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "FACTOR", allow_hyphen_values = true)]
     pub fuel_factor: Option<String>,
     /// Area spread [default: the field's registered area]
-    #[arg(
-        long,
-        value_name = "AREA",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "AREA", allow_hyphen_values = true)]
     pub area: Option<String>,
     /// Where the factors given come from, recorded beside them
-    #[arg(
-        long,
-        value_name = "TEXT",
-        help_heading = "Life-cycle inventory",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "TEXT", allow_hyphen_values = true)]
     pub factor_source: Option<String>,
 }
 
 impl InventoryArgs {
     /// Whether the record is a life-cycle one (computed or a given mass with its stage).
     pub fn is_given(&self) -> bool {
-        self.stage.is_some() || self.computed().is_some()
+        self.stage.is_some() || self.inputs().computed().is_some()
     }
 
-    /// The stage an option computes, if any.
-    fn computed(&self) -> Option<Stage> {
-        [
-            (self.quarrying.is_some(), Stage::Quarrying),
-            (self.grinding.is_some(), Stage::Grinding),
-            (self.transport.is_some(), Stage::Transport),
-            (self.spreading_fuel.is_some(), Stage::Spreading),
-        ]
-        .into_iter()
-        .find_map(|(given, stage)| given.then_some(stage))
-    }
-}
-
-impl InventoryArgs {
     /// The inputs as the stages read them.
     fn inputs(&self) -> Inputs<'_> {
         Inputs {
@@ -226,42 +148,31 @@ impl From<InventoryError> for Error {
 pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
     let i = &a.inventory;
     let b = &a.base;
-    let stages: Vec<Stage> = [
-        i.quarrying.as_ref().map(|_| Stage::Quarrying),
-        i.grinding.map(|_| Stage::Grinding),
-        i.transport.map(|_| Stage::Transport),
-        i.spreading_fuel.as_ref().map(|_| Stage::Spreading),
-    ]
-    .into_iter()
-    .flatten()
-    .collect();
-    if stages.len() > 1 {
-        return Err(Error::options(
-            "--stage",
-            "give one life-cycle stage per record (--quarrying, --grinding, --transport or --spreading-fuel)",
-        ));
-    }
-    if let Some(t) = &i.factor_source {
+    let inputs = i.inputs();
+    let chosen = inputs.stage(i.stage);
+    if chosen != Err(StageError::Several)
+        && let Some(t) = &i.factor_source
+    {
         super::inputs::text("--factor-source", t)?;
     }
-    if let (Some(s), Some(c)) = (i.stage, i.computed())
-        && s != c
-    {
-        return Err(Error::field(
+    let stage = chosen.map_err(|e| match e {
+        StageError::Several => Error::options(
             "--stage",
-            s.name(),
-            format!("the options given compute {} emissions", c.name()),
-        ));
-    }
-    let Some(stage) = i.computed().or(i.stage) else {
-        return Err(Error::options(
+            "give one life-cycle stage per record (--quarrying, --grinding, --transport or --spreading-fuel)",
+        ),
+        StageError::Mismatch { named, computed } => Error::field(
+            "--stage",
+            named.name(),
+            format!("the options given compute {} emissions", computed.name()),
+        ),
+        StageError::Unnamed => Error::options(
             "--stage",
             "a life-cycle emission needs --stage or a stage's inputs",
-        ));
-    };
+        ),
+    })?;
     let category = a.category.unwrap_or(category(stage));
     let category = format!("{category:?}").to_lowercase();
-    if i.computed().is_none() {
+    if inputs.computed().is_none() {
         let extra = [("category", category), ("stage", stage.name().into())];
         let e = metered(EntryKind::Emission, b, &extra, ctx)?;
         return commit(ctx, e, b.reading.key.clone(), false);
@@ -281,7 +192,7 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
         let mut reading = Reading::default();
         reading.push("stage", stage.name());
         let area = || spread_area(tx, b, i);
-        let computed = stage_emission(stage, &i.inputs(), area, &mut reading)?;
+        let computed = stage_emission(stage, &inputs, area, &mut reading)?;
         reading.push("how", computed.how);
         reading.push("category", category.clone());
         draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)
