@@ -12,7 +12,7 @@ use crate::ledger::{Reading, bounds};
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::measure::{DENSITY, parse_depth, parse_measure};
 use crate::quantity::share::{pairs, share};
-use crate::quantity::{Decimal, MassReading};
+use crate::quantity::{Decimal, Mass, MassReading};
 
 /// A value of a rock record.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -236,6 +236,22 @@ pub fn soil_sample(t: &SoilTexts<'_>) -> Result<Reading> {
     Ok(reading)
 }
 
+/// A spreading's reading: the feedstock, the rock's mass as given and, on a field of
+/// `area_m2`, the application rate.
+pub fn application(
+    feedstock: &str,
+    (rock, rock_g): (&MassReading, Mass),
+    area_m2: Option<f64>,
+) -> Reading {
+    let mut reading = Reading::default();
+    reading.push("feedstock", feedstock);
+    reading.push("mass", rock.to_string());
+    if let Some(m2) = area_m2 {
+        reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
+    }
+    reading
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -267,6 +283,15 @@ mod tests {
                 ..
             })
         ));
+    }
+
+    #[test]
+    fn a_spreading_on_a_field_records_its_rate() {
+        let rock = MassReading::parse("625 t").unwrap();
+        let g = rock.to_mass().unwrap();
+        let r = application("EVB-1", (&rock, g), Some(125_000.0));
+        assert_eq!(r.0.last(), Some(&("rate".into(), "50.00 t/ha".into())));
+        assert_eq!(application("EVB-1", (&rock, g), None).0.len(), 2);
     }
 
     #[test]

@@ -8,18 +8,16 @@ use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::Carbonation;
 use crate::accounting::rock_record::{
-    CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
-    carbonation as carbonation_reading, soil_sample as soil_sample_reading,
-    tracer_sample as tracer_sample_reading,
+    self as rock, CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
 };
-use crate::accounting::tracer::Mineralized;
 use crate::error::{Error, Result};
-use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site};
+use crate::ledger::baseline::{baseline_before_spreadings, spreading_before_baselines};
+use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site, SiteKind};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
 use crate::report::Report;
+use crate::report::tables::rock_findings::{mineralized, no_uptake};
 use crate::store::Tx;
-use chrono::NaiveDate;
 use clap::Args;
 
 /// Options every rock-route record shares: its key, a note, and what it replaces.
@@ -147,74 +145,87 @@ pub struct SoilSampleArgs {
     pub entry: EntryOptions,
 }
 
-/// Checks what the ledger holds for a record of `kind`: the project's method, the site, and
-/// the entry a correction replaces. Returns the project's site.
-fn context(
-    tx: &mut Tx<'_>,
-    project: &str,
-    site: &str,
+/// A rock-route record: its kind, the method its project must have, where, when and how much.
+struct Record<'a> {
     kind: EntryKind,
     method: Method,
-    corrects: Option<u64>,
-) -> Result<Site> {
-    {
-        let p = known_project(tx, project)?;
-        if p.method != method {
+    project: &'a str,
+    site: &'a str,
+    mass: Mass,
+    period: Period,
+    options: &'a EntryOptions,
+}
+
+/// Appends the record in one write transaction once the ledger's context is checked; `more`
+/// reads what else the record's rule needs, and may add to the reading.
+fn record(
+    ctx: &Context,
+    r: Record<'_>,
+    reading: &Reading,
+    mut more: impl FnMut(&mut Tx<'_>, &Site, &mut Reading) -> Result<()>,
+) -> Result<Report> {
+    commit_with(ctx, r.options.key.clone(), false, |tx| {
+        let site = context(tx, &r)?;
+        let mut reading = reading.clone();
+        more(tx, &site, &mut reading)?;
+        entry(ctx, &r, reading)
+    })
+}
+
+/// Checks what the ledger holds for the record: the project's method, the site, and the entry
+/// a correction replaces. Returns the project's site.
+fn context(tx: &mut Tx<'_>, r: &Record<'_>) -> Result<Site> {
+    let (project, kind, method) = (r.project, r.kind, r.method);
+    let p = known_project(tx, project)?;
+    if p.method != method {
+        return Err(Error::field(
+            "project",
+            project,
+            format!(
+                "has method {}; {kind} entries belong to {method} projects",
+                p.method
+            ),
+        ));
+    }
+    if let Some(seq) = r.options.corrects {
+        let t = tx
+            .correction_target(project, seq)?
+            .map_err(|e| Error::field("--corrects", &seq.to_string(), e))?;
+        if t.kind != kind {
             return Err(Error::field(
-                "project",
-                project,
+                "--corrects",
+                &seq.to_string(),
                 format!(
-                    "has method {}; {kind} entries belong to {method} projects",
-                    p.method
+                    "is a {} entry; --corrects names an earlier {kind} entry",
+                    t.kind
                 ),
             ));
         }
-        if let Some(seq) = corrects {
-            let t = tx
-                .correction_target(project, seq)?
-                .map_err(|e| Error::field("--corrects", &seq.to_string(), e))?;
-            if t.kind != kind {
-                return Err(Error::field(
-                    "--corrects",
-                    &seq.to_string(),
-                    format!(
-                        "is a {} entry; --corrects names an earlier {kind} entry",
-                        t.kind
-                    ),
-                ));
-            }
-        }
-        tx.site(project, site)?.ok_or_else(|| {
-            Error::field(
-                "--site",
-                site,
-                format!("is not a site of project {project}"),
-            )
-        })
     }
+    tx.site(project, r.site)?.ok_or_else(|| {
+        Error::field(
+            "--site",
+            r.site,
+            format!("is not a site of project {project}"),
+        )
+    })
 }
 
 /// The entry, drafted like any record, with its correction link.
-fn entry(
-    ctx: &Context,
-    kind: EntryKind,
-    (project, site): (&str, &str),
-    reading: Reading,
-    (mass, period): (Mass, Period),
-    o: &EntryOptions,
-) -> Result<Entry> {
+fn entry(ctx: &Context, r: &Record<'_>, reading: Reading) -> Result<Entry> {
+    let o = r.options;
     let b = RecordArgs {
-        project: project.into(),
-        site: site.into(),
+        project: r.project.into(),
+        site: r.site.into(),
         reading: ReadingArgs {
             key: o.key.clone(),
             note: o.note.clone(),
             ..Default::default()
         },
     };
-    let mut e = draft(kind, &b, reading, mass, period, ctx)?;
-    if let Some(r) = &o.reason {
-        inputs::text("--reason", r)?;
+    let mut e = draft(r.kind, &b, reading, r.mass, r.period, ctx)?;
+    if let Some(reason) = &o.reason {
+        inputs::text("--reason", reason)?;
     }
     e.corrects = o.corrects;
     e.reason = o.reason.clone();
@@ -224,42 +235,25 @@ fn entry(
 /// A tracer campaign's sample at one monitoring well; its mineralized fraction is computed now
 /// to refuse impossible input, and again by every report from the reading.
 pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
-    let kind = EntryKind::TracerSample;
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let (reading, found) = tracer_sample_reading(&TracerTexts {
+    let (reading, found) = rock::tracer_sample(&TracerTexts {
         tracer_ratio: &a.tracer_ratio,
         dic_sample: &a.dic_sample,
         dic_background: &a.dic_background,
         dic_injectate: &a.dic_injectate,
         unit: &a.unit,
     })?;
-    let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
-        context(
-            tx,
-            &a.project,
-            &a.site,
-            kind,
-            Method::BasaltMineralization,
-            a.entry.corrects,
-        )?;
-        entry(
-            ctx,
-            kind,
-            (&a.project, &a.site),
-            reading.clone(),
-            (Mass::ZERO, Period::day(date)),
-            &a.entry,
-        )
-    })?;
-    match found {
-        Mineralized::Fraction { f, .. } => {
-            report.lines.push(format!("mineralized fraction {f:.4}"));
-        }
-        Mineralized::OutOfRange { f, why } => report.warnings.push(format!(
-            "mineralized fraction {f:.4} is outside [0, 1]: {why}; recorded as measured, reported as a finding"
-        )),
-    }
-    Ok(report)
+    let r = Record {
+        kind: EntryKind::TracerSample,
+        method: Method::BasaltMineralization,
+        project: &a.project,
+        site: &a.site,
+        mass: Mass::ZERO,
+        period: Period::day(date),
+        options: &a.entry,
+    };
+    let report = record(ctx, r, &reading, |_, _, _| Ok(()))?;
+    Ok(mineralized(report, &found))
 }
 
 /// The option that gives each value of a rock record.
@@ -292,14 +286,13 @@ impl From<RecordError> for Error {
 
 /// A carbonation batch: the uptake is what the entry stores.
 pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
-    let kind = EntryKind::Carbonation;
     let texts = CarbonationTexts {
         mass: &a.mass,
         co2_before: &a.co2_before,
         co2_after: &a.co2_after,
         uncertainty: a.uncertainty.as_deref(),
     };
-    let (mut reading, result, period) = carbonation_reading(&texts, || {
+    let (mut reading, result, period) = rock::carbonation(&texts, || {
         Period::new(
             inputs::activity_date("--from", &a.from, ctx.now.date_naive())?,
             inputs::activity_date("--to", &a.to, ctx.now.date_naive())?,
@@ -308,43 +301,27 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     })?;
     let (mass, finding) = match result {
         Carbonation::Uptake { co2, .. } => (co2, None),
-        Carbonation::NoUptake { released, .. } => (
-            Mass::ZERO,
-            Some(format!(
-                "no uptake: the solid lost {} t CO2, counted as an emission of this batch; nothing counted as stored",
-                crate::report::render::tonnes_text(released)
-            )),
-        ),
+        Carbonation::NoUptake { released, .. } => (Mass::ZERO, Some(no_uptake(released))),
     };
     if let Some(f) = &finding {
         reading.push("finding", f.clone());
     }
-    let mut report = commit_with(ctx, a.entry.key.clone(), false, |tx| {
-        context(
-            tx,
-            &a.project,
-            &a.site,
-            kind,
-            Method::ExSituMineralization,
-            a.entry.corrects,
-        )?;
-        entry(
-            ctx,
-            kind,
-            (&a.project, &a.site),
-            reading.clone(),
-            (mass, period),
-            &a.entry,
-        )
-    })?;
-    if let Some(f) = finding {
-        report.warnings.push(f);
-    }
+    let r = Record {
+        kind: EntryKind::Carbonation,
+        method: Method::ExSituMineralization,
+        project: &a.project,
+        site: &a.site,
+        mass,
+        period,
+        options: &a.entry,
+    };
+    let mut report = record(ctx, r, &reading, |_, _, _| Ok(()))?;
+    report.warnings.extend(finding);
     Ok(report)
 }
 
 /// A field's area in m², or a refusal naming the field.
-pub fn field_area(site: &Site) -> Result<f64> {
+fn field_area(site: &Site) -> Result<f64> {
     let area = site.area.as_deref().ok_or_else(|| {
         Error::field(
             "--site",
@@ -359,44 +336,31 @@ pub fn field_area(site: &Site) -> Result<f64> {
 
 /// Feedstock spread on a field: no CO2 of its own (0 g); the rock's mass is in the reading.
 pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
-    let kind = EntryKind::Application;
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let (rock, rock_g) = inputs::mass("--mass", &a.mass)?;
-    commit_with(ctx, a.entry.key.clone(), false, |tx| {
-        let site = context(
-            tx,
-            &a.project,
-            &a.site,
-            kind,
-            Method::EnhancedWeathering,
-            a.entry.corrects,
-        )?;
-        let area = if site.kind == crate::ledger::SiteKind::Field {
-            Some(field_area(&site)?)
-        } else {
-            None
+    let rock = inputs::mass("--mass", &a.mass)?;
+    let r = Record {
+        kind: EntryKind::Application,
+        method: Method::EnhancedWeathering,
+        project: &a.project,
+        site: &a.site,
+        mass: Mass::ZERO,
+        period: Period::day(date),
+        options: &a.entry,
+    };
+    record(ctx, r, &Reading::default(), |tx, site, reading| {
+        let area = match site.kind {
+            SiteKind::Field => Some(field_area(site)?),
+            _ => None,
         };
         spreadable(tx, &a, date)?;
-        let mut reading = Reading::default();
-        reading.push("feedstock", a.feedstock.clone());
-        reading.push("mass", rock.to_string());
-        if let Some(m2) = area {
-            reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
-        }
-        entry(
-            ctx,
-            kind,
-            (&a.project, &a.site),
-            reading,
-            (Mass::ZERO, Period::day(date)),
-            &a.entry,
-        )
+        *reading = rock::application(&a.feedstock, (&rock.0, rock.1), area);
+        Ok(())
     })
 }
 
 /// The feedstock is registered and no baseline core of the field is dated on or after the
 /// spreading.
-fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<()> {
+fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: chrono::NaiveDate) -> Result<()> {
     tx.feedstock(&a.project, &a.feedstock)?.ok_or_else(|| {
         Error::field(
             "--feedstock",
@@ -408,73 +372,51 @@ fn spreadable(tx: &mut Tx<'_>, a: &ApplicationArgs, date: NaiveDate) -> Result<(
         )
     })?;
     let cores = tx.effective_at_site(&a.project, EntryKind::SoilSample, &a.site)?;
-    if let Some(b) = cores
-        .iter()
-        .filter(|e| e.reading.flag("baseline"))
-        .find(|e| e.period.from >= date)
-    {
-        return Err(Error::field(
+    spreading_before_baselines(&cores, date).map_err(|b| {
+        Error::field(
             "--date",
             &a.date,
             format!(
                 "field {} has a baseline soil sample of {} (seq {}); a baseline is soil before any feedstock",
-                a.site, b.period.from, b.seq
+                a.site, b.date, b.seq
             ),
-        ));
-    }
-    Ok(())
-}
-
-/// No feedstock was spread on the field on or before a baseline core's date.
-fn before_any_feedstock(tx: &mut Tx<'_>, a: &SoilSampleArgs, date: NaiveDate) -> Result<()> {
-    let spread = tx.effective_at_site(&a.project, EntryKind::Application, &a.site)?;
-    match spread
-        .iter()
-        .filter(|e| e.period.from <= date)
-        .min_by_key(|e| e.period.from)
-    {
-        Some(first) => Err(Error::field(
-            "--baseline",
-            &a.date,
-            format!(
-                "field {} received feedstock on {} (seq {}); a baseline is soil before any feedstock",
-                a.site, first.period.from, first.seq
-            ),
-        )),
-        None => Ok(()),
-    }
+        )
+    })
 }
 
 /// A soil core: its depth, bulk density and elements, checked; a baseline may not follow feedstock.
 pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
-    let kind = EntryKind::SoilSample;
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    let reading = soil_sample_reading(&SoilTexts {
+    let reading = rock::soil_sample(&SoilTexts {
         depth: &a.depth,
         bulk_density: &a.bulk_density,
         unit: &a.unit,
         conc: &a.conc,
         baseline: a.baseline,
     })?;
-    commit_with(ctx, a.entry.key.clone(), false, |tx| {
-        context(
-            tx,
-            &a.project,
-            &a.site,
-            kind,
-            Method::EnhancedWeathering,
-            a.entry.corrects,
-        )?;
-        if a.baseline {
-            before_any_feedstock(tx, &a, date)?;
+    let r = Record {
+        kind: EntryKind::SoilSample,
+        method: Method::EnhancedWeathering,
+        project: &a.project,
+        site: &a.site,
+        mass: Mass::ZERO,
+        period: Period::day(date),
+        options: &a.entry,
+    };
+    record(ctx, r, &reading, |tx, _, _| {
+        if !a.baseline {
+            return Ok(());
         }
-        entry(
-            ctx,
-            kind,
-            (&a.project, &a.site),
-            reading.clone(),
-            (Mass::ZERO, Period::day(date)),
-            &a.entry,
-        )
+        let spread = tx.effective_at_site(&a.project, EntryKind::Application, &a.site)?;
+        baseline_before_spreadings(&spread, date).map_err(|first| {
+            Error::field(
+                "--baseline",
+                &a.date,
+                format!(
+                    "field {} received feedstock on {} (seq {}); a baseline is soil before any feedstock",
+                    a.site, first.date, first.seq
+                ),
+            )
+        })
     })
 }

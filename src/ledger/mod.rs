@@ -3,6 +3,7 @@
 
 pub mod admission;
 pub mod append;
+pub mod baseline;
 pub mod bounds;
 pub mod canonical;
 pub mod chain;

@@ -2,7 +2,11 @@
 //! typed values, and here they are told with the command and option that supplies it.
 
 use crate::accounting::project_view::Unestimated;
+use crate::accounting::tracer::Mineralized;
 use crate::accounting::weathering::campaign::{CampaignError, Finding};
+use crate::quantity::Mass;
+use crate::report::Report;
+use crate::report::render::tonnes_text;
 use std::fmt;
 
 impl fmt::Display for CampaignError {
@@ -52,4 +56,26 @@ impl fmt::Display for Unestimated {
             Unestimated::Campaign { bucket, why } => write!(f, "{bucket}: {why}; counted as exact"),
         }
     }
+}
+
+/// A tracer sample's mineralized fraction as its record tells it: a line when it lies in
+/// [0, 1], else a warning that it is kept as measured and reported as a finding.
+pub fn mineralized(mut report: Report, found: &Mineralized) -> Report {
+    match found {
+        Mineralized::Fraction { f, .. } => {
+            report.lines.push(format!("mineralized fraction {f:.4}"));
+        }
+        Mineralized::OutOfRange { f, why } => report.warnings.push(format!(
+            "mineralized fraction {f:.4} is outside [0, 1]: {why}; recorded as measured, reported as a finding"
+        )),
+    }
+    report
+}
+
+/// The finding a carbonation batch that took up no CO2 keeps in its reading.
+pub fn no_uptake(released: Mass) -> String {
+    format!(
+        "no uptake: the solid lost {} t CO2, counted as an emission of this batch; nothing counted as stored",
+        tonnes_text(released)
+    )
 }
