@@ -134,7 +134,7 @@ impl From<InventoryError> for Error {
                 ),
             ),
             InventoryError::Value { given, text, why } => Error::field(option(given), &text, why),
-            InventoryError::Check(e) => ri::refused(&e, &[]),
+            InventoryError::Check(e) => ri::refused(&e),
             InventoryError::ProductNotFiner { d80, feed_f80 } => Error::field(
                 "--d80",
                 &d80,

@@ -1,14 +1,14 @@
 //! `feedstock add | list`: the rock an enhanced-weathering project spreads, registered once
 //! with its analysis, and what that analysis says (cations per tonne, CO2 potential).
 
-use super::rock_inputs::{self as ri, DENSITY, SIZE};
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::weathering::campaign::Feedstock as Analysed;
-use crate::accounting::weathering::composition::{CompositionError, FeedstockAnalysis, Unit};
+use crate::accounting::weathering::registration::{
+    FeedstockTexts, Given, RegistrationError, registration,
+};
 use crate::error::{Error, Result};
-use crate::ledger::Method;
-use crate::ledger::feedstock::Feedstock;
+use crate::ledger::feedstock::{Feedstock, Refusal, admissible};
 use crate::report::Report;
 use crate::report::tables::feedstock::list_table;
 use clap::{Args, Subcommand};
@@ -54,19 +54,6 @@ pub struct FeedstockAdd {
     pub d80: Option<String>,
 }
 
-/// Denser than any silicate rock spread on fields: a figure above it is a unit slip.
-const MAX_DENSITY_KG_M3: f64 = 5000.0;
-
-fn unit(option: &str, text: &str) -> Result<Unit> {
-    Unit::from_name(text).ok_or_else(|| {
-        Error::field(
-            option,
-            text,
-            "is not a concentration unit (use wt%, mg/kg or mol/kg)",
-        )
-    })
-}
-
 pub fn feedstock(ctx: &Context, c: FeedstockCommand) -> Result<Report> {
     match c {
         FeedstockCommand::Add(a) => add(ctx, a),
@@ -81,74 +68,48 @@ pub fn feedstock(ctx: &Context, c: FeedstockCommand) -> Result<Report> {
     }
 }
 
+impl From<RegistrationError> for Error {
+    fn from(e: RegistrationError) -> Error {
+        let option = match e.given {
+            Given::Oxides => "--oxides",
+            Given::Elements => "--elements",
+            Given::Unit => "--unit",
+            Given::ElementUnit => "--element-unit",
+            Given::Density => "--density",
+            Given::D80 => "--d80",
+        };
+        Error::field(option, &e.text, e.why)
+    }
+}
+
 fn add(ctx: &Context, a: FeedstockAdd) -> Result<Report> {
     inputs::code("feedstock", &a.code)?;
-    let oxide_unit = unit("--unit", &a.unit)?;
-    let element_unit = match &a.element_unit {
-        Some(u) => unit("--element-unit", u)?,
-        None => oxide_unit,
+    let texts = FeedstockTexts {
+        project: &a.project,
+        code: &a.code,
+        oxides: &a.oxides,
+        elements: a.elements.as_deref(),
+        unit: &a.unit,
+        element_unit: a.element_unit.as_deref(),
+        density: &a.density,
+        d80: a.d80.as_deref(),
     };
-    let oxides = ri::pairs("--oxides", &a.oxides)?;
-    let elements = match &a.elements {
-        Some(t) => ri::pairs("--elements", t)?,
-        None => Vec::new(),
-    };
-    let (oxide_text, oxide_values) = (ri::pair_texts(&oxides), ri::pair_numbers(&oxides));
-    let (element_text, element_values) = (ri::pair_texts(&elements), ri::pair_numbers(&elements));
-    FeedstockAnalysis::new(&oxide_values, oxide_unit, &element_values, element_unit).map_err(
-        |e| {
-            let elements = a.elements.as_deref().unwrap_or("");
-            match e {
-                CompositionError::Oxides(_) | CompositionError::NoMobile => {
-                    Error::field("--oxides", &a.oxides, e)
-                }
-                _ => Error::field("--elements", elements, e),
-            }
-        },
-    )?;
-    let density = ri::measure("--density", &a.density, DENSITY, true)?;
-    if density.base > MAX_DENSITY_KG_M3 {
-        return Err(Error::field(
-            "--density",
-            &a.density,
-            "must be at most 5 t/m3, denser than any silicate rock: check the unit",
-        ));
-    }
-    let d80 = a
-        .d80
-        .as_deref()
-        .map(|t| ri::measure("--d80", t, SIZE, true))
-        .transpose()?;
-    let f = Feedstock {
-        project: a.project.clone(),
-        code: a.code.clone(),
-        oxides: oxide_text,
-        oxide_unit: oxide_unit.name().into(),
-        elements: element_text,
-        element_unit: element_unit.name().into(),
-        density: density.to_string(),
-        d80: d80.map(|d| d.to_string()),
-        registered_at: ctx.now,
-    };
+    let f = registration(&texts, ctx.now)?;
     ctx.open()?.write(|tx| {
         let p = known_project(tx, &f.project)?;
-        if p.method != Method::EnhancedWeathering {
-            return Err(Error::field(
+        let held = tx.feedstock(&f.project, &f.code)?;
+        admissible(&p, held.as_ref()).map_err(|e| match e {
+            Refusal::Method(m) => Error::field(
                 "project",
                 &f.project,
-                format!(
-                    "has method {}; feedstocks belong to enhanced-weathering projects",
-                    p.method
-                ),
-            ));
-        }
-        if tx.feedstock(&f.project, &f.code)?.is_some() {
-            return Err(Error::field(
+                format!("has method {m}; feedstocks belong to enhanced-weathering projects"),
+            ),
+            Refusal::Registered => Error::field(
                 "feedstock",
                 &f.code,
                 format!("is already registered in project {}", f.project),
-            ));
-        }
+            ),
+        })?;
         tx.add_feedstock(&f)
     })?;
     Ok(Report::default().line(format!(

@@ -278,7 +278,7 @@ impl From<RecordError> for Error {
     fn from(e: RecordError) -> Error {
         match e {
             RecordError::Value { given, text, why } => Error::field(option(given), &text, why),
-            RecordError::Check(e) => ri::refused(&e, &[]),
+            RecordError::Check(e) => ri::refused(&e),
             RecordError::Unreadable(why) => Error::internal(why),
         }
     }

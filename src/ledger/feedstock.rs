@@ -1,6 +1,7 @@
 //! Feedstocks: the crushed rock a weathering project spreads, registered once with the analysis
 //! every later figure is computed from.
 
+use super::project::{Method, Project};
 use chrono::{DateTime, Utc};
 
 /// A feedstock as registered: every number kept as the text given (normalised to its exact
@@ -24,11 +25,64 @@ pub struct Feedstock {
     pub registered_at: DateTime<Utc>,
 }
 
+/// Why a feedstock may not be registered.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Refusal {
+    /// Only enhanced-weathering projects spread feedstock; the project has this method.
+    Method(Method),
+    /// The project already holds a feedstock of the code.
+    Registered,
+}
+
+/// A feedstock may join `project` when it spreads rock and does not hold the code already
+/// (`held` is what it holds under the code).
+pub fn admissible(project: &Project, held: Option<&Feedstock>) -> Result<(), Refusal> {
+    if project.method != Method::EnhancedWeathering {
+        return Err(Refusal::Method(project.method));
+    }
+    match held {
+        Some(_) => Err(Refusal::Registered),
+        None => Ok(()),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::ledger::canonical::encode_feedstock;
     use crate::ledger::hash::leaf_hash;
+
+    #[test]
+    fn only_a_weathering_project_takes_a_feedstock_once() {
+        let mut p = Project {
+            code: "EVW".into(),
+            name: "Ellery Vale Weathering".into(),
+            method: Method::EnhancedWeathering,
+            operator: "Northdeep Storage Cooperative".into(),
+            permit_ref: None,
+            permit_capacity: None,
+            permit_annual: None,
+            registered_at: DateTime::UNIX_EPOCH,
+        };
+        let held = Feedstock {
+            project: "EVW".into(),
+            code: "EVB-1".into(),
+            oxides: vec![],
+            oxide_unit: "wt%".into(),
+            elements: vec![],
+            element_unit: "wt%".into(),
+            density: "2.9 t/m3".into(),
+            d80: None,
+            registered_at: DateTime::UNIX_EPOCH,
+        };
+        assert_eq!(admissible(&p, None), Ok(()));
+        assert_eq!(admissible(&p, Some(&held)), Err(Refusal::Registered));
+        p.method = Method::SalineAquifer;
+        assert_eq!(
+            admissible(&p, None),
+            Err(Refusal::Method(Method::SalineAquifer))
+        );
+    }
 
     /// Pins the feedstock encoding of docs/ledger-format.md, byte by byte; the row hash was
     /// computed from the same bytes with python3's hashlib.

@@ -127,3 +127,25 @@ pub fn parse_depth(text: &str) -> Result<(String, Depth), String> {
     };
     Ok((format!("{top}-{bottom} {unit}"), depth))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn measures_keep_their_unit_and_refuse_a_bare_number() {
+        let d = parse_measure("2.9 t/m3", DENSITY, true).unwrap();
+        assert_eq!((d.to_string(), d.base), ("2.9 t/m3".into(), 2900.0));
+        assert_eq!(
+            parse_measure("90µm", SIZE, true).unwrap().to_string(),
+            "90 um"
+        );
+        assert_eq!(
+            parse_measure("10 mi", DISTANCE, true).unwrap().base,
+            16.09344
+        );
+        assert!(parse_measure("2.9", DENSITY, true).is_err());
+        assert!(parse_measure("0 t/m3", DENSITY, true).is_err());
+        assert!(parse_measure("0 kg/kWh", GRID, false).is_ok());
+    }
+}

@@ -43,6 +43,8 @@ mod tests {
         assert_eq!(share(" 12.5% ").unwrap().to_string(), "0.125");
         assert_eq!(share("x%").unwrap_err().0, "x");
         assert_eq!(share("1.5").unwrap_err().0, "1.5");
+        assert!(share("101%").is_err());
+        assert!(share("-0.1").is_err());
         let p = pairs("Ca=0.10, Mg=1e-2").unwrap();
         assert_eq!(p[1].1.to_string(), "0.01");
         assert!(pairs("Ca:0.1").is_err());

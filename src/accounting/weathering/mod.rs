@@ -10,6 +10,7 @@
 pub mod campaign;
 pub mod choice;
 pub mod composition;
+pub mod registration;
 pub mod removal;
 pub mod tau;
 pub mod three_end_member;
