@@ -61,6 +61,17 @@ pub enum Redox {
     Oxidizing,
 }
 
+impl Redox {
+    /// Reducing when Fe²⁺ and Mn²⁺ are to be counted, else oxidizing.
+    pub fn counting_iron(reducing: bool) -> Redox {
+        if reducing {
+            Redox::Reducing
+        } else {
+            Redox::Oxidizing
+        }
+    }
+}
+
 /// A cation that can balance carbonate or bicarbonate.
 struct Reactive {
     symbol: &'static str,

@@ -10,6 +10,7 @@ pub mod elements;
 pub mod formula;
 pub mod gas_mix;
 pub mod mineral;
+pub mod oxide_list;
 pub mod oxides;
 
 use elements::weight;

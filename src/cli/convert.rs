@@ -47,11 +47,7 @@ pub fn convert(a: ConvertArgs) -> Result<Report> {
             RouteArg::Carbonate => Route::Carbonate,
             RouteArg::Bicarbonate => Route::Bicarbonate,
         },
-        redox: if a.reducing {
-            Redox::Reducing
-        } else {
-            Redox::Oxidizing
-        },
+        redox: Redox::counting_iron(a.reducing),
     };
     let step = conversion(&a.quantity, &species, &a.to, &o).map_err(|e| match e {
         ConvertError::Value { given, text, why } => Error::field(option(given), &text, why),

@@ -2,6 +2,7 @@
 
 use crate::chem::formula::Formula;
 use crate::chem::mineral::{Redox, Route, uptake};
+use crate::chem::oxide_list::oxide_list;
 use crate::chem::oxides::{OxideComposition, RenforthParameters, renforth, steinour};
 use crate::error::{Error, Result};
 use crate::report::Report;
@@ -45,22 +46,8 @@ pub fn potential(a: PotentialArgs) -> Result<Report> {
     }
 }
 
-fn parse_oxides(text: &str) -> Result<Vec<(String, f64)>> {
-    text.split(',')
-        .map(|part| {
-            let (name, value) = part
-                .split_once('=')
-                .ok_or_else(|| Error::field("--oxides", part, "write NAME=wt%, e.g. CaO=10"))?;
-            let v = crate::quantity::Decimal::parse(value.trim())
-                .map_err(|e| Error::field("--oxides", part, e))?
-                .to_f64();
-            Ok((name.trim().to_string(), v))
-        })
-        .collect()
-}
-
 fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
-    let parts = parse_oxides(text)?;
+    let parts = oxide_list(text).map_err(|(part, why)| Error::field("--oxides", &part, why))?;
     let refs: Vec<(&str, f64)> = parts.iter().map(|(n, v)| (n.as_str(), *v)).collect();
     let rock = OxideComposition::new(&refs).map_err(|e| Error::field("--oxides", text, e))?;
     let eta = a.eta.unwrap_or(match a.route {
@@ -78,11 +65,7 @@ fn oxides(text: &str, a: &PotentialArgs) -> Result<Report> {
 
 fn mineral(text: &str, a: &PotentialArgs) -> Result<Report> {
     let f = Formula::parse(text).map_err(|e| Error::field("--mineral", text, e))?;
-    let redox = if a.reducing {
-        Redox::Reducing
-    } else {
-        Redox::Oxidizing
-    };
+    let redox = Redox::counting_iron(a.reducing);
     let carb = uptake(&f, Route::Carbonate, redox);
     let bicarb = uptake(&f, Route::Bicarbonate, redox);
     Ok(Report::default().table(mineral_table(text, &carb, &bicarb, a.reducing)))

@@ -8,13 +8,13 @@ use super::rock_inputs as ri;
 use crate::accounting::project_view::ViewError;
 use crate::accounting::weathering::campaign::{CampaignError, DissolutionMethod, Settings};
 use crate::accounting::weathering::choice::{self, Given};
-use crate::accounting::weathering::removal::{Deduction, Deductions};
+use crate::accounting::weathering::removal::Deduction;
 use crate::error::{Error, Result};
 use crate::ledger::{Method, SiteKind};
 use crate::quantity::Decimal;
 use crate::report::Report;
 pub use crate::report::tables::weathering::balance;
-use crate::report::tables::weathering::campaign_table;
+use crate::report::tables::weathering::{campaign_table, what_if_note};
 use clap::Args;
 
 /// The four deduction parameters of net removal, as `weathering` (a what-if) and `project set`
@@ -85,16 +85,12 @@ impl DeductionValues {
 
 /// The deduction parameters of a what-if; each left out keeps the project's setting.
 #[derive(Debug, Args, Default)]
+#[command(next_help_heading = "Deductions")]
 pub struct DeductionArgs {
     #[command(flatten)]
     pub values: DeductionValues,
     /// Where the values given come from (a monitoring plan, a measurement), shown beside them
-    #[arg(
-        long,
-        value_name = "TEXT",
-        help_heading = "Deductions",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "TEXT", allow_hyphen_values = true)]
     pub deduction_source: Option<String>,
 }
 
@@ -138,20 +134,17 @@ fn what_if(a: &DeductionArgs) -> Result<Vec<(Deduction, f64, String)>> {
     if let Some(s) = &a.deduction_source {
         super::inputs::text("--deduction-source", s)?;
     }
-    a.values
-        .given()?
-        .into_iter()
+    let given = a.values.given()?.into_iter();
+    Ok(given
         .map(|(deduction, option, text, v)| {
+            let given = format!("what-if given as {option} {text}");
             let source = match &a.deduction_source {
-                Some(s) => format!("{s}; what-if given as {option} {text}"),
-                None => format!("what-if given as {option} {text}"),
+                Some(s) => format!("{s}; {given}"),
+                None => given,
             };
-            Deductions::default()
-                .set(deduction, v.to_f64(), "")
-                .map_err(|e| Error::field(option, text, e))?;
-            Ok((deduction, v.to_f64(), source))
+            (deduction, v.to_f64(), source)
         })
-        .collect()
+        .collect())
 }
 
 /// A campaign error told as a refusal of the option that chose what is missing.
@@ -194,10 +187,7 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
     let emissions = figures.emissions_in_scope(a.site.as_deref());
     let mut table = campaign_table(figures.project(), &lines, &s, emissions, &used);
     if !given.is_empty() {
-        table.note(format!(
-            "What-if: the deduction parameters given here replace the project's settings in this table only; balance, totals and claims use the settings (`sinkbook project set {} --strong-acid … --source …`).",
-            a.project
-        ));
+        table.note(what_if_note(&a.project));
     }
     Ok(Report::default().table(table))
 }

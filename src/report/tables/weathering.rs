@@ -218,3 +218,11 @@ pub fn balance(figures: &ProjectFigures, grouping: Grouping) -> Result<Report> {
     }
     Ok(Report::default().table(t))
 }
+
+/// The note of a `weathering` what-if: the parameters given replace the project's settings in
+/// its table only.
+pub fn what_if_note(project: &str) -> String {
+    format!(
+        "What-if: the deduction parameters given here replace the project's settings in this table only; balance, totals and claims use the settings (`sinkbook project set {project} --strong-acid … --source …`)."
+    )
+}
