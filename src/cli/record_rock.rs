@@ -12,7 +12,8 @@ use crate::accounting::rock_record::{
 };
 use crate::error::{Error, Result};
 use crate::ledger::baseline::{baseline_before_spreadings, spreading_before_baselines};
-use crate::ledger::{Entry, EntryKind, Method, Period, Reading, Site, SiteKind};
+use crate::ledger::route_record::{self, ContextError};
+use crate::ledger::{Entry, EntryKind, Period, Reading, Site, SiteKind};
 use crate::quantity::Mass;
 use crate::quantity::area::Area;
 use crate::report::Report;
@@ -145,10 +146,9 @@ pub struct SoilSampleArgs {
     pub entry: EntryOptions,
 }
 
-/// A rock-route record: its kind, the method its project must have, where, when and how much.
+/// A rock-route record: its kind, where, when and how much.
 struct Record<'a> {
     kind: EntryKind,
-    method: Method,
     project: &'a str,
     site: &'a str,
     mass: Mass,
@@ -172,42 +172,38 @@ fn record(
     })
 }
 
-/// Checks what the ledger holds for the record: the project's method, the site, and the entry
-/// a correction replaces. Returns the project's site.
+/// Checks what the ledger holds for the record: the project's method, the entry a correction
+/// replaces, and the site. Returns the project's site.
 fn context(tx: &mut Tx<'_>, r: &Record<'_>) -> Result<Site> {
-    let (project, kind, method) = (r.project, r.kind, r.method);
-    let p = known_project(tx, project)?;
-    if p.method != method {
-        return Err(Error::field(
+    let p = known_project(tx, r.project)?;
+    let target = match r.options.corrects {
+        Some(seq) => Some((seq, tx.correction_target(r.project, seq)?)),
+        None => None,
+    };
+    let site = tx.site(r.project, r.site)?;
+    route_record::context(&p, r.kind, target, site).map_err(|e| match e {
+        ContextError::Method { has, wants } => Error::field(
             "project",
-            project,
+            r.project,
             format!(
-                "has method {}; {kind} entries belong to {method} projects",
-                p.method
+                "has method {has}; {} entries belong to {wants} projects",
+                r.kind
             ),
-        ));
-    }
-    if let Some(seq) = r.options.corrects {
-        let t = tx
-            .correction_target(project, seq)?
-            .map_err(|e| Error::field("--corrects", &seq.to_string(), e))?;
-        if t.kind != kind {
-            return Err(Error::field(
-                "--corrects",
-                &seq.to_string(),
-                format!(
-                    "is a {} entry; --corrects names an earlier {kind} entry",
-                    t.kind
-                ),
-            ));
-        }
-    }
-    tx.site(project, r.site)?.ok_or_else(|| {
-        Error::field(
+        ),
+        ContextError::Target { seq, why } => Error::field("--corrects", &seq.to_string(), why),
+        ContextError::TargetKind { seq, is } => Error::field(
+            "--corrects",
+            &seq.to_string(),
+            format!(
+                "is a {is} entry; --corrects names an earlier {} entry",
+                r.kind
+            ),
+        ),
+        ContextError::NoSite => Error::field(
             "--site",
             r.site,
-            format!("is not a site of project {project}"),
-        )
+            format!("is not a site of project {}", r.project),
+        ),
     })
 }
 
@@ -245,7 +241,6 @@ pub fn tracer_sample(ctx: &Context, a: TracerSampleArgs) -> Result<Report> {
     })?;
     let r = Record {
         kind: EntryKind::TracerSample,
-        method: Method::BasaltMineralization,
         project: &a.project,
         site: &a.site,
         mass: Mass::ZERO,
@@ -308,7 +303,6 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     }
     let r = Record {
         kind: EntryKind::Carbonation,
-        method: Method::ExSituMineralization,
         project: &a.project,
         site: &a.site,
         mass,
@@ -340,7 +334,6 @@ pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
     let rock = inputs::mass("--mass", &a.mass)?;
     let r = Record {
         kind: EntryKind::Application,
-        method: Method::EnhancedWeathering,
         project: &a.project,
         site: &a.site,
         mass: Mass::ZERO,
@@ -396,7 +389,6 @@ pub fn soil_sample(ctx: &Context, a: SoilSampleArgs) -> Result<Report> {
     })?;
     let r = Record {
         kind: EntryKind::SoilSample,
-        method: Method::EnhancedWeathering,
         project: &a.project,
         site: &a.site,
         mass: Mass::ZERO,

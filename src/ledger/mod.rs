@@ -21,6 +21,7 @@ pub mod proof;
 pub mod reading_fields;
 pub mod reconciliation;
 pub mod reconciliation_states;
+pub mod route_record;
 pub mod seal;
 pub mod seal_check;
 pub mod setting;
