@@ -9,12 +9,12 @@ use crate::accounting::lifecycle::{
     grinding_emission, quarrying_emission, spreading_emission, transport_emission,
 };
 use crate::ledger::{Reading, bounds};
-use crate::quantity::MassReading;
 use crate::quantity::area::Area;
 use crate::quantity::measure::{
     DISTANCE, FUEL_FACTOR, FUEL_RATE, GRID, Measure, PER_TONNE, PER_TONNE_KM, SIZE, Units,
     WORK_INDEX, parse_measure,
 };
+use crate::quantity::{Mass, MassReading};
 
 /// A life-cycle stage.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
@@ -171,6 +171,22 @@ pub fn stage_emission<E: From<InventoryError>>(
             spreading(i, fuel, k, area()?, reading)?
         }
     })
+}
+
+/// A computed stage's reading — the stage, its inputs and working, the record's `category` —
+/// and the CO2 emitted.
+pub fn stage_reading<E: From<InventoryError>>(
+    stage: Stage,
+    i: &Inputs<'_>,
+    area: impl FnOnce() -> std::result::Result<Area, E>,
+    category: &str,
+) -> std::result::Result<(Reading, Mass), E> {
+    let mut reading = Reading::default();
+    reading.push("stage", stage.name());
+    let computed = stage_emission(stage, i, area, &mut reading)?;
+    reading.push("how", computed.how);
+    reading.push("category", category);
+    Ok((reading, computed.mass))
 }
 
 fn needed(v: Option<&str>, given: Given, stage: Stage) -> Result<&str> {
@@ -357,6 +373,26 @@ mod tests {
         let mut reading = Reading::default();
         let area = || Ok::<_, InventoryError>(Area::parse("10 ha").expect("area"));
         stage_emission(stage, i, area, &mut reading).map(|e| (e, reading))
+    }
+
+    #[test]
+    fn a_stage_reading_names_its_stage_first_and_its_category_last() {
+        let quarry = Inputs {
+            quarrying: Some("2.5 kg/t"),
+            rock_mass: Some("1200 t"),
+            ..Inputs::default()
+        };
+        let area = || Ok::<_, InventoryError>(Area::parse("10 ha").expect("area"));
+        let (reading, mass) = stage_reading(Stage::Quarrying, &quarry, area, "energy").unwrap();
+        assert_eq!(
+            reading.0.first(),
+            Some(&("stage".into(), "quarrying".into()))
+        );
+        assert_eq!(
+            reading.0.last(),
+            Some(&("category".into(), "energy".into()))
+        );
+        assert_eq!(mass, Mass::from_grams(3_000_000));
     }
 
     #[test]

@@ -7,10 +7,10 @@ use super::record::{
     Category, EmissionArgs, RecordArgs, commit, commit_with, draft, metered, period, required,
 };
 use super::rock_inputs as ri;
-use crate::accounting::inventory::{Given, Inputs, InventoryError, StageError, stage_emission};
+use crate::accounting::inventory::{Given, Inputs, InventoryError, StageError, stage_reading};
 pub use crate::accounting::inventory::{GrindingMethod, Stage, TransportMode};
 use crate::error::{Error, Result};
-use crate::ledger::{EntryKind, Reading, SiteKind};
+use crate::ledger::{EntryKind, SiteKind};
 use crate::quantity::area::Area;
 use crate::report::Report;
 use crate::store::Tx;
@@ -189,13 +189,9 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
             required(&b.reading.to, "--to")?,
             ctx.now.date_naive(),
         )?;
-        let mut reading = Reading::default();
-        reading.push("stage", stage.name());
         let area = || spread_area(tx, b, i);
-        let computed = stage_emission(stage, &inputs, area, &mut reading)?;
-        reading.push("how", computed.how);
-        reading.push("category", category.clone());
-        draft(EntryKind::Emission, b, reading, computed.mass, period, ctx)
+        let (reading, mass) = stage_reading(stage, &inputs, area, &category)?;
+        draft(EntryKind::Emission, b, reading, mass, period, ctx)
     })
 }
 

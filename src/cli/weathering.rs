@@ -10,7 +10,7 @@ use crate::accounting::weathering::campaign::{CampaignError, DissolutionMethod, 
 use crate::accounting::weathering::choice::{self, Given};
 use crate::accounting::weathering::removal::Deduction;
 use crate::error::{Error, Result};
-use crate::ledger::{Method, SiteKind};
+use crate::ledger::Method;
 use crate::quantity::Decimal;
 use crate::report::Report;
 pub use crate::report::tables::weathering::balance;
@@ -164,10 +164,7 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
     let s = settings(&a)?;
     let figures = route_project(ctx, &a.project, Method::EnhancedWeathering, "weathering")?;
     if let Some(f) = a.site.as_deref()
-        && !figures
-            .sites()
-            .iter()
-            .any(|s| s.code == f && s.kind == SiteKind::Field)
+        && !figures.is_field(f)
     {
         return Err(Error::field(
             "--site",
@@ -179,11 +176,7 @@ pub fn weathering(ctx: &Context, a: WeatheringArgs) -> Result<Report> {
     let mut lines = figures
         .weathering_campaigns(&s, a.site.as_deref())
         .map_err(|e| refusal(e, &s, &a))?;
-    let used = figures.project_deductions(&mut lines, &|base| {
-        given
-            .iter()
-            .try_fold(base, |d, (k, v, source)| d.set(*k, *v, source.clone()))
-    })?;
+    let used = figures.project_deductions(&mut lines, &|base| base.overridden(&given))?;
     let emissions = figures.emissions_in_scope(a.site.as_deref());
     let mut table = campaign_table(figures.project(), &lines, &s, emissions, &used);
     if !given.is_empty() {

@@ -208,6 +208,13 @@ impl ProjectFigures {
         Ok((roll, unread))
     }
 
+    /// Whether `code` is a field of the project.
+    pub fn is_field(&self, code: &str) -> bool {
+        self.sites()
+            .iter()
+            .any(|s| s.code == code && s.kind == SiteKind::Field)
+    }
+
     /// Emissions at the fields in scope, and those at sites that are not fields.
     pub fn emissions_in_scope(&self, only: Option<&str>) -> EmissionsInScope {
         let fields: Vec<&str> = self

@@ -242,6 +242,14 @@ impl Default for Deductions {
 }
 
 impl Deductions {
+    /// The same set with each of `given` replacing its parameter, with the source shown
+    /// beside it.
+    pub fn overridden(self, given: &[(Deduction, f64, String)]) -> Result<Self, RemovalError> {
+        given
+            .iter()
+            .try_fold(self, |d, (k, v, source)| d.set(*k, *v, source.clone()))
+    }
+
     /// The same set with one parameter replaced, and the source that justifies it.
     pub fn set(
         self,
@@ -381,6 +389,20 @@ mod tests {
 
     fn gross(f: f64, t: f64, c: &[CationContent]) -> Gross {
         gross_co2(f, t, c).unwrap_or_else(|e| panic!("{e}"))
+    }
+
+    #[test]
+    fn given_parameters_replace_the_projects() {
+        let given = [(Deduction::StrongAcid, 0.2, "plan".to_string())];
+        let d = Deductions::default().overridden(&given).unwrap();
+        assert_eq!(
+            d,
+            Deductions::default()
+                .set(Deduction::StrongAcid, 0.2, "plan")
+                .unwrap()
+        );
+        let bad = [(Deduction::StrongAcid, 1.5, String::new())];
+        assert!(Deductions::default().overridden(&bad).is_err());
     }
 
     #[test]
