@@ -8,7 +8,8 @@ use crate::accounting::input::InputError;
 use crate::accounting::project_view::evidence;
 use crate::accounting::tracer::{Mineralized, TracerError, mineralized_fraction};
 use crate::accounting::weathering::composition::{SoilAnalysis, Unit};
-use crate::ledger::{Reading, bounds};
+use crate::ledger::{Reading, Site, SiteKind, bounds};
+use crate::quantity::area::Area;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::quantity::measure::{DENSITY, parse_depth, parse_measure};
 use crate::quantity::share::{pairs, share};
@@ -236,20 +237,36 @@ pub fn soil_sample(t: &SoilTexts<'_>) -> Result<Reading> {
     Ok(reading)
 }
 
-/// A spreading's reading: the feedstock, the rock's mass as given and, on a field of
-/// `area_m2`, the application rate.
+/// Why a field's registered area gives no application rate.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum AreaError {
+    /// The field was registered without an area.
+    Missing,
+    /// The area registered does not read.
+    Unreadable(String),
+}
+
+/// A spreading's reading: the feedstock, the rock's mass as given and, on a field, the
+/// application rate over the field's registered area.
 pub fn application(
     feedstock: &str,
     (rock, rock_g): (&MassReading, Mass),
-    area_m2: Option<f64>,
-) -> Reading {
+    site: &Site,
+) -> std::result::Result<Reading, AreaError> {
+    let area = match site.kind {
+        SiteKind::Field => {
+            let text = site.area.as_deref().ok_or(AreaError::Missing)?;
+            Some(Area::parse(text).map_err(AreaError::Unreadable)?.m2())
+        }
+        _ => None,
+    };
     let mut reading = Reading::default();
     reading.push("feedstock", feedstock);
     reading.push("mass", rock.to_string());
-    if let Some(m2) = area_m2 {
+    if let Some(m2) = area {
         reading.push("rate", format!("{:.2} t/ha", rock_g.tonnes() / (m2 / 1e4)));
     }
-    reading
+    Ok(reading)
 }
 
 #[cfg(test)]
@@ -289,9 +306,26 @@ mod tests {
     fn a_spreading_on_a_field_records_its_rate() {
         let rock = MassReading::parse("625 t").unwrap();
         let g = rock.to_mass().unwrap();
-        let r = application("EVB-1", (&rock, g), Some(125_000.0));
+        let mut site = Site {
+            project: "EVW".into(),
+            code: "EV-F1".into(),
+            kind: SiteKind::Field,
+            area: Some("12.5 ha".into()),
+            uncertainty: None,
+            registered_at: chrono::DateTime::UNIX_EPOCH,
+        };
+        let r = application("EVB-1", (&rock, g), &site).unwrap();
         assert_eq!(r.0.last(), Some(&("rate".into(), "50.00 t/ha".into())));
-        assert_eq!(application("EVB-1", (&rock, g), None).0.len(), 2);
+        site.area = Some("12.5 acres of it".into());
+        assert!(matches!(
+            application("EVB-1", (&rock, g), &site),
+            Err(AreaError::Unreadable(_))
+        ));
+        site.area = None;
+        let missing = application("EVB-1", (&rock, g), &site);
+        assert_eq!(missing, Err(AreaError::Missing));
+        site.kind = SiteKind::Plant;
+        assert_eq!(application("EVB-1", (&rock, g), &site).unwrap().0.len(), 2);
     }
 
     #[test]

@@ -8,14 +8,13 @@ use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::Carbonation;
 use crate::accounting::rock_record::{
-    self as rock, CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
+    self as rock, AreaError, CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
 };
 use crate::error::{Error, Result};
 use crate::ledger::baseline::{baseline_before_spreadings, spreading_before_baselines};
 use crate::ledger::route_record::{self, ContextError};
-use crate::ledger::{Entry, EntryKind, Period, Reading, Site, SiteKind};
+use crate::ledger::{Entry, EntryKind, Period, Reading, Site};
 use crate::quantity::Mass;
-use crate::quantity::area::Area;
 use crate::report::Report;
 use crate::report::tables::rock_findings::{mineralized, no_uptake};
 use crate::store::Tx;
@@ -314,20 +313,6 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
     Ok(report)
 }
 
-/// A field's area in m², or a refusal naming the field.
-fn field_area(site: &Site) -> Result<f64> {
-    let area = site.area.as_deref().ok_or_else(|| {
-        Error::field(
-            "--site",
-            &site.code,
-            "has no area: register the field with --area (e.g. \"12.5 ha\")",
-        )
-    })?;
-    Area::parse(area)
-        .map(|a| a.m2())
-        .map_err(|e| Error::field("--site", &site.code, e))
-}
-
 /// Feedstock spread on a field: no CO2 of its own (0 g); the rock's mass is in the reading.
 pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
     let date = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
@@ -341,13 +326,16 @@ pub fn application(ctx: &Context, a: ApplicationArgs) -> Result<Report> {
         options: &a.entry,
     };
     record(ctx, r, &Reading::default(), |tx, site, reading| {
-        let area = match site.kind {
-            SiteKind::Field => Some(field_area(site)?),
-            _ => None,
-        };
-        spreadable(tx, &a, date)?;
-        *reading = rock::application(&a.feedstock, (&rock.0, rock.1), area);
-        Ok(())
+        *reading = rock::application(&a.feedstock, (&rock.0, rock.1), site).map_err(|e| {
+            let why = match e {
+                AreaError::Missing => {
+                    "has no area: register the field with --area (e.g. \"12.5 ha\")".into()
+                }
+                AreaError::Unreadable(why) => why,
+            };
+            Error::field("--site", &site.code, why)
+        })?;
+        spreadable(tx, &a, date)
     })
 }
 
