@@ -246,6 +246,15 @@ pub enum AreaError {
     Unreadable(String),
 }
 
+/// A field's registered area; `None` for a site that is not a field.
+pub fn field_area(site: &Site) -> std::result::Result<Option<Area>, AreaError> {
+    if site.kind != SiteKind::Field {
+        return Ok(None);
+    }
+    let text = site.area.as_deref().ok_or(AreaError::Missing)?;
+    Area::parse(text).map(Some).map_err(AreaError::Unreadable)
+}
+
 /// A spreading's reading: the feedstock, the rock's mass as given and, on a field, the
 /// application rate over the field's registered area.
 pub fn application(
@@ -253,13 +262,7 @@ pub fn application(
     (rock, rock_g): (&MassReading, Mass),
     site: &Site,
 ) -> std::result::Result<Reading, AreaError> {
-    let area = match site.kind {
-        SiteKind::Field => {
-            let text = site.area.as_deref().ok_or(AreaError::Missing)?;
-            Some(Area::parse(text).map_err(AreaError::Unreadable)?.m2())
-        }
-        _ => None,
-    };
+    let area = field_area(site)?.map(|a| a.m2());
     let mut reading = Reading::default();
     reading.push("feedstock", feedstock);
     reading.push("mass", rock.to_string());

@@ -9,8 +9,9 @@ use super::record::{
 use super::rock_inputs as ri;
 use crate::accounting::inventory::{Given, Inputs, InventoryError, StageError, stage_reading};
 pub use crate::accounting::inventory::{GrindingMethod, Stage, TransportMode};
+use crate::accounting::rock_record::{AreaError, field_area};
 use crate::error::{Error, Result};
-use crate::ledger::{EntryKind, SiteKind};
+use crate::ledger::EntryKind;
 use crate::quantity::area::Area;
 use crate::report::Report;
 use crate::store::Tx;
@@ -197,22 +198,18 @@ pub fn emission(ctx: &Context, a: EmissionArgs) -> Result<Report> {
 
 /// The area spread: as given, or the field's registered one.
 fn spread_area(tx: &mut Tx<'_>, b: &RecordArgs, i: &InventoryArgs) -> Result<Area> {
-    Ok(match &i.area {
-        Some(t) => Area::parse(t).map_err(|e| Error::field("--area", t, e))?,
-        None => {
-            super::setup::known_project(tx, &b.project)?;
-            let site = tx.site(&b.project, &b.site)?;
-            let text = site
-                .filter(|s| s.kind == SiteKind::Field)
-                .and_then(|s| s.area)
-                .ok_or_else(|| {
-                    Error::field(
-                        "--site",
-                        &b.site,
-                        "is not a field with an area: give --area",
-                    )
-                })?;
-            Area::parse(&text).map_err(|e| Error::field("--site", &b.site, e))?
-        }
-    })
+    if let Some(t) = &i.area {
+        return Area::parse(t).map_err(|e| Error::field("--area", t, e));
+    }
+    super::setup::known_project(tx, &b.project)?;
+    let site = tx.site(&b.project, &b.site)?;
+    match site.as_ref().map(field_area) {
+        Some(Ok(Some(area))) => Ok(area),
+        Some(Err(AreaError::Unreadable(why))) => Err(Error::field("--site", &b.site, why)),
+        _ => Err(Error::field(
+            "--site",
+            &b.site,
+            "is not a field with an area: give --area",
+        )),
+    }
 }
