@@ -49,9 +49,8 @@ pub fn baseline_before_spreadings(spread: &[Entry], date: NaiveDate) -> Result<(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ledger::{EntryKind, Period, Reading, Sign};
-    use crate::quantity::Mass;
-    use chrono::DateTime;
+    use crate::ledger::tests::fixture;
+    use crate::ledger::{EntryKind, Period, Reading};
 
     fn day(s: &str) -> NaiveDate {
         NaiveDate::parse_from_str(s, "%Y-%m-%d").unwrap()
@@ -63,22 +62,10 @@ mod tests {
             reading.push("baseline", "yes");
         }
         Entry {
-            project: "EVW".into(),
-            seq,
             kind,
-            site: "EV-F1".into(),
             period: Period::day(day(date)),
             reading,
-            mass: Mass::ZERO,
-            sign: Sign::Adds,
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: format!("k{seq}"),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
+            ..fixture(seq)
         }
     }
 

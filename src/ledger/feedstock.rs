@@ -51,19 +51,11 @@ mod tests {
     use super::*;
     use crate::ledger::canonical::encode_feedstock;
     use crate::ledger::hash::leaf_hash;
+    use crate::ledger::tests::project;
 
     #[test]
     fn only_a_weathering_project_takes_a_feedstock_once() {
-        let mut p = Project {
-            code: "EVW".into(),
-            name: "Ellery Vale Weathering".into(),
-            method: Method::EnhancedWeathering,
-            operator: "Northdeep Storage Cooperative".into(),
-            permit_ref: None,
-            permit_capacity: None,
-            permit_annual: None,
-            registered_at: DateTime::UNIX_EPOCH,
-        };
+        let mut p = project(Method::EnhancedWeathering);
         let held = Feedstock {
             project: "EVW".into(),
             code: "EVB-1".into(),

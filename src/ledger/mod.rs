@@ -42,7 +42,22 @@ mod tests {
     use crate::quantity::Mass;
     use chrono::{DateTime, NaiveDate};
 
-    fn fixture(seq: u64) -> Entry {
+    /// The TFS project registered with `method`, for the ledger's tests.
+    pub(crate) fn project(method: Method) -> Project {
+        Project {
+            code: "TFS".into(),
+            name: "Tamsin Flats Storage".into(),
+            method,
+            operator: "Northdeep Storage Cooperative".into(),
+            permit_ref: None,
+            permit_capacity: None,
+            permit_annual: None,
+            registered_at: DateTime::UNIX_EPOCH,
+        }
+    }
+
+    /// An injection entry at TFS, for the ledger's tests to vary.
+    pub(crate) fn fixture(seq: u64) -> Entry {
         let d = |s| NaiveDate::parse_from_str(s, "%Y-%m-%d").unwrap();
         let mut reading = Reading::default();
         reading.push("mass", "1250.5 t");

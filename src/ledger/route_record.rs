@@ -58,22 +58,9 @@ pub fn context(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ledger::{Period, Reading, Sign, SiteKind};
-    use crate::quantity::Mass;
-    use chrono::{DateTime, NaiveDate};
-
-    fn project(method: Method) -> Project {
-        Project {
-            code: "CRB".into(),
-            name: "Corrie Ridge Basalt".into(),
-            method,
-            operator: "Northdeep Storage Cooperative".into(),
-            permit_ref: None,
-            permit_capacity: None,
-            permit_annual: None,
-            registered_at: DateTime::UNIX_EPOCH,
-        }
-    }
+    use crate::ledger::SiteKind;
+    use crate::ledger::tests::{fixture, project};
+    use chrono::DateTime;
 
     fn well() -> Site {
         Site {
@@ -87,24 +74,7 @@ mod tests {
     }
 
     fn entry(kind: EntryKind) -> Entry {
-        Entry {
-            project: "CRB".into(),
-            seq: 3,
-            kind,
-            site: "CR-M1".into(),
-            period: Period::day(NaiveDate::from_ymd_opt(2026, 5, 1).unwrap()),
-            reading: Reading::default(),
-            mass: Mass::ZERO,
-            sign: Sign::Adds,
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: "k3".into(),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        }
+        Entry { kind, ..fixture(3) }
     }
 
     #[test]

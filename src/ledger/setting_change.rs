@@ -106,19 +106,7 @@ pub fn rows(
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    fn project(method: Method) -> Project {
-        Project {
-            code: "TFS".into(),
-            name: "Tamsin Flats Storage".into(),
-            method,
-            operator: "Northdeep Storage Cooperative".into(),
-            permit_ref: None,
-            permit_capacity: None,
-            permit_annual: None,
-            registered_at: DateTime::UNIX_EPOCH,
-        }
-    }
+    use crate::ledger::tests::project;
 
     #[test]
     fn shares_and_years_are_normalised_or_refused() {

@@ -160,32 +160,28 @@ mod tests {
 
     #[test]
     fn refusals_name_the_value_not_an_option() {
-        let refused =
-            |t: FeedstockTexts<'static>| registration(&t, DateTime::UNIX_EPOCH).unwrap_err().given;
-        let dense = FeedstockTexts {
-            density: "5.5 t/m3",
-            ..BASALT
-        };
-        assert_eq!(refused(dense), Given::Density);
-        let bare = FeedstockTexts {
-            density: "2.9",
-            ..BASALT
-        };
-        assert_eq!(refused(bare), Given::Density);
-        let unit = FeedstockTexts {
-            element_unit: Some("ppm"),
-            ..BASALT
-        };
-        assert_eq!(refused(unit), Given::ElementUnit);
-        let colon = FeedstockTexts {
-            oxides: "CaO:9.4",
-            ..BASALT
-        };
-        assert_eq!(refused(colon), Given::Oxides);
+        const OX: &str = BASALT.oxides;
+        let cases = [
+            ("5.5 t/m3", None, OX, Given::Density),
+            ("2.9", None, OX, Given::Density),
+            ("2.9 t/m3", Some("ppm"), OX, Given::ElementUnit),
+            ("2.9 t/m3", None, "CaO:9.4,TiO2=1.9", Given::Oxides),
+        ];
+        for (density, element_unit, oxides, given) in cases {
+            let t = FeedstockTexts {
+                density,
+                element_unit,
+                oxides,
+                ..BASALT
+            };
+            let e = registration(&t, DateTime::UNIX_EPOCH).unwrap_err();
+            assert_eq!(e.given, given, "{e:?}");
+        }
         let fine = FeedstockTexts {
             d80: Some("0 um"),
             ..BASALT
         };
-        assert_eq!(refused(fine), Given::D80);
+        let e = registration(&fine, DateTime::UNIX_EPOCH).unwrap_err();
+        assert_eq!(e.given, Given::D80);
     }
 }
