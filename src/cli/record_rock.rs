@@ -2,7 +2,7 @@
 //! records of the rock routes, and the same readings read back for the reports. The reading
 //! field names written here are the ones read back here, and nowhere else.
 
-use super::record::{ReadingArgs, RecordArgs, commit_with, draft};
+use super::record::{ReadingArgs, RecordArgs, commit_with, draft, period};
 use super::rock_inputs as ri;
 use super::setup::known_project;
 use super::{Context, inputs};
@@ -286,13 +286,8 @@ pub fn carbonation(ctx: &Context, a: CarbonationArgs) -> Result<Report> {
         co2_after: &a.co2_after,
         uncertainty: a.uncertainty.as_deref(),
     };
-    let (mut reading, result, period) = rock::carbonation(&texts, || {
-        Period::new(
-            inputs::activity_date("--from", &a.from, ctx.now.date_naive())?,
-            inputs::activity_date("--to", &a.to, ctx.now.date_naive())?,
-        )
-        .map_err(|e| Error::field("--to", &a.to, e))
-    })?;
+    let (mut reading, result, period) =
+        rock::carbonation(&texts, || period(&a.from, &a.to, ctx.now.date_naive()))?;
     let (mass, finding) = match result {
         Carbonation::Uptake { co2, .. } => (co2, None),
         Carbonation::NoUptake { released, .. } => (Mass::ZERO, Some(no_uptake(released))),
