@@ -12,6 +12,7 @@ use crate::ledger::{Method, SealedEntry};
 use crate::report::stream::RowStream;
 use crate::report::tables::balance::{claims_tables, geological_balance};
 use crate::report::tables::entries::{entries_notes, entry_cells, entry_columns};
+use crate::report::tables::late::late_of;
 use crate::report::{Format, Report, Table};
 use clap::{Args, ValueEnum};
 
@@ -152,8 +153,5 @@ pub fn balance_of(figures: &ProjectFigures, a: &BalanceArgs, dates: &Dates) -> R
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }
-    if let Some(t) = super::late::late_table(figures.listed().map(|e| (a.project.as_str(), e))) {
-        report = report.table(t);
-    }
-    Ok(report)
+    Ok(report.table_if(late_of([figures])))
 }

@@ -8,6 +8,7 @@
 //! order with [`ProjectView::add`], each decoded once, then asks [`ProjectView::finish`] for
 //! the figures. What it holds grows with periods and meters, not with entries.
 
+mod across;
 mod basalt;
 mod emissions;
 mod error;
@@ -25,6 +26,7 @@ mod through;
 mod totals;
 mod weathering;
 
+pub use across::{AcrossError, AcrossProjects, across};
 pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, mineralization_total};
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
