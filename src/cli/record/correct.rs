@@ -1,14 +1,14 @@
 //! `correct`: a new entry that replaces one, restating its quantity or period and keeping what
 //! belongs to its kind.
 
-use super::{QuantityArgs, commit_with, optional_text, period};
+use super::{QuantityArgs, commit_with, optional_text, period, value_name};
 use crate::accounting::restatement::{Given, RestateError, Restated, restate};
 use crate::cli::setup::known_project;
 use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::Entry;
 use crate::report::Report;
-use clap::{Args, ValueEnum};
+use clap::Args;
 
 #[derive(Debug, Clone, Args)]
 pub struct CorrectArgs {
@@ -81,18 +81,13 @@ fn given_text(a: &CorrectArgs, r: Restated) -> String {
         Restated::Mass => q.mass.clone(),
         Restated::Volume => q.volume.clone(),
         Restated::Co2Fraction => q.co2_fraction.clone(),
-        Restated::Co2Basis => q.co2_basis.and_then(|b| option_value(&b)),
-        Restated::Density => q.density.and_then(|d| option_value(&d)),
+        Restated::Co2Basis => q.co2_basis.map(|b| value_name(&b)),
+        Restated::Density => q.density.map(|d| value_name(&d)),
         Restated::Impurities => q.impurities.clone(),
         Restated::Uncertainty => q.uncertainty.clone(),
         Restated::Meter => a.meter.clone(),
     };
     text.unwrap_or_default()
-}
-
-/// How a value of an enumerated option is spelled on the command line.
-fn option_value(v: &impl ValueEnum) -> Option<String> {
-    v.to_possible_value().map(|p| p.get_name().to_string())
 }
 
 /// A restatement's refusal, named by the option (or the seq) it is about.
