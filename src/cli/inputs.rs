@@ -2,8 +2,8 @@
 
 use crate::accounting::metering::{MeterError, MeterField};
 use crate::error::{Error, Result};
-use crate::ledger::bounds;
 use crate::ledger::period::parse_date;
+use crate::ledger::{Method, bounds};
 use crate::quantity::{Mass, MassReading};
 use chrono::NaiveDate;
 
@@ -12,6 +12,22 @@ pub fn mass(field: &str, text: &str) -> Result<(MassReading, Mass)> {
     let m = r.to_mass().map_err(|e| Error::field(field, text, e))?;
     bounds::grams(m).map_err(|e| Error::field(field, text, e))?;
     Ok((r, m))
+}
+
+/// A mass where one is given (a permit's capacity), checked as [`mass`] checks it.
+pub fn optional_mass(field: &str, text: Option<&str>) -> Result<Option<Mass>> {
+    text.map(|t| mass(field, t).map(|(_, m)| m)).transpose()
+}
+
+/// A storage method by its name.
+pub fn method(field: &str, text: &str) -> Result<Method> {
+    Method::from_name(text).ok_or_else(|| {
+        Error::field(
+            field,
+            text,
+            format!("is not a method (use {})", Method::choices()),
+        )
+    })
 }
 
 pub fn date(field: &str, text: &str) -> Result<NaiveDate> {

@@ -2,7 +2,7 @@
 
 use super::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::{Method, Project, Site, SiteKind};
+use crate::ledger::{Project, Site, SiteKind};
 use crate::quantity::area::Area;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::Report;
@@ -106,26 +106,12 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
     inputs::code("project", &a.code)?;
     inputs::text("--name", &a.name)?;
     inputs::text("--operator", &a.operator)?;
-    let method = Method::from_name(&a.method).ok_or_else(|| {
-        Error::field(
-            "--method",
-            &a.method,
-            format!("is not a method (use {})", Method::choices()),
-        )
-    })?;
+    let method = inputs::method("--method", &a.method)?;
     if let Some(r) = &a.permit_ref {
         inputs::text("--permit-ref", r)?;
     }
-    let permit_capacity = a
-        .permit_capacity
-        .as_deref()
-        .map(|t| inputs::mass("--permit-capacity", t).map(|(_, m)| m))
-        .transpose()?;
-    let permit_annual = a
-        .permit_annual
-        .as_deref()
-        .map(|t| inputs::mass("--permit-annual", t).map(|(_, m)| m))
-        .transpose()?;
+    let permit_capacity = inputs::optional_mass("--permit-capacity", a.permit_capacity.as_deref())?;
+    let permit_annual = inputs::optional_mass("--permit-annual", a.permit_annual.as_deref())?;
     let p = Project {
         code: a.code,
         name: a.name,

@@ -8,7 +8,6 @@ use super::claims::deduction_rule;
 use super::dates::DateArgs;
 use crate::accounting::project_view::{AcrossError, across};
 use crate::error::{Error, Result};
-use crate::ledger::Method;
 use crate::ledger::project_filter::{NoMatch, ProjectFilter};
 use crate::report::Report;
 use crate::report::tables::late::late_of;
@@ -44,13 +43,7 @@ pub enum TotalsBy {
 pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let dates = a.dates.read()?;
     if let Some(m) = &a.method {
-        Method::from_name(m).ok_or_else(|| {
-            Error::field(
-                "--method",
-                m,
-                format!("is not a method (use {})", Method::choices()),
-            )
-        })?;
+        super::inputs::method("--method", m)?;
     }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let filter = ProjectFilter {
