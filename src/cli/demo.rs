@@ -4,7 +4,7 @@ use super::run_line;
 use crate::error::{Error, Result};
 use crate::import::sample_folders::{Folders, passing_folder};
 use crate::report::Report;
-use crate::report::tables::demo::{OVERVIEW, TOUR, tour_table};
+use crate::report::tables::demo::{OVERVIEW, TOUR, built_line, page_line, tour_table};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
 use std::path::Path;
@@ -40,9 +40,7 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
         report = report.table(tour_table(db_shown));
     }
     for page in folders.keep_reports()? {
-        report = report.line(format!(
-            "Annual report page written to {page} (kept; open it in a browser, or print it)."
-        ));
+        report = report.line(page_line(&page));
     }
     Ok(report)
 }
@@ -77,12 +75,6 @@ pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Rep
             )
         }
     };
-    report.lines.insert(
-        0,
-        format!(
-            "Demo ledger built {place} from the sample projects (invented data, see sample-projects/README.md), recorded as of {}.",
-            now.format("%Y-%m-%d %H:%M UTC")
-        ),
-    );
+    report.lines.insert(0, built_line(&place, now));
     Ok(report)
 }

@@ -57,18 +57,10 @@ pub fn statement(field: &str, value: &str) -> Result<()> {
 }
 
 fn text_of_at_most(field: &str, value: &str, max: usize) -> Result<()> {
-    bounds::text(value, max).map_err(|e| Error::field(field, &bounds::shown(value), e))?;
-    if value.trim().is_empty() {
-        return Err(Error::field(field, value, "must not be empty"));
-    }
-    if value.chars().any(char::is_control) {
-        return Err(Error::field(
-            field,
-            value,
-            "must not contain control characters",
-        ));
-    }
-    Ok(())
+    bounds::free_text(value, max).map_err(|e| match e {
+        bounds::TextRefusal::TooLong(why) => Error::field(field, &bounds::shown(value), why),
+        e => Error::field(field, value, e),
+    })
 }
 
 /// An entry's field out of bounds, named by the option it comes from (`period_from` →

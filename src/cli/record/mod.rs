@@ -47,24 +47,11 @@ pub(super) fn draft(
     optional_text("--key", &b.reading.key)?;
     optional_text("--meter", &b.reading.meter)?;
     optional_text("--note", &b.reading.note)?;
-    Ok(Entry {
-        project: b.project.clone(),
-        seq: 0,
-        kind,
-        site: b.site.clone(),
-        period,
-        reading,
-        mass,
-        sign: kind.sign(),
-        recorded_at: ctx.now,
-        key: String::new(),
-        meter: b.reading.meter.clone(),
-        note: b.reading.note.clone(),
-        corrects: None,
-        reason: None,
-        evidence: None,
-        recorded_by: None,
-    })
+    let (project, site) = (b.project.clone(), b.site.clone());
+    let mut e = Entry::draft(kind, project, site, period, reading, mass, ctx.now);
+    e.meter = b.reading.meter.clone();
+    e.note = b.reading.note.clone();
+    Ok(e)
 }
 
 pub(super) fn metered(
