@@ -240,24 +240,20 @@ pub(crate) mod tests {
             r.push(n, *v);
         }
         let day = NaiveDate::from_ymd_opt(2026, 1, 31).unwrap();
-        Entry {
-            project: "TFS".into(),
-            seq: 4,
+        let (project, site) = ("TFS".into(), "TF-I1".into());
+        let mass = Mass::from_grams(g);
+        let mut e = Entry::draft(
             kind,
-            site: "TF-I1".into(),
-            period: Period::day(day),
-            reading: r,
-            mass: Mass::from_grams(g),
-            sign: kind.sign(),
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: "k4".into(),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        }
+            project,
+            site,
+            Period::day(day),
+            r,
+            mass,
+            DateTime::UNIX_EPOCH,
+        );
+        e.seq = 4;
+        e.key = "k4".into();
+        e
     }
 
     #[test]

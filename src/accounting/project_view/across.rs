@@ -48,16 +48,7 @@ mod tests {
 
     /// A saline-aquifer project that injected `grams` in January 2026.
     fn injected(grams: i64) -> ProjectFigures {
-        let project = Project {
-            code: "P".into(),
-            name: "P".into(),
-            method: Method::SalineAquifer,
-            operator: "O".into(),
-            permit_ref: None,
-            permit_capacity: None,
-            permit_annual: None,
-            registered_at: DateTime::UNIX_EPOCH,
-        };
+        let project = Project::example("P", Method::SalineAquifer);
         let registrations = Registrations {
             project,
             sites: vec![],
@@ -67,25 +58,12 @@ mod tests {
         };
         let mut view = ProjectView::new(registrations, None).unwrap();
         let day = |d| NaiveDate::from_ymd_opt(2026, 1, d).unwrap();
-        view.add(&Entry {
-            project: "P".into(),
-            seq: 0,
-            kind: EntryKind::Injection,
-            site: "W".into(),
-            period: Period::new(day(1), day(31)).unwrap(),
-            reading: Reading::default(),
-            mass: Mass::from_grams(grams),
-            sign: EntryKind::Injection.sign(),
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: "k".into(),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        })
-        .unwrap();
+        let period = Period::new(day(1), day(31)).unwrap();
+        let (project, site, at) = ("P".into(), "W".into(), DateTime::UNIX_EPOCH);
+        let mass = Mass::from_grams(grams);
+        let kind = EntryKind::Injection;
+        let e = Entry::draft(kind, project, site, period, Reading::default(), mass, at);
+        view.add(&e).unwrap();
         view.finish().unwrap()
     }
 

@@ -507,16 +507,7 @@ mod held_tests {
             registered_at: at(day),
         };
         let r = || Registrations {
-            project: Project {
-                code: "P".into(),
-                name: "P".into(),
-                method: Method::SalineAquifer,
-                operator: "O".into(),
-                permit_ref: None,
-                permit_capacity: None,
-                permit_annual: None,
-                registered_at: at(0),
-            },
+            project: Project::example("P", Method::SalineAquifer),
             sites: vec![site("W1", 1), site("W2", 3)],
             settings: vec![],
             feedstocks: vec![],
