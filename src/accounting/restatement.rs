@@ -1,7 +1,7 @@
 //! A correction's reading: which values a correction of each kind may restate, and the corrected
 //! reading restated from them, the rest carried over from the entry it replaces.
 
-use super::metering::{Basis, MeterError, MeterInput, assumed_fraction, measure};
+use super::metering::{Basis, MeterError, MeterField, MeterInput, assumed_fraction, measure};
 use crate::ledger::bounds;
 use crate::ledger::reading_fields::{FractionBasis, checked};
 use crate::ledger::{Entry, EntryKind, Reading};
@@ -20,6 +20,19 @@ pub enum Restated {
     Impurities,
     Uncertainty,
     Meter,
+}
+
+/// A meter reading's quantity is a value a correction restates.
+impl From<MeterField> for Restated {
+    fn from(f: MeterField) -> Restated {
+        match f {
+            MeterField::Mass => Restated::Mass,
+            MeterField::Volume => Restated::Volume,
+            MeterField::Co2Fraction => Restated::Co2Fraction,
+            MeterField::Impurities => Restated::Impurities,
+            MeterField::Uncertainty => Restated::Uncertainty,
+        }
+    }
 }
 
 /// What a correction gives: the quantity values and the meter.

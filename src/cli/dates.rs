@@ -7,6 +7,7 @@
 use super::view::load_through;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::Result;
+use crate::ledger::period::end_of_day;
 use crate::report::Table;
 use crate::report::tables::dates::mark_dates;
 use crate::store::Tx;
@@ -32,13 +33,6 @@ pub struct Dates {
     pub through: Option<NaiveDate>,
 }
 
-/// The end of a calendar day in UTC.
-fn end_of(d: NaiveDate) -> DateTime<Utc> {
-    d.and_hms_micro_opt(23, 59, 59, 999_999)
-        .expect("valid time")
-        .and_utc()
-}
-
 impl DateArgs {
     pub fn read(&self) -> Result<Dates> {
         let date = |field: &str, d: &Option<String>| {
@@ -47,7 +41,7 @@ impl DateArgs {
                 .transpose()
         };
         Ok(Dates {
-            as_of: date("--as-of", &self.as_of)?.map(end_of),
+            as_of: date("--as-of", &self.as_of)?.map(end_of_day),
             through: date("--through", &self.through)?,
         })
     }

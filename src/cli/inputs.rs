@@ -1,6 +1,7 @@
 //! Turning option values into typed values, with errors that name the option and the value.
 
-use crate::accounting::metering::{MeterError, MeterField};
+use crate::accounting::metering::MeterError;
+use crate::accounting::restatement::Restated;
 use crate::error::{Error, Result};
 use crate::ledger::period::parse_date;
 use crate::ledger::{Method, bounds};
@@ -12,6 +13,16 @@ pub fn mass(field: &str, text: &str) -> Result<(MassReading, Mass)> {
     let m = r.to_mass().map_err(|e| Error::field(field, text, e))?;
     bounds::grams(m).map_err(|e| Error::field(field, text, e))?;
     Ok((r, m))
+}
+
+/// An option's value read by `read` where one is given, a refusal naming the option.
+pub fn optional<T, E: std::fmt::Display>(
+    field: &str,
+    text: Option<&str>,
+    read: impl FnOnce(&str) -> std::result::Result<T, E>,
+) -> Result<Option<T>> {
+    text.map(|t| read(t).map_err(|e| Error::field(field, t, e)))
+        .transpose()
 }
 
 /// A mass where one is given (a permit's capacity), checked as [`mass`] checks it.
@@ -51,6 +62,11 @@ pub fn text(field: &str, value: &str) -> Result<()> {
     text_of_at_most(field, value, bounds::TEXT_MAX)
 }
 
+/// Free text where it is given.
+pub fn optional_text(field: &str, value: &Option<String>) -> Result<()> {
+    value.as_deref().map_or(Ok(()), |t| text(field, t))
+}
+
 /// A signed statement: free text of at most [`bounds::STATEMENT_MAX`] characters.
 pub fn statement(field: &str, value: &str) -> Result<()> {
     text_of_at_most(field, value, bounds::STATEMENT_MAX)
@@ -74,18 +90,25 @@ pub fn out_of_bounds(b: &bounds::OutOfBounds) -> Error {
     Error::field(&option, &bounds::shown(&b.value), &b.why)
 }
 
+/// How the command line names a value of a reading: a quantity, or one a correction restates.
+pub fn restated_option(r: Restated) -> &'static str {
+    match r {
+        Restated::Mass => "--mass",
+        Restated::Volume => "--volume",
+        Restated::Co2Fraction => "--co2-fraction",
+        Restated::Co2Basis => "--co2-basis",
+        Restated::Density => "--density",
+        Restated::Impurities => "--impurities",
+        Restated::Uncertainty => "--uncertainty",
+        Restated::Meter => "--meter",
+    }
+}
+
 /// A meter reading's refusal in the options' words.
 pub fn meter_error(e: MeterError) -> Error {
     match e {
         MeterError::Value { field, value, why } => {
-            let option = match field {
-                MeterField::Mass => "--mass",
-                MeterField::Volume => "--volume",
-                MeterField::Co2Fraction => "--co2-fraction",
-                MeterField::Impurities => "--impurities",
-                MeterField::Uncertainty => "--uncertainty",
-            };
-            Error::field(option, &value, why)
+            Error::field(restated_option(field.into()), &value, why)
         }
         MeterError::BothQuantities => Error::options("--mass", "give --mass or --volume, not both"),
         MeterError::NoQuantity => Error::options(

@@ -1,10 +1,11 @@
 //! `correct`: a new entry that replaces one, restating its quantity or period and keeping what
 //! belongs to its kind.
 
-use super::{QuantityArgs, commit_with, optional_text, period, value_name};
+use super::{QuantityArgs, commit_with, period, value_name};
 use crate::accounting::restatement::{Given, RestateError, Restated, restate};
+use crate::cli::Context;
+use crate::cli::inputs::{self, restated_option};
 use crate::cli::setup::known_project;
-use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::Entry;
 use crate::report::Report;
@@ -47,9 +48,9 @@ pub struct CorrectArgs {
 
 pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     inputs::text("--reason", &a.reason)?;
-    optional_text("--key", &a.key)?;
-    optional_text("--meter", &a.meter)?;
-    optional_text("--note", &a.note)?;
+    inputs::optional_text("--key", &a.key)?;
+    inputs::optional_text("--meter", &a.meter)?;
+    inputs::optional_text("--note", &a.note)?;
     let (key, over_permit) = (a.key.clone(), a.over_permit);
     commit_with(ctx, key, over_permit, |tx| {
         known_project(tx, &a.project)?;
@@ -58,20 +59,6 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
             .map_err(|e| Error::field("seq", &a.seq.to_string(), e))?;
         corrected(ctx, a.clone(), target)
     })
-}
-
-/// How the command line names a value a correction restates.
-fn option(r: Restated) -> &'static str {
-    match r {
-        Restated::Mass => "--mass",
-        Restated::Volume => "--volume",
-        Restated::Co2Fraction => "--co2-fraction",
-        Restated::Co2Basis => "--co2-basis",
-        Restated::Density => "--density",
-        Restated::Impurities => "--impurities",
-        Restated::Uncertainty => "--uncertainty",
-        Restated::Meter => "--meter",
-    }
 }
 
 /// The value given for `r`, as spelled on the command line.
@@ -99,7 +86,7 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
             seq,
             allowed,
         } => Error::field(
-            option(given),
+            restated_option(given),
             &given_text(a, given),
             format!(
                 "does not belong to a {kind} entry (seq {seq}); a {kind} correction takes {}",
@@ -108,7 +95,7 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
                 } else {
                     allowed
                         .iter()
-                        .map(|r| option(*r))
+                        .map(|r| restated_option(*r))
                         .collect::<Vec<_>>()
                         .join(", ")
                 }
@@ -126,7 +113,9 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
             a.quantity.co2_fraction.as_deref().unwrap_or(""),
             "the corrected entry has no metered quantity to apply it to: give --mass or --volume",
         ),
-        RestateError::Value { given, value, why } => Error::field(option(given), &value, why),
+        RestateError::Value { given, value, why } => {
+            Error::field(restated_option(given), &value, why)
+        }
         RestateError::Meter(e) => inputs::meter_error(e),
     }
 }

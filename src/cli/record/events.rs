@@ -65,9 +65,7 @@ pub(super) fn reversal(ctx: &Context, a: ReversalArgs) -> Result<Report> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     inputs::text("--reason", &a.reason)?;
     let (m, mass) = inputs::mass("--mass", &a.mass)?;
-    if let Some(p) = &a.pathway {
-        inputs::text("--pathway", p)?;
-    }
+    inputs::optional_text("--pathway", &a.pathway)?;
     let reading = dated_fact::reversal(&m, a.site.as_deref(), a.pathway.as_deref()).map_err(
         |dated_fact::NoPlace| {
             Error::options(
@@ -97,9 +95,7 @@ pub(super) fn reversal(ctx: &Context, a: ReversalArgs) -> Result<Report> {
 /// A leak survey of a site on a day, and what it found.
 pub(super) fn survey(ctx: &Context, a: SurveyArgs) -> Result<Report> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
-    if let Some(p) = &a.pathway {
-        inputs::text("--pathway", p)?;
-    }
+    inputs::optional_text("--pathway", &a.pathway)?;
     let no_leak = a.result == SurveyResult::NoLeak;
     let fact = (
         dated_fact::survey(no_leak, a.pathway.as_deref()),

@@ -31,10 +31,6 @@ pub(super) fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str
         .ok_or_else(|| Error::options(field, format!("{field} is required (ISO 8601 date)")))
 }
 
-fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
-    v.as_deref().map_or(Ok(()), |t| inputs::text(field, t))
-}
-
 /// An entry before its seq, key and time are set.
 pub(super) fn draft(
     kind: EntryKind,
@@ -44,9 +40,9 @@ pub(super) fn draft(
     period: Period,
     ctx: &Context,
 ) -> Result<Entry> {
-    optional_text("--key", &b.reading.key)?;
-    optional_text("--meter", &b.reading.meter)?;
-    optional_text("--note", &b.reading.note)?;
+    inputs::optional_text("--key", &b.reading.key)?;
+    inputs::optional_text("--meter", &b.reading.meter)?;
+    inputs::optional_text("--note", &b.reading.note)?;
     let (project, site) = (b.project.clone(), b.site.clone());
     let mut e = Entry::draft(kind, project, site, period, reading, mass, ctx.now);
     e.meter = b.reading.meter.clone();
