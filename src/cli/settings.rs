@@ -8,6 +8,7 @@ use super::setup::known_project;
 use super::weathering::DeductionValues;
 use crate::accounting::project_view::deduction_setting;
 use crate::error::{Error, Result};
+use crate::ledger::period::parse_date;
 use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::SettingName;
 use crate::ledger::setting_change::{ChangeError, check, normalised, rows};
@@ -103,10 +104,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         ));
     }
     let today = ctx.now.date_naive();
-    let from = match &a.from {
-        Some(d) => super::inputs::date("--from", d)?,
-        None => today,
-    };
+    let from = super::inputs::optional("--from", a.from.as_deref(), parse_date)?.unwrap_or(today);
     let all = ctx.open()?.write(|tx| {
         let project = known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;

@@ -8,6 +8,7 @@ use crate::cli::inputs::{self, restated_option};
 use crate::cli::setup::known_project;
 use crate::error::{Error, Result};
 use crate::ledger::Entry;
+use crate::ledger::correction::{Restating, correction};
 use crate::report::Report;
 use clap::Args;
 
@@ -129,19 +130,12 @@ fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
     let (reading, mass) = restate(&target, &given).map_err(|e| refusal(&a, e))?;
     let from = a.from.unwrap_or_else(|| target.period.from.to_string());
     let to = a.to.unwrap_or_else(|| target.period.to.to_string());
-    Ok(Entry {
-        seq: 0,
-        site: a.site.unwrap_or(target.site.clone()),
-        period: period(&from, &to, ctx.now.date_naive())?,
-        reading,
-        mass,
-        recorded_at: ctx.now,
-        key: String::new(),
-        meter: a.meter.or(target.meter.clone()),
-        note: a.note.or(target.note.clone()),
-        corrects: Some(target.seq),
-        reason: Some(a.reason),
-        evidence: None,
-        ..target
-    })
+    let period = period(&from, &to, ctx.now.date_naive())?;
+    let r = Restating {
+        site: a.site,
+        meter: a.meter,
+        note: a.note,
+        reason: a.reason,
+    };
+    Ok(correction(target, period, (reading, mass), r, ctx.now))
 }
