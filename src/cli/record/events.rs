@@ -26,6 +26,27 @@ pub(super) fn production(ctx: &Context, a: &ProductionArgs) -> Result<Report> {
     metered_commit(ctx, EntryKind::Production, &a.base, &extra, false)
 }
 
+/// A dated fact's options as a record's: its key, meter and note; no quantity, no days.
+fn options(
+    project: String,
+    site: String,
+    key: Option<String>,
+    meter: Option<String>,
+    note: Option<String>,
+) -> RecordArgs {
+    let reading = ReadingArgs {
+        key,
+        meter,
+        note,
+        ..Default::default()
+    };
+    RecordArgs {
+        project,
+        site,
+        reading,
+    }
+}
+
 /// A dated fact of `kind` on `day`, appended under its key.
 fn dated(
     ctx: &Context,
@@ -45,17 +66,7 @@ pub(super) fn calibration(ctx: &Context, a: CalibrationArgs) -> Result<Report> {
     let d = inputs::activity_date("--date", &a.date, ctx.now.date_naive())?;
     let u = parse_uncertainty(&a.uncertainty)
         .map_err(|e| Error::field("--uncertainty", &a.uncertainty, e))?;
-    let reading = ReadingArgs {
-        key: a.key,
-        meter: a.meter,
-        note: a.note,
-        ..Default::default()
-    };
-    let b = RecordArgs {
-        project: a.project,
-        site: a.site,
-        reading,
-    };
+    let b = options(a.project, a.site, a.key, a.meter, a.note);
     let fact = (dated_fact::calibration(u), Mass::ZERO);
     dated(ctx, EntryKind::Calibration, b, fact, d, None)
 }
@@ -74,14 +85,7 @@ pub(super) fn reversal(ctx: &Context, a: ReversalArgs) -> Result<Report> {
             )
         },
     )?;
-    let b = RecordArgs {
-        project: a.project,
-        site: a.site.unwrap_or_default(),
-        reading: ReadingArgs {
-            key: a.key,
-            ..Default::default()
-        },
-    };
+    let b = options(a.project, a.site.unwrap_or_default(), a.key, None, None);
     dated(
         ctx,
         EntryKind::Reversal,
@@ -101,14 +105,6 @@ pub(super) fn survey(ctx: &Context, a: SurveyArgs) -> Result<Report> {
         dated_fact::survey(no_leak, a.pathway.as_deref()),
         Mass::ZERO,
     );
-    let b = RecordArgs {
-        project: a.project,
-        site: a.site,
-        reading: ReadingArgs {
-            key: a.key,
-            note: a.note,
-            ..Default::default()
-        },
-    };
+    let b = options(a.project, a.site, a.key, None, a.note);
     dated(ctx, EntryKind::Survey, b, fact, d, None)
 }
