@@ -24,11 +24,8 @@ pub struct ManualArgs {}
 
 /// A completion script for the shell, printed as it is.
 pub fn completions(a: CompletionsArgs) -> Result<Report> {
-    let shell = match a.shell.as_str() {
-        "zsh" => Shell::Zsh,
-        "fish" => Shell::Fish,
-        _ => Shell::Bash,
-    };
+    // The parser admits bash, zsh and fish only, each a shell's own name.
+    let shell = a.shell.parse().unwrap_or(Shell::Bash);
     let mut out = Vec::new();
     clap_complete::generate(shell, &mut Cli::command(), "sinkbook", &mut out);
     verbatim(out)
