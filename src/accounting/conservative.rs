@@ -3,6 +3,7 @@
 
 use super::uncertainty::Estimate;
 use crate::quantity::Mass;
+use crate::quantity::fraction::{FractionError, parse_uncertainty};
 use crate::quantity::mass::round_half_even_f64;
 use std::fmt;
 
@@ -15,6 +16,18 @@ pub enum DeductionRule {
     /// Deduct only the share of uncertainty above `threshold` (a fraction, `0.05` for 5 %):
     /// deduction = max(0, U% − threshold) · stored.
     AboveThreshold { threshold: f64 },
+}
+
+impl DeductionRule {
+    /// Deduct only the share above `threshold` (`5%`, `0.05`) where one is given, else the
+    /// whole uncertainty.
+    pub fn above(threshold: Option<&str>) -> Result<DeductionRule, FractionError> {
+        threshold.map_or(Ok(DeductionRule::WholeUncertainty), |t| {
+            parse_uncertainty(t).map(|d| DeductionRule::AboveThreshold {
+                threshold: d.to_f64(),
+            })
+        })
+    }
 }
 
 /// The rule as it turned out for this figure, so the output can say what was done.
@@ -108,6 +121,19 @@ mod tests {
 
     fn est(tonnes: i64, rel_u: f64) -> Estimate {
         Estimate::relative(t(tonnes), rel_u).unwrap()
+    }
+
+    #[test]
+    fn a_threshold_given_deducts_only_above_it() {
+        assert_eq!(
+            DeductionRule::above(None),
+            Ok(DeductionRule::WholeUncertainty)
+        );
+        assert_eq!(
+            DeductionRule::above(Some("5%")),
+            Ok(DeductionRule::AboveThreshold { threshold: 0.05 })
+        );
+        assert!(DeductionRule::above(Some("five")).is_err());
     }
 
     #[test]

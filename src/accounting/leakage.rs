@@ -1,7 +1,7 @@
 //! Surface leakage events quantified as Regulation (EU) 2018/2066 Annex IV §23 B.3 sets out:
 //! emitted = Σ over the days of the event of the average hourly leak rate × 24.
 
-use crate::ledger::Period;
+use crate::ledger::{Period, Reading};
 use crate::quantity::mass::split_number_unit;
 use crate::quantity::{Decimal, Mass, MassUnit};
 use chrono::NaiveDate;
@@ -98,6 +98,21 @@ impl LeakRate {
     }
 }
 
+/// A leak given as a rate (`2.5 t/h`) over `period`: its reading (the rate, the days, the
+/// method) and the grams emitted.
+pub fn rated(rate: &str, period: Period) -> Result<(Reading, Mass), String> {
+    let r = LeakRate::parse(rate)?;
+    let mass = r.emitted(period)?;
+    let mut reading = Reading::default();
+    reading.push("rate", r.to_string());
+    reading.push("days", period.days().to_string());
+    reading.push(
+        "method",
+        "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
+    );
+    Ok((reading, mass))
+}
+
 impl fmt::Display for LeakRate {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         write!(
@@ -113,6 +128,18 @@ impl fmt::Display for LeakRate {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_rated_leak_keeps_its_rate_and_days_beside_the_grams() {
+        let d = |s: &str| s.parse::<NaiveDate>().unwrap();
+        let period = Period::new(d("2026-09-18"), d("2026-09-20")).unwrap();
+        let (reading, mass) = rated("0.015 t/h", period).unwrap();
+        // 0.015 t/h × 24 h × 3 days = 1.08 t.
+        assert_eq!(mass, Mass::from_grams(1_080_000));
+        assert_eq!(reading.text("rate"), Some("0.015 t/h"));
+        assert_eq!(reading.text("days"), Some("3"));
+        assert!(rated("0.015 t", period).is_err());
+    }
 
     #[test]
     fn an_unknown_start_is_the_later_of_the_clear_survey_and_injection() {

@@ -1,7 +1,7 @@
 //! A correction's reading: which values a correction of each kind may restate, and the corrected
 //! reading restated from them, the rest carried over from the entry it replaces.
 
-use super::metering::{Basis, MeterError, MeterInput, assumed_fraction, measure};
+use super::metering::{Basis, MeterError, MeterField, MeterInput, assumed_fraction, measure};
 use crate::ledger::bounds;
 use crate::ledger::reading_fields::{FractionBasis, checked};
 use crate::ledger::{Entry, EntryKind, Reading};
@@ -20,6 +20,19 @@ pub enum Restated {
     Impurities,
     Uncertainty,
     Meter,
+}
+
+/// A meter reading's quantity is a value a correction restates.
+impl From<MeterField> for Restated {
+    fn from(f: MeterField) -> Restated {
+        match f {
+            MeterField::Mass => Restated::Mass,
+            MeterField::Volume => Restated::Volume,
+            MeterField::Co2Fraction => Restated::Co2Fraction,
+            MeterField::Impurities => Restated::Impurities,
+            MeterField::Uncertainty => Restated::Uncertainty,
+        }
+    }
 }
 
 /// What a correction gives: the quantity values and the meter.
@@ -240,24 +253,20 @@ pub(crate) mod tests {
             r.push(n, *v);
         }
         let day = NaiveDate::from_ymd_opt(2026, 1, 31).unwrap();
-        Entry {
-            project: "TFS".into(),
-            seq: 4,
+        let (project, site) = ("TFS".into(), "TF-I1".into());
+        let mass = Mass::from_grams(g);
+        let mut e = Entry::draft(
             kind,
-            site: "TF-I1".into(),
-            period: Period::day(day),
-            reading: r,
-            mass: Mass::from_grams(g),
-            sign: kind.sign(),
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: "k4".into(),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        }
+            project,
+            site,
+            Period::day(day),
+            r,
+            mass,
+            DateTime::UNIX_EPOCH,
+        );
+        e.seq = 4;
+        e.key = "k4".into();
+        e
     }
 
     #[test]

@@ -3,20 +3,14 @@
 
 use super::Context;
 use super::claims::deduction_rule;
+use super::reports::By;
 use super::view::load;
 use crate::error::{Error, Result};
 use crate::ledger::period::Grouping;
 use crate::report::Report;
 use crate::report::tables::chart::{line_chart, values_table, written_table};
-use clap::{Args, ValueEnum};
+use clap::Args;
 use std::path::PathBuf;
-
-#[derive(Debug, Clone, Copy, ValueEnum)]
-pub enum ChartBy {
-    Month,
-    Quarter,
-    Year,
-}
 
 #[derive(Debug, Args)]
 #[command(group = clap::ArgGroup::new("what").required(true).args(["project", "totals"]))]
@@ -30,19 +24,15 @@ pub struct ChartArgs {
     #[arg(long)]
     pub out: PathBuf,
     /// Length of each period (one row each)
-    #[arg(long, value_enum, default_value_t = ChartBy::Quarter)]
-    pub by: ChartBy,
+    #[arg(long, value_enum, default_value_t = By::Quarter)]
+    pub by: By,
     /// Deduct only the share of the uncertainty above this threshold
     #[arg(long, value_name = "SHARE")]
     pub deduct_excess_over: Option<String>,
 }
 
 pub fn chart(ctx: &Context, a: ChartArgs) -> Result<Report> {
-    let grouping = match a.by {
-        ChartBy::Month => Grouping::Month,
-        ChartBy::Quarter => Grouping::Quarter,
-        ChartBy::Year => Grouping::Year,
-    };
+    let grouping = Grouping::from(a.by);
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let views = ctx.open()?.read(|tx| match &a.project {
         Some(code) => Ok(vec![load(tx, code, None)?]),

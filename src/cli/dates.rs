@@ -4,9 +4,11 @@
 //! to and including that day, as the ledger holds it now: entries spanning it count for their
 //! days up to it).
 
+use super::inputs::optional;
 use super::view::load_through;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::Result;
+use crate::ledger::period::{end_of_day, parse_date};
 use crate::report::Table;
 use crate::report::tables::dates::mark_dates;
 use crate::store::Tx;
@@ -32,22 +34,11 @@ pub struct Dates {
     pub through: Option<NaiveDate>,
 }
 
-/// The end of a calendar day in UTC.
-fn end_of(d: NaiveDate) -> DateTime<Utc> {
-    d.and_hms_micro_opt(23, 59, 59, 999_999)
-        .expect("valid time")
-        .and_utc()
-}
-
 impl DateArgs {
     pub fn read(&self) -> Result<Dates> {
-        let date = |field: &str, d: &Option<String>| {
-            d.as_deref()
-                .map(|d| super::inputs::date(field, d))
-                .transpose()
-        };
+        let date = |field, d: &Option<String>| optional(field, d.as_deref(), parse_date);
         Ok(Dates {
-            as_of: date("--as-of", &self.as_of)?.map(end_of),
+            as_of: date("--as-of", &self.as_of)?.map(end_of_day),
             through: date("--through", &self.through)?,
         })
     }

@@ -1,70 +1,13 @@
 //! `demo`: a fresh ledger built from the embedded sample projects, and its tables.
 
 use super::run_line;
-use crate::error::{Error, Result, StoreKind};
-use crate::import::script::{SAMPLES, script_lines};
+use crate::error::{Error, Result};
+use crate::import::sample_folders::{Folders, passing_folder};
 use crate::report::Report;
-use crate::report::tables::demo::{OVERVIEW, TOUR, tour_table};
+use crate::report::tables::demo::{OVERVIEW, TOUR, built_line, page_line, tour_table};
 use crate::store::Store;
 use chrono::{DateTime, Utc};
 use std::path::Path;
-
-fn io(e: std::io::Error) -> Error {
-    Error::store(
-        StoreKind::System,
-        format!("demo: could not write the sample files: {e}"),
-    )
-}
-
-/// The folders the scripts name besides `$SAMPLES`: `$KEYS`, for the key files the demo makes
-/// (private to the user, removed when the demo ends), and `$REPORTS`, where the report pages go
-/// (kept, so they can be opened after the demo).
-struct Folders {
-    samples: tempfile::TempDir,
-    keys: tempfile::TempDir,
-    reports: tempfile::TempDir,
-}
-
-impl Folders {
-    fn new() -> Result<Folders> {
-        let dir = |prefix: &str, private: bool| {
-            let mut b = tempfile::Builder::new();
-            b.prefix(prefix);
-            #[cfg(unix)]
-            if private {
-                use std::os::unix::fs::PermissionsExt;
-                b.permissions(std::fs::Permissions::from_mode(0o700));
-            }
-            #[cfg(not(unix))]
-            let _ = private;
-            b.tempdir().map_err(io)
-        };
-        Ok(Folders {
-            samples: dir("sinkbook-demo-samples-", false)?,
-            keys: dir("sinkbook-demo-keys-", true)?,
-            reports: dir("sinkbook-demo-reports-", false)?,
-        })
-    }
-
-    /// A script's word with the folders in place of their names.
-    fn substitute(&self, word: &str) -> String {
-        let shown = |d: &tempfile::TempDir| d.path().display().to_string();
-        word.replace("$SAMPLES", &shown(&self.samples))
-            .replace("$KEYS", &shown(&self.keys))
-            .replace("$REPORTS", &shown(&self.reports))
-    }
-
-    /// Keeps the report folder and names the pages in it.
-    fn keep_reports(self) -> Result<Vec<String>> {
-        let dir = self.reports.keep();
-        let mut pages: Vec<String> = std::fs::read_dir(&dir)
-            .map_err(io)?
-            .map(|e| e.map(|e| e.path().display().to_string()).map_err(io))
-            .collect::<Result<_>>()?;
-        pages.sort();
-        Ok(pages)
-    }
-}
 
 /// Runs every sample script into a ledger at `db`, then reports on it: an overview, or with
 /// `full` every table of the tour. `db_shown` is how the commands listed name the ledger.
@@ -78,16 +21,7 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
         ));
     }
     let folders = Folders::new()?;
-    for (name, text) in SAMPLES {
-        std::fs::write(folders.samples.path().join(name), text).map_err(io)?;
-    }
-    for (name, text) in SAMPLES.iter().filter(|(n, _)| n.ends_with(".sinkbook")) {
-        for (n, line) in script_lines(text) {
-            let words = shlex::split(&folders.substitute(line))
-                .ok_or_else(|| Error::Usage(format!("{name} line {n}: unbalanced quotes")))?;
-            run_line(&words, db, now).map_err(|e| e.at(&format!("{name} line {n}")))?;
-        }
-    }
+    folders.run_scripts(|words| run_line(words, db, now).map(drop))?;
     let run = |words: &[&str]| {
         let words: Vec<String> = words.iter().map(|w| folders.substitute(w)).collect();
         run_line(&words, db, now)
@@ -106,9 +40,7 @@ fn build_and_report(db: &Path, db_shown: &str, full: bool, now: DateTime<Utc>) -
         report = report.table(tour_table(db_shown));
     }
     for page in folders.keep_reports()? {
-        report = report.line(format!(
-            "Annual report page written to {page} (kept; open it in a browser, or print it)."
-        ));
+        report = report.line(page_line(&page));
     }
     Ok(report)
 }
@@ -136,19 +68,13 @@ pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Rep
             )
         }
         None => {
-            let dir = tempfile::tempdir().map_err(io)?;
+            let dir = passing_folder()?;
             (
                 build_and_report(&dir.path().join("demo.db"), "demo.db", args.full, now)?,
                 "in a temporary file, removed on exit (give --db demo.db to keep it),".to_string(),
             )
         }
     };
-    report.lines.insert(
-        0,
-        format!(
-            "Demo ledger built {place} from the sample projects (invented data, see sample-projects/README.md), recorded as of {}.",
-            now.format("%Y-%m-%d %H:%M UTC")
-        ),
-    );
+    report.lines.insert(0, built_line(&place, now));
     Ok(report)
 }

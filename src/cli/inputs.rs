@@ -1,9 +1,10 @@
 //! Turning option values into typed values, with errors that name the option and the value.
 
-use crate::accounting::metering::{MeterError, MeterField};
+use crate::accounting::metering::MeterError;
+use crate::accounting::restatement::Restated;
 use crate::error::{Error, Result};
-use crate::ledger::bounds;
 use crate::ledger::period::parse_date;
+use crate::ledger::{Method, bounds};
 use crate::quantity::{Mass, MassReading};
 use chrono::NaiveDate;
 
@@ -12,6 +13,32 @@ pub fn mass(field: &str, text: &str) -> Result<(MassReading, Mass)> {
     let m = r.to_mass().map_err(|e| Error::field(field, text, e))?;
     bounds::grams(m).map_err(|e| Error::field(field, text, e))?;
     Ok((r, m))
+}
+
+/// An option's value read by `read` where one is given, a refusal naming the option.
+pub fn optional<T, E: std::fmt::Display>(
+    field: &str,
+    text: Option<&str>,
+    read: impl FnOnce(&str) -> std::result::Result<T, E>,
+) -> Result<Option<T>> {
+    text.map(|t| read(t).map_err(|e| Error::field(field, t, e)))
+        .transpose()
+}
+
+/// A mass where one is given (a permit's capacity), checked as [`mass`] checks it.
+pub fn optional_mass(field: &str, text: Option<&str>) -> Result<Option<Mass>> {
+    text.map(|t| mass(field, t).map(|(_, m)| m)).transpose()
+}
+
+/// A storage method by its name.
+pub fn method(field: &str, text: &str) -> Result<Method> {
+    Method::from_name(text).ok_or_else(|| {
+        Error::field(
+            field,
+            text,
+            format!("is not a method (use {})", Method::choices()),
+        )
+    })
 }
 
 pub fn date(field: &str, text: &str) -> Result<NaiveDate> {
@@ -35,24 +62,21 @@ pub fn text(field: &str, value: &str) -> Result<()> {
     text_of_at_most(field, value, bounds::TEXT_MAX)
 }
 
+/// Free text where it is given.
+pub fn optional_text(field: &str, value: &Option<String>) -> Result<()> {
+    value.as_deref().map_or(Ok(()), |t| text(field, t))
+}
+
 /// A signed statement: free text of at most [`bounds::STATEMENT_MAX`] characters.
 pub fn statement(field: &str, value: &str) -> Result<()> {
     text_of_at_most(field, value, bounds::STATEMENT_MAX)
 }
 
 fn text_of_at_most(field: &str, value: &str, max: usize) -> Result<()> {
-    bounds::text(value, max).map_err(|e| Error::field(field, &bounds::shown(value), e))?;
-    if value.trim().is_empty() {
-        return Err(Error::field(field, value, "must not be empty"));
-    }
-    if value.chars().any(char::is_control) {
-        return Err(Error::field(
-            field,
-            value,
-            "must not contain control characters",
-        ));
-    }
-    Ok(())
+    bounds::free_text(value, max).map_err(|e| match e {
+        bounds::TextRefusal::TooLong(why) => Error::field(field, &bounds::shown(value), why),
+        e => Error::field(field, value, e),
+    })
 }
 
 /// An entry's field out of bounds, named by the option it comes from (`period_from` →
@@ -66,18 +90,25 @@ pub fn out_of_bounds(b: &bounds::OutOfBounds) -> Error {
     Error::field(&option, &bounds::shown(&b.value), &b.why)
 }
 
+/// How the command line names a value of a reading: a quantity, or one a correction restates.
+pub fn restated_option(r: Restated) -> &'static str {
+    match r {
+        Restated::Mass => "--mass",
+        Restated::Volume => "--volume",
+        Restated::Co2Fraction => "--co2-fraction",
+        Restated::Co2Basis => "--co2-basis",
+        Restated::Density => "--density",
+        Restated::Impurities => "--impurities",
+        Restated::Uncertainty => "--uncertainty",
+        Restated::Meter => "--meter",
+    }
+}
+
 /// A meter reading's refusal in the options' words.
 pub fn meter_error(e: MeterError) -> Error {
     match e {
         MeterError::Value { field, value, why } => {
-            let option = match field {
-                MeterField::Mass => "--mass",
-                MeterField::Volume => "--volume",
-                MeterField::Co2Fraction => "--co2-fraction",
-                MeterField::Impurities => "--impurities",
-                MeterField::Uncertainty => "--uncertainty",
-            };
-            Error::field(option, &value, why)
+            Error::field(restated_option(field.into()), &value, why)
         }
         MeterError::BothQuantities => Error::options("--mass", "give --mass or --volume, not both"),
         MeterError::NoQuantity => Error::options(

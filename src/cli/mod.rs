@@ -13,10 +13,8 @@ mod evidence;
 mod import;
 mod import_write;
 mod inputs;
-mod late;
 mod meters;
 mod potential;
-mod progress;
 mod proof;
 mod reconcile;
 mod reconciliations;
@@ -42,6 +40,8 @@ mod weathering;
 
 use crate::accounting::permit;
 use crate::error::Result;
+/// The bars of long commands, drawn by report/ (`progress::bytes`, `progress::entries`).
+use crate::report::progress;
 use crate::report::{Format, Report};
 use crate::store::{Store, Wait};
 use chrono::{DateTime, Utc};

@@ -9,10 +9,10 @@ use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result, StoreKind};
 use crate::ledger::period::Grouping;
 use crate::ledger::{Method, SealedEntry};
-use crate::report::stream::RowStream;
 use crate::report::tables::balance::{claims_tables, geological_balance};
-use crate::report::tables::entries::{entries_notes, entry_cells, entry_columns};
-use crate::report::{Format, Report, Table};
+use crate::report::tables::entries::Listing;
+use crate::report::tables::late::late_of;
+use crate::report::{Format, Report};
 use clap::{Args, ValueEnum};
 
 #[derive(Debug, Args)]
@@ -28,43 +28,15 @@ pub struct EntriesArgs {
     pub limit: Option<u64>,
 }
 
-/// The most rows a table for people holds unless `--limit` says otherwise: a table is fitted
-/// to its widest cell, so it is drawn whole, in memory.
-const TABLE_PAGE: u64 = 10_000;
-
 /// Every entry of a project, each checked as it is read. JSON and CSV are written to standard
 /// output row by row as the chain is read (memory stays flat); a table holds one page.
 pub fn entries(ctx: &Context, a: EntriesArgs, format: Format) -> Result<Report> {
     let from = a.from_seq.unwrap_or(0);
-    let page = |limit: u64| move |seq: u64| seq >= from && seq - from < limit;
-    if format != Format::Table {
-        let shown = page(a.limit.unwrap_or(u64::MAX));
-        let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-        let mut rows = RowStream::new(out, format, entry_columns());
-        walk_entries(ctx, &a.project, |s, by| match shown(s.entry.seq) {
-            true => rows.row(&entry_cells(s, by)).map_err(standard_output),
-            false => Ok(()),
-        })?;
-        rows.finish().map_err(standard_output)?;
-        return Ok(Report::written());
-    }
-    let limit = a.limit.unwrap_or(TABLE_PAGE);
-    let shown = page(limit);
-    let mut t = Table::new(
-        "entries",
-        format!("Entries, project {}", a.project),
-        entry_columns(),
-    );
-    let mut any_replaced = false;
+    let mut listing = Listing::new(format, &a.project, from, a.limit);
     let total = walk_entries(ctx, &a.project, |s, by| {
-        if shown(s.entry.seq) {
-            any_replaced |= by.is_some();
-            t.push(entry_cells(s, by));
-        }
-        Ok(())
+        listing.push(s, by).map_err(standard_output)
     })?;
-    entries_notes(&mut t, any_replaced, from, limit, total);
-    Ok(Report::default().table(t))
+    listing.finish(total).map_err(standard_output)
 }
 
 /// Walks the project's chain, checking every entry, with a bar for a long one; hands `f` each
@@ -152,8 +124,5 @@ pub fn balance_of(figures: &ProjectFigures, a: &BalanceArgs, dates: &Dates) -> R
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }
-    if let Some(t) = super::late::late_table(figures.listed().map(|e| (a.project.as_str(), e))) {
-        report = report.table(t);
-    }
-    Ok(report)
+    Ok(report.table_if(late_of([figures])))
 }

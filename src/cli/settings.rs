@@ -3,10 +3,12 @@
 //! day with the source it rests on, and the table of the settings in force.
 
 use super::Context;
+use super::reports::By;
 use super::setup::known_project;
 use super::weathering::DeductionValues;
 use crate::accounting::project_view::deduction_setting;
 use crate::error::{Error, Result};
+use crate::ledger::period::parse_date;
 use crate::ledger::seal::admit_setting;
 use crate::ledger::setting::SettingName;
 use crate::ledger::setting_change::{ChangeError, check, normalised, rows};
@@ -41,7 +43,7 @@ pub struct ProjectSet {
     pub equivalence_years: Option<String>,
     /// The one granularity of the project's claims, buffer pool and totals [default: year]
     #[arg(long, value_enum, value_name = "PERIOD")]
-    pub claim_period: Option<ClaimPeriod>,
+    pub claim_period: Option<By>,
     /// Enhanced weathering: the deduction parameters of net removal the project's claims use
     #[command(flatten)]
     pub deductions: DeductionValues,
@@ -53,14 +55,6 @@ pub struct ProjectSet {
     /// lies between it and today [default: the day recorded]
     #[arg(long, value_name = "DATE")]
     pub from: Option<String>,
-}
-
-/// The granularity at which a project's claims are made.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
-pub enum ClaimPeriod {
-    Month,
-    Quarter,
-    Year,
 }
 
 pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
@@ -110,10 +104,7 @@ pub fn set(ctx: &Context, a: ProjectSet) -> Result<Report> {
         ));
     }
     let today = ctx.now.date_naive();
-    let from = match &a.from {
-        Some(d) => super::inputs::date("--from", d)?,
-        None => today,
-    };
+    let from = super::inputs::optional("--from", a.from.as_deref(), parse_date)?.unwrap_or(today);
     let all = ctx.open()?.write(|tx| {
         let project = known_project(tx, &a.code)?;
         let seals = tx.seals(&a.code)?;

@@ -2,11 +2,11 @@
 
 use super::{Context, inputs};
 use crate::error::{Error, Result};
-use crate::ledger::{Method, Project, Site, SiteKind};
+use crate::ledger::{Project, Site, SiteKind};
 use crate::quantity::area::Area;
 use crate::quantity::fraction::parse_uncertainty;
 use crate::report::Report;
-use crate::report::tables::setup::{projects_table, sites_table};
+use crate::report::tables::setup::{project_report, projects_table, sites_table};
 use crate::store::Store;
 use clap::{Args, Subcommand};
 
@@ -77,12 +77,7 @@ pub fn project(ctx: &Context, c: ProjectCommand) -> Result<Report> {
                 let p = known_project(tx, &code)?;
                 Ok((p, tx.sites(&code)?, tx.settings(&code)?))
             })?;
-            Ok(Report::default()
-                .table(projects_table(std::slice::from_ref(&p)))
-                .table(sites_table(&p.code, &sites))
-                .table(crate::report::tables::settings::settings_table(
-                    &p.code, &settings, ctx.now,
-                )))
+            Ok(project_report(&p, &sites, &settings, ctx.now))
         }
         ProjectCommand::Set(a) => super::settings::set(ctx, a),
     }
@@ -106,26 +101,10 @@ fn project_add(ctx: &Context, a: ProjectAdd) -> Result<Report> {
     inputs::code("project", &a.code)?;
     inputs::text("--name", &a.name)?;
     inputs::text("--operator", &a.operator)?;
-    let method = Method::from_name(&a.method).ok_or_else(|| {
-        Error::field(
-            "--method",
-            &a.method,
-            format!("is not a method (use {})", Method::choices()),
-        )
-    })?;
-    if let Some(r) = &a.permit_ref {
-        inputs::text("--permit-ref", r)?;
-    }
-    let permit_capacity = a
-        .permit_capacity
-        .as_deref()
-        .map(|t| inputs::mass("--permit-capacity", t).map(|(_, m)| m))
-        .transpose()?;
-    let permit_annual = a
-        .permit_annual
-        .as_deref()
-        .map(|t| inputs::mass("--permit-annual", t).map(|(_, m)| m))
-        .transpose()?;
+    let method = inputs::method("--method", &a.method)?;
+    inputs::optional_text("--permit-ref", &a.permit_ref)?;
+    let permit_capacity = inputs::optional_mass("--permit-capacity", a.permit_capacity.as_deref())?;
+    let permit_annual = inputs::optional_mass("--permit-annual", a.permit_annual.as_deref())?;
     let p = Project {
         code: a.code,
         name: a.name,
@@ -192,20 +171,12 @@ pub fn site(ctx: &Context, c: SiteCommand) -> Result<Report> {
                     format!("is not a site kind (use {})", SiteKind::choices()),
                 )
             })?;
-            let area = area
-                .map(|a| {
-                    Area::parse(&a)
-                        .map(|x| x.to_string())
-                        .map_err(|e| Error::field("--area", &a, e))
-                })
-                .transpose()?;
-            let uncertainty = uncertainty
-                .map(|u| {
-                    parse_uncertainty(&u)
-                        .map(|_| u.trim().to_string())
-                        .map_err(|e| Error::field("--uncertainty", &u, e))
-                })
-                .transpose()?;
+            let area = inputs::optional("--area", area.as_deref(), |a| {
+                Area::parse(a).map(|x| x.to_string())
+            })?;
+            let uncertainty = inputs::optional("--uncertainty", uncertainty.as_deref(), |u| {
+                parse_uncertainty(u).map(|_| u.trim().to_string())
+            })?;
             let s = Site {
                 project: project.clone(),
                 code: code.clone(),

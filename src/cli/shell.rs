@@ -4,6 +4,7 @@
 use super::Cli;
 use crate::error::{Error, Result};
 use crate::report::Report;
+use crate::report::generated::{manual_page, verbatim};
 use clap::{Args, CommandFactory};
 use clap_complete::Shell;
 
@@ -21,43 +22,20 @@ pub struct CompletionsArgs {
 #[command(after_help = "Example: sinkbook manual > ~/.local/share/man/man1/sinkbook.1")]
 pub struct ManualArgs {}
 
-fn text(bytes: Vec<u8>) -> Result<Report> {
-    let text = String::from_utf8(bytes)
-        .map_err(|e| Error::internal(format!("generated text is not UTF-8: {e}")))?;
-    Ok(Report {
-        text: Some(text),
-        ..Report::default()
-    })
-}
-
 /// A completion script for the shell, printed as it is.
 pub fn completions(a: CompletionsArgs) -> Result<Report> {
-    let shell = match a.shell.as_str() {
-        "zsh" => Shell::Zsh,
-        "fish" => Shell::Fish,
-        _ => Shell::Bash,
-    };
+    // The parser admits bash, zsh and fish only, each a shell's own name.
+    let shell = a.shell.parse().unwrap_or(Shell::Bash);
     let mut out = Vec::new();
     clap_complete::generate(shell, &mut Cli::command(), "sinkbook", &mut out);
-    text(out)
+    verbatim(out)
 }
 
-/// The man page (roff), with a section for every command. Characters beyond ASCII (°, ³, –)
-/// are written as roff's `\[uXXXX]` escapes, which every troff reads whatever its input
-/// encoding.
+/// The man page (roff), with a section for every command, in ASCII.
 pub fn manual(_: ManualArgs) -> Result<Report> {
     let mut out = Vec::new();
     clap_mangen::Man::new(Cli::command())
         .render(&mut out)
         .map_err(|e| Error::internal(format!("manual: {e}")))?;
-    let mut report = text(out)?;
-    report.text = report.text.map(|t| {
-        t.chars()
-            .map(|c| match c {
-                c if c.is_ascii() => c.to_string(),
-                c => format!("\\[u{:04X}]", u32::from(c)),
-            })
-            .collect()
-    });
-    Ok(report)
+    manual_page(out)
 }

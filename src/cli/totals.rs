@@ -6,13 +6,12 @@
 use super::Context;
 use super::claims::deduction_rule;
 use super::dates::DateArgs;
-use crate::accounting::project_view::TotalsLine;
+use crate::accounting::project_view::{AcrossError, across};
 use crate::error::{Error, Result};
-use crate::ledger::Method;
 use crate::ledger::project_filter::{NoMatch, ProjectFilter};
 use crate::report::Report;
-use crate::report::tables::claims::backdated_notes;
-use crate::report::totals as table;
+use crate::report::tables::late::late_of;
+use crate::report::totals::table;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -44,13 +43,7 @@ pub enum TotalsBy {
 pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
     let dates = a.dates.read()?;
     if let Some(m) = &a.method {
-        Method::from_name(m).ok_or_else(|| {
-            Error::field(
-                "--method",
-                m,
-                format!("is not a method (use {})", Method::choices()),
-            )
-        })?;
+        super::inputs::method("--method", m)?;
     }
     let deduction = deduction_rule(a.deduct_excess_over.as_deref())?;
     let filter = ProjectFilter {
@@ -71,41 +64,15 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         }
         Ok(views)
     })?;
-    let by_year = a.by.is_some();
-    let mut t = table::empty();
-    let mut all = TotalsLine::default();
-    let mut backdated = Vec::new();
-    for v in &views {
-        let totals = v.totals(deduction)?;
-        for note in backdated_notes(v, &v.periods(v.claim_period())?) {
-            backdated.push(format!("{}: {note}", v.project().code));
-        }
-        if by_year {
-            for (year, line) in &totals.years {
-                table::project_row(&mut t, v.project(), Some(*year), line, None);
-            }
-        } else {
-            table::project_row(&mut t, v.project(), None, &totals.total, totals.headroom);
-        }
-        all = all.checked_add(&totals.total).ok_or_else(|| {
-            Error::Refused(
-                "the totals across these projects leave the range of whole grams the ledger counts in (9.2 million Mt); narrow them with --operator, --method or --permit".into(),
-            )
-        })?;
-    }
-    table::all_row(&mut t, &all);
-    table::notes(&mut t, backdated, by_year);
+    let across = across(&views, deduction).map_err(|e| match e {
+        AcrossError::View(e) => e.into(),
+        AcrossError::OutOfRange => Error::Refused(
+            "the totals across these projects leave the range of whole grams the ledger counts in (9.2 million Mt); narrow them with --operator, --method or --permit".into(),
+        ),
+    })?;
+    let mut t = table(&views, &across, a.by.is_some())?;
     dates.mark(&mut t, "them");
-    let late = super::late::late_table(
-        views
-            .iter()
-            .flat_map(|v| v.listed().map(move |e| (v.project().code.as_str(), e))),
-    );
-    let mut report = Report::default().table(t);
-    if let Some(l) = late {
-        report = report.table(l);
-    }
-    Ok(report)
+    Ok(Report::default().table(t).table_if(late_of(&views)))
 }
 
 /// A filter that matches no project is refused, listing the values the ledger knows.

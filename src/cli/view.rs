@@ -36,29 +36,16 @@ pub fn load_seeing(
     through: Option<NaiveDate>,
     mut each: impl FnMut(&SealedEntry),
 ) -> Result<ProjectFigures> {
-    let project = known_project(tx, code)?;
-    let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
-    let mut sites = tx.sites(code)?;
-    sites.retain(|s| held(s.registered_at));
-    let mut settings = tx.settings(code)?;
-    settings.retain(|s| held(s.recorded_at));
-    let mut feedstocks = tx.feedstocks(code)?;
-    feedstocks.retain(|f| held(f.registered_at));
-    let evidence = tx
-        .effective_evidence(code, as_of)?
-        .into_iter()
-        .map(|s| s.entry)
-        .collect();
-    let mut view = ProjectView::new(
-        Registrations {
-            project,
-            sites,
-            settings,
-            feedstocks,
-            evidence,
-        },
-        through,
-    )?;
+    let registrations = Registrations {
+        project: known_project(tx, code)?,
+        sites: tx.sites(code)?,
+        settings: tx.settings(code)?,
+        feedstocks: tx.feedstocks(code)?,
+        evidence: (tx.effective_evidence(code, as_of)?.into_iter())
+            .map(|s| s.entry)
+            .collect(),
+    };
+    let mut view = ProjectView::new(registrations.held_at(as_of), through)?;
     tx.walk_chain(code, as_of, |row| {
         each(row.sealed);
         if row.replaced_by.is_none() {

@@ -2,6 +2,7 @@
 //! the file is to replace the earlier export, becomes a correction of the entry it replaces.
 
 use super::meter_day::MeterDay;
+use crate::ledger::Entry;
 use chrono::NaiveDate;
 use std::collections::HashMap;
 
@@ -75,6 +76,27 @@ pub struct HandCorrection {
     /// The imported entry the line started from, and its file.
     pub imported_seq: u64,
     pub file: String,
+}
+
+impl HandCorrection {
+    /// Whether `e` may be one: an entry without a file that corrects another.
+    pub fn candidate(e: &Entry) -> bool {
+        e.evidence.is_none() && e.corrects.is_some()
+    }
+
+    /// `hand`, a correction by hand of a line that began with `imported`.
+    pub fn of(hand: &Entry, imported: &Entry) -> HandCorrection {
+        HandCorrection {
+            seq: hand.seq,
+            meter: hand.meter.clone().unwrap_or_default(),
+            day: hand.period.from,
+            imported_seq: imported.seq,
+            file: imported
+                .evidence
+                .as_ref()
+                .map_or_else(String::new, |ev| ev.file_name.clone()),
+        }
+    }
 }
 
 impl std::fmt::Display for HandCorrection {

@@ -27,6 +27,17 @@ pub struct AppendReads {
     pub tip: (u64, Hash),
 }
 
+impl AppendReads {
+    /// What `admitted` takes the place of in the figures: the entry a correction names; a late
+    /// correction is a difference of its own and replaces nothing it counts.
+    pub fn replaced_for(&self, admitted: &Entry) -> Vec<Entry> {
+        (self.target.iter())
+            .filter(|_| admitted.corrects.is_some())
+            .map(|t| t.1.clone())
+            .collect()
+    }
+}
+
 /// Why an entry cannot be appended, before or by the append's own rules.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub enum AdmitError {

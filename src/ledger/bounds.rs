@@ -33,6 +33,39 @@ pub fn text(value: &str, max: usize) -> Result<(), String> {
     Ok(())
 }
 
+/// Why free text is refused.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum TextRefusal {
+    /// Longer than its bound (see [`text`]).
+    TooLong(String),
+    Empty,
+    /// A control character, which would garble reports.
+    Control,
+}
+
+impl std::fmt::Display for TextRefusal {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Self::TooLong(why) => f.write_str(why),
+            Self::Empty => f.write_str("must not be empty"),
+            Self::Control => f.write_str("must not contain control characters"),
+        }
+    }
+}
+
+/// Free text that goes into the ledger: at most `max` characters, not blank, no control
+/// characters.
+pub fn free_text(value: &str, max: usize) -> Result<(), TextRefusal> {
+    text(value, max).map_err(TextRefusal::TooLong)?;
+    if value.trim().is_empty() {
+        return Err(TextRefusal::Empty);
+    }
+    if value.chars().any(char::is_control) {
+        return Err(TextRefusal::Control);
+    }
+    Ok(())
+}
+
 /// The value as an error message repeats it: whole when short, else its start and length.
 pub fn shown(value: &str) -> String {
     if value.chars().count() <= SHOWN {
@@ -122,6 +155,17 @@ mod tests {
         assert_eq!(e, "is 201 characters long; at most 200 are kept");
         assert_eq!(shown(&"x".repeat(41)), format!("{}…", "x".repeat(40)));
         assert_eq!(shown("short"), "short");
+    }
+
+    #[test]
+    fn free_text_is_bounded_not_blank_and_free_of_control_characters() {
+        assert_eq!(free_text("TF-I1 annulus", TEXT_MAX), Ok(()));
+        assert!(matches!(
+            free_text(&"x".repeat(201), TEXT_MAX),
+            Err(TextRefusal::TooLong(_))
+        ));
+        assert_eq!(free_text("  ", TEXT_MAX), Err(TextRefusal::Empty));
+        assert_eq!(free_text("a\tb", TEXT_MAX), Err(TextRefusal::Control));
     }
 
     #[test]

@@ -1,6 +1,45 @@
 //! Corrections: a new entry names the entry it replaces; reports read the latest of each line.
 
-use super::entry::{Entry, SealedEntry};
+use super::entry::{Entry, Reading, SealedEntry};
+use super::period::Period;
+use crate::quantity::Mass;
+use chrono::{DateTime, Utc};
+
+/// What a correction says beside its reading: each value left out is the corrected entry's.
+#[derive(Debug, Clone, Default)]
+pub struct Restating {
+    pub site: Option<String>,
+    pub meter: Option<String>,
+    pub note: Option<String>,
+    pub reason: String,
+}
+
+/// The correction of `target`: a new entry of its kind that names it, covering `period` with
+/// the reading and grams restated, `r`'s values where given and the target's otherwise. It
+/// keeps no evidence: a file's bytes stand behind the entry they came with, not its correction.
+pub fn correction(
+    target: Entry,
+    period: Period,
+    (reading, mass): (Reading, Mass),
+    r: Restating,
+    recorded_at: DateTime<Utc>,
+) -> Entry {
+    Entry {
+        seq: 0,
+        site: r.site.unwrap_or(target.site.clone()),
+        period,
+        reading,
+        mass,
+        recorded_at,
+        key: String::new(),
+        meter: r.meter.or(target.meter.clone()),
+        note: r.note.or(target.note.clone()),
+        corrects: Some(target.seq),
+        reason: Some(r.reason),
+        evidence: None,
+        ..target
+    }
+}
 
 /// Why a correction cannot be recorded.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -70,4 +109,46 @@ pub fn effective(entries: &[SealedEntry]) -> impl Iterator<Item = &Entry> {
         .zip(by)
         .filter(|(_, b)| b.is_none())
         .map(|(s, _)| &s.entry)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::ledger::EntryKind;
+    use crate::ledger::period::parse_date;
+
+    #[test]
+    fn a_correction_names_its_target_and_carries_over_what_it_does_not_restate() {
+        let day = |s| Period::day(parse_date(s).unwrap());
+        let mut target = Entry::draft(
+            EntryKind::Injection,
+            "TFS".into(),
+            "TF-I1".into(),
+            day("2026-01-05"),
+            Reading::default(),
+            Mass::from_grams(5),
+            DateTime::UNIX_EPOCH,
+        );
+        (target.seq, target.meter, target.note) = (3, Some("FM-101".into()), Some("n".into()));
+        target.key = "k".into();
+        let r = Restating {
+            note: Some("read again".into()),
+            reason: "recalibrated".into(),
+            ..Restating::default()
+        };
+        let now = DateTime::UNIX_EPOCH + chrono::Duration::days(1);
+        let read = (Reading::default(), Mass::from_grams(7));
+        let c = correction(target, day("2026-01-06"), read, r, now);
+        assert_eq!((c.corrects, c.seq, c.key.as_str()), (Some(3), 0, ""));
+        assert_eq!(
+            (c.site.as_str(), c.meter.as_deref()),
+            ("TF-I1", Some("FM-101"))
+        );
+        assert_eq!(c.note.as_deref(), Some("read again"));
+        assert_eq!(c.reason.as_deref(), Some("recalibrated"));
+        assert_eq!(
+            (c.mass, c.recorded_at, c.kind),
+            (Mass::from_grams(7), now, EntryKind::Injection)
+        );
+    }
 }

@@ -166,6 +166,37 @@ pub struct Entry {
 }
 
 impl Entry {
+    /// A new entry of `kind` before the append gives it its seq and key: it adds to or
+    /// deducts from storage as its kind does, and corrects nothing.
+    pub fn draft(
+        kind: EntryKind,
+        project: String,
+        site: String,
+        period: Period,
+        reading: Reading,
+        mass: Mass,
+        recorded_at: DateTime<Utc>,
+    ) -> Entry {
+        Entry {
+            project,
+            seq: 0,
+            kind,
+            site,
+            period,
+            reading,
+            mass,
+            sign: kind.sign(),
+            recorded_at,
+            key: String::new(),
+            meter: None,
+            note: None,
+            corrects: None,
+            reason: None,
+            evidence: None,
+            recorded_by: None,
+        }
+    }
+
     /// Whether two entries record the same thing, ignoring position, time and role of
     /// recording; a re-submission of the same key with the same content is a harmless retry.
     pub fn same_content(&self, other: &Entry) -> bool {

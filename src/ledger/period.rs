@@ -1,7 +1,7 @@
 //! Reporting periods: the days an entry covers (both ends included) and the calendar buckets
 //! reports group them into.
 
-use chrono::{Datelike, NaiveDate};
+use chrono::{DateTime, Datelike, NaiveDate, Utc};
 use std::fmt;
 
 /// The days an entry covers, `from` and `to` both included.
@@ -37,6 +37,14 @@ impl fmt::Display for Period {
             write!(f, "{} – {}", self.from, self.to)
         }
     }
+}
+
+/// The last instant of a calendar day in UTC, to the microsecond an entry's recorded time
+/// keeps: what the ledger held "as of" that day includes everything recorded up to it.
+pub fn end_of_day(d: NaiveDate) -> DateTime<Utc> {
+    d.and_hms_micro_opt(23, 59, 59, 999_999)
+        .expect("valid time")
+        .and_utc()
 }
 
 /// Parses an ISO 8601 calendar date (`2026-03-31`).
@@ -202,6 +210,17 @@ fn split_by_days<K: Copy>(grams: i64, spans: &[(K, i64)]) -> Vec<(K, i64)> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_end_of_a_day_is_its_last_microsecond() {
+        let d = parse_date("2026-06-30").unwrap();
+        let end = end_of_day(d);
+        assert_eq!(end.to_rfc3339(), "2026-06-30T23:59:59.999999+00:00");
+        assert_eq!(
+            (end + chrono::Duration::microseconds(1)).date_naive(),
+            d.succ_opt().unwrap()
+        );
+    }
 
     fn d(s: &str) -> NaiveDate {
         parse_date(s).unwrap()

@@ -73,6 +73,23 @@ pub struct Project {
     pub registered_at: DateTime<Utc>,
 }
 
+#[cfg(test)]
+impl Project {
+    /// Project `code` of `method` with no permit, registered at the epoch: a test's project.
+    pub fn example(code: &str, method: Method) -> Project {
+        Project {
+            code: code.into(),
+            name: code.into(),
+            method,
+            operator: "O".into(),
+            permit_ref: None,
+            permit_capacity: None,
+            permit_annual: None,
+            registered_at: DateTime::UNIX_EPOCH,
+        }
+    }
+}
+
 /// A well, field or plant of a project.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Site {

@@ -3,7 +3,7 @@
 //! is refused, or recorded as a late adjustment dated in the current period that names the
 //! sealed one, so the sealed figures never change.
 
-use super::entry::{Entry, EntryKind, Reading, Sign};
+use super::entry::{Entry, EntryKind, Reading};
 use super::hash::Hash;
 use super::period::Period;
 use super::reading_fields::checked;
@@ -77,24 +77,18 @@ impl Seal {
             self.figures.conservative.grams().to_string(),
         );
         reading.push("claimable_g", self.figures.claimable.grams().to_string());
-        Entry {
-            project: project.to_string(),
-            seq: self.seq,
-            kind: EntryKind::Seal,
-            site: String::new(),
-            period: self.period,
+        let mut e = Entry::draft(
+            EntryKind::Seal,
+            project.to_string(),
+            String::new(),
+            self.period,
             reading,
-            mass: Mass::ZERO,
-            sign: Sign::Neutral,
-            recorded_at: self.recorded_at,
-            key: format!("seal-{}", self.label),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        }
+            Mass::ZERO,
+            self.recorded_at,
+        );
+        e.seq = self.seq;
+        e.key = format!("seal-{}", self.label);
+        e
     }
 
     /// Reads a seal back from its entry; a field that does not read is named.
@@ -351,7 +345,7 @@ mod tests {
         e.reading = Reading::default();
         e.period = Period::new(d(from), d(to)).unwrap();
         e.mass = Mass::from_grams(grams);
-        e.sign = Sign::Adds;
+        e.sign = crate::ledger::Sign::Adds;
         e
     }
 

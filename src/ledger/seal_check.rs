@@ -105,7 +105,7 @@ impl SealCheck {
 mod tests {
     use super::*;
     use crate::ledger::chain;
-    use crate::ledger::entry::{Entry, Reading, Sign};
+    use crate::ledger::entry::{Entry, Reading};
     use crate::ledger::hash::Hash;
     use crate::ledger::merkle::root;
     use crate::ledger::period::{Period, parse_date};
@@ -114,24 +114,21 @@ mod tests {
     use chrono::DateTime;
 
     fn injection(seq: u64) -> Entry {
-        Entry {
-            project: "TFS".into(),
-            seq,
-            kind: EntryKind::Injection,
-            site: "TF-I1".into(),
-            period: Period::day(parse_date("2026-01-02").unwrap()),
-            reading: Reading::default(),
-            mass: Mass::from_grams(seq as i64 + 1),
-            sign: Sign::Adds,
-            recorded_at: DateTime::UNIX_EPOCH,
-            key: format!("k{seq}"),
-            meter: None,
-            note: None,
-            corrects: None,
-            reason: None,
-            evidence: None,
-            recorded_by: None,
-        }
+        let day = Period::day(parse_date("2026-01-02").unwrap());
+        let mass = Mass::from_grams(seq as i64 + 1);
+        let (project, site) = ("TFS".into(), "TF-I1".into());
+        let mut e = Entry::draft(
+            EntryKind::Injection,
+            project,
+            site,
+            day,
+            Reading::default(),
+            mass,
+            DateTime::UNIX_EPOCH,
+        );
+        e.seq = seq;
+        e.key = format!("k{seq}");
+        e
     }
 
     /// A chain of `n` entries with a seal at each seq of `at`; `bend` alters a seal before it is

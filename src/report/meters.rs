@@ -1,9 +1,22 @@
 //! The meters table: each meter's quarter of a year, as the per-meter figures a report files.
 
 use super::names;
-use super::{Cell, Table, columns};
+use super::{Cell, Report, Table, columns};
 use crate::accounting::meter_quarters::MeterQuarters;
+use crate::import::overlap::HandCorrection;
 use crate::quantity::Mass;
+use chrono::Datelike;
+
+/// The meters report of a year: its table, and a warning for each correction by hand of an
+/// imported meter-day of the year (it no longer equals the file's readings).
+pub fn report(project: &str, year: i32, rows: &MeterQuarters, hand: &[HandCorrection]) -> Report {
+    let mut report = Report::default().table(table(project, year, rows));
+    report.warnings = (hand.iter())
+        .filter(|h| h.day.year() == year)
+        .map(|h| h.to_string())
+        .collect();
+    report
+}
 
 /// The table of a year's meter quarters, with what rests on an assumed fraction noted.
 pub fn table(project: &str, year: i32, rows: &MeterQuarters) -> Table {

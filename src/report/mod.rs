@@ -3,11 +3,13 @@
 pub mod balance;
 pub mod chart;
 mod fit;
+pub mod generated;
 pub mod html;
 pub mod layout;
 pub mod meters;
 pub mod names;
 mod people;
+pub mod progress;
 pub mod render;
 pub mod stream;
 pub mod table;

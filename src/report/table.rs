@@ -148,6 +148,14 @@ impl Report {
         self
     }
 
+    /// Adds a table where there is one (the late adjustments, when any came late).
+    pub fn table_if(self, t: Option<Table>) -> Self {
+        match t {
+            Some(t) => self.table(t),
+            None => self,
+        }
+    }
+
     pub fn extend(&mut self, other: Report) {
         self.lines.extend(other.lines);
         self.warnings.extend(other.warnings);

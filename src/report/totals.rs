@@ -2,13 +2,40 @@
 //! of all of them, each figure by route.
 
 use super::names;
+use super::tables::claims::backdated_notes;
 use super::{Cell, Table, columns};
-use crate::accounting::project_view::TotalsLine;
+use crate::accounting::project_view::{AcrossProjects, ProjectFigures, TotalsLine, ViewError};
 use crate::ledger::Project;
 use crate::quantity::Mass;
 
+/// The totals of `views` (one line each, or one per year with `by_year`), the line of all of
+/// them and the notes, with the backdated settings each project's claim periods use.
+pub fn table(
+    views: &[ProjectFigures],
+    across: &AcrossProjects,
+    by_year: bool,
+) -> Result<Table, ViewError> {
+    let mut t = empty();
+    let mut backdated = Vec::new();
+    for (v, totals) in views.iter().zip(&across.each) {
+        for note in backdated_notes(v, &v.periods(v.claim_period())?) {
+            backdated.push(format!("{}: {note}", v.project().code));
+        }
+        if by_year {
+            for (year, line) in &totals.years {
+                project_row(&mut t, v.project(), Some(*year), line, None);
+            }
+        } else {
+            project_row(&mut t, v.project(), None, &totals.total, totals.headroom);
+        }
+    }
+    all_row(&mut t, &across.all);
+    notes(&mut t, backdated, by_year);
+    Ok(t)
+}
+
 /// The table, without rows.
-pub fn empty() -> Table {
+fn empty() -> Table {
     Table::new(
         "totals",
         "Totals across projects",
@@ -36,7 +63,7 @@ pub fn empty() -> Table {
 }
 
 /// A project's line (of a year, where given), with its headroom where it has one.
-pub fn project_row(
+fn project_row(
     t: &mut Table,
     p: &Project,
     year: Option<i32>,
@@ -56,7 +83,7 @@ pub fn project_row(
 }
 
 /// The line of all the projects.
-pub fn all_row(t: &mut Table, all: &TotalsLine) {
+fn all_row(t: &mut Table, all: &TotalsLine) {
     let mut row = vec![
         Cell::text("all"),
         Cell::Empty,
@@ -70,7 +97,7 @@ pub fn all_row(t: &mut Table, all: &TotalsLine) {
 }
 
 /// What the figures are, the backdated settings they use, and how reversals count.
-pub fn notes(t: &mut Table, backdated: Vec<String>, by_year: bool) {
+fn notes(t: &mut Table, backdated: Vec<String>, by_year: bool) {
     t.note("Stored and claimable by route, never added across routes: geological, the 40 CFR 98.443 mass balance of injection projects (basalt mineralization counts here: the CO2 injected and kept, mineralized or not); mineralized, the carbonation uptake of ex-situ projects less their emissions; weathering net removal, removal less the project's emissions (default settings). Conservative, durable, buffer and claimable as each project's settings in force set them.");
     for note in backdated {
         t.note(note);

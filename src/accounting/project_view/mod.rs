@@ -8,6 +8,7 @@
 //! order with [`ProjectView::add`], each decoded once, then asks [`ProjectView::finish`] for
 //! the figures. What it holds grows with periods and meters, not with entries.
 
+mod across;
 mod basalt;
 mod emissions;
 mod error;
@@ -25,6 +26,7 @@ mod through;
 mod totals;
 mod weathering;
 
+pub use across::{AcrossError, AcrossProjects, across};
 pub use basalt::{CampaignRead, MineralizationLine, SampleRead, kept_total, mineralization_total};
 pub use error::ViewError;
 pub use ex_situ::CarbonationLine;
@@ -52,7 +54,7 @@ use crate::ledger::setting::{Setting, SettingName, in_force};
 use crate::ledger::{Entry, EntryKind, Method, Project, Site};
 use crate::quantity::Mass;
 use basalt::BasaltFold;
-use chrono::NaiveDate;
+use chrono::{DateTime, NaiveDate, Utc};
 use emissions::EmissionSums;
 use evidence::Batch;
 use geological::Calibrations;
@@ -73,6 +75,18 @@ pub struct Registrations {
     /// its uncertainty; the latest tracer campaign splits every injection before it. The fold
     /// checks that the entries fed include exactly these.
     pub evidence: Vec<Entry>,
+}
+
+impl Registrations {
+    /// The registrations the ledger held at `as_of` (all of them without one): sites,
+    /// settings and feedstocks recorded later are left out.
+    pub fn held_at(mut self, as_of: Option<DateTime<Utc>>) -> Registrations {
+        let held = |t: DateTime<Utc>| as_of.is_none_or(|a| t <= a);
+        self.sites.retain(|s| held(s.registered_at));
+        self.settings.retain(|s| held(s.recorded_at));
+        self.feedstocks.retain(|f| held(f.registered_at));
+        self
+    }
 }
 
 /// The kinds the view reads before the others (see [`Registrations::evidence`]).
@@ -474,4 +488,34 @@ pub fn claims_total(claims: &[(Bucket, Claim)]) -> [Mass; 9] {
         }
     }
     total
+}
+
+#[cfg(test)]
+mod held_tests {
+    use super::*;
+    use crate::ledger::SiteKind;
+
+    #[test]
+    fn registrations_recorded_after_the_date_asked_are_left_out() {
+        let at = |d: i64| DateTime::UNIX_EPOCH + chrono::Duration::days(d);
+        let site = |code: &str, day| Site {
+            project: "P".into(),
+            code: code.into(),
+            kind: SiteKind::InjectionWell,
+            area: None,
+            uncertainty: None,
+            registered_at: at(day),
+        };
+        let r = || Registrations {
+            project: Project::example("P", Method::SalineAquifer),
+            sites: vec![site("W1", 1), site("W2", 3)],
+            settings: vec![],
+            feedstocks: vec![],
+            evidence: vec![],
+        };
+        let codes = |r: Registrations| r.sites.into_iter().map(|s| s.code).collect::<Vec<_>>();
+        assert_eq!(codes(r().held_at(Some(at(2)))), ["W1"]);
+        assert_eq!(codes(r().held_at(Some(at(3)))), ["W1", "W2"]);
+        assert_eq!(codes(r().held_at(None)), ["W1", "W2"]);
+    }
 }

@@ -50,11 +50,7 @@ pub(in crate::cli) fn commit_with(
             if permit::bears_on(s.entry.kind) {
                 let new = std::slice::from_ref(&s.entry);
                 let standing = standing(tx, &reads.project, reads.tally, new)?;
-                // A late correction is a difference of its own, replacing nothing it counts.
-                let gone: Vec<Entry> = (reads.target.iter())
-                    .filter(|_| s.entry.corrects.is_some())
-                    .map(|t| t.1.clone())
-                    .collect();
+                let gone = reads.replaced_for(&s.entry);
                 warnings =
                     crate::cli::permit_check(&reads.project, &standing, new, &gone, over_permit)?;
             }

@@ -1,14 +1,16 @@
 //! `correct`: a new entry that replaces one, restating its quantity or period and keeping what
 //! belongs to its kind.
 
-use super::{QuantityArgs, commit_with, optional_text, period};
+use super::{QuantityArgs, commit_with, period, value_name};
 use crate::accounting::restatement::{Given, RestateError, Restated, restate};
+use crate::cli::Context;
+use crate::cli::inputs::{self, restated_option};
 use crate::cli::setup::known_project;
-use crate::cli::{Context, inputs};
 use crate::error::{Error, Result};
 use crate::ledger::Entry;
+use crate::ledger::correction::{Restating, correction};
 use crate::report::Report;
-use clap::{Args, ValueEnum};
+use clap::Args;
 
 #[derive(Debug, Clone, Args)]
 pub struct CorrectArgs {
@@ -47,9 +49,9 @@ pub struct CorrectArgs {
 
 pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     inputs::text("--reason", &a.reason)?;
-    optional_text("--key", &a.key)?;
-    optional_text("--meter", &a.meter)?;
-    optional_text("--note", &a.note)?;
+    inputs::optional_text("--key", &a.key)?;
+    inputs::optional_text("--meter", &a.meter)?;
+    inputs::optional_text("--note", &a.note)?;
     let (key, over_permit) = (a.key.clone(), a.over_permit);
     commit_with(ctx, key, over_permit, |tx| {
         known_project(tx, &a.project)?;
@@ -60,20 +62,6 @@ pub fn correct(ctx: &Context, a: CorrectArgs) -> Result<Report> {
     })
 }
 
-/// How the command line names a value a correction restates.
-fn option(r: Restated) -> &'static str {
-    match r {
-        Restated::Mass => "--mass",
-        Restated::Volume => "--volume",
-        Restated::Co2Fraction => "--co2-fraction",
-        Restated::Co2Basis => "--co2-basis",
-        Restated::Density => "--density",
-        Restated::Impurities => "--impurities",
-        Restated::Uncertainty => "--uncertainty",
-        Restated::Meter => "--meter",
-    }
-}
-
 /// The value given for `r`, as spelled on the command line.
 fn given_text(a: &CorrectArgs, r: Restated) -> String {
     let q = &a.quantity;
@@ -81,18 +69,13 @@ fn given_text(a: &CorrectArgs, r: Restated) -> String {
         Restated::Mass => q.mass.clone(),
         Restated::Volume => q.volume.clone(),
         Restated::Co2Fraction => q.co2_fraction.clone(),
-        Restated::Co2Basis => q.co2_basis.and_then(|b| option_value(&b)),
-        Restated::Density => q.density.and_then(|d| option_value(&d)),
+        Restated::Co2Basis => q.co2_basis.map(|b| value_name(&b)),
+        Restated::Density => q.density.map(|d| value_name(&d)),
         Restated::Impurities => q.impurities.clone(),
         Restated::Uncertainty => q.uncertainty.clone(),
         Restated::Meter => a.meter.clone(),
     };
     text.unwrap_or_default()
-}
-
-/// How a value of an enumerated option is spelled on the command line.
-fn option_value(v: &impl ValueEnum) -> Option<String> {
-    v.to_possible_value().map(|p| p.get_name().to_string())
 }
 
 /// A restatement's refusal, named by the option (or the seq) it is about.
@@ -104,7 +87,7 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
             seq,
             allowed,
         } => Error::field(
-            option(given),
+            restated_option(given),
             &given_text(a, given),
             format!(
                 "does not belong to a {kind} entry (seq {seq}); a {kind} correction takes {}",
@@ -113,7 +96,7 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
                 } else {
                     allowed
                         .iter()
-                        .map(|r| option(*r))
+                        .map(|r| restated_option(*r))
                         .collect::<Vec<_>>()
                         .join(", ")
                 }
@@ -131,7 +114,9 @@ fn refusal(a: &CorrectArgs, e: RestateError) -> Error {
             a.quantity.co2_fraction.as_deref().unwrap_or(""),
             "the corrected entry has no metered quantity to apply it to: give --mass or --volume",
         ),
-        RestateError::Value { given, value, why } => Error::field(option(given), &value, why),
+        RestateError::Value { given, value, why } => {
+            Error::field(restated_option(given), &value, why)
+        }
         RestateError::Meter(e) => inputs::meter_error(e),
     }
 }
@@ -145,19 +130,12 @@ fn corrected(ctx: &Context, a: CorrectArgs, target: Entry) -> Result<Entry> {
     let (reading, mass) = restate(&target, &given).map_err(|e| refusal(&a, e))?;
     let from = a.from.unwrap_or_else(|| target.period.from.to_string());
     let to = a.to.unwrap_or_else(|| target.period.to.to_string());
-    Ok(Entry {
-        seq: 0,
-        site: a.site.unwrap_or(target.site.clone()),
-        period: period(&from, &to, ctx.now.date_naive())?,
-        reading,
-        mass,
-        recorded_at: ctx.now,
-        key: String::new(),
-        meter: a.meter.or(target.meter.clone()),
-        note: a.note.or(target.note.clone()),
-        corrects: Some(target.seq),
-        reason: Some(a.reason),
-        evidence: None,
-        ..target
-    })
+    let period = period(&from, &to, ctx.now.date_naive())?;
+    let r = Restating {
+        site: a.site,
+        meter: a.meter,
+        note: a.note,
+        reason: a.reason,
+    };
+    Ok(correction(target, period, (reading, mass), r, ctx.now))
 }

@@ -109,16 +109,5 @@ fn leak_quantity(a: &LeakageArgs, b: &RecordArgs, period: Period) -> Result<(Rea
         let m = b.reading.quantity.measure()?;
         return Ok((m.reading, m.mass));
     };
-    let r = leakage::LeakRate::parse(rate).map_err(|e| Error::field("--rate", rate, e))?;
-    let mass = r
-        .emitted(period)
-        .map_err(|e| Error::field("--rate", rate, e))?;
-    let mut reading = Reading::default();
-    reading.push("rate", r.to_string());
-    reading.push("days", period.days().to_string());
-    reading.push(
-        "method",
-        "rate × 24 h × days (EU 2018/2066 Annex IV §23 B.3)",
-    );
-    Ok((reading, mass))
+    leakage::rated(rate, period).map_err(|e| Error::field("--rate", rate, e))
 }

@@ -31,10 +31,6 @@ pub(super) fn required<'a>(v: &'a Option<String>, field: &str) -> Result<&'a str
         .ok_or_else(|| Error::options(field, format!("{field} is required (ISO 8601 date)")))
 }
 
-fn optional_text(field: &str, v: &Option<String>) -> Result<()> {
-    v.as_deref().map_or(Ok(()), |t| inputs::text(field, t))
-}
-
 /// An entry before its seq, key and time are set.
 pub(super) fn draft(
     kind: EntryKind,
@@ -44,27 +40,14 @@ pub(super) fn draft(
     period: Period,
     ctx: &Context,
 ) -> Result<Entry> {
-    optional_text("--key", &b.reading.key)?;
-    optional_text("--meter", &b.reading.meter)?;
-    optional_text("--note", &b.reading.note)?;
-    Ok(Entry {
-        project: b.project.clone(),
-        seq: 0,
-        kind,
-        site: b.site.clone(),
-        period,
-        reading,
-        mass,
-        sign: kind.sign(),
-        recorded_at: ctx.now,
-        key: String::new(),
-        meter: b.reading.meter.clone(),
-        note: b.reading.note.clone(),
-        corrects: None,
-        reason: None,
-        evidence: None,
-        recorded_by: None,
-    })
+    inputs::optional_text("--key", &b.reading.key)?;
+    inputs::optional_text("--meter", &b.reading.meter)?;
+    inputs::optional_text("--note", &b.reading.note)?;
+    let (project, site) = (b.project.clone(), b.site.clone());
+    let mut e = Entry::draft(kind, project, site, period, reading, mass, ctx.now);
+    e.meter = b.reading.meter.clone();
+    e.note = b.reading.note.clone();
+    Ok(e)
 }
 
 pub(super) fn metered(
@@ -87,67 +70,52 @@ pub(super) fn metered(
 }
 
 pub fn record(ctx: &Context, c: RecordCommand) -> Result<Report> {
-    let (entry, key, over_permit) = match c {
-        RecordCommand::Receipt(b) => (
-            metered(EntryKind::Receipt, &b, &[], ctx)?,
-            b.reading.key,
-            false,
-        ),
-        RecordCommand::Redelivery(b) => (
-            metered(EntryKind::Redelivery, &b, &[], ctx)?,
-            b.reading.key,
-            false,
-        ),
-        RecordCommand::Injection(a) => (
-            metered(EntryKind::Injection, &a.base, &[], ctx)?,
-            a.base.reading.key,
-            a.over_permit,
-        ),
-        RecordCommand::Production(a) => (production(&a, ctx)?, a.base.reading.key, false),
+    match c {
+        RecordCommand::Receipt(b) => metered_commit(ctx, EntryKind::Receipt, &b, &[], false),
+        RecordCommand::Redelivery(b) => metered_commit(ctx, EntryKind::Redelivery, &b, &[], false),
+        RecordCommand::Injection(a) => {
+            metered_commit(ctx, EntryKind::Injection, &a.base, &[], a.over_permit)
+        }
+        RecordCommand::Production(a) => production(ctx, &a),
         RecordCommand::EquipmentLeak(a) => {
-            let side = match a.side {
-                Side::Injection => "injection",
-                Side::Production => "production",
-            };
-            (
-                metered(
-                    EntryKind::EquipmentLeak,
-                    &a.base,
-                    &[("side", side.into())],
-                    ctx,
-                )?,
-                a.base.reading.key,
-                false,
-            )
+            let side = [("side", value_name(&a.side))];
+            metered_commit(ctx, EntryKind::EquipmentLeak, &a.base, &side, false)
         }
         RecordCommand::Emission(a) if a.inventory.is_given() => {
-            return super::emission_inventory::emission(ctx, a);
+            super::emission_inventory::emission(ctx, a)
         }
         RecordCommand::Emission(a) => {
-            let cat = format!("{:?}", a.category.unwrap_or(Category::Energy)).to_lowercase();
-            (
-                metered(EntryKind::Emission, &a.base, &[("category", cat)], ctx)?,
-                a.base.reading.key,
-                false,
-            )
+            let category = [(
+                "category",
+                value_name(&a.category.unwrap_or(Category::Energy)),
+            )];
+            metered_commit(ctx, EntryKind::Emission, &a.base, &category, false)
         }
-        RecordCommand::Leakage(a) => return leakage_record(ctx, a),
-        RecordCommand::Calibration(a) => {
-            let key = a.key.clone();
-            (calibration(a, ctx)?, key, false)
-        }
-        RecordCommand::Reversal(a) => {
-            let key = a.key.clone();
-            (reversal(a, ctx)?, key, false)
-        }
-        RecordCommand::Survey(a) => {
-            let key = a.key.clone();
-            (survey(a, ctx)?, key, false)
-        }
-        RecordCommand::TracerSample(a) => return super::record_rock::tracer_sample(ctx, a),
-        RecordCommand::Carbonation(a) => return super::record_rock::carbonation(ctx, a),
-        RecordCommand::Application(a) => return super::record_rock::application(ctx, a),
-        RecordCommand::SoilSample(a) => return super::record_rock::soil_sample(ctx, a),
-    };
-    commit(ctx, entry, key, over_permit)
+        RecordCommand::Leakage(a) => leakage_record(ctx, a),
+        RecordCommand::Calibration(a) => calibration(ctx, a),
+        RecordCommand::Reversal(a) => reversal(ctx, a),
+        RecordCommand::Survey(a) => survey(ctx, a),
+        RecordCommand::TracerSample(a) => super::record_rock::tracer_sample(ctx, a),
+        RecordCommand::Carbonation(a) => super::record_rock::carbonation(ctx, a),
+        RecordCommand::Application(a) => super::record_rock::application(ctx, a),
+        RecordCommand::SoilSample(a) => super::record_rock::soil_sample(ctx, a),
+    }
+}
+
+/// A metered record appended under its own key.
+fn metered_commit(
+    ctx: &Context,
+    kind: EntryKind,
+    b: &RecordArgs,
+    extra: &[(&str, String)],
+    over_permit: bool,
+) -> Result<Report> {
+    let entry = metered(kind, b, extra, ctx)?;
+    commit(ctx, entry, b.reading.key.clone(), over_permit)
+}
+
+/// How a value of an enumerated option is spelled on the command line (and in the reading).
+fn value_name(v: &impl clap::ValueEnum) -> String {
+    v.to_possible_value()
+        .map_or_else(String::new, |p| p.get_name().to_string())
 }

@@ -93,3 +93,16 @@ pub fn tour_table(db: &str) -> Table {
     ));
     t
 }
+
+/// Where an annual report page the demo wrote was kept.
+pub fn page_line(page: &str) -> String {
+    format!("Annual report page written to {page} (kept; open it in a browser, or print it).")
+}
+
+/// The demo's first line: where its ledger was built (`place`) and the clock it was built at.
+pub fn built_line(place: &str, now: chrono::DateTime<chrono::Utc>) -> String {
+    format!(
+        "Demo ledger built {place} from the sample projects (invented data, see sample-projects/README.md), recorded as of {}.",
+        now.format("%Y-%m-%d %H:%M UTC")
+    )
+}

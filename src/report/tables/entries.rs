@@ -2,7 +2,87 @@
 
 use crate::ledger::SealedEntry;
 use crate::report::names;
-use crate::report::{Cell, Column, Table, columns};
+use crate::report::stream::RowStream;
+use crate::report::{Cell, Column, Format, Report, Table, columns};
+use std::io::{self, BufWriter, StdoutLock};
+
+/// The most rows a table for people holds unless a limit says otherwise: a table is fitted
+/// to its widest cell, so it is drawn whole, in memory.
+pub const TABLE_PAGE: u64 = 10_000;
+
+/// A project's entries listed as its chain is read, from a seq on and at most a limit of
+/// them: JSON and CSV go to standard output row by row (memory stays flat); a table for
+/// people holds one page.
+pub struct Listing {
+    from: u64,
+    limit: u64,
+    out: Out,
+}
+
+enum Out {
+    Streamed(RowStream<BufWriter<StdoutLock<'static>>>),
+    Page { table: Table, any_replaced: bool },
+}
+
+impl Listing {
+    /// A listing in `format`; without a limit, every entry for programs, a page for people.
+    pub fn new(format: Format, project: &str, from: u64, limit: Option<u64>) -> Listing {
+        let (limit, out) = match format {
+            Format::Table => {
+                let title = format!("Entries, project {project}");
+                let table = Table::new("entries", title, entry_columns());
+                let page = Out::Page {
+                    table,
+                    any_replaced: false,
+                };
+                (limit.unwrap_or(TABLE_PAGE), page)
+            }
+            _ => {
+                let out = BufWriter::with_capacity(1 << 16, io::stdout().lock());
+                let rows = RowStream::new(out, format, entry_columns());
+                (limit.unwrap_or(u64::MAX), Out::Streamed(rows))
+            }
+        };
+        Listing { from, limit, out }
+    }
+
+    /// Lists an entry (and the seq that corrects it) when it falls in the page asked.
+    pub fn push(&mut self, s: &SealedEntry, by: Option<u64>) -> io::Result<()> {
+        let seq = s.entry.seq;
+        if seq < self.from || seq - self.from >= self.limit {
+            return Ok(());
+        }
+        match &mut self.out {
+            Out::Streamed(rows) => rows.row(&entry_cells(s, by))?,
+            Out::Page {
+                table,
+                any_replaced,
+            } => {
+                *any_replaced |= by.is_some();
+                table.push(entry_cells(s, by));
+            }
+        }
+        Ok(())
+    }
+
+    /// The listing ended, the chain holding `total` entries: the page with its notes, or
+    /// nothing left to print.
+    pub fn finish(self, total: u64) -> io::Result<Report> {
+        match self.out {
+            Out::Streamed(rows) => {
+                rows.finish()?;
+                Ok(Report::written())
+            }
+            Out::Page {
+                mut table,
+                any_replaced,
+            } => {
+                entries_notes(&mut table, any_replaced, self.from, self.limit, total);
+                Ok(Report::default().table(table))
+            }
+        }
+    }
+}
 
 /// The columns of an entry's row.
 pub fn entry_columns() -> Vec<Column> {
@@ -66,7 +146,7 @@ pub fn entry_cells(s: &SealedEntry, by: Option<u64>) -> Vec<Cell> {
 /// The notes of a page of entries: what a "Corrected by" seq means, when any is shown, and how
 /// to list the rest when the page (`limit` rows from seq `from`) holds fewer than the chain's
 /// `total`.
-pub fn entries_notes(t: &mut Table, any_replaced: bool, from: u64, limit: u64, total: u64) {
+fn entries_notes(t: &mut Table, any_replaced: bool, from: u64, limit: u64, total: u64) {
     if any_replaced {
         t.note("Entries with a \"Corrected by\" seq are kept for the record; reports count the entry that corrects them.");
     }

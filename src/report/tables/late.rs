@@ -1,10 +1,20 @@
 //! The late-adjustments table: entries recorded after the period they cover was sealed.
 
+use crate::accounting::project_view::ProjectFigures;
 use crate::ledger::Entry;
 use crate::ledger::reading_fields::checked;
 use crate::ledger::seal::{late_for, late_replaces};
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
+
+/// The late adjustments of every project of `views`, one row each; None when there are none.
+pub fn late_of<'a>(views: impl IntoIterator<Item = &'a ProjectFigures>) -> Option<Table> {
+    late_table(
+        views
+            .into_iter()
+            .flat_map(|v| v.listed().map(move |e| (v.project().code.as_str(), e))),
+    )
+}
 
 /// The late adjustments among `entries` (project code, entry), one row each; None when there are
 /// none.

@@ -1,8 +1,24 @@
 //! The registration tables: projects and their sites.
 
+use crate::ledger::setting::Setting;
 use crate::ledger::{Project, Site};
 use crate::report::names;
-use crate::report::{Cell, Table, columns};
+use crate::report::tables::settings::settings_table;
+use crate::report::{Cell, Report, Table, columns};
+use chrono::{DateTime, Utc};
+
+/// One project shown whole: its line, its sites and its settings (those in force at `now`).
+pub fn project_report(
+    p: &Project,
+    sites: &[Site],
+    settings: &[Setting],
+    now: DateTime<Utc>,
+) -> Report {
+    Report::default()
+        .table(projects_table(std::slice::from_ref(p)))
+        .table(sites_table(&p.code, sites))
+        .table(settings_table(&p.code, settings, now))
+}
 
 pub fn projects_table(projects: &[Project]) -> Table {
     let mut t = Table::new(
