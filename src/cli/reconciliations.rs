@@ -11,7 +11,6 @@ use crate::accounting::materiality::{recorded_lines, recorded_years};
 use crate::error::Result;
 use crate::import::monitoring_report::MonitoringReport;
 use crate::ledger::reconciliation::Recorded;
-pub use crate::ledger::reconciliation_states::ChainStates;
 use crate::report::Report;
 use crate::report::tables::reconcile::line_note;
 pub use crate::report::tables::reconciliations::{record_tables, recorded_table};

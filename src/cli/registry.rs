@@ -1,7 +1,6 @@
 //! The shared registry's own commands: who may write what, and who keeps which projects.
 
 use super::Context;
-use super::sign::judge_all;
 use crate::error::{Error, Result};
 use crate::report::Report;
 use crate::report::tables::registry::{LastSeal, operators_table, verifier_word};
@@ -79,7 +78,7 @@ fn last_seal(tx: &mut Tx<'_>, code: &str) -> Result<Option<LastSeal>> {
     let Some(seal) = tx.seals(code)?.pop() else {
         return Ok(None);
     };
-    let statement = verifier_word(&judge_all(tx, code)?, seal.seq, code);
+    let statement = verifier_word(&tx.judged_statements(code)?, seal.seq, code);
     Ok(Some(LastSeal { seal, statement }))
 }
 

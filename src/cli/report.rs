@@ -7,7 +7,6 @@ use super::Context;
 use super::dates::Dates;
 use super::meters::{MetersArgs, meters_in};
 use super::reports::{BalanceArgs, By, balance_of};
-use super::sign::judge_all;
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::conservative::DeductionRule;
@@ -67,7 +66,7 @@ fn sealed(tx: &mut Tx<'_>, project: &str) -> Result<Sealed> {
                 .map_err(Error::ledger)
         })
         .collect::<Result<Vec<_>>>()?;
-    let statements = judge_all(tx, project)?;
+    let statements = tx.judged_statements(project)?;
     Ok(Sealed { seals, statements })
 }
 

@@ -9,12 +9,9 @@ use crate::ledger::seal::parse_period;
 use crate::ledger::signature::{
     Role, Signed, fingerprint, key_file_text, parse_key_file, sign as sign_with,
 };
-pub use crate::ledger::statement_check::Judged;
 use crate::ledger::statement_check::judged;
 use crate::report::Report;
-use crate::report::tables::sign::key_table;
-pub use crate::report::tables::sign::statements_table;
-use crate::store::Tx;
+use crate::report::tables::sign::{key_table, statements_table};
 use clap::{Args, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
 
@@ -187,15 +184,10 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         .table(statements_table(&a.project, &[judged(s, Ok(()))])))
 }
 
-/// Every statement of a project judged (`Tx::judged_statements`).
-pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
-    tx.judged_statements(project)
-}
-
 pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
     let judged = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
-        judge_all(tx, &a.project)
+        tx.judged_statements(&a.project)
     })?;
     Ok(Report::default().table(statements_table(&a.project, &judged)))
 }

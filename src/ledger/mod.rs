@@ -6,6 +6,7 @@ pub mod append;
 pub mod bounds;
 pub mod canonical;
 pub mod chain;
+pub mod chain_structure;
 pub mod correction;
 pub mod dated_fact;
 pub mod entry;

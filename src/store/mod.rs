@@ -12,6 +12,7 @@ mod imports;
 mod ledger_chain;
 mod lookup;
 mod postgres;
+mod project_check;
 mod reconciliations;
 mod rows;
 mod schema;
@@ -38,6 +39,7 @@ pub use imports::{
     BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
 };
 pub use postgres::RoleKind;
+pub use project_check::ProjectChecked;
 pub use stream::ChainRow;
 pub use wait::Wait;
 
