@@ -18,6 +18,7 @@ pub mod period;
 pub mod project;
 pub mod project_filter;
 pub mod proof;
+pub mod proof_seal;
 pub mod reading_fields;
 pub mod reconciliation;
 pub mod reconciliation_states;

@@ -13,6 +13,7 @@ mod ledger_chain;
 mod lookup;
 mod postgres;
 mod project_check;
+mod proof;
 mod reconciliations;
 mod rows;
 mod schema;
