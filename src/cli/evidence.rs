@@ -6,8 +6,9 @@ use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::plan::Plan;
-use crate::import::replan::{Kept, replan as replan_kept};
+use crate::import::replan::{Kept, plan_totals, replan as replan_kept};
 use crate::ledger::Site;
+use crate::ledger::recompute::ReadingTotal;
 use crate::report::Report;
 use crate::report::tables::evidence::readings_table;
 use crate::store::{StoredImport, Tx};
@@ -25,16 +26,6 @@ pub struct ReadingsArgs {
     /// The meter's day (YYYY-MM-DD)
     #[arg(long)]
     pub day: String,
-}
-
-/// The readings of one meter-day of one imported file, re-read from its bytes.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct ReadingTotal {
-    pub file_sha256: String,
-    pub meter: String,
-    pub day: String,
-    pub grams: i64,
-    pub rows: i64,
 }
 
 /// Re-reads import `i` of `project` from its kept bytes (`import::replan`).
@@ -56,27 +47,13 @@ fn replan(
     replan_kept(tx.evidence(i.id), project, sites, &kept, watch)
 }
 
-fn sites_of(tx: &mut Tx<'_>, project: &str) -> Result<HashMap<String, Site>> {
-    Ok(tx
-        .sites(project)?
-        .into_iter()
-        .map(|s| (s.code.clone(), s))
-        .collect())
-}
-
 /// Every imported meter-day of `project`, recomputed from the kept files.
 pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal>> {
-    let sites = sites_of(tx, project)?;
+    let sites = tx.sites_by_code(project)?;
     let mut out = Vec::new();
     for i in tx.imports(project)? {
         let p = replan(tx, project, &sites, &i, None)?;
-        out.extend(p.days.iter().map(|d| ReadingTotal {
-            file_sha256: i.sha256.clone(),
-            meter: d.meter.to_string(),
-            day: d.day.to_string(),
-            grams: d.co2.grams(),
-            rows: d.rows as i64,
-        }));
+        out.extend(plan_totals(&p, &i.sha256));
     }
     Ok(out)
 }
@@ -87,7 +64,7 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
         .map_err(|e| Error::field("--day", &a.day, e))?;
     let found = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
-        let sites = sites_of(tx, &a.project)?;
+        let sites = tx.sites_by_code(&a.project)?;
         let mut found = Vec::new();
         for i in tx.imports(&a.project)? {
             let p = replan(tx, &a.project, &sites, &i, Some((&a.meter, day)))?;

@@ -15,7 +15,9 @@ use crate::import::summary::Summary;
 use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
-use crate::report::tables::import::{already_line, summary_line, summary_table};
+use crate::report::tables::import::{
+    already_line, bad_rows_why, no_readings_why, summary_line, summary_table,
+};
 use crate::store::{BYTES_PER_ENTRY, ImportSummary, NewImport, Tx, disk_error, room_for};
 use clap::Args;
 use std::collections::HashMap;
@@ -47,9 +49,6 @@ pub struct ImportArgs {
     #[arg(long)]
     pub replace: bool,
 }
-
-/// Bad rows or overlaps listed in the one-line refusal before "and N more".
-const LISTED: usize = 20;
 
 /// The import asked for, once its options are read.
 struct Request<'a> {
@@ -92,11 +91,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
 fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report> {
     let (a, file_name) = (req.args, req.file_name.as_str());
     let project = known_project(tx, &a.project)?;
-    let sites: HashMap<String, Site> = tx
-        .sites(&a.project)?
-        .into_iter()
-        .map(|s| (s.code.clone(), s))
-        .collect();
+    let sites = tx.sites_by_code(&a.project)?;
     let import_id = tx.next_import_id()?;
     let plan = match read_file(tx, req, &sites, import_id)? {
         (plan, Some(prev)) => {
@@ -193,41 +188,13 @@ fn read_file(
     })
 }
 
-pub(super) fn listed<T: ToString>(items: &[T]) -> String {
-    let shown: Vec<String> = items.iter().take(LISTED).map(ToString::to_string).collect();
-    let more = if items.len() > LISTED {
-        format!("; and {} more", items.len() - LISTED)
-    } else {
-        String::new()
-    };
-    format!("{}{more}", shown.join("; "))
-}
-
 /// Bad rows refuse the file unless `--skip-bad`; a file with nothing good is refused anyway.
 fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
-    let n = plan.bad.len();
-    let lines = plan.bad_lines();
-    let took = if lines as usize > n {
-        format!(" taking {lines} lines")
-    } else {
-        String::new()
-    };
-    if n > 0 && !skip_bad {
-        return Err(Error::input(
-            file_name,
-            format!(
-                "{n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
-                if n == 1 { "" } else { "s" },
-                listed(&plan.bad)
-            ),
-        ));
+    if !plan.bad.is_empty() && !skip_bad {
+        return Err(Error::input(file_name, bad_rows_why(plan)));
     }
     if plan.accepted == 0 {
-        return Err(Error::field(
-            "FILE",
-            file_name,
-            format!("has no readings to import ({n} bad rows skipped{took}); nothing written"),
-        ));
+        return Err(Error::field("FILE", file_name, no_readings_why(plan)));
     }
     Ok(())
 }

@@ -3,14 +3,14 @@
 //! written a chunk at a time, so memory holds one chunk of entries beside the plan.
 
 use super::Context;
-use super::import::listed;
+use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_day::{MeterDay, Source, permit_entries};
 use crate::import::overlap::{self, Covered};
 use crate::ledger::append::{AppendError, Appended, SealRule, append};
-use crate::ledger::{EntryKind, Project, SealedEntry, Site};
+use crate::ledger::{Project, SealedEntry, Site};
+use crate::report::tables::import::counted_why;
 use crate::store::Tx;
-use chrono::NaiveDate;
 use std::collections::HashMap;
 
 /// Entries sealed and written at a time.
@@ -35,16 +35,15 @@ pub(super) fn write(
     mut sealed: impl FnMut(&MeterDay, &SealedEntry),
 ) -> Result<Vec<String>> {
     let code = source.project;
-    let covered = covered_days(tx, code, source.kind, days)?;
-    let corrects = overlap::corrections(days, &covered, to.replace).map_err(|o| {
-        Error::Refused(format!(
-            "{}: {} meter-day{} already counted in the ledger, nothing written (a meter-day counts once: if this file replaces the earlier export, import it with --replace): {}",
-            source.file_name,
-            o.len(),
-            if o.len() == 1 { " is" } else { "s are" },
-            listed(&o)
-        ))
-    })?;
+    let covered: Covered = match overlap::span(days) {
+        Some((first, last)) => tx
+            .counted_days(code, source.kind.name(), first, last)?
+            .into_iter()
+            .collect(),
+        None => Covered::new(),
+    };
+    let corrects = overlap::corrections(days, &covered, to.replace)
+        .map_err(|o| Error::Refused(counted_why(source.file_name, &o)))?;
     let warnings = permit_warnings(tx, to, source, days, &corrects)?;
     let mut tip = tx.chain_tip(code)?;
     let seals = tx.seals(code)?;
@@ -87,24 +86,13 @@ fn permit_warnings(
     days: &[MeterDay],
     corrects: &[Option<u64>],
 ) -> Result<Vec<String>> {
-    if !matches!(
-        source.kind,
-        EntryKind::Injection | EntryKind::Production | EntryKind::EquipmentLeak
-    ) {
+    if !permit::bears_on(source.kind) {
         return Ok(Vec::new());
     }
     let code = source.project;
     let new = permit_entries(days, source)
         .ok_or_else(|| Error::field("FILE", source.file_name, "totals too large for the ledger"))?;
-    let mut gone = Vec::new();
-    for t in corrects.iter().flatten() {
-        let replaced = tx.entry_at(code, *t)?.ok_or_else(|| {
-            Error::ledger(format!(
-                "project {code} has no seq {t}, which an effective meter-day named"
-            ))
-        })?;
-        gone.push(replaced.entry);
-    }
+    let gone = tx.replaced_entries(code, corrects.iter().flatten().copied())?;
     let tally = tx.tally(code)?;
     let standing = super::record::standing(tx, to.project, tally, &new)?;
     super::permit_check(to.project, &standing, &new, &gone, to.over_permit)
@@ -120,30 +108,4 @@ fn refused_row(file_name: &str, e: AppendError) -> Error {
         AppendError::Sealed(s) => Error::field("FILE", file_name, super::sealed(&s)),
         e => Error::field("FILE", file_name, e),
     }
-}
-
-/// The meter-days of the plan's span that the ledger already counts, for this kind of entry.
-fn covered_days(
-    tx: &mut Tx<'_>,
-    project: &str,
-    kind: EntryKind,
-    days: &[MeterDay],
-) -> Result<Covered> {
-    let (Some(first), Some(last)) = (
-        days.iter().map(|d| d.day).min(),
-        days.iter().map(|d| d.day).max(),
-    ) else {
-        return Ok(Covered::new());
-    };
-    let mut covered = Covered::new();
-    for c in tx.covered_days(project, kind.name(), first, last)? {
-        let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
-            Error::ledger(format!(
-                "project {project} seq {}: period_from {:?} is not a date",
-                c.seq, c.day
-            ))
-        })?;
-        covered.insert((c.meter, day), (c.seq as u64, c.evidence_name));
-    }
-    Ok(covered)
 }

@@ -3,7 +3,6 @@
 //! nothing in the report could be assessed; `--record` keeps the reconciliation in the ledger.
 
 use super::Context;
-use super::evidence::ReadingTotal;
 use super::reconciliations::{RecordArgs, record, recorded_table};
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
@@ -11,14 +10,14 @@ use crate::accounting::materiality::{MaterialityPolicy, Reconciliation, Verdict}
 use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
-use crate::ledger::{EntryKind, Hash};
+use crate::ledger::Hash;
+use crate::ledger::recompute::Recompute;
 use crate::report::tables::reconcile::{
     RecomputeTable, lines_table, materiality_basis, verdicts_table,
 };
 use crate::report::{Report, Table};
 use crate::store::Tx;
 use clap::Args;
-use std::collections::HashMap;
 use std::path::PathBuf;
 
 /// Exit code when a reporting year's misstatement is material.
@@ -90,11 +89,9 @@ fn compare(
     level: &Level,
 ) -> Result<Compared> {
     let view = load(tx, &a.project, None)?;
-    let recompute = if a.recompute {
-        let totals = super::evidence::reading_totals(tx, &a.project)?;
-        Some(recompute_table(tx, &a.project, &totals)?)
-    } else {
-        None
+    let recompute = match a.recompute {
+        true => Some(recompute_table(tx, &a.project)?),
+        false => None,
     };
     let tip = tx.chain_tip(&a.project)?;
     let reconciliation = view
@@ -166,30 +163,14 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
 }
 
 /// Every imported meter-day recomputed from its raw readings, the chain read row by row.
-fn recompute_table(tx: &mut Tx<'_>, project: &str, totals: &[ReadingTotal]) -> Result<Table> {
-    let by: HashMap<(&str, &str, &str), &ReadingTotal> = totals
-        .iter()
-        .map(|t| {
-            (
-                (t.file_sha256.as_str(), t.meter.as_str(), t.day.as_str()),
-                t,
-            )
-        })
-        .collect();
+fn recompute_table(tx: &mut Tx<'_>, project: &str) -> Result<Table> {
+    let totals = super::evidence::reading_totals(tx, project)?;
+    let recompute = Recompute::new(&totals);
     let mut t = RecomputeTable::new(project);
     tx.for_each_entry(project, None, |s| {
-        let e = &s.entry;
-        let (Some(sha), Some(meter)) = (e.reading.text("file_sha256"), e.meter.as_deref()) else {
-            return Ok(());
-        };
-        if e.kind == EntryKind::Survey || e.corrects.is_some() {
-            return Ok(());
+        if let Some(r) = recompute.entry(&s.entry) {
+            t.meter_day(&s.entry, r.meter, &r.day, r.found);
         }
-        let day = e.period.from.to_string();
-        let found = by
-            .get(&(sha, meter, day.as_str()))
-            .map(|r| (r.grams, r.rows));
-        t.meter_day(e, meter, &day, found);
         Ok(())
     })?;
     Ok(t.finish())

@@ -5,6 +5,7 @@
 use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::plan::{Options, Plan, plan};
+use crate::ledger::recompute::ReadingTotal;
 use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use chrono::NaiveDate;
@@ -62,6 +63,17 @@ pub fn replan(
         )));
     }
     Ok(p)
+}
+
+/// What a re-read plan's meter-days add up to, each a total of file `sha256`'s readings.
+pub fn plan_totals<'p>(p: &'p Plan, sha256: &'p str) -> impl Iterator<Item = ReadingTotal> + 'p {
+    p.days.iter().map(move |d| ReadingTotal {
+        file_sha256: sha256.to_string(),
+        meter: d.meter.to_string(),
+        day: d.day.to_string(),
+        grams: d.co2.grams(),
+        rows: d.rows as i64,
+    })
 }
 
 fn short(hex: &str) -> &str {

@@ -73,23 +73,18 @@ impl<'a> ChainStructure<'a> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ledger::seal::{Figures, Seal, parse_period};
+    use crate::ledger::seal::Seal;
+    use crate::ledger::seal::tests::seal;
     use crate::ledger::{Entry, Hash, chain};
-    use chrono::DateTime;
 
     /// A seal entry at seq 0 of TFS, the base the test's entries are bent from.
     fn seal_entry() -> Entry {
-        let (label, period) = parse_period("2026-01").unwrap();
-        let seal = Seal {
-            seq: 0,
-            label,
-            period,
-            tree_size: 0,
-            root: crate::ledger::merkle::root(&[]),
-            figures: Figures::default(),
-            recorded_at: DateTime::UNIX_EPOCH,
-        };
-        seal.entry("TFS")
+        let empty = crate::ledger::merkle::root(&[]);
+        Seal {
+            root: empty,
+            ..seal("2026-01", 0)
+        }
+        .entry("TFS")
     }
 
     fn walk(e: Entry, seal_seqs: Vec<u64>) -> Result<usize, String> {

@@ -20,6 +20,7 @@ pub mod project_filter;
 pub mod proof;
 pub mod proof_seal;
 pub mod reading_fields;
+pub mod recompute;
 pub mod reconciliation;
 pub mod reconciliation_states;
 pub mod seal;

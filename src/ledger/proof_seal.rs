@@ -54,25 +54,11 @@ pub fn proving_seal(seals: Vec<Seal>, seq: u64, asked: Option<u64>) -> Result<Se
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ledger::seal::{Figures, parse_period};
-    use chrono::DateTime;
-
-    fn seal(seq: u64) -> Seal {
-        let (label, period) = parse_period("2026-01").unwrap();
-        Seal {
-            seq,
-            label,
-            period,
-            tree_size: seq,
-            root: crate::ledger::merkle::root(&[]),
-            figures: Figures::default(),
-            recorded_at: DateTime::UNIX_EPOCH,
-        }
-    }
+    use crate::ledger::seal::tests::seal;
 
     #[test]
     fn the_latest_seal_holding_the_entry_unless_one_is_asked_for() {
-        let seals = || vec![seal(3), seal(8)];
+        let seals = || vec![seal("2026-01", 3), seal("2026-02", 8)];
         assert_eq!(proving_seal(seals(), 2, None).map(|s| s.seq), Ok(8));
         assert_eq!(proving_seal(seals(), 2, Some(3)).map(|s| s.seq), Ok(3));
         assert_eq!(proving_seal(seals(), 2, Some(4)), Err(NoSeal::NotASeal(4)));

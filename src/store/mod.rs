@@ -8,6 +8,7 @@ mod bundle_export;
 mod bundle_load;
 mod connection;
 mod feedstocks;
+mod import_reads;
 mod imports;
 mod ledger_chain;
 mod lookup;

@@ -1,5 +1,6 @@
 //! `import`'s summary: the line saying what was imported, and the table by meter.
 
+use crate::import::overlap::Overlap;
 use crate::import::plan::Plan;
 use crate::import::summary::Summary;
 use crate::report::names;
@@ -82,4 +83,58 @@ pub fn summary_table(summary: Summary, project: &str) -> Table {
     }
     t.note("Each entry is one meter's day: the sum of its readings' grams, each reading converted and rounded on its own. The file's bytes are kept as they were read, with their SHA-256, so every reading can be read again by its line.");
     t
+}
+
+/// Bad rows or overlaps listed in a one-line refusal before "and N more".
+const LISTED: usize = 20;
+
+/// The first items of a refusal's list, joined, and how many more there are.
+fn listed<T: ToString>(items: &[T]) -> String {
+    let shown: Vec<String> = items.iter().take(LISTED).map(ToString::to_string).collect();
+    let more = if items.len() > LISTED {
+        format!("; and {} more", items.len() - LISTED)
+    } else {
+        String::new()
+    };
+    format!("{}{more}", shown.join("; "))
+}
+
+/// " taking N lines" when the bad rows span more lines than rows.
+fn taking(plan: &Plan) -> String {
+    let lines = plan.bad_lines();
+    if lines as usize > plan.bad.len() {
+        format!(" taking {lines} lines")
+    } else {
+        String::new()
+    }
+}
+
+/// Why a file with bad rows is refused when they are not to be skipped.
+pub fn bad_rows_why(plan: &Plan) -> String {
+    let n = plan.bad.len();
+    format!(
+        "{n} bad row{}{}, nothing written (fix them, or import the rest with --skip-bad): {}",
+        if n == 1 { "" } else { "s" },
+        taking(plan),
+        listed(&plan.bad)
+    )
+}
+
+/// Why a file with no good reading is refused.
+pub fn no_readings_why(plan: &Plan) -> String {
+    format!(
+        "has no readings to import ({} bad rows skipped{}); nothing written",
+        plan.bad.len(),
+        taking(plan)
+    )
+}
+
+/// Why a file whose meter-days the ledger counts already is refused.
+pub fn counted_why(file_name: &str, overlaps: &[Overlap]) -> String {
+    let n = overlaps.len();
+    format!(
+        "{file_name}: {n} meter-day{} already counted in the ledger, nothing written (a meter-day counts once: if this file replaces the earlier export, import it with --replace): {}",
+        if n == 1 { " is" } else { "s are" },
+        listed(overlaps)
+    )
 }
