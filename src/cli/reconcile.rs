@@ -3,18 +3,19 @@
 //! nothing in the report could be assessed; `--record` keeps the reconciliation in the ledger.
 
 use super::Context;
-use super::reconciliations::{RecordArgs, record, recorded_table};
+use super::reconciliations::{RecordArgs, record};
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{MaterialityPolicy, Reconciliation, Verdict};
+use crate::accounting::materiality::{Level, Reconciliation, Verdict};
 use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
 use crate::ledger::Hash;
 use crate::ledger::recompute::Recompute;
 use crate::report::tables::reconcile::{
-    RecomputeTable, lines_table, materiality_basis, verdicts_table,
+    RecomputeTable, lines_table, materiality_basis, not_assessed_warning, verdicts_table,
 };
+use crate::report::tables::reconciliations::{recorded_line, recorded_table};
 use crate::report::{Report, Table};
 use crate::store::Tx;
 use clap::Args;
@@ -44,33 +45,6 @@ pub struct ReconcileArgs {
     pub recompute: bool,
     #[command(flatten)]
     pub record: RecordArgs,
-}
-
-/// The materiality level and where it came from.
-pub struct Level {
-    pub policy: MaterialityPolicy,
-    /// The share as given on the command line, or None for the default.
-    pub given: Option<String>,
-}
-
-impl Level {
-    fn parse(text: Option<&str>) -> Result<Level> {
-        let policy = match text {
-            None => MaterialityPolicy::default(),
-            Some(t) => {
-                MaterialityPolicy::from_text(t).map_err(|e| Error::field("--materiality", t, e))?
-            }
-        };
-        Ok(Level {
-            policy,
-            given: text.map(str::to_string),
-        })
-    }
-
-    /// How the level was set, in words a verifier's file can quote.
-    pub fn basis(&self) -> String {
-        materiality_basis(self.policy.share, self.given.as_deref())
-    }
 }
 
 /// The ledger against a report, inside one transaction.
@@ -111,7 +85,9 @@ fn compare(
 }
 
 pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
-    let level = Level::parse(a.materiality.as_deref())?;
+    let given = a.materiality.as_deref();
+    let level =
+        Level::parse(given).map_err(|e| Error::field("--materiality", given.unwrap_or(""), e))?;
     let report = monitoring_report::read(&a.report)?;
     a.record.check()?;
     let mut store = ctx.open()?;
@@ -136,25 +112,18 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
             &a.project,
             c.route,
             a.method,
-            &level.basis(),
+            &materiality_basis(&level),
         ));
     if let Some(rec) = recorded {
         out = out
-            .line(format!(
-                "recorded reconciliation {} of project {} (row hash {})",
-                rec.seq,
-                a.project,
-                rec.row_hash().to_hex()
-            ))
+            .line(recorded_line(&rec))
             .table(recorded_table(&a.project, std::slice::from_ref(&rec)));
     }
     out.exit_code = match r.overall() {
         Verdict::Material => MATERIAL,
         Verdict::NotAssessed => {
-            out.warnings.push(format!(
-                "not assessed: no line of {} is a figure this ledger's stored tonnes of {} rest on (exit {NOT_ASSESSED})",
-                report.name, a.project
-            ));
+            let why = not_assessed_warning(&report.name, &a.project, NOT_ASSESSED);
+            out.warnings.push(why);
             NOT_ASSESSED
         }
         Verdict::WithinMateriality => 0,

@@ -3,17 +3,16 @@
 //! annual page shows those of its year.
 
 use super::Context;
-use super::reconcile::{Compared, Level, ReconcileArgs};
+use super::reconcile::{Compared, ReconcileArgs};
 use super::setup::known_project;
 use super::sign::RoleArg;
-use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{recorded_lines, recorded_years};
+use crate::accounting::materiality::{Level, recorded_lines, recorded_years};
 use crate::error::Result;
 use crate::import::monitoring_report::MonitoringReport;
 use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
-use crate::report::tables::reconcile::line_note;
-pub use crate::report::tables::reconciliations::{record_tables, recorded_table};
+use crate::report::tables::reconcile::{line_note, materiality_basis};
+use crate::report::tables::reconciliations::record_tables;
 use crate::store::Tx;
 use clap::Args;
 
@@ -50,13 +49,6 @@ pub struct ReconciliationsArgs {
     pub year: Option<i32>,
 }
 
-fn method_name(m: BalanceMethod) -> &'static str {
-    match m {
-        BalanceMethod::Rr => "rr",
-        BalanceMethod::Iso27916 => "iso27916",
-    }
-}
-
 /// Appends the reconciliation just compared, inside the command's write transaction.
 pub fn record(
     tx: &mut Tx<'_>,
@@ -74,9 +66,9 @@ pub fn record(
         previous,
         report_name: report.name.clone(),
         report_sha256: report.sha256,
-        method: method_name(a.method).into(),
+        method: a.method.name().into(),
         materiality: level.policy.share.to_string(),
-        basis: level.basis(),
+        basis: materiality_basis(level),
         chain_size: c.tip.0,
         chain_head: c.tip.1,
         lines: recorded_lines(r, line_note),
