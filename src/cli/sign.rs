@@ -5,14 +5,16 @@ use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
 use crate::error::{Error, Result, StoreKind};
+use crate::export::write_private;
 use crate::ledger::seal::parse_period;
 use crate::ledger::signature::{
-    Role, Signed, fingerprint, key_file_text, parse_key_file, sign as sign_with,
+    Role, Signed, key_file_text, parse_key_file, public_key, sign as sign_with,
 };
 use crate::ledger::statement_check::judged;
 use crate::report::Report;
-use crate::report::tables::sign::{key_table, statements_table};
+use crate::report::tables::sign::{key_table, new_key_line, signed_line, statements_table};
 use clap::{Args, Subcommand, ValueEnum};
+use std::io::ErrorKind;
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, Subcommand)]
@@ -84,42 +86,24 @@ pub fn key(c: KeyCommand) -> Result<Report> {
                     format!("no randomness for a new key: {e}"),
                 )
             })?;
-            let public = ed25519_dalek::SigningKey::from_bytes(&seed)
-                .verifying_key()
-                .to_bytes();
-            write_private(&out, &key_file_text(&seed))?;
+            let shown = out.display().to_string();
+            write_private(&out, &key_file_text(&seed)).map_err(|e| match e.kind() {
+                ErrorKind::AlreadyExists => Error::field(
+                    "--out",
+                    &shown,
+                    "already exists; a key file is never overwritten",
+                ),
+                _ => Error::field("--out", &shown, e),
+            })?;
             Ok(Report::default()
-                .line(format!(
-                    "wrote a new ed25519 key to {} (readable by its owner only)",
-                    out.display()
-                ))
-                .table(key_table(&public, &out)))
+                .line(new_key_line(&out))
+                .table(key_table(&public_key(&seed), &out)))
         }
         KeyCommand::Show { file } => {
             let key = read_key(&file)?;
             Ok(Report::default().table(key_table(&key.verifying_key().to_bytes(), &file)))
         }
     }
-}
-
-/// Creates `path` with mode 0600, refusing one that exists.
-fn write_private(path: &Path, text: &str) -> Result<()> {
-    use std::io::Write;
-    let shown = path.display().to_string();
-    let mut o = std::fs::OpenOptions::new();
-    o.write(true).create_new(true);
-    #[cfg(unix)]
-    std::os::unix::fs::OpenOptionsExt::mode(&mut o, 0o600);
-    let mut f = o.open(path).map_err(|e| match e.kind() {
-        std::io::ErrorKind::AlreadyExists => Error::field(
-            "--out",
-            &shown,
-            "already exists; a key file is never overwritten",
-        ),
-        _ => Error::field("--out", &shown, e),
-    })?;
-    f.write_all(text.as_bytes())
-        .map_err(|e| Error::field("--out", &shown, e))
 }
 
 fn read_key(path: &Path) -> Result<ed25519_dalek::SigningKey> {
@@ -151,11 +135,7 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
                 ));
             }
         };
-        // After the last one held (a copy loaded through a seal may lack some between).
-        let seq = tx
-            .signatures(&a.project)?
-            .last()
-            .map_or(0, |s| s.seq + 1);
+        let seq = tx.next_statement_seq(&a.project)?;
         let s = sign_with(
             seq,
             Signed {
@@ -174,13 +154,7 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         Ok(s)
     })?;
     Ok(Report::default()
-        .line(format!(
-            "signed {} period {} as {} with key {}",
-            a.project,
-            s.signed.period,
-            s.signed.role,
-            fingerprint(&s.public_key)
-        ))
+        .line(signed_line(&a.project, &s))
         .table(statements_table(&a.project, &[judged(s, Ok(()))])))
 }
 

@@ -47,6 +47,11 @@ pub fn key_file_text(seed: &[u8; 32]) -> String {
     format!("{KEY_FILE_HEADER}\n{hex}\n")
 }
 
+/// The public key of a secret seed.
+pub fn public_key(seed: &[u8; 32]) -> [u8; 32] {
+    SigningKey::from_bytes(seed).verifying_key().to_bytes()
+}
+
 /// The signing key a key file holds.
 pub fn parse_key_file(text: &str) -> Result<SigningKey, String> {
     let mut lines = text.lines();

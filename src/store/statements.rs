@@ -28,6 +28,12 @@ impl Tx<'_> {
             .collect())
     }
 
+    /// The seq a new statement of a project takes: after the last one held (a copy loaded
+    /// through a seal may lack some between).
+    pub fn next_statement_seq(&mut self, project: &str) -> Result<u64> {
+        Ok(self.signatures(project)?.last().map_or(0, |s| s.seq + 1))
+    }
+
     /// The tree head of the leaves before each seal, recomputed as the chain streams by.
     fn heads_at(&mut self, project: &str, seals: &[Seal]) -> Result<Vec<(u64, Hash)>> {
         let mut tree = TreeBuilder::default();
