@@ -10,15 +10,15 @@ use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::meter_day::Source;
 use crate::import::plan::{Options, Plan};
-use crate::import::plan_file;
 use crate::import::summary::Summary;
+use crate::import::{name_and_size, plan_file};
 use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
 use crate::report::tables::import::{
     already_line, bad_rows_why, no_readings_why, summary_line, summary_table,
 };
-use crate::store::{BYTES_PER_ENTRY, ImportSummary, NewImport, Tx, disk_error, room_for};
+use crate::store::{ImportSummary, NewImport, Tx, disk_error, room_for, room_for_entries};
 use clap::Args;
 use std::collections::HashMap;
 use std::path::PathBuf;
@@ -64,14 +64,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
     let kind = EntryKind::from_name(&a.kind)
         .filter(|k| !matches!(k, EntryKind::Survey | EntryKind::Leakage))
         .ok_or_else(|| Error::field("--kind", &a.kind, "is not a metered entry kind (injection, receipt, redelivery, production, equipment-leak, emission)"))?;
-    let file_name = a
-        .file
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
-    let size = std::fs::metadata(&a.file)
-        .map_err(|e| Error::field("FILE", &a.file.display().to_string(), e))?
-        .len();
+    let (file_name, size) = name_and_size(&a.file)?;
     let req = Request {
         args: &a,
         kind,
@@ -95,25 +88,13 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     let import_id = tx.next_import_id()?;
     let plan = match read_file(tx, req, &sites, import_id)? {
         (plan, Some(prev)) => {
-            return Ok(Report::default().line(already_line(
-                file_name,
-                &a.project,
-                &plan,
-                (prev.imported_at, prev.id, prev.rows),
-            )));
+            let line = already_line(file_name, &a.project, &plan, &prev);
+            return Ok(Report::default().line(line));
         }
         (plan, None) => plan,
     };
     refuse_bad_rows(file_name, &plan, a.skip_bad)?;
-    let entry_bytes = (plan.days.len() as u64).saturating_mul(BYTES_PER_ENTRY);
-    room_for(
-        &ctx.db,
-        plan.bytes / 2 + entry_bytes,
-        &format!(
-            "{} entries, and the evidence copied into the ledger file",
-            plan.days.len()
-        ),
-    )?;
+    room_for_entries(&ctx.db, plan.bytes, plan.days.len())?;
     let mut source = Source::new(&a.project, req.kind, file_name, plan.sha256);
     source.density = req.density;
     source.recorded_at = ctx.now;
@@ -142,12 +123,7 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
     let mut report = Report::default()
         .line(summary_line(
-            file_name,
-            &a.project,
-            import_id,
-            &plan,
-            summary.entries,
-            summary.replaced,
+            file_name, &a.project, import_id, &plan, &summary,
         ))
         .table(summary_table(summary, &a.project));
     report.warnings = warnings;

@@ -13,9 +13,9 @@ use crate::accounting::conservative::DeductionRule;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
+use crate::ledger::bounds::reporting_year;
 use crate::ledger::period::Grouping;
 use crate::ledger::reconciliation::Recorded;
-use crate::ledger::seal::Seal;
 use crate::report::Report;
 use crate::report::html::{Section, page};
 use crate::report::tables::annual::{
@@ -53,21 +53,6 @@ fn balance_report(view: &ProjectFigures, method: BalanceMethod) -> Result<Report
         through: None,
     };
     balance_of(view, &args, &now)
-}
-
-/// The project's seals and the statements signed over them, each judged again.
-fn sealed(tx: &mut Tx<'_>, project: &str) -> Result<Sealed> {
-    let seals = tx
-        .seal_entries(project)?
-        .into_iter()
-        .map(|e| {
-            Seal::from_entry(&e.entry)
-                .map(|s| (s, e))
-                .map_err(Error::ledger)
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let statements = tx.judged_statements(project)?;
-    Ok(Sealed { seals, statements })
 }
 
 /// The sections of the page, in reading order, read inside the command's transaction.
@@ -119,17 +104,14 @@ fn sections(
 }
 
 pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
-    if !(1900..=9999).contains(&a.year) {
-        return Err(Error::field(
-            "--year",
-            &a.year.to_string(),
-            "is not a plausible reporting year",
-        ));
-    }
+    reporting_year(a.year).map_err(|e| Error::field("--year", &a.year.to_string(), e))?;
     let (project, tip, sections) = ctx.open()?.read(|tx| {
         let view = load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
-        let sealed = sealed(tx, &a.project)?;
+        let sealed = Sealed {
+            seals: tx.seals_with_entries(&a.project)?,
+            statements: tx.judged_statements(&a.project)?,
+        };
         let recorded = tx.reconciliations(&a.project)?;
         let sections = sections(tx, ctx, &a, &view, sealed, recorded)?;
         Ok((view.project().clone(), tip, sections))

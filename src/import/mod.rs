@@ -50,6 +50,18 @@ pub fn plan_file(
     })
 }
 
+/// The file's name (without its directory) and its size in bytes.
+pub fn name_and_size(path: &Path) -> Result<(String, u64)> {
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let size = std::fs::metadata(path)
+        .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?
+        .len();
+    Ok((name, size))
+}
+
 /// Reads a small JSON file (a proof) into `T`; a file that is missing or not of that shape is
 /// refused, naming it.
 pub fn read_json<T: serde::de::DeserializeOwned>(path: &Path) -> Result<T> {

@@ -307,6 +307,17 @@ pub fn room_for(db: &std::path::Path, bytes: u64, what: &str) -> Result<()> {
     Ok(())
 }
 
+/// [`room_for`] an import's `entries` and its `evidence` bytes copied into the ledger file (half
+/// of them again, beside what was counted when the file was kept).
+pub fn room_for_entries(db: &std::path::Path, evidence: u64, entries: usize) -> Result<()> {
+    let entry_bytes = (entries as u64).saturating_mul(BYTES_PER_ENTRY);
+    room_for(
+        db,
+        evidence / 2 + entry_bytes,
+        &format!("{entries} entries, and the evidence copied into the ledger file"),
+    )
+}
+
 /// A write that failed for want of disk, said plainly; other errors pass unchanged.
 pub fn disk_error(e: Error) -> Error {
     match &e {

@@ -38,7 +38,7 @@ use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
 pub use imports::{
-    BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
+    CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for, room_for_entries,
 };
 pub use postgres::RoleKind;
 pub use project_check::ProjectChecked;

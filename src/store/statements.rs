@@ -1,12 +1,13 @@
 //! A project's signed statements judged again from the ledger: each signature over its bytes,
-//! and the seal it names still standing over the leaves the chain holds before it.
+//! and the seal it names still standing over the leaves the chain holds before it; the seals
+//! beside their entries, as the annual page lists them with their statements.
 
 use super::Tx;
-use crate::error::Result;
-use crate::ledger::Hash;
+use crate::error::{Error, Result};
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::Seal;
 use crate::ledger::statement_check::{Judged, judged, seal_stands};
+use crate::ledger::{Hash, SealedEntry};
 
 impl Tx<'_> {
     /// Every statement of a project judged: the signature over its bytes, and the seal it names —
@@ -26,6 +27,18 @@ impl Tx<'_> {
                 judged(s, seal)
             })
             .collect())
+    }
+
+    /// A project's seals, each beside the entry it was read from.
+    pub fn seals_with_entries(&mut self, project: &str) -> Result<Vec<(Seal, SealedEntry)>> {
+        self.seal_entries(project)?
+            .into_iter()
+            .map(|e| {
+                Seal::from_entry(&e.entry)
+                    .map(|s| (s, e))
+                    .map_err(Error::ledger)
+            })
+            .collect()
     }
 
     /// The seq a new statement of a project takes: after the last one held (a copy loaded

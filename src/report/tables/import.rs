@@ -5,23 +5,22 @@ use crate::import::plan::Plan;
 use crate::import::summary::Summary;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
-use chrono::{DateTime, Utc};
+use crate::store::ImportSummary;
 
-/// The line saying a file was imported before (at `at` as import `id` of `rows` rows), and
-/// nothing was written.
+/// The line saying a file was imported before (as import `earlier`), and nothing was written.
 pub fn already_line(
     file_name: &str,
     project: &str,
     plan: &Plan,
-    (at, id, rows): (DateTime<Utc>, i64, i64),
+    earlier: &ImportSummary,
 ) -> String {
     format!(
         "{file_name} (SHA-256 {}) was already imported into {} on {} as import {} ({} rows); nothing written",
         plan.sha256.head(),
         project,
-        at.format("%Y-%m-%d %H:%M:%S UTC"),
-        id,
-        rows
+        earlier.imported_at.format("%Y-%m-%d %H:%M:%S UTC"),
+        earlier.id,
+        earlier.rows
     )
 }
 
@@ -32,9 +31,9 @@ pub fn summary_line(
     project: &str,
     import_id: i64,
     plan: &Plan,
-    entries: usize,
-    replaced: usize,
+    summary: &Summary,
 ) -> String {
+    let (entries, replaced) = (summary.entries, summary.replaced);
     let mut s = format!(
         "imported {file_name} (SHA-256 {}) into {project} as import {import_id}: {} readings → {entries} entries",
         plan.sha256.head(),
