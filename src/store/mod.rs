@@ -10,6 +10,7 @@ mod connection;
 mod feedstocks;
 mod import_reads;
 mod imports;
+mod last_seals;
 mod ledger_chain;
 mod lookup;
 mod postgres;
@@ -40,6 +41,7 @@ pub use connection::APPLICATION_ID;
 pub use imports::{
     CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for, room_for_entries,
 };
+pub use last_seals::LastSeal;
 pub use postgres::RoleKind;
 pub use project_check::ProjectChecked;
 pub use stream::ChainRow;
