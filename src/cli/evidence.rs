@@ -6,15 +6,13 @@ use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::plan::Plan;
-use crate::import::replan::{Kept, plan_totals, replan as replan_kept};
-use crate::ledger::Site;
+use crate::import::replan::{Kept, plan_totals, replan};
 use crate::ledger::recompute::ReadingTotal;
 use crate::report::Report;
-use crate::report::tables::evidence::readings_table;
+use crate::report::tables::evidence::{no_readings_line, readings_table};
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
-use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct ReadingsArgs {
@@ -28,33 +26,36 @@ pub struct ReadingsArgs {
     pub day: String,
 }
 
-/// Re-reads import `i` of `project` from its kept bytes (`import::replan`).
-fn replan(
+/// Every import of `project` re-read from its kept bytes (`import::replan`), in the order
+/// made, each handed to `f` with its plan.
+fn replan_all(
     tx: &mut Tx<'_>,
     project: &str,
-    sites: &HashMap<String, Site>,
-    i: &StoredImport,
     watch: Option<(&str, NaiveDate)>,
-) -> Result<Plan> {
-    let kept = Kept {
-        id: i.id,
-        file_name: &i.file_name,
-        sha256: &i.sha256,
-        kind: &i.kind,
-        columns: &i.columns,
-        density: &i.density,
-    };
-    replan_kept(tx.evidence(i.id), project, sites, &kept, watch)
+    mut f: impl FnMut(StoredImport, Plan),
+) -> Result<()> {
+    let sites = tx.sites_by_code(project)?;
+    for i in tx.imports(project)? {
+        let kept = Kept {
+            id: i.id,
+            file_name: &i.file_name,
+            sha256: &i.sha256,
+            kind: &i.kind,
+            columns: &i.columns,
+            density: &i.density,
+        };
+        let p = replan(tx.evidence(i.id), project, &sites, &kept, watch)?;
+        f(i, p);
+    }
+    Ok(())
 }
 
 /// Every imported meter-day of `project`, recomputed from the kept files.
 pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal>> {
-    let sites = tx.sites_by_code(project)?;
     let mut out = Vec::new();
-    for i in tx.imports(project)? {
-        let p = replan(tx, project, &sites, &i, None)?;
-        out.extend(plan_totals(&p, &i.sha256));
-    }
+    replan_all(tx, project, None, |i, p| {
+        out.extend(plan_totals(&p, &i.sha256))
+    })?;
     Ok(out)
 }
 
@@ -64,23 +65,18 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
         .map_err(|e| Error::field("--day", &a.day, e))?;
     let found = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
-        let sites = tx.sites_by_code(&a.project)?;
         let mut found = Vec::new();
-        for i in tx.imports(&a.project)? {
-            let p = replan(tx, &a.project, &sites, &i, Some((&a.meter, day)))?;
+        replan_all(tx, &a.project, Some((&a.meter, day)), |i, p| {
             found.extend(
                 p.watched
                     .into_iter()
                     .map(|w| (i.id, i.file_name.clone(), w)),
-            );
-        }
+            )
+        })?;
         Ok(found)
     })?;
     if found.is_empty() {
-        return Err(Error::Refused(format!(
-            "no imported readings of meter {} on {day} in project {}",
-            a.meter, a.project
-        )));
+        return Err(Error::Refused(no_readings_line(&a.project, &a.meter, day)));
     }
     Ok(Report::default().table(readings_table(&a.project, &a.meter, day, found)))
 }

@@ -9,7 +9,7 @@ use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::{Seal, check_new, parse_period};
 use crate::ledger::{Entry, Period, SealedEntry};
 use crate::report::Report;
-pub use crate::report::tables::seal::seal_table;
+use crate::report::tables::seal::{seal_table, sealed_line};
 use crate::store::Tx;
 use clap::Args;
 
@@ -29,10 +29,7 @@ pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
         .open()?
         .write(|tx| record_seal(tx, ctx, &a.project, &label, period))?;
     Ok(Report::default()
-        .line(format!(
-            "sealed {} period {} at seq {}",
-            a.project, seal.label, seal.seq
-        ))
+        .line(sealed_line(&a.project, &seal))
         .table(seal_table(&a.project, &[(seal, entry)])))
 }
 

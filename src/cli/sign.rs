@@ -12,7 +12,9 @@ use crate::ledger::signature::{
 };
 use crate::ledger::statement_check::judged;
 use crate::report::Report;
-use crate::report::tables::sign::{key_table, new_key_line, signed_line, statements_table};
+use crate::report::tables::sign::{
+    key_table, new_key_line, signed_line, statements_table, unsealed_why,
+};
 use clap::{Args, Subcommand, ValueEnum};
 use std::io::ErrorKind;
 use std::path::{Path, PathBuf};
@@ -121,35 +123,15 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         known_project(tx, &a.project)?;
         let seal = match tx.seals(&a.project)?.into_iter().find(|s| s.label == label) {
             Some(s) => s,
-            None if role == Role::Operator => {
-                record_seal(tx, ctx, &a.project, &label, period)?.0
-            }
+            None if role == Role::Operator => record_seal(tx, ctx, &a.project, &label, period)?.0,
             None => {
-                return Err(Error::field(
-                    "--period",
-                    &a.period,
-                    format!(
-                        "is not sealed in project {}; a verifier signs only a sealed period (the operator seals it: sinkbook seal {} --period {label})",
-                        a.project, a.project
-                    ),
-                ));
+                let why = unsealed_why(&a.project, &label);
+                return Err(Error::field("--period", &a.period, why));
             }
         };
         let seq = tx.next_statement_seq(&a.project)?;
-        let s = sign_with(
-            seq,
-            Signed {
-                project: a.project.clone(),
-                seal_seq: seal.seq,
-                period: seal.label,
-                tree_size: seal.tree_size,
-                root: seal.root,
-                role,
-                statement: a.statement.clone(),
-                signed_at: ctx.now,
-            },
-            &key,
-        );
+        let signed = Signed::over(seal, &a.project, role, &a.statement, ctx.now);
+        let s = sign_with(seq, signed, &key);
         tx.add_signature(&s)?;
         Ok(s)
     })?;

@@ -29,6 +29,29 @@ pub struct Signed {
     pub signed_at: DateTime<Utc>,
 }
 
+impl Signed {
+    /// What `role` states at `signed_at` over `seal` of `project`: its period, tree size and
+    /// root beside the statement.
+    pub fn over(
+        seal: super::seal::Seal,
+        project: &str,
+        role: Role,
+        statement: &str,
+        signed_at: DateTime<Utc>,
+    ) -> Signed {
+        Signed {
+            project: project.to_string(),
+            seal_seq: seal.seq,
+            period: seal.label,
+            tree_size: seal.tree_size,
+            root: seal.root,
+            role,
+            statement: statement.to_string(),
+            signed_at,
+        }
+    }
+}
+
 /// A statement as stored: what was signed, the public key and the signature.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Statement {

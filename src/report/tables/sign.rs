@@ -24,6 +24,13 @@ pub fn signed_line(project: &str, s: &Statement) -> String {
     )
 }
 
+/// Why a verifier may not sign period `label` of `project`: it is not sealed.
+pub fn unsealed_why(project: &str, label: &str) -> String {
+    format!(
+        "is not sealed in project {project}; a verifier signs only a sealed period (the operator seals it: sinkbook seal {project} --period {label})"
+    )
+}
+
 pub fn key_table(public_key: &[u8; 32], file: &Path) -> Table {
     let mut t = Table::new(
         "key",
