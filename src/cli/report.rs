@@ -9,20 +9,14 @@ use super::meters::{MetersArgs, meters_in};
 use super::reports::{BalanceArgs, By, balance_of};
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::conservative::DeductionRule;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::bounds::reporting_year;
-use crate::ledger::period::Grouping;
 use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
 use crate::report::html::{Section, page};
-use crate::report::tables::annual::{
-    Sealed, annual_page, balance_sections, late_section, meters_section, project_section,
-    reconciliation_section, seal_section, written_table,
-};
-use crate::report::tables::chart::line_chart;
+use crate::report::tables::annual::{Parts, Sealed, annual_page, annual_sections, written_table};
 use crate::store::Tx;
 use clap::Args;
 use std::path::PathBuf;
@@ -65,42 +59,25 @@ fn sections(
     recorded: Vec<Recorded>,
 ) -> Result<Vec<Section>> {
     let code = &view.project().code;
-    let first = project_section(
-        view.project(),
-        &tx.sites(code)?,
-        &tx.settings(code)?,
-        ctx.now,
-    );
-    let mut reports = vec![balance_report(view, BalanceMethod::Rr)?];
+    let (sites, settings) = (tx.sites(code)?, tx.settings(code)?);
+    let mut balances = vec![balance_report(view, BalanceMethod::Rr)?];
     if view.project().method == Method::Eor {
-        reports.push(balance_report(view, BalanceMethod::Iso27916)?);
+        balances.push(balance_report(view, BalanceMethod::Iso27916)?);
     }
-    let chart = line_chart(
-        std::slice::from_ref(view),
-        Grouping::Quarter,
-        DeductionRule::WholeUncertainty,
-        false,
-    )?
-    .to_svg()
-    .map_err(|e| Error::internal(format!("report chart: {e}")))?;
-    let [bal, leakage, uncertainty, claims, pool] = balance_sections(reports, view, a.year, chart);
     let meters = MetersArgs {
         project: code.clone(),
         year: a.year,
     };
-    let metering = meters_section(meters_in(tx, &meters)?);
-    Ok(vec![
-        first,
-        bal,
-        metering,
-        leakage,
-        uncertainty,
-        claims,
-        pool,
-        reconciliation_section(code, a.year, recorded),
-        late_section(view, a.year),
-        seal_section(code, a.year, sealed),
-    ])
+    let parts = Parts {
+        view,
+        sites,
+        settings,
+        balances,
+        meters: meters_in(tx, &meters)?,
+        recorded,
+        sealed,
+    };
+    annual_sections(parts, a.year, ctx.now)
 }
 
 pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
