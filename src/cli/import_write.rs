@@ -7,7 +7,7 @@ use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_day::{MeterDay, Source, permit_entries};
 use crate::import::overlap::{self, Covered};
-use crate::ledger::append::{AppendError, Appended, SealRule, append};
+use crate::ledger::append::{AppendError, SealRule, append};
 use crate::ledger::{Project, SealedEntry, Site};
 use crate::report::tables::import::counted_why;
 use crate::store::Tx;
@@ -35,13 +35,11 @@ pub(super) fn write(
     mut sealed: impl FnMut(&MeterDay, &SealedEntry),
 ) -> Result<Vec<String>> {
     let code = source.project;
-    let covered: Covered = match overlap::span(days) {
-        Some((first, last)) => tx
-            .counted_days(code, source.kind.name(), first, last)?
-            .into_iter()
-            .collect(),
-        None => Covered::new(),
-    };
+    let span = overlap::span(days);
+    let covered: Covered = tx
+        .counted_days(code, source.kind.name(), span)?
+        .into_iter()
+        .collect();
     let corrects = overlap::corrections(days, &covered, to.replace)
         .map_err(|o| Error::Refused(counted_why(source.file_name, &o)))?;
     let warnings = permit_warnings(tx, to, source, days, &corrects)?;
@@ -50,10 +48,9 @@ pub(super) fn write(
     for (days, corrects) in days.chunks(ENTRY_CHUNK).zip(corrects.chunks(ENTRY_CHUNK)) {
         let mut chunk = Vec::with_capacity(days.len());
         for (d, c) in days.iter().zip(corrects) {
-            let replaced = match c.filter(|_| !seals.is_empty()) {
-                Some(t) => Some(super::record::replaced(tx, code, t, &seals)?.0),
-                None => None,
-            };
+            let replaced = c.filter(|_| !seals.is_empty());
+            let replaced = replaced.map(|t| super::record::replaced(tx, code, t, &seals));
+            let replaced = replaced.transpose()?.map(|(r, _)| r);
             let rule = SealRule {
                 seals: &seals,
                 late: ctx.late,
@@ -61,15 +58,12 @@ pub(super) fn write(
                 replaced,
             };
             let site = to.sites.get(&*d.site);
-            match append(d.entry(source, *c), site, tip, None, rule)
+            let s = append(d.entry(source, *c), site, tip, None, rule)
                 .map_err(|e| refused_row(source.file_name, e))?
-            {
-                Appended::New(s) | Appended::Existing(s) => {
-                    tip = (tip.0 + 1, s.chain);
-                    sealed(d, &s);
-                    chunk.push(s);
-                }
-            }
+                .into_sealed();
+            tip = (tip.0 + 1, s.chain);
+            sealed(d, &s);
+            chunk.push(s);
         }
         tx.append(&chunk)?;
     }

@@ -4,7 +4,7 @@ use super::Context;
 use crate::error::{Error, Result};
 use crate::report::Report;
 use crate::report::tables::registry::{created_line, operators_table};
-use crate::store::RoleKind;
+use crate::store::{RoleKind, role_name};
 use clap::{Args, Subcommand};
 
 #[derive(Subcommand, Debug)]
@@ -76,13 +76,7 @@ fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {
         (None, true) => RoleKind::Verifier,
         (None, false) => RoleKind::Regulator,
     };
-    if a.name.is_empty() || a.name.len() > 63 {
-        return Err(Error::field(
-            "NAME",
-            &a.name,
-            "must be 1 to 63 bytes (PostgreSQL's limit)",
-        ));
-    }
+    role_name(&a.name).map_err(|why| Error::field("NAME", &a.name, why))?;
     ctx.open()?.add_role(&a.name, &kind, ctx.now)?;
     Ok(Report::default().line(created_line(&a.name, &kind)))
 }

@@ -4,9 +4,7 @@ use super::Context;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::report::Report;
-use crate::report::tables::verify::{
-    deep_check_name, ledger_cells, notes, project_row, verify_table,
-};
+use crate::report::tables::verify::{deep_check_name, notes, project_row, verify_table};
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -53,7 +51,6 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             Some(code) => vec![super::setup::known_project(tx, code)?],
             None => projects,
         };
-        let (links, head) = ledger;
         // The bar's length only: a tip that does not read back is the walk's to name.
         let mut total = 0;
         for p in &chosen {
@@ -62,10 +59,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         let bar = super::progress::entries("verifying", total);
         for p in chosen {
             let c = tx.check_project(&p.code, expected, || bar.inc(1))?;
-            let counts = [c.sites, c.seals, c.statements, c.reconciliations];
-            let mut row = project_row(&p.code, &counts, c.entries, c.head);
-            row.extend(ledger_cells(links, head));
-            t.push(row);
+            t.push(project_row(&p.code, &c, ledger));
         }
         bar.finish_and_clear();
         Ok(ledger)

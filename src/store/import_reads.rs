@@ -21,16 +21,19 @@ impl Tx<'_> {
             .collect())
     }
 
-    /// The meter-days from `from` to `to` that effective entries of `kind` count already, as
-    /// ((meter, day), (seq of the entry counting it, the file it came from if imported)).
+    /// The meter-days of `span` (first and last day; None for none) that effective entries of
+    /// `kind` count already, as ((meter, day), (seq of the entry counting it, the file it came
+    /// from if imported)).
     pub fn counted_days(
         &mut self,
         project: &str,
         kind: &str,
-        from: NaiveDate,
-        to: NaiveDate,
+        span: Option<(NaiveDate, NaiveDate)>,
     ) -> Result<Vec<CountedDay>> {
         let mut counted = Vec::new();
+        let Some((from, to)) = span else {
+            return Ok(counted);
+        };
         for c in self.covered_days(project, kind, from, to)? {
             let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
                 Error::ledger(format!(

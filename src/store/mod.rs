@@ -42,7 +42,7 @@ pub use imports::{
     CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for, room_for_entries,
 };
 pub use last_seals::LastSeal;
-pub use postgres::RoleKind;
+pub use postgres::{RoleKind, role_name};
 pub use project_check::ProjectChecked;
 pub use stream::ChainRow;
 pub use wait::Wait;
