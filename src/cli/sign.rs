@@ -5,18 +5,15 @@ use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
 use crate::error::{Error, Result, StoreKind};
-use crate::export::write_private;
+use crate::export::{KeyFileError, new_key_file};
 use crate::ledger::seal::parse_period;
-use crate::ledger::signature::{
-    Role, Signed, key_file_text, parse_key_file, public_key, sign as sign_with,
-};
+use crate::ledger::signature::{Role, Signed, parse_key_file, sign as sign_with};
 use crate::ledger::statement_check::judged;
 use crate::report::Report;
 use crate::report::tables::sign::{
     key_table, new_key_line, signed_line, statements_table, unsealed_why,
 };
 use clap::{Args, Subcommand, ValueEnum};
-use std::io::ErrorKind;
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, Subcommand)]
@@ -78,28 +75,24 @@ pub struct StatementsArgs {
     pub project: String,
 }
 
+/// Why `key new` refuses a file that is there.
+const KEPT: &str = "already exists; a key file is never overwritten";
+
 pub fn key(c: KeyCommand) -> Result<Report> {
     match c {
         KeyCommand::New { out } => {
-            let mut seed = [0u8; 32];
-            getrandom::fill(&mut seed).map_err(|e| {
-                Error::store(
+            let shown = out.display().to_string();
+            let public = new_key_file(&out).map_err(|e| match e {
+                KeyFileError::NoRandomness(e) => Error::store(
                     StoreKind::System,
                     format!("no randomness for a new key: {e}"),
-                )
-            })?;
-            let shown = out.display().to_string();
-            write_private(&out, &key_file_text(&seed)).map_err(|e| match e.kind() {
-                ErrorKind::AlreadyExists => Error::field(
-                    "--out",
-                    &shown,
-                    "already exists; a key file is never overwritten",
                 ),
-                _ => Error::field("--out", &shown, e),
+                KeyFileError::Exists => Error::field("--out", &shown, KEPT),
+                KeyFileError::File(e) => Error::field("--out", &shown, e),
             })?;
             Ok(Report::default()
                 .line(new_key_line(&out))
-                .table(key_table(&public_key(&seed), &out)))
+                .table(key_table(&public, &out)))
         }
         KeyCommand::Show { file } => {
             let key = read_key(&file)?;

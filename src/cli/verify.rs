@@ -4,7 +4,7 @@ use super::Context;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::report::Report;
-use crate::report::tables::verify::{deep_check_name, notes, project_row, verify_table};
+use crate::report::tables::verify::{deep_finding, notes, project_row, verify_table};
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -34,13 +34,9 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
     let mut store = ctx.open()?;
     let deep = a.deep.then(|| store.deep_check());
     if let Some(check) = deep {
-        let integrity = store.integrity_check()?;
-        if integrity != ["ok"] {
-            return Err(Error::ledger(format!(
-                "{}: {}",
-                deep_check_name(check),
-                integrity.join("; ")
-            )));
+        let found = store.integrity_check()?;
+        if found != ["ok"] {
+            return Err(Error::ledger(deep_finding(check, &found)));
         }
     }
     let mut t = verify_table();

@@ -1,8 +1,10 @@
 //! Files written for people and programs to keep or send on — a bundle, a key — each created
-//! whole or not at all, so a failed command leaves no half-written file behind.
+//! whole or not at all, so a failed command leaves no half-written file behind; a key file is
+//! readable by its owner only and never overwrites a file.
 
 pub mod bundle_file;
 
+use crate::ledger::signature::{key_file_text, public_key};
 use std::io::{BufWriter, Write};
 use std::path::{Path, PathBuf};
 use tempfile::NamedTempFile;
@@ -48,9 +50,31 @@ impl WholeFile {
     }
 }
 
+/// Why a new key file was not written.
+#[derive(Debug)]
+pub enum KeyFileError {
+    /// The system gave no randomness for the secret.
+    NoRandomness(getrandom::Error),
+    /// A file is there already: a key file never overwrites one.
+    Exists,
+    File(std::io::Error),
+}
+
+/// A new ed25519 secret seed from the system's randomness, written to `path` as a key file
+/// only its owner may read; returns the seed's public key.
+pub fn new_key_file(path: &Path) -> Result<[u8; 32], KeyFileError> {
+    let mut seed = [0u8; 32];
+    getrandom::fill(&mut seed).map_err(KeyFileError::NoRandomness)?;
+    write_private(path, &key_file_text(&seed)).map_err(|e| match e.kind() {
+        std::io::ErrorKind::AlreadyExists => KeyFileError::Exists,
+        _ => KeyFileError::File(e),
+    })?;
+    Ok(public_key(&seed))
+}
+
 /// Creates `path` with mode 0600 holding `text`, refusing one that exists (`AlreadyExists`):
 /// a secret is readable by its owner only and never overwrites a file.
-pub fn write_private(path: &Path, text: &str) -> std::io::Result<()> {
+fn write_private(path: &Path, text: &str) -> std::io::Result<()> {
     let mut o = std::fs::OpenOptions::new();
     o.write(true).create_new(true);
     #[cfg(unix)]

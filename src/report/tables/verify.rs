@@ -44,15 +44,19 @@ pub fn project_row(code: &str, c: &ProjectChecked, (links, ledger_head): (u64, H
     ]
 }
 
+/// What the database's own check of its pages found wrong, named by the check.
+pub fn deep_finding(check: DeepCheck, found: &[String]) -> String {
+    format!("{}: {}", deep_check_name(check), found.join("; "))
+}
+
 /// The name of the database's own check of its pages, as a finding of it is prefixed.
-pub fn deep_check_name(check: DeepCheck) -> &'static str {
+fn deep_check_name(check: DeepCheck) -> &'static str {
     match check {
         DeepCheck::IntegrityCheck => "SQLite integrity_check",
         DeepCheck::PageChecksums => "PostgreSQL page checksums",
     }
 }
 
-/// The ledger chain's cells, the same on every row: its links and head.
 /// What was checked: the projects' rows, the ledger chain of `links` links ending in `head`,
 /// the database's own check if `deep` ran, and the published heads given.
 pub fn notes(
