@@ -3,17 +3,21 @@
 //! nothing in the report could be assessed; `--record` keeps the reconciliation in the ledger.
 
 use super::Context;
-use super::reconciliations::{RecordArgs, record};
+use super::reconciliations::RecordArgs;
+use super::sign::RoleArg;
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{Level, Reconciliation, Verdict};
+use crate::accounting::materiality::{
+    Level, Reconciliation, Verdict, recorded_lines, recorded_years,
+};
 use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
 use crate::ledger::Hash;
 use crate::ledger::recompute::Recompute;
+use crate::ledger::reconciliation::Recorded;
 use crate::report::tables::reconcile::{
-    RecomputeTable, lines_table, materiality_basis, not_assessed_warning, verdicts_table,
+    RecomputeTable, line_note, lines_table, materiality_basis, not_assessed_warning, verdicts_table,
 };
 use crate::report::tables::reconciliations::{recorded_line, recorded_table};
 use crate::report::{Report, Table};
@@ -48,12 +52,12 @@ pub struct ReconcileArgs {
 }
 
 /// The ledger against a report, inside one transaction.
-pub struct Compared {
-    pub reconciliation: Reconciliation,
-    pub recompute: Option<Table>,
+struct Compared {
+    reconciliation: Reconciliation,
+    recompute: Option<Table>,
     /// Entries in the project's chain and its head when compared: the ledger state reconciled.
-    pub tip: (u64, Hash),
-    pub route: crate::ledger::Method,
+    tip: (u64, Hash),
+    route: crate::ledger::Method,
 }
 
 fn compare(
@@ -129,6 +133,40 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         Verdict::WithinMateriality => 0,
     };
     Ok(out)
+}
+
+/// Appends the reconciliation just compared, inside the command's write transaction.
+fn record(
+    tx: &mut Tx<'_>,
+    ctx: &Context,
+    a: &ReconcileArgs,
+    report: &MonitoringReport,
+    level: &Level,
+    c: &Compared,
+) -> Result<Recorded> {
+    let (seq, previous) = tx.next_reconciliation(&a.project)?;
+    let r = &c.reconciliation;
+    let rec = Recorded {
+        project: a.project.clone(),
+        seq,
+        previous,
+        report_name: report.name.clone(),
+        report_sha256: report.sha256,
+        method: a.method.name().into(),
+        materiality: level.policy.share.to_string(),
+        basis: materiality_basis(level),
+        chain_size: c.tip.0,
+        chain_head: c.tip.1,
+        lines: recorded_lines(r, line_note),
+        years: recorded_years(r),
+        verdict: r.overall().text().into(),
+        role: a.record.role.unwrap_or(RoleArg::Verifier).role(),
+        by: a.record.by.clone(),
+        recorded_by: tx.recorded_by()?,
+        recorded_at: ctx.now,
+    };
+    tx.add_reconciliation(&rec)?;
+    Ok(rec)
 }
 
 /// Every imported meter-day recomputed from its raw readings, the chain read row by row.

@@ -19,6 +19,7 @@ mod proof;
 mod reconciliations;
 mod rows;
 mod schema;
+mod seal_append;
 mod statements;
 mod stream;
 mod verify;
