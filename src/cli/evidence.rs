@@ -6,7 +6,7 @@ use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::plan::Plan;
-use crate::import::replan::{Kept, plan_totals, replan};
+use crate::import::replan::{plan_totals, replan};
 use crate::ledger::recompute::ReadingTotal;
 use crate::report::Report;
 use crate::report::tables::evidence::{no_readings_line, readings_table};
@@ -36,15 +36,7 @@ fn replan_all(
 ) -> Result<()> {
     let sites = tx.sites_by_code(project)?;
     for i in tx.imports(project)? {
-        let kept = Kept {
-            id: i.id,
-            file_name: &i.file_name,
-            sha256: &i.sha256,
-            kind: &i.kind,
-            columns: &i.columns,
-            density: &i.density,
-        };
-        let p = replan(tx.evidence(i.id), project, &sites, &kept, watch)?;
+        let p = replan(tx.evidence(i.id), project, &sites, &i, watch)?;
         f(i, p);
     }
     Ok(())
