@@ -86,13 +86,10 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     let project = known_project(tx, &a.project)?;
     let sites = tx.sites_by_code(&a.project)?;
     let import_id = tx.next_import_id()?;
-    let plan = match read_file(tx, req, &sites, import_id)? {
-        (plan, Some(prev)) => {
-            let line = already_line(file_name, &a.project, &plan, &prev);
-            return Ok(Report::default().line(line));
-        }
-        (plan, None) => plan,
-    };
+    let (plan, earlier) = read_file(tx, req, &sites, import_id)?;
+    if let Some(prev) = earlier {
+        return Ok(Report::default().line(already_line(file_name, &a.project, &plan, &prev)));
+    }
     refuse_bad_rows(file_name, &plan, a.skip_bad)?;
     room_for_entries(&ctx.db, plan.bytes, plan.days.len())?;
     let mut source = Source::new(&a.project, req.kind, file_name, plan.sha256);
