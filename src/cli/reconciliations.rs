@@ -28,10 +28,8 @@ pub struct RecordArgs {
 impl RecordArgs {
     /// Refuses a bad name before anything is read or written.
     pub fn check(&self) -> Result<()> {
-        match &self.by {
-            Some(by) => super::inputs::text("--by", by),
-            None => Ok(()),
-        }
+        let by = self.by.as_deref();
+        by.map_or(Ok(()), |by| super::inputs::text("--by", by))
     }
 }
 
