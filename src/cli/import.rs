@@ -15,9 +15,7 @@ use crate::import::{name_and_size, plan_file};
 use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
-use crate::report::tables::import::{
-    already_line, bad_rows_why, no_readings_why, summary_line, summary_table,
-};
+use crate::report::tables::import::{already_line, bad_rows_why, imported_report, no_readings_why};
 use crate::store::{ImportSummary, NewImport, Tx, disk_error, room_for, room_for_entries};
 use clap::Args;
 use std::collections::HashMap;
@@ -103,7 +101,7 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         over_permit: a.over_permit,
     };
     let mut summary = Summary::default();
-    let mut warnings =
+    let warnings =
         import_write::write(tx, ctx, &to, &source, &plan.days, |d, s| summary.add(d, s))?;
     tx.add_import(&NewImport {
         id: import_id,
@@ -117,14 +115,9 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         rows: i64::try_from(plan.accepted).unwrap_or(i64::MAX),
         at: ctx.now,
     })?;
-    warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
-    let mut report = Report::default()
-        .line(summary_line(
-            file_name, &a.project, import_id, &plan, &summary,
-        ))
-        .table(summary_table(summary, &a.project));
-    report.warnings = warnings;
-    Ok(report)
+    Ok(imported_report(
+        file_name, &a.project, import_id, &plan, summary, warnings,
+    ))
 }
 
 /// Reads the file once, inside a savepoint: its bytes are kept as they are read, and dropped

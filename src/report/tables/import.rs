@@ -4,7 +4,7 @@ use crate::import::overlap::Overlap;
 use crate::import::plan::Plan;
 use crate::import::summary::Summary;
 use crate::report::names;
-use crate::report::{Cell, Table, columns};
+use crate::report::{Cell, Report, Table, columns};
 use crate::store::ImportSummary;
 
 /// The line saying a file was imported before (as import `earlier`), and nothing was written.
@@ -24,9 +24,27 @@ pub fn already_line(
     )
 }
 
+/// What an import reports: the line saying what it made, the table by meter, and for stderr
+/// the permit's `warnings` and every row skipped.
+pub fn imported_report(
+    file_name: &str,
+    project: &str,
+    import_id: i64,
+    plan: &Plan,
+    summary: Summary,
+    mut warnings: Vec<String>,
+) -> Report {
+    warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
+    let mut report = Report::default()
+        .line(summary_line(file_name, project, import_id, plan, &summary))
+        .table(summary_table(summary, project));
+    report.warnings = warnings;
+    report
+}
+
 /// The line above the table: the file, its hash, readings and entries, what was replaced and
 /// skipped.
-pub fn summary_line(
+fn summary_line(
     file_name: &str,
     project: &str,
     import_id: i64,
@@ -53,7 +71,7 @@ pub fn summary_line(
 }
 
 /// Per meter: the days, readings and CO2 the import recorded, and the seqs they took.
-pub fn summary_table(summary: Summary, project: &str) -> Table {
+fn summary_table(summary: Summary, project: &str) -> Table {
     let mut t = Table::new(
         "import",
         format!("Import into project {project}, by meter"),
