@@ -1,6 +1,6 @@
-//! Reading user files: the only module that opens them. Meter exports in CSV, streamed: the
-//! planner reads a file once, hashing and parsing together, and hands its bytes on to be kept
-//! verbatim as the import's evidence.
+//! Reading user files: the only module that reads them (`export` writes the files commands hand
+//! out). Meter exports in CSV, streamed: the planner reads a file once, hashing and parsing
+//! together, and hands its bytes on to be kept verbatim as the import's evidence.
 
 pub mod bundle_file;
 pub mod csv_records;
