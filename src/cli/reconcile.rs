@@ -17,9 +17,9 @@ use crate::ledger::Hash;
 use crate::ledger::recompute::Recompute;
 use crate::ledger::reconciliation::Recorded;
 use crate::report::tables::reconcile::{
-    RecomputeTable, line_note, lines_table, materiality_basis, not_assessed_warning, verdicts_table,
+    RecomputeTable, line_note, lines_table, materiality_basis, not_assessed_warning,
+    reconcile_report, verdicts_table,
 };
-use crate::report::tables::reconciliations::{recorded_line, recorded_table};
 use crate::report::{Report, Table};
 use crate::store::Tx;
 use clap::Args;
@@ -105,24 +105,10 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         store.read(|tx| Ok((compare(tx, &a, &report, &level)?, None)))?
     };
     let r = &c.reconciliation;
-    let mut out = Report::default();
-    if let Some(t) = c.recompute {
-        out = out.table(t);
-    }
-    out = out
-        .table(lines_table(r, &report.name, &a.project))
-        .table(verdicts_table(
-            r,
-            &a.project,
-            c.route,
-            a.method,
-            &materiality_basis(&level),
-        ));
-    if let Some(rec) = recorded {
-        out = out
-            .line(recorded_line(&rec))
-            .table(recorded_table(&a.project, std::slice::from_ref(&rec)));
-    }
+    let lines = lines_table(r, &report.name, &a.project);
+    let basis = materiality_basis(&level);
+    let verdicts = verdicts_table(r, &a.project, c.route, a.method, &basis);
+    let mut out = reconcile_report(c.recompute, lines, verdicts, recorded.as_ref());
     out.exit_code = match r.overall() {
         Verdict::Material => MATERIAL,
         Verdict::NotAssessed => {

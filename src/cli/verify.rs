@@ -47,12 +47,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
             Some(code) => vec![super::setup::known_project(tx, code)?],
             None => projects,
         };
-        // The bar's length only: a tip that does not read back is the walk's to name.
-        let mut total = 0;
-        for p in &chosen {
-            total += tx.chain_tip(&p.code).map_or(0, |(next, _)| next);
-        }
-        let bar = super::progress::entries("verifying", total);
+        let bar = super::progress::entries("verifying", tx.entries_of(&chosen));
         for p in chosen {
             let c = tx.check_project(&p.code, expected, || bar.inc(1))?;
             t.push(project_row(&p.code, &c, ledger));

@@ -4,9 +4,9 @@
 
 use super::Tx;
 use crate::error::{Error, Result};
-use crate::ledger::Hash;
 use crate::ledger::chain_structure::ChainStructure;
 use crate::ledger::unnamed_files::UnnamedFiles;
+use crate::ledger::{Hash, Project};
 
 /// What one project's check covered: its sites, seals, signed statements and recorded
 /// reconciliations, and the chain's length and head.
@@ -20,6 +20,13 @@ pub struct ProjectChecked {
 }
 
 impl Tx<'_> {
+    /// The entries of `projects` together, as their chain tips count them: a progress bar's
+    /// length only (a tip that does not read back is the walk's to name).
+    pub fn entries_of(&mut self, projects: &[Project]) -> u64 {
+        let tip = |p: &Project| self.chain_tip(&p.code).map_or(0, |(next, _)| next);
+        projects.iter().map(tip).sum()
+    }
+
     /// Checks project `code`, calling `walked` once per entry as the chain streams by; the
     /// chain must still hold `expected`, which also catches entries removed from its end.
     pub fn check_project(

@@ -1,15 +1,38 @@
 //! The tables `reconcile` prints: the ledger against a monitoring report line by line, each
 //! year's verdict on materiality, the meter-days recomputed from their readings.
 
+use super::reconciliations::{recorded_line, recorded_table};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
     Bearing, Judgement, Level, Presence, Reconciliation, ReportedQuantity,
 };
 use crate::accounting::project_view::bearing;
+use crate::ledger::reconciliation::Recorded;
 use crate::ledger::{Entry, Method};
 use crate::quantity::Mass;
 use crate::report::names;
-use crate::report::{Cell, Table, columns};
+use crate::report::{Cell, Report, Table, columns};
+
+/// What `reconcile` prints: the meter-days recomputed when asked for, every line, each year's
+/// verdict and, when the reconciliation was recorded, its record.
+pub fn reconcile_report(
+    recompute: Option<Table>,
+    lines: Table,
+    verdicts: Table,
+    recorded: Option<&Recorded>,
+) -> Report {
+    let mut out = Report::default();
+    if let Some(t) = recompute {
+        out = out.table(t);
+    }
+    out = out.table(lines).table(verdicts);
+    if let Some(rec) = recorded {
+        out = out
+            .line(recorded_line(rec))
+            .table(recorded_table(&rec.project, std::slice::from_ref(rec)));
+    }
+    out
+}
 
 /// The words a line's note gives: where the line was found and whether it counts.
 pub fn line_note(presence: Presence, judgement: Judgement) -> String {
