@@ -40,7 +40,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
         }
     }
     let mut t = verify_table();
-    let (links, ledger_head) = store.read(|tx| {
+    let ledger = store.read(|tx| {
         let ledger = tx.check_ledger_chain(a.project.as_deref(), expected_ledger)?;
         let projects = tx.projects()?;
         let chosen: Vec<_> = match &a.project {
@@ -57,8 +57,7 @@ pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
     })?;
     notes(
         &mut t,
-        links,
-        ledger_head,
+        ledger,
         deep,
         expected.is_some(),
         expected_ledger.is_some(),

@@ -61,8 +61,7 @@ fn deep_check_name(check: DeepCheck) -> &'static str {
 /// the database's own check if `deep` ran, and the published heads given.
 pub fn notes(
     t: &mut Table,
-    links: u64,
-    head: Hash,
+    (links, head): (u64, Hash),
     deep: Option<DeepCheck>,
     expected: bool,
     expected_ledger: bool,
