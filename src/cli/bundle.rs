@@ -10,7 +10,7 @@ use crate::import::bundle_file::read_checked;
 use crate::report::Report;
 use crate::report::tables::bundle::{checked_table, summary_table};
 use clap::{Args, Subcommand};
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
@@ -49,7 +49,10 @@ pub struct ExportArgs {
 pub fn bundle(ctx: &Context, c: BundleCommand) -> Result<Report> {
     match c {
         BundleCommand::Export(a) => export(ctx, a),
-        BundleCommand::Check { file } => check(&file),
+        BundleCommand::Check { file } => {
+            let c = read_checked(&file, |_| Ok(()))?;
+            Ok(Report::default().table(checked_table(&file.display().to_string(), &c)))
+        }
         BundleCommand::Load { file } => super::bundle_load::load(ctx, &file),
     }
 }
@@ -73,9 +76,4 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     })?;
     let t = w.finish().map_err(unwritten)?;
     Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
-}
-
-fn check(file: &Path) -> Result<Report> {
-    let c = read_checked(file, |_| Ok(()))?;
-    Ok(Report::default().table(checked_table(&file.display().to_string(), &c)))
 }

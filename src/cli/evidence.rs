@@ -7,9 +7,10 @@ use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::plan::Plan;
 use crate::import::replan::{plan_totals, replan};
-use crate::ledger::recompute::ReadingTotal;
-use crate::report::Report;
+use crate::ledger::recompute::Recompute;
 use crate::report::tables::evidence::{no_readings_line, readings_table};
+use crate::report::tables::reconcile::RecomputeTable;
+use crate::report::{Report, Table};
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
@@ -42,13 +43,22 @@ fn replan_all(
     Ok(())
 }
 
-/// Every imported meter-day of `project`, recomputed from the kept files.
-pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal>> {
-    let mut out = Vec::new();
+/// Every imported meter-day of `project` recomputed from its kept file's raw readings, the
+/// chain read row by row.
+pub fn recompute_table(tx: &mut Tx<'_>, project: &str) -> Result<Table> {
+    let mut totals = Vec::new();
     replan_all(tx, project, None, |i, p| {
-        out.extend(plan_totals(&p, &i.sha256))
+        totals.extend(plan_totals(&p, &i.sha256))
     })?;
-    Ok(out)
+    let recompute = Recompute::new(&totals);
+    let mut t = RecomputeTable::new(project);
+    tx.for_each_entry(project, None, |s| {
+        if let Some(r) = recompute.entry(&s.entry) {
+            t.meter_day(&s.entry, r.meter, &r.day, r.found);
+        }
+        Ok(())
+    })?;
+    Ok(t.finish())
 }
 
 /// `readings`: the rows behind one meter-day, re-read from every file imported into the project.

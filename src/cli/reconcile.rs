@@ -14,11 +14,10 @@ use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
 use crate::ledger::Hash;
-use crate::ledger::recompute::Recompute;
 use crate::ledger::reconciliation::Recorded;
 use crate::report::tables::reconcile::{
-    RecomputeTable, line_note, lines_table, materiality_basis, not_assessed_warning,
-    reconcile_report, verdicts_table,
+    line_note, lines_table, materiality_basis, not_assessed_warning, reconcile_report,
+    verdicts_table,
 };
 use crate::report::{Report, Table};
 use crate::store::Tx;
@@ -68,7 +67,7 @@ fn compare(
 ) -> Result<Compared> {
     let view = load(tx, &a.project, None)?;
     let recompute = match a.recompute {
-        true => Some(recompute_table(tx, &a.project)?),
+        true => Some(super::evidence::recompute_table(tx, &a.project)?),
         false => None,
     };
     let tip = tx.chain_tip(&a.project)?;
@@ -153,18 +152,4 @@ fn record(
     };
     tx.add_reconciliation(&rec)?;
     Ok(rec)
-}
-
-/// Every imported meter-day recomputed from its raw readings, the chain read row by row.
-fn recompute_table(tx: &mut Tx<'_>, project: &str) -> Result<Table> {
-    let totals = super::evidence::reading_totals(tx, project)?;
-    let recompute = Recompute::new(&totals);
-    let mut t = RecomputeTable::new(project);
-    tx.for_each_entry(project, None, |s| {
-        if let Some(r) = recompute.entry(&s.entry) {
-            t.meter_day(&s.entry, r.meter, &r.day, r.found);
-        }
-        Ok(())
-    })?;
-    Ok(t.finish())
 }

@@ -13,7 +13,6 @@ use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::bounds::reporting_year;
-use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
 use crate::report::html::{Section, page};
 use crate::report::tables::annual::{Parts, Sealed, annual_page, annual_sections, written_table};
@@ -55,10 +54,13 @@ fn sections(
     ctx: &Context,
     a: &ReportArgs,
     view: &ProjectFigures,
-    sealed: Sealed,
-    recorded: Vec<Recorded>,
 ) -> Result<Vec<Section>> {
     let code = &view.project().code;
+    let sealed = Sealed {
+        seals: tx.seals_with_entries(code)?,
+        statements: tx.judged_statements(code)?,
+    };
+    let recorded = tx.reconciliations(code)?;
     let (sites, settings) = (tx.sites(code)?, tx.settings(code)?);
     let mut balances = vec![balance_report(view, BalanceMethod::Rr)?];
     if view.project().method == Method::Eor {
@@ -85,12 +87,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
     let (project, tip, sections) = ctx.open()?.read(|tx| {
         let view = load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
-        let sealed = Sealed {
-            seals: tx.seals_with_entries(&a.project)?,
-            statements: tx.judged_statements(&a.project)?,
-        };
-        let recorded = tx.reconciliations(&a.project)?;
-        let sections = sections(tx, ctx, &a, &view, sealed, recorded)?;
+        let sections = sections(tx, ctx, &a, &view)?;
         Ok((view.project().clone(), tip, sections))
     })?;
     let page_doc = annual_page(&project, a.year, ctx.now, tip, sections);
