@@ -120,8 +120,8 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
     ))
 }
 
-/// Reads the file once, inside a savepoint: its bytes are kept as they are read, and dropped
-/// again if they turn out to be a file imported before (returned beside the plan).
+/// Reads the file once, its bytes kept as they are read and dropped again if they turn out to
+/// be a file imported before (returned beside the plan).
 fn read_file(
     tx: &mut Tx<'_>,
     req: &Request<'_>,
@@ -138,19 +138,16 @@ fn read_file(
         sites,
         watch: None,
     };
-    tx.savepoint(|tx| {
+    tx.keep_file(import_id, &a.project, |keep| {
         let progress = super::progress::bytes(&req.file_name, req.size);
-        let mut part = 0;
         let plan = plan_file(&a.file, &opts, |bytes| {
-            tx.add_evidence(import_id, part, bytes)?;
-            part += 1;
+            keep(bytes)?;
             progress.inc(bytes.len() as u64);
             Ok(())
         })?;
         progress.finish_and_clear();
-        let earlier = tx.import_of(&a.project, plan.sha256)?;
-        let keep = earlier.is_none();
-        Ok(((plan, earlier), keep))
+        let sha256 = plan.sha256;
+        Ok((plan, sha256))
     })
 }
 
