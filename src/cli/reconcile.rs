@@ -129,9 +129,8 @@ fn record(
     level: &Level,
     c: &Compared,
 ) -> Result<Recorded> {
-    let (seq, previous) = tx.next_reconciliation(&a.project)?;
     let r = &c.reconciliation;
-    let rec = Recorded {
+    tx.add_next_reconciliation(&a.project, |seq, previous, recorded_by| Recorded {
         project: a.project.clone(),
         seq,
         previous,
@@ -147,9 +146,7 @@ fn record(
         verdict: r.overall().text().into(),
         role: a.record.role.unwrap_or(RoleArg::Verifier).role(),
         by: a.record.by.clone(),
-        recorded_by: tx.recorded_by()?,
+        recorded_by,
         recorded_at: ctx.now,
-    };
-    tx.add_reconciliation(&rec)?;
-    Ok(rec)
+    })
 }

@@ -122,11 +122,8 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
                 return Err(Error::field("--period", &a.period, why));
             }
         };
-        let seq = tx.next_statement_seq(&a.project)?;
         let signed = Signed::over(seal, &a.project, role, &a.statement, ctx.now);
-        let s = sign_with(seq, signed, &key);
-        tx.add_signature(&s)?;
-        Ok(s)
+        tx.add_next_statement(&a.project, |seq| sign_with(seq, signed, &key))
     })?;
     Ok(Report::default()
         .line(signed_line(&a.project, &s))

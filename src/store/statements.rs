@@ -6,6 +6,7 @@ use super::Tx;
 use crate::error::{Error, Result};
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::Seal;
+use crate::ledger::signature::Statement;
 use crate::ledger::statement_check::{Judged, judged, seal_stands};
 use crate::ledger::{Hash, SealedEntry};
 
@@ -41,10 +42,17 @@ impl Tx<'_> {
             .collect()
     }
 
-    /// The seq a new statement of a project takes: after the last one held (a copy loaded
-    /// through a seal may lack some between).
-    pub fn next_statement_seq(&mut self, project: &str) -> Result<u64> {
-        Ok(self.signatures(project)?.last().map_or(0, |s| s.seq + 1))
+    /// Adds the statement `signed` makes of the seq a new statement of `project` takes: after
+    /// the last one held (a copy loaded through a seal may lack some between).
+    pub fn add_next_statement(
+        &mut self,
+        project: &str,
+        signed: impl FnOnce(u64) -> Statement,
+    ) -> Result<Statement> {
+        let seq = self.signatures(project)?.last().map_or(0, |s| s.seq + 1);
+        let s = signed(seq);
+        self.add_signature(&s)?;
+        Ok(s)
     }
 
     /// The tree head of the leaves before each seal, recomputed as the chain streams by.
