@@ -101,8 +101,7 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         over_permit: a.over_permit,
     };
     let mut summary = Summary::default();
-    let warnings =
-        import_write::write(tx, ctx, &to, &source, &plan.days, |d, s| summary.add(d, s))?;
+    let warnings = import_write::write(tx, ctx, &to, &source, &plan.days, &mut summary)?;
     tx.add_import(&NewImport {
         id: import_id,
         project: &a.project,

@@ -7,8 +7,9 @@ use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_day::{MeterDay, Source, permit_entries};
 use crate::import::overlap::{self, Covered};
+use crate::import::summary::Summary;
 use crate::ledger::append::{AppendError, SealRule, append};
-use crate::ledger::{Project, SealedEntry, Site};
+use crate::ledger::{Project, Site};
 use crate::report::tables::import::counted_why;
 use crate::store::Tx;
 use std::collections::HashMap;
@@ -24,15 +25,15 @@ pub(super) struct Target<'a> {
     pub over_permit: bool,
 }
 
-/// Writes `days` as entries of `source`, calling `sealed` with each as it is sealed; returns
-/// the permit's warnings. Nothing is written when it fails (the command's transaction).
+/// Writes `days` as entries of `source`, each added to `summary` as it is sealed; returns the
+/// permit's warnings. Nothing is written when it fails (the command's transaction).
 pub(super) fn write(
     tx: &mut Tx<'_>,
     ctx: &Context,
     to: &Target<'_>,
     source: &Source<'_>,
     days: &[MeterDay],
-    mut sealed: impl FnMut(&MeterDay, &SealedEntry),
+    summary: &mut Summary,
 ) -> Result<Vec<String>> {
     let code = source.project;
     let span = overlap::span(days);
@@ -62,7 +63,7 @@ pub(super) fn write(
                 .map_err(|e| refused_row(source.file_name, e))?
                 .into_sealed();
             tip = (tip.0 + 1, s.chain);
-            sealed(d, &s);
+            summary.add(d, &s);
             chunk.push(s);
         }
         tx.append(&chunk)?;
