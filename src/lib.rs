@@ -9,6 +9,7 @@ pub mod chem;
 pub mod cli;
 pub mod eos;
 pub mod error;
+pub mod export;
 pub mod import;
 pub mod ledger;
 pub mod quantity;

@@ -19,6 +19,16 @@ pub enum BalanceMethod {
     Iso27916,
 }
 
+impl BalanceMethod {
+    /// The method's name as the command line and a recorded reconciliation give it.
+    pub fn name(self) -> &'static str {
+        match self {
+            BalanceMethod::Rr => "rr",
+            BalanceMethod::Iso27916 => "iso27916",
+        }
+    }
+}
+
 /// The terms of one period, each in whole grams.
 #[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
 pub struct Terms {

@@ -4,14 +4,13 @@
 use super::Context;
 use super::setup::known_project;
 use crate::bundle::stop::stop_at;
-use crate::bundle::{Checker, Line};
 use crate::error::{Error, Result};
+use crate::export::bundle_file::{BundleFile, Unwritten};
 use crate::import::bundle_file::read_checked;
 use crate::report::Report;
 use crate::report::tables::bundle::{checked_table, summary_table};
 use clap::{Args, Subcommand};
-use std::io::Write;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
@@ -50,43 +49,22 @@ pub struct ExportArgs {
 pub fn bundle(ctx: &Context, c: BundleCommand) -> Result<Report> {
     match c {
         BundleCommand::Export(a) => export(ctx, a),
-        BundleCommand::Check { file } => check(&file),
+        BundleCommand::Check { file } => {
+            let c = read_checked(&file, |_| Ok(()))?;
+            Ok(Report::default().table(checked_table(&file.display().to_string(), &c)))
+        }
         BundleCommand::Load { file } => super::bundle_load::load(ctx, &file),
-    }
-}
-
-/// Lines written through the checker, so an export is checked as it is written.
-struct Writer {
-    checker: Checker,
-    out: std::io::BufWriter<tempfile::NamedTempFile>,
-    name: String,
-}
-
-impl Writer {
-    fn put(&mut self, line: &Line) -> Result<()> {
-        let text = line.to_text();
-        self.checker
-            .push(text.trim_end_matches('\n'))
-            .map_err(|e| Error::ledger(format!("the ledger does not export whole: {e}")))?;
-        self.out
-            .write_all(text.as_bytes())
-            .map_err(|e| Error::field("--out", &self.name, e))
     }
 }
 
 fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     let name = a.out.display().to_string();
-    let dir = match a.out.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
-        _ => PathBuf::from("."),
+    let unwritten = |e| match e {
+        Unwritten::Line(e) => Error::ledger(format!("the ledger does not export whole: {e}")),
+        Unwritten::Bundle(e) => Error::ledger(e),
+        Unwritten::File(e) => Error::field("--out", &name, e),
     };
-    // Written beside the target and renamed at the end, so a failed export leaves no file.
-    let tmp = tempfile::NamedTempFile::new_in(&dir).map_err(|e| Error::field("--out", &name, e))?;
-    let mut w = Writer {
-        checker: Checker::default(),
-        out: std::io::BufWriter::new(tmp),
-        name: name.clone(),
-    };
+    let mut w = BundleFile::create(&a.out).map_err(unwritten)?;
     let code = a.project.clone();
     ctx.open()?.read(|tx| {
         let p = known_project(tx, &code)?;
@@ -94,42 +72,8 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
             let n = a.through_seal.map(|n| n.to_string()).unwrap_or_default();
             Error::field("--through-seal", &n, why)
         })?;
-        tx.export_bundle(&p, &stop, &mut |line| w.put(line))
+        tx.export_bundle(&p, &stop, &mut |line| w.put(line).map_err(unwritten))
     })?;
-    let trailer = w.checker.trailer();
-    w.put(&trailer)?;
-    persist(w.out, &a.out, &name)?;
-    let t = w.checker.finish().map_err(Error::ledger)?;
+    let t = w.finish().map_err(unwritten)?;
     Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
-}
-
-/// The written file made readable, synced and renamed onto `path`.
-fn persist(
-    out: std::io::BufWriter<tempfile::NamedTempFile>,
-    path: &Path,
-    name: &str,
-) -> Result<()> {
-    let tmp = out
-        .into_inner()
-        .map_err(|e| Error::field("--out", name, e.error()))?;
-    // A bundle is for sending: readable by others like any file written (a temporary file is
-    // created for its owner only).
-    #[cfg(unix)]
-    {
-        use std::os::unix::fs::PermissionsExt;
-        tmp.as_file()
-            .set_permissions(std::fs::Permissions::from_mode(0o644))
-            .map_err(|e| Error::field("--out", name, e))?;
-    }
-    tmp.as_file()
-        .sync_all()
-        .map_err(|e| Error::field("--out", name, e))?;
-    tmp.persist(path)
-        .map_err(|e| Error::field("--out", name, e.error))?;
-    Ok(())
-}
-
-fn check(file: &Path) -> Result<Report> {
-    let c = read_checked(file, |_| Ok(()))?;
-    Ok(Report::default().table(checked_table(&file.display().to_string(), &c)))
 }

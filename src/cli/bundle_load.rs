@@ -33,10 +33,6 @@ pub fn load(ctx: &Context, file: &Path) -> Result<Report> {
         }
         Ok((c.project, c.trailer, loader.added()))
     })?;
-    Ok(Report::default().table(loaded_table(
-        &file.display().to_string(),
-        &project,
-        &trailer,
-        [new.entries, new.signatures, new.reconciliations],
-    )))
+    let file = file.display().to_string();
+    Ok(Report::default().table(loaded_table(&file, &project, &trailer, &new)))
 }

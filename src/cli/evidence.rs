@@ -6,14 +6,14 @@ use super::Context;
 use super::setup::known_project;
 use crate::error::{Error, Result};
 use crate::import::plan::Plan;
-use crate::import::replan::{Kept, replan as replan_kept};
-use crate::ledger::Site;
-use crate::report::Report;
-use crate::report::tables::evidence::readings_table;
+use crate::import::replan::{plan_totals, replan};
+use crate::ledger::recompute::Recompute;
+use crate::report::tables::evidence::{no_readings_line, readings_table};
+use crate::report::tables::reconcile::RecomputeTable;
+use crate::report::{Report, Table};
 use crate::store::{StoredImport, Tx};
 use chrono::NaiveDate;
 use clap::Args;
-use std::collections::HashMap;
 
 #[derive(Debug, Args)]
 pub struct ReadingsArgs {
@@ -27,58 +27,38 @@ pub struct ReadingsArgs {
     pub day: String,
 }
 
-/// The readings of one meter-day of one imported file, re-read from its bytes.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct ReadingTotal {
-    pub file_sha256: String,
-    pub meter: String,
-    pub day: String,
-    pub grams: i64,
-    pub rows: i64,
-}
-
-/// Re-reads import `i` of `project` from its kept bytes (`import::replan`).
-fn replan(
+/// Every import of `project` re-read from its kept bytes (`import::replan`), in the order
+/// made, each handed to `f` with its plan.
+fn replan_all(
     tx: &mut Tx<'_>,
     project: &str,
-    sites: &HashMap<String, Site>,
-    i: &StoredImport,
     watch: Option<(&str, NaiveDate)>,
-) -> Result<Plan> {
-    let kept = Kept {
-        id: i.id,
-        file_name: &i.file_name,
-        sha256: &i.sha256,
-        kind: &i.kind,
-        columns: &i.columns,
-        density: &i.density,
-    };
-    replan_kept(tx.evidence(i.id), project, sites, &kept, watch)
-}
-
-fn sites_of(tx: &mut Tx<'_>, project: &str) -> Result<HashMap<String, Site>> {
-    Ok(tx
-        .sites(project)?
-        .into_iter()
-        .map(|s| (s.code.clone(), s))
-        .collect())
-}
-
-/// Every imported meter-day of `project`, recomputed from the kept files.
-pub fn reading_totals(tx: &mut Tx<'_>, project: &str) -> Result<Vec<ReadingTotal>> {
-    let sites = sites_of(tx, project)?;
-    let mut out = Vec::new();
+    mut f: impl FnMut(StoredImport, Plan),
+) -> Result<()> {
+    let sites = tx.sites_by_code(project)?;
     for i in tx.imports(project)? {
-        let p = replan(tx, project, &sites, &i, None)?;
-        out.extend(p.days.iter().map(|d| ReadingTotal {
-            file_sha256: i.sha256.clone(),
-            meter: d.meter.to_string(),
-            day: d.day.to_string(),
-            grams: d.co2.grams(),
-            rows: d.rows as i64,
-        }));
+        let p = replan(tx.evidence(i.id), project, &sites, &i, watch)?;
+        f(i, p);
     }
-    Ok(out)
+    Ok(())
+}
+
+/// Every imported meter-day of `project` recomputed from its kept file's raw readings, the
+/// chain read row by row.
+pub fn recompute_table(tx: &mut Tx<'_>, project: &str) -> Result<Table> {
+    let mut totals = Vec::new();
+    replan_all(tx, project, None, |i, p| {
+        totals.extend(plan_totals(&p, &i.sha256))
+    })?;
+    let recompute = Recompute::new(&totals);
+    let mut t = RecomputeTable::new(project);
+    tx.for_each_entry(project, None, |s| {
+        if let Some(r) = recompute.entry(&s.entry) {
+            t.meter_day(&s.entry, r.meter, &r.day, r.found);
+        }
+        Ok(())
+    })?;
+    Ok(t.finish())
 }
 
 /// `readings`: the rows behind one meter-day, re-read from every file imported into the project.
@@ -87,23 +67,18 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
         .map_err(|e| Error::field("--day", &a.day, e))?;
     let found = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
-        let sites = sites_of(tx, &a.project)?;
         let mut found = Vec::new();
-        for i in tx.imports(&a.project)? {
-            let p = replan(tx, &a.project, &sites, &i, Some((&a.meter, day)))?;
+        replan_all(tx, &a.project, Some((&a.meter, day)), |i, p| {
             found.extend(
                 p.watched
                     .into_iter()
                     .map(|w| (i.id, i.file_name.clone(), w)),
-            );
-        }
+            )
+        })?;
         Ok(found)
     })?;
     if found.is_empty() {
-        return Err(Error::Refused(format!(
-            "no imported readings of meter {} on {day} in project {}",
-            a.meter, a.project
-        )));
+        return Err(Error::Refused(no_readings_line(&a.project, &a.meter, day)));
     }
     Ok(Report::default().table(readings_table(&a.project, &a.meter, day, found)))
 }

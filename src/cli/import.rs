@@ -10,13 +10,13 @@ use crate::error::{Error, Result};
 use crate::import::meter_csv::ColumnMap;
 use crate::import::meter_day::Source;
 use crate::import::plan::{Options, Plan};
-use crate::import::plan_file;
 use crate::import::summary::Summary;
+use crate::import::{name_and_size, plan_file};
 use crate::ledger::{EntryKind, Site};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
-use crate::report::tables::import::{already_line, summary_line, summary_table};
-use crate::store::{BYTES_PER_ENTRY, ImportSummary, NewImport, Tx, disk_error, room_for};
+use crate::report::tables::import::{already_line, bad_rows_why, imported_report, no_readings_why};
+use crate::store::{ImportSummary, NewImport, Tx, disk_error, room_for, room_for_entries};
 use clap::Args;
 use std::collections::HashMap;
 use std::path::PathBuf;
@@ -48,9 +48,6 @@ pub struct ImportArgs {
     pub replace: bool,
 }
 
-/// Bad rows or overlaps listed in the one-line refusal before "and N more".
-const LISTED: usize = 20;
-
 /// The import asked for, once its options are read.
 struct Request<'a> {
     args: &'a ImportArgs,
@@ -65,14 +62,7 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
     let kind = EntryKind::from_name(&a.kind)
         .filter(|k| !matches!(k, EntryKind::Survey | EntryKind::Leakage))
         .ok_or_else(|| Error::field("--kind", &a.kind, "is not a metered entry kind (injection, receipt, redelivery, production, equipment-leak, emission)"))?;
-    let file_name = a
-        .file
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
-    let size = std::fs::metadata(&a.file)
-        .map_err(|e| Error::field("FILE", &a.file.display().to_string(), e))?
-        .len();
+    let (file_name, size) = name_and_size(&a.file)?;
     let req = Request {
         args: &a,
         kind,
@@ -92,33 +82,14 @@ pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
 fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report> {
     let (a, file_name) = (req.args, req.file_name.as_str());
     let project = known_project(tx, &a.project)?;
-    let sites: HashMap<String, Site> = tx
-        .sites(&a.project)?
-        .into_iter()
-        .map(|s| (s.code.clone(), s))
-        .collect();
+    let sites = tx.sites_by_code(&a.project)?;
     let import_id = tx.next_import_id()?;
-    let plan = match read_file(tx, req, &sites, import_id)? {
-        (plan, Some(prev)) => {
-            return Ok(Report::default().line(already_line(
-                file_name,
-                &a.project,
-                &plan,
-                (prev.imported_at, prev.id, prev.rows),
-            )));
-        }
-        (plan, None) => plan,
-    };
+    let (plan, earlier) = read_file(tx, req, &sites, import_id)?;
+    if let Some(prev) = earlier {
+        return Ok(Report::default().line(already_line(file_name, &a.project, &plan, &prev)));
+    }
     refuse_bad_rows(file_name, &plan, a.skip_bad)?;
-    let entry_bytes = (plan.days.len() as u64).saturating_mul(BYTES_PER_ENTRY);
-    room_for(
-        &ctx.db,
-        plan.bytes / 2 + entry_bytes,
-        &format!(
-            "{} entries, and the evidence copied into the ledger file",
-            plan.days.len()
-        ),
-    )?;
+    room_for_entries(&ctx.db, plan.bytes, plan.days.len())?;
     let mut source = Source::new(&a.project, req.kind, file_name, plan.sha256);
     source.density = req.density;
     source.recorded_at = ctx.now;
@@ -130,8 +101,7 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         over_permit: a.over_permit,
     };
     let mut summary = Summary::default();
-    let mut warnings =
-        import_write::write(tx, ctx, &to, &source, &plan.days, |d, s| summary.add(d, s))?;
+    let warnings = import_write::write(tx, ctx, &to, &source, &plan.days, &mut summary)?;
     tx.add_import(&NewImport {
         id: import_id,
         project: &a.project,
@@ -144,23 +114,13 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         rows: i64::try_from(plan.accepted).unwrap_or(i64::MAX),
         at: ctx.now,
     })?;
-    warnings.extend(plan.bad.iter().map(|b| format!("skipped {b}")));
-    let mut report = Report::default()
-        .line(summary_line(
-            file_name,
-            &a.project,
-            import_id,
-            &plan,
-            summary.entries,
-            summary.replaced,
-        ))
-        .table(summary_table(summary, &a.project));
-    report.warnings = warnings;
-    Ok(report)
+    Ok(imported_report(
+        file_name, &a.project, import_id, &plan, summary, warnings,
+    ))
 }
 
-/// Reads the file once, inside a savepoint: its bytes are kept as they are read, and dropped
-/// again if they turn out to be a file imported before (returned beside the plan).
+/// Reads the file once, its bytes kept as they are read and dropped again if they turn out to
+/// be a file imported before (returned beside the plan).
 fn read_file(
     tx: &mut Tx<'_>,
     req: &Request<'_>,
@@ -177,57 +137,26 @@ fn read_file(
         sites,
         watch: None,
     };
-    tx.savepoint(|tx| {
+    tx.keep_file(import_id, &a.project, |keep| {
         let progress = super::progress::bytes(&req.file_name, req.size);
-        let mut part = 0;
         let plan = plan_file(&a.file, &opts, |bytes| {
-            tx.add_evidence(import_id, part, bytes)?;
-            part += 1;
+            keep(bytes)?;
             progress.inc(bytes.len() as u64);
             Ok(())
         })?;
         progress.finish_and_clear();
-        let earlier = tx.import_of(&a.project, plan.sha256)?;
-        let keep = earlier.is_none();
-        Ok(((plan, earlier), keep))
+        let sha256 = plan.sha256;
+        Ok((plan, sha256))
     })
-}
-
-pub(super) fn listed<T: ToString>(items: &[T]) -> String {
-    let shown: Vec<String> = items.iter().take(LISTED).map(ToString::to_string).collect();
-    let more = if items.len() > LISTED {
-        format!("; and {} more", items.len() - LISTED)
-    } else {
-        String::new()
-    };
-    format!("{}{more}", shown.join("; "))
 }
 
 /// Bad rows refuse the file unless `--skip-bad`; a file with nothing good is refused anyway.
 fn refuse_bad_rows(file_name: &str, plan: &Plan, skip_bad: bool) -> Result<()> {
-    let n = plan.bad.len();
-    let lines = plan.bad_lines();
-    let took = if lines as usize > n {
-        format!(" taking {lines} lines")
-    } else {
-        String::new()
-    };
-    if n > 0 && !skip_bad {
-        return Err(Error::input(
-            file_name,
-            format!(
-                "{n} bad row{}{took}, nothing written (fix them, or import the rest with --skip-bad): {}",
-                if n == 1 { "" } else { "s" },
-                listed(&plan.bad)
-            ),
-        ));
+    if !plan.bad.is_empty() && !skip_bad {
+        return Err(Error::input(file_name, bad_rows_why(plan)));
     }
     if plan.accepted == 0 {
-        return Err(Error::field(
-            "FILE",
-            file_name,
-            format!("has no readings to import ({n} bad rows skipped{took}); nothing written"),
-        ));
+        return Err(Error::field("FILE", file_name, no_readings_why(plan)));
     }
     Ok(())
 }

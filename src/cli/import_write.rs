@@ -3,14 +3,15 @@
 //! written a chunk at a time, so memory holds one chunk of entries beside the plan.
 
 use super::Context;
-use super::import::listed;
+use crate::accounting::permit;
 use crate::error::{Error, Result};
 use crate::import::meter_day::{MeterDay, Source, permit_entries};
 use crate::import::overlap::{self, Covered};
-use crate::ledger::append::{AppendError, Appended, SealRule, append};
-use crate::ledger::{EntryKind, Project, SealedEntry, Site};
+use crate::import::summary::Summary;
+use crate::ledger::append::{AppendError, SealRule, append};
+use crate::ledger::{Project, Site};
+use crate::report::tables::import::counted_why;
 use crate::store::Tx;
-use chrono::NaiveDate;
 use std::collections::HashMap;
 
 /// Entries sealed and written at a time.
@@ -24,37 +25,33 @@ pub(super) struct Target<'a> {
     pub over_permit: bool,
 }
 
-/// Writes `days` as entries of `source`, calling `sealed` with each as it is sealed; returns
-/// the permit's warnings. Nothing is written when it fails (the command's transaction).
+/// Writes `days` as entries of `source`, each added to `summary` as it is sealed; returns the
+/// permit's warnings. Nothing is written when it fails (the command's transaction).
 pub(super) fn write(
     tx: &mut Tx<'_>,
     ctx: &Context,
     to: &Target<'_>,
     source: &Source<'_>,
     days: &[MeterDay],
-    mut sealed: impl FnMut(&MeterDay, &SealedEntry),
+    summary: &mut Summary,
 ) -> Result<Vec<String>> {
     let code = source.project;
-    let covered = covered_days(tx, code, source.kind, days)?;
-    let corrects = overlap::corrections(days, &covered, to.replace).map_err(|o| {
-        Error::Refused(format!(
-            "{}: {} meter-day{} already counted in the ledger, nothing written (a meter-day counts once: if this file replaces the earlier export, import it with --replace): {}",
-            source.file_name,
-            o.len(),
-            if o.len() == 1 { " is" } else { "s are" },
-            listed(&o)
-        ))
-    })?;
+    let span = overlap::span(days);
+    let covered: Covered = tx
+        .counted_days(code, source.kind.name(), span)?
+        .into_iter()
+        .collect();
+    let corrects = overlap::corrections(days, &covered, to.replace)
+        .map_err(|o| Error::Refused(counted_why(source.file_name, &o)))?;
     let warnings = permit_warnings(tx, to, source, days, &corrects)?;
     let mut tip = tx.chain_tip(code)?;
     let seals = tx.seals(code)?;
     for (days, corrects) in days.chunks(ENTRY_CHUNK).zip(corrects.chunks(ENTRY_CHUNK)) {
         let mut chunk = Vec::with_capacity(days.len());
         for (d, c) in days.iter().zip(corrects) {
-            let replaced = match c.filter(|_| !seals.is_empty()) {
-                Some(t) => Some(super::record::replaced(tx, code, t, &seals)?.0),
-                None => None,
-            };
+            let replaced = c.filter(|_| !seals.is_empty());
+            let replaced = replaced.map(|t| super::record::replaced(tx, code, t, &seals));
+            let replaced = replaced.transpose()?.map(|(r, _)| r);
             let rule = SealRule {
                 seals: &seals,
                 late: ctx.late,
@@ -62,15 +59,12 @@ pub(super) fn write(
                 replaced,
             };
             let site = to.sites.get(&*d.site);
-            match append(d.entry(source, *c), site, tip, None, rule)
+            let s = append(d.entry(source, *c), site, tip, None, rule)
                 .map_err(|e| refused_row(source.file_name, e))?
-            {
-                Appended::New(s) | Appended::Existing(s) => {
-                    tip = (tip.0 + 1, s.chain);
-                    sealed(d, &s);
-                    chunk.push(s);
-                }
-            }
+                .into_sealed();
+            tip = (tip.0 + 1, s.chain);
+            summary.add(d, &s);
+            chunk.push(s);
         }
         tx.append(&chunk)?;
     }
@@ -87,24 +81,13 @@ fn permit_warnings(
     days: &[MeterDay],
     corrects: &[Option<u64>],
 ) -> Result<Vec<String>> {
-    if !matches!(
-        source.kind,
-        EntryKind::Injection | EntryKind::Production | EntryKind::EquipmentLeak
-    ) {
+    if !permit::bears_on(source.kind) {
         return Ok(Vec::new());
     }
     let code = source.project;
     let new = permit_entries(days, source)
         .ok_or_else(|| Error::field("FILE", source.file_name, "totals too large for the ledger"))?;
-    let mut gone = Vec::new();
-    for t in corrects.iter().flatten() {
-        let replaced = tx.entry_at(code, *t)?.ok_or_else(|| {
-            Error::ledger(format!(
-                "project {code} has no seq {t}, which an effective meter-day named"
-            ))
-        })?;
-        gone.push(replaced.entry);
-    }
+    let gone = tx.replaced_entries(code, corrects.iter().flatten().copied())?;
     let tally = tx.tally(code)?;
     let standing = super::record::standing(tx, to.project, tally, &new)?;
     super::permit_check(to.project, &standing, &new, &gone, to.over_permit)
@@ -120,30 +103,4 @@ fn refused_row(file_name: &str, e: AppendError) -> Error {
         AppendError::Sealed(s) => Error::field("FILE", file_name, super::sealed(&s)),
         e => Error::field("FILE", file_name, e),
     }
-}
-
-/// The meter-days of the plan's span that the ledger already counts, for this kind of entry.
-fn covered_days(
-    tx: &mut Tx<'_>,
-    project: &str,
-    kind: EntryKind,
-    days: &[MeterDay],
-) -> Result<Covered> {
-    let (Some(first), Some(last)) = (
-        days.iter().map(|d| d.day).min(),
-        days.iter().map(|d| d.day).max(),
-    ) else {
-        return Ok(Covered::new());
-    };
-    let mut covered = Covered::new();
-    for c in tx.covered_days(project, kind.name(), first, last)? {
-        let day = NaiveDate::parse_from_str(&c.day, "%Y-%m-%d").map_err(|_| {
-            Error::ledger(format!(
-                "project {project} seq {}: period_from {:?} is not a date",
-                c.seq, c.day
-            ))
-        })?;
-        covered.insert((c.meter, day), (c.seq as u64, c.evidence_name));
-    }
-    Ok(covered)
 }

@@ -3,22 +3,25 @@
 //! nothing in the report could be assessed; `--record` keeps the reconciliation in the ledger.
 
 use super::Context;
-use super::evidence::ReadingTotal;
-use super::reconciliations::{RecordArgs, record, recorded_table};
+use super::reconciliations::RecordArgs;
+use super::sign::RoleArg;
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{MaterialityPolicy, Reconciliation, Verdict};
+use crate::accounting::materiality::{
+    Level, Reconciliation, Verdict, recorded_lines, recorded_years,
+};
 use crate::accounting::project_view::ReconcileError;
 use crate::error::{Error, Result};
 use crate::import::monitoring_report::{self, MonitoringReport};
-use crate::ledger::{EntryKind, Hash};
+use crate::ledger::Hash;
+use crate::ledger::reconciliation::Recorded;
 use crate::report::tables::reconcile::{
-    RecomputeTable, lines_table, materiality_basis, verdicts_table,
+    line_note, lines_table, materiality_basis, not_assessed_warning, reconcile_report,
+    verdicts_table,
 };
 use crate::report::{Report, Table};
 use crate::store::Tx;
 use clap::Args;
-use std::collections::HashMap;
 use std::path::PathBuf;
 
 /// Exit code when a reporting year's misstatement is material.
@@ -47,40 +50,13 @@ pub struct ReconcileArgs {
     pub record: RecordArgs,
 }
 
-/// The materiality level and where it came from.
-pub struct Level {
-    pub policy: MaterialityPolicy,
-    /// The share as given on the command line, or None for the default.
-    pub given: Option<String>,
-}
-
-impl Level {
-    fn parse(text: Option<&str>) -> Result<Level> {
-        let policy = match text {
-            None => MaterialityPolicy::default(),
-            Some(t) => {
-                MaterialityPolicy::from_text(t).map_err(|e| Error::field("--materiality", t, e))?
-            }
-        };
-        Ok(Level {
-            policy,
-            given: text.map(str::to_string),
-        })
-    }
-
-    /// How the level was set, in words a verifier's file can quote.
-    pub fn basis(&self) -> String {
-        materiality_basis(self.policy.share, self.given.as_deref())
-    }
-}
-
 /// The ledger against a report, inside one transaction.
-pub struct Compared {
-    pub reconciliation: Reconciliation,
-    pub recompute: Option<Table>,
+struct Compared {
+    reconciliation: Reconciliation,
+    recompute: Option<Table>,
     /// Entries in the project's chain and its head when compared: the ledger state reconciled.
-    pub tip: (u64, Hash),
-    pub route: crate::ledger::Method,
+    tip: (u64, Hash),
+    route: crate::ledger::Method,
 }
 
 fn compare(
@@ -90,11 +66,9 @@ fn compare(
     level: &Level,
 ) -> Result<Compared> {
     let view = load(tx, &a.project, None)?;
-    let recompute = if a.recompute {
-        let totals = super::evidence::reading_totals(tx, &a.project)?;
-        Some(recompute_table(tx, &a.project, &totals)?)
-    } else {
-        None
+    let recompute = match a.recompute {
+        true => Some(super::evidence::recompute_table(tx, &a.project)?),
+        false => None,
     };
     let tip = tx.chain_tip(&a.project)?;
     let reconciliation = view
@@ -114,7 +88,9 @@ fn compare(
 }
 
 pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
-    let level = Level::parse(a.materiality.as_deref())?;
+    let given = a.materiality.as_deref();
+    let level =
+        Level::parse(given).map_err(|e| Error::field("--materiality", given.unwrap_or(""), e))?;
     let report = monitoring_report::read(&a.report)?;
     a.record.check()?;
     let mut store = ctx.open()?;
@@ -128,36 +104,15 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
         store.read(|tx| Ok((compare(tx, &a, &report, &level)?, None)))?
     };
     let r = &c.reconciliation;
-    let mut out = Report::default();
-    if let Some(t) = c.recompute {
-        out = out.table(t);
-    }
-    out = out
-        .table(lines_table(r, &report.name, &a.project))
-        .table(verdicts_table(
-            r,
-            &a.project,
-            c.route,
-            a.method,
-            &level.basis(),
-        ));
-    if let Some(rec) = recorded {
-        out = out
-            .line(format!(
-                "recorded reconciliation {} of project {} (row hash {})",
-                rec.seq,
-                a.project,
-                rec.row_hash().to_hex()
-            ))
-            .table(recorded_table(&a.project, std::slice::from_ref(&rec)));
-    }
+    let lines = lines_table(r, &report.name, &a.project);
+    let basis = materiality_basis(&level);
+    let verdicts = verdicts_table(r, &a.project, c.route, a.method, &basis);
+    let mut out = reconcile_report(c.recompute, lines, verdicts, recorded.as_ref());
     out.exit_code = match r.overall() {
         Verdict::Material => MATERIAL,
         Verdict::NotAssessed => {
-            out.warnings.push(format!(
-                "not assessed: no line of {} is a figure this ledger's stored tonnes of {} rest on (exit {NOT_ASSESSED})",
-                report.name, a.project
-            ));
+            let why = not_assessed_warning(&report.name, &a.project, NOT_ASSESSED);
+            out.warnings.push(why);
             NOT_ASSESSED
         }
         Verdict::WithinMateriality => 0,
@@ -165,32 +120,33 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     Ok(out)
 }
 
-/// Every imported meter-day recomputed from its raw readings, the chain read row by row.
-fn recompute_table(tx: &mut Tx<'_>, project: &str, totals: &[ReadingTotal]) -> Result<Table> {
-    let by: HashMap<(&str, &str, &str), &ReadingTotal> = totals
-        .iter()
-        .map(|t| {
-            (
-                (t.file_sha256.as_str(), t.meter.as_str(), t.day.as_str()),
-                t,
-            )
-        })
-        .collect();
-    let mut t = RecomputeTable::new(project);
-    tx.for_each_entry(project, None, |s| {
-        let e = &s.entry;
-        let (Some(sha), Some(meter)) = (e.reading.text("file_sha256"), e.meter.as_deref()) else {
-            return Ok(());
-        };
-        if e.kind == EntryKind::Survey || e.corrects.is_some() {
-            return Ok(());
-        }
-        let day = e.period.from.to_string();
-        let found = by
-            .get(&(sha, meter, day.as_str()))
-            .map(|r| (r.grams, r.rows));
-        t.meter_day(e, meter, &day, found);
-        Ok(())
-    })?;
-    Ok(t.finish())
+/// Appends the reconciliation just compared, inside the command's write transaction.
+fn record(
+    tx: &mut Tx<'_>,
+    ctx: &Context,
+    a: &ReconcileArgs,
+    report: &MonitoringReport,
+    level: &Level,
+    c: &Compared,
+) -> Result<Recorded> {
+    let r = &c.reconciliation;
+    tx.add_next_reconciliation(&a.project, |seq, previous, recorded_by| Recorded {
+        project: a.project.clone(),
+        seq,
+        previous,
+        report_name: report.name.clone(),
+        report_sha256: report.sha256,
+        method: a.method.name().into(),
+        materiality: level.policy.share.to_string(),
+        basis: materiality_basis(level),
+        chain_size: c.tip.0,
+        chain_head: c.tip.1,
+        lines: recorded_lines(r, line_note),
+        years: recorded_years(r),
+        verdict: r.overall().text().into(),
+        role: a.record.role.unwrap_or(RoleArg::Verifier).role(),
+        by: a.record.by.clone(),
+        recorded_by,
+        recorded_at: ctx.now,
+    })
 }

@@ -1,21 +1,14 @@
-//! Recorded reconciliations: `reconcile --record` appends one to the ledger, `reconciliations`
-//! lists them, `verify` walks their run of hashes and the chain state each names, and the
-//! annual page shows those of its year.
+//! Recorded reconciliations: `reconcile --record` appends one to the ledger (its options are
+//! here), `reconciliations` lists them, `verify` walks their run of hashes and the chain state
+//! each names, and the annual page shows those of its year.
 
 use super::Context;
-use super::reconcile::{Compared, Level, ReconcileArgs};
 use super::setup::known_project;
 use super::sign::RoleArg;
-use crate::accounting::balance::BalanceMethod;
-use crate::accounting::materiality::{recorded_lines, recorded_years};
 use crate::error::Result;
-use crate::import::monitoring_report::MonitoringReport;
 use crate::ledger::reconciliation::Recorded;
-pub use crate::ledger::reconciliation_states::ChainStates;
 use crate::report::Report;
-use crate::report::tables::reconcile::line_note;
-pub use crate::report::tables::reconciliations::{record_tables, recorded_table};
-use crate::store::Tx;
+use crate::report::tables::reconciliations::record_tables;
 use clap::Args;
 
 #[derive(Debug, Args)]
@@ -35,10 +28,8 @@ pub struct RecordArgs {
 impl RecordArgs {
     /// Refuses a bad name before anything is read or written.
     pub fn check(&self) -> Result<()> {
-        match &self.by {
-            Some(by) => super::inputs::text("--by", by),
-            None => Ok(()),
-        }
+        let by = self.by.as_deref();
+        by.map_or(Ok(()), |by| super::inputs::text("--by", by))
     }
 }
 
@@ -49,47 +40,6 @@ pub struct ReconciliationsArgs {
     /// Only the reconciliations that judged this reporting year
     #[arg(long)]
     pub year: Option<i32>,
-}
-
-fn method_name(m: BalanceMethod) -> &'static str {
-    match m {
-        BalanceMethod::Rr => "rr",
-        BalanceMethod::Iso27916 => "iso27916",
-    }
-}
-
-/// Appends the reconciliation just compared, inside the command's write transaction.
-pub fn record(
-    tx: &mut Tx<'_>,
-    ctx: &Context,
-    a: &ReconcileArgs,
-    report: &MonitoringReport,
-    level: &Level,
-    c: &Compared,
-) -> Result<Recorded> {
-    let (seq, previous) = tx.next_reconciliation(&a.project)?;
-    let r = &c.reconciliation;
-    let rec = Recorded {
-        project: a.project.clone(),
-        seq,
-        previous,
-        report_name: report.name.clone(),
-        report_sha256: report.sha256,
-        method: method_name(a.method).into(),
-        materiality: level.policy.share.to_string(),
-        basis: level.basis(),
-        chain_size: c.tip.0,
-        chain_head: c.tip.1,
-        lines: recorded_lines(r, line_note),
-        years: recorded_years(r),
-        verdict: r.overall().text().into(),
-        role: a.record.role.unwrap_or(RoleArg::Verifier).role(),
-        by: a.record.by.clone(),
-        recorded_by: tx.recorded_by()?,
-        recorded_at: ctx.now,
-    };
-    tx.add_reconciliation(&rec)?;
-    Ok(rec)
 }
 
 pub fn reconciliations(ctx: &Context, a: ReconciliationsArgs) -> Result<Report> {

@@ -1,11 +1,10 @@
 //! The shared registry's own commands: who may write what, and who keeps which projects.
 
 use super::Context;
-use super::sign::judge_all;
 use crate::error::{Error, Result};
 use crate::report::Report;
-use crate::report::tables::registry::{LastSeal, operators_table, verifier_word};
-use crate::store::{RoleKind, Tx};
+use crate::report::tables::registry::{created_line, operators_table};
+use crate::store::{RoleKind, role_name};
 use clap::{Args, Subcommand};
 
 #[derive(Subcommand, Debug)]
@@ -61,26 +60,8 @@ pub fn registry(ctx: &Context, c: RegistryCommand) -> Result<Report> {
 /// that seal with a signature that verifies and a seal that still stands (`statements` lists
 /// every statement with its checks).
 fn operators(ctx: &Context) -> Result<Report> {
-    let rows = ctx.open()?.read(|tx| {
-        let mut projects = tx.projects()?;
-        projects.sort_by(|a, b| (&a.operator, &a.code).cmp(&(&b.operator, &b.code)));
-        let mut rows = Vec::with_capacity(projects.len());
-        for p in projects {
-            let last = last_seal(tx, &p.code)?;
-            rows.push((p, last));
-        }
-        Ok(rows)
-    })?;
+    let rows = ctx.open()?.read(|tx| tx.last_seals())?;
     Ok(Report::default().table(operators_table(&rows)))
-}
-
-/// A project's last seal, and whether a verifier's statement over it checks.
-fn last_seal(tx: &mut Tx<'_>, code: &str) -> Result<Option<LastSeal>> {
-    let Some(seal) = tx.seals(code)?.pop() else {
-        return Ok(None);
-    };
-    let statement = verifier_word(&judge_all(tx, code)?, seal.seq, code);
-    Ok(Some(LastSeal { seal, statement }))
 }
 
 fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {
@@ -95,18 +76,7 @@ fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {
         (None, true) => RoleKind::Verifier,
         (None, false) => RoleKind::Regulator,
     };
-    if a.name.is_empty() || a.name.len() > 63 {
-        return Err(Error::field(
-            "NAME",
-            &a.name,
-            "must be 1 to 63 bytes (PostgreSQL's limit)",
-        ));
-    }
+    role_name(&a.name).map_err(|why| Error::field("NAME", &a.name, why))?;
     ctx.open()?.add_role(&a.name, &kind, ctx.now)?;
-    let mut r = Report::default();
-    r.lines.push(match &kind {
-        RoleKind::Operator(o) => format!("created role {} (operator {o:?})", a.name),
-        k => format!("created role {} ({})", a.name, k.word()),
-    });
-    Ok(r)
+    Ok(Report::default().line(created_line(&a.name, &kind)))
 }

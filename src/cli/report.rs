@@ -7,23 +7,15 @@ use super::Context;
 use super::dates::Dates;
 use super::meters::{MetersArgs, meters_in};
 use super::reports::{BalanceArgs, By, balance_of};
-use super::sign::judge_all;
 use super::view::load;
 use crate::accounting::balance::BalanceMethod;
-use crate::accounting::conservative::DeductionRule;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
-use crate::ledger::period::Grouping;
-use crate::ledger::reconciliation::Recorded;
-use crate::ledger::seal::Seal;
+use crate::ledger::bounds::reporting_year;
 use crate::report::Report;
 use crate::report::html::{Section, page};
-use crate::report::tables::annual::{
-    Sealed, annual_page, balance_sections, late_section, meters_section, project_section,
-    reconciliation_section, seal_section, written_table,
-};
-use crate::report::tables::chart::line_chart;
+use crate::report::tables::annual::{Parts, Sealed, annual_page, annual_sections, written_table};
 use crate::store::Tx;
 use clap::Args;
 use std::path::PathBuf;
@@ -56,83 +48,46 @@ fn balance_report(view: &ProjectFigures, method: BalanceMethod) -> Result<Report
     balance_of(view, &args, &now)
 }
 
-/// The project's seals and the statements signed over them, each judged again.
-fn sealed(tx: &mut Tx<'_>, project: &str) -> Result<Sealed> {
-    let seals = tx
-        .seal_entries(project)?
-        .into_iter()
-        .map(|e| {
-            Seal::from_entry(&e.entry)
-                .map(|s| (s, e))
-                .map_err(Error::ledger)
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let statements = judge_all(tx, project)?;
-    Ok(Sealed { seals, statements })
-}
-
 /// The sections of the page, in reading order, read inside the command's transaction.
 fn sections(
     tx: &mut Tx<'_>,
     ctx: &Context,
     a: &ReportArgs,
     view: &ProjectFigures,
-    sealed: Sealed,
-    recorded: Vec<Recorded>,
 ) -> Result<Vec<Section>> {
     let code = &view.project().code;
-    let first = project_section(
-        view.project(),
-        &tx.sites(code)?,
-        &tx.settings(code)?,
-        ctx.now,
-    );
-    let mut reports = vec![balance_report(view, BalanceMethod::Rr)?];
+    let sealed = Sealed {
+        seals: tx.seals_with_entries(code)?,
+        statements: tx.judged_statements(code)?,
+    };
+    let recorded = tx.reconciliations(code)?;
+    let (sites, settings) = (tx.sites(code)?, tx.settings(code)?);
+    let mut balances = vec![balance_report(view, BalanceMethod::Rr)?];
     if view.project().method == Method::Eor {
-        reports.push(balance_report(view, BalanceMethod::Iso27916)?);
+        balances.push(balance_report(view, BalanceMethod::Iso27916)?);
     }
-    let chart = line_chart(
-        std::slice::from_ref(view),
-        Grouping::Quarter,
-        DeductionRule::WholeUncertainty,
-        false,
-    )?
-    .to_svg()
-    .map_err(|e| Error::internal(format!("report chart: {e}")))?;
-    let [bal, leakage, uncertainty, claims, pool] = balance_sections(reports, view, a.year, chart);
     let meters = MetersArgs {
         project: code.clone(),
         year: a.year,
     };
-    let metering = meters_section(meters_in(tx, &meters)?);
-    Ok(vec![
-        first,
-        bal,
-        metering,
-        leakage,
-        uncertainty,
-        claims,
-        pool,
-        reconciliation_section(code, a.year, recorded),
-        late_section(view, a.year),
-        seal_section(code, a.year, sealed),
-    ])
+    let parts = Parts {
+        view,
+        sites,
+        settings,
+        balances,
+        meters: meters_in(tx, &meters)?,
+        recorded,
+        sealed,
+    };
+    annual_sections(parts, a.year, ctx.now)
 }
 
 pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
-    if !(1900..=9999).contains(&a.year) {
-        return Err(Error::field(
-            "--year",
-            &a.year.to_string(),
-            "is not a plausible reporting year",
-        ));
-    }
+    reporting_year(a.year).map_err(|e| Error::field("--year", &a.year.to_string(), e))?;
     let (project, tip, sections) = ctx.open()?.read(|tx| {
         let view = load(tx, &a.project, None)?;
         let tip = tx.chain_tip(&a.project)?;
-        let sealed = sealed(tx, &a.project)?;
-        let recorded = tx.reconciliations(&a.project)?;
-        let sections = sections(tx, ctx, &a, &view, sealed, recorded)?;
+        let sections = sections(tx, ctx, &a, &view)?;
         Ok((view.project().clone(), tip, sections))
     })?;
     let page_doc = annual_page(&project, a.year, ctx.now, tip, sections);

@@ -4,12 +4,11 @@
 use super::Context;
 use super::view::load_seeing;
 use crate::error::{Error, Result};
-use crate::ledger::chain;
 use crate::ledger::merkle::TreeBuilder;
 use crate::ledger::seal::{Seal, check_new, parse_period};
-use crate::ledger::{Entry, Period, SealedEntry};
+use crate::ledger::{Period, SealedEntry};
 use crate::report::Report;
-pub use crate::report::tables::seal::seal_table;
+use crate::report::tables::seal::{seal_table, sealed_line};
 use crate::store::Tx;
 use clap::Args;
 
@@ -29,10 +28,7 @@ pub fn seal(ctx: &Context, a: SealArgs) -> Result<Report> {
         .open()?
         .write(|tx| record_seal(tx, ctx, &a.project, &label, period))?;
     Ok(Report::default()
-        .line(format!(
-            "sealed {} period {} at seq {}",
-            a.project, seal.label, seal.seq
-        ))
+        .line(sealed_line(&a.project, &seal))
         .table(seal_table(&a.project, &[(seal, entry)])))
 }
 
@@ -49,21 +45,15 @@ pub fn record_seal(
     // One walk of the chain gives the figures and the tree over every leaf.
     let mut tree = TreeBuilder::default();
     let view = load_seeing(tx, project, None, None, |s| tree.push(s.leaf))?;
-    let (next, head) = tx.chain_tip(project)?;
-    let seal = Seal {
-        seq: next,
-        label: label.to_string(),
-        period,
-        tree_size: tree.size(),
-        root: tree.root(),
-        figures: view.seal_figures(label, period)?,
-        recorded_at: ctx.now,
-    };
-    let entry = Entry {
-        recorded_by: tx.recorded_by()?,
-        ..seal.entry(project)
-    };
-    let s = chain::seal(entry, head);
-    tx.append(std::slice::from_ref(&s))?;
-    Ok((seal, s))
+    tx.append_seal(project, |seq| {
+        Ok(Seal {
+            seq,
+            label: label.to_string(),
+            period,
+            tree_size: tree.size(),
+            root: tree.root(),
+            figures: view.seal_figures(label, period)?,
+            recorded_at: ctx.now,
+        })
+    })
 }

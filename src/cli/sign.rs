@@ -5,16 +5,14 @@ use super::Context;
 use super::seal::record_seal;
 use super::setup::known_project;
 use crate::error::{Error, Result, StoreKind};
+use crate::export::{KeyFileError, new_key_file};
 use crate::ledger::seal::parse_period;
-use crate::ledger::signature::{
-    Role, Signed, fingerprint, key_file_text, parse_key_file, sign as sign_with,
-};
-pub use crate::ledger::statement_check::Judged;
+use crate::ledger::signature::{Role, Signed, parse_key_file, sign as sign_with};
 use crate::ledger::statement_check::judged;
 use crate::report::Report;
-use crate::report::tables::sign::key_table;
-pub use crate::report::tables::sign::statements_table;
-use crate::store::Tx;
+use crate::report::tables::sign::{
+    key_table, new_key_line, signed_line, statements_table, unsealed_why,
+};
 use clap::{Args, Subcommand, ValueEnum};
 use std::path::{Path, PathBuf};
 
@@ -77,25 +75,23 @@ pub struct StatementsArgs {
     pub project: String,
 }
 
+/// Why `key new` refuses a file that is there.
+const KEPT: &str = "already exists; a key file is never overwritten";
+
 pub fn key(c: KeyCommand) -> Result<Report> {
     match c {
         KeyCommand::New { out } => {
-            let mut seed = [0u8; 32];
-            getrandom::fill(&mut seed).map_err(|e| {
-                Error::store(
+            let shown = out.display().to_string();
+            let public = new_key_file(&out).map_err(|e| match e {
+                KeyFileError::NoRandomness(e) => Error::store(
                     StoreKind::System,
                     format!("no randomness for a new key: {e}"),
-                )
+                ),
+                KeyFileError::Exists => Error::field("--out", &shown, KEPT),
+                KeyFileError::File(e) => Error::field("--out", &shown, e),
             })?;
-            let public = ed25519_dalek::SigningKey::from_bytes(&seed)
-                .verifying_key()
-                .to_bytes();
-            write_private(&out, &key_file_text(&seed))?;
             Ok(Report::default()
-                .line(format!(
-                    "wrote a new ed25519 key to {} (readable by its owner only)",
-                    out.display()
-                ))
+                .line(new_key_line(&out))
                 .table(key_table(&public, &out)))
         }
         KeyCommand::Show { file } => {
@@ -103,26 +99,6 @@ pub fn key(c: KeyCommand) -> Result<Report> {
             Ok(Report::default().table(key_table(&key.verifying_key().to_bytes(), &file)))
         }
     }
-}
-
-/// Creates `path` with mode 0600, refusing one that exists.
-fn write_private(path: &Path, text: &str) -> Result<()> {
-    use std::io::Write;
-    let shown = path.display().to_string();
-    let mut o = std::fs::OpenOptions::new();
-    o.write(true).create_new(true);
-    #[cfg(unix)]
-    std::os::unix::fs::OpenOptionsExt::mode(&mut o, 0o600);
-    let mut f = o.open(path).map_err(|e| match e.kind() {
-        std::io::ErrorKind::AlreadyExists => Error::field(
-            "--out",
-            &shown,
-            "already exists; a key file is never overwritten",
-        ),
-        _ => Error::field("--out", &shown, e),
-    })?;
-    f.write_all(text.as_bytes())
-        .map_err(|e| Error::field("--out", &shown, e))
 }
 
 fn read_key(path: &Path) -> Result<ed25519_dalek::SigningKey> {
@@ -140,62 +116,24 @@ pub fn sign(ctx: &Context, a: SignArgs) -> Result<Report> {
         known_project(tx, &a.project)?;
         let seal = match tx.seals(&a.project)?.into_iter().find(|s| s.label == label) {
             Some(s) => s,
-            None if role == Role::Operator => {
-                record_seal(tx, ctx, &a.project, &label, period)?.0
-            }
+            None if role == Role::Operator => record_seal(tx, ctx, &a.project, &label, period)?.0,
             None => {
-                return Err(Error::field(
-                    "--period",
-                    &a.period,
-                    format!(
-                        "is not sealed in project {}; a verifier signs only a sealed period (the operator seals it: sinkbook seal {} --period {label})",
-                        a.project, a.project
-                    ),
-                ));
+                let why = unsealed_why(&a.project, &label);
+                return Err(Error::field("--period", &a.period, why));
             }
         };
-        // After the last one held (a copy loaded through a seal may lack some between).
-        let seq = tx
-            .signatures(&a.project)?
-            .last()
-            .map_or(0, |s| s.seq + 1);
-        let s = sign_with(
-            seq,
-            Signed {
-                project: a.project.clone(),
-                seal_seq: seal.seq,
-                period: seal.label,
-                tree_size: seal.tree_size,
-                root: seal.root,
-                role,
-                statement: a.statement.clone(),
-                signed_at: ctx.now,
-            },
-            &key,
-        );
-        tx.add_signature(&s)?;
-        Ok(s)
+        let signed = Signed::over(seal, &a.project, role, &a.statement, ctx.now);
+        tx.add_next_statement(&a.project, |seq| sign_with(seq, signed, &key))
     })?;
     Ok(Report::default()
-        .line(format!(
-            "signed {} period {} as {} with key {}",
-            a.project,
-            s.signed.period,
-            s.signed.role,
-            fingerprint(&s.public_key)
-        ))
+        .line(signed_line(&a.project, &s))
         .table(statements_table(&a.project, &[judged(s, Ok(()))])))
-}
-
-/// Every statement of a project judged (`Tx::judged_statements`).
-pub fn judge_all(tx: &mut Tx<'_>, project: &str) -> Result<Vec<Judged>> {
-    tx.judged_statements(project)
 }
 
 pub fn statements(ctx: &Context, a: StatementsArgs) -> Result<Report> {
     let judged = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
-        judge_all(tx, &a.project)
+        tx.judged_statements(&a.project)
     })?;
     Ok(Report::default().table(statements_table(&a.project, &judged)))
 }

@@ -1,6 +1,6 @@
-//! Reading user files: the only module that opens them. Meter exports in CSV, streamed: the
-//! planner reads a file once, hashing and parsing together, and hands its bytes on to be kept
-//! verbatim as the import's evidence.
+//! Reading user files: the only module that reads them (`export` writes the files commands hand
+//! out). Meter exports in CSV, streamed: the planner reads a file once, hashing and parsing
+//! together, and hands its bytes on to be kept verbatim as the import's evidence.
 
 pub mod bundle_file;
 pub mod csv_records;
@@ -49,6 +49,18 @@ pub fn plan_file(
             .map_err(|_| Error::internal("the import's planner thread failed"))?;
         kept.and(planned)
     })
+}
+
+/// The file's name (without its directory) and its size in bytes.
+pub fn name_and_size(path: &Path) -> Result<(String, u64)> {
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let size = std::fs::metadata(path)
+        .map_err(|e| Error::field("FILE", &path.display().to_string(), e))?
+        .len();
+    Ok((name, size))
 }
 
 /// Reads a small JSON file (a proof) into `T`; a file that is missing or not of that shape is

@@ -33,6 +33,12 @@ impl std::fmt::Display for Overlap {
 /// The meter-days the ledger counts now, by (meter, day): the entry that counts each.
 pub type Covered = HashMap<(String, NaiveDate), (u64, Option<String>)>;
 
+/// The first and last day of a plan's meter-days; None for a plan of none.
+pub fn span(days: &[MeterDay]) -> Option<(NaiveDate, NaiveDate)> {
+    let first = days.iter().map(|d| d.day).min()?;
+    Some((first, days.iter().map(|d| d.day).max()?))
+}
+
 /// Which entry each of a plan's meter-days replaces. Without `replace`, any meter-day already
 /// covered refuses the file (all the overlaps are returned, in day order); with it, each covered
 /// one is to be a correction of the entry that counts it.

@@ -20,6 +20,15 @@ pub enum Appended {
     Existing(SealedEntry),
 }
 
+impl Appended {
+    /// The entry sealed onto the chain, or the one recorded before under its key.
+    pub fn into_sealed(self) -> SealedEntry {
+        match self {
+            Appended::New(s) | Appended::Existing(s) => s,
+        }
+    }
+}
+
 /// Why an entry cannot be appended.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub enum AppendError {

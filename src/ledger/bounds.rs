@@ -75,6 +75,14 @@ pub fn shown(value: &str) -> String {
     format!("{head}…")
 }
 
+/// Refuses a reporting year outside 1900 to 9999.
+pub fn reporting_year(year: i32) -> Result<(), String> {
+    if !(1900..=9999).contains(&year) {
+        return Err("is not a plausible reporting year".into());
+    }
+    Ok(())
+}
+
 /// Refuses a reading whose CO2 rounds to 0 g: the ledger keeps whole grams, and a reading that
 /// holds none is refused like a zero.
 pub fn grams(m: Mass) -> Result<(), String> {
@@ -166,6 +174,12 @@ mod tests {
         ));
         assert_eq!(free_text("  ", TEXT_MAX), Err(TextRefusal::Empty));
         assert_eq!(free_text("a\tb", TEXT_MAX), Err(TextRefusal::Control));
+    }
+
+    #[test]
+    fn reporting_years_from_1900_to_9999() {
+        assert!(reporting_year(1900).is_ok() && reporting_year(9999).is_ok());
+        assert!(reporting_year(1899).is_err() && reporting_year(10_000).is_err());
     }
 
     #[test]

@@ -314,14 +314,15 @@ pub fn check_new(seals: &[Seal], period: Period) -> Result<(), SealRefusal> {
 }
 
 #[cfg(test)]
-mod tests {
+pub(crate) mod tests {
     use super::*;
 
     fn d(s: &str) -> NaiveDate {
         super::super::period::parse_date(s).unwrap()
     }
 
-    fn seal(label: &str, seq: u64) -> Seal {
+    /// A seal of period `label` at `seq` over `seq` entries, with made-up root and figures.
+    pub(crate) fn seal(label: &str, seq: u64) -> Seal {
         let (label, period) = parse_period(label).unwrap();
         Seal {
             seq,

@@ -29,6 +29,29 @@ pub struct Signed {
     pub signed_at: DateTime<Utc>,
 }
 
+impl Signed {
+    /// What `role` states at `signed_at` over `seal` of `project`: its period, tree size and
+    /// root beside the statement.
+    pub fn over(
+        seal: super::seal::Seal,
+        project: &str,
+        role: Role,
+        statement: &str,
+        signed_at: DateTime<Utc>,
+    ) -> Signed {
+        Signed {
+            project: project.to_string(),
+            seal_seq: seal.seq,
+            period: seal.label,
+            tree_size: seal.tree_size,
+            root: seal.root,
+            role,
+            statement: statement.to_string(),
+            signed_at,
+        }
+    }
+}
+
 /// A statement as stored: what was signed, the public key and the signature.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Statement {
@@ -45,6 +68,11 @@ pub const KEY_FILE_HEADER: &str = "sinkbook ed25519 secret key v1";
 pub fn key_file_text(seed: &[u8; 32]) -> String {
     let hex: String = seed.iter().map(|b| format!("{b:02x}")).collect();
     format!("{KEY_FILE_HEADER}\n{hex}\n")
+}
+
+/// The public key of a secret seed.
+pub fn public_key(seed: &[u8; 32]) -> [u8; 32] {
+    SigningKey::from_bytes(seed).verifying_key().to_bytes()
 }
 
 /// The signing key a key file holds.

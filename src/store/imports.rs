@@ -69,7 +69,7 @@ struct Part {
 impl Tx<'_> {
     /// Runs `f` in a savepoint. When `f` says its writes are not to be kept (a file found to
     /// be imported already, once read), they are rolled back and its value returned.
-    pub fn savepoint<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<(T, bool)>) -> Result<T> {
+    fn savepoint<T>(&mut self, f: impl FnOnce(&mut Tx<'_>) -> Result<(T, bool)>) -> Result<T> {
         let mut discarded = None;
         let (writing, project) = (self.writing, self.project);
         let kept = self.conn.transaction(|conn| {
@@ -88,6 +88,28 @@ impl Tx<'_> {
             Ok(v) => Ok(v),
             Err(e) => discarded.ok_or(e),
         }
+    }
+
+    /// Keeps import `import_id`'s bytes, part by part, as `read` hands them over while it reads
+    /// the file; `read` gives what it made of them and their SHA-256. When `project` imported
+    /// that file before, the parts are dropped again and the earlier import is returned beside.
+    pub fn keep_file<T>(
+        &mut self,
+        import_id: i64,
+        project: &str,
+        read: impl FnOnce(&mut dyn FnMut(&[u8]) -> Result<()>) -> Result<(T, Hash)>,
+    ) -> Result<(T, Option<ImportSummary>)> {
+        self.savepoint(|tx| {
+            let mut part = 0;
+            let (value, sha256) = read(&mut |bytes| {
+                tx.add_evidence(import_id, part, bytes)?;
+                part += 1;
+                Ok(())
+            })?;
+            let earlier = tx.import_of(project, sha256)?;
+            let keep = earlier.is_none();
+            Ok(((value, earlier), keep))
+        })
     }
 
     /// The import of this file into this project, if it was imported before.
@@ -305,6 +327,17 @@ pub fn room_for(db: &std::path::Path, bytes: u64, what: &str) -> Result<()> {
         )));
     }
     Ok(())
+}
+
+/// [`room_for`] an import's `entries` and its `evidence` bytes copied into the ledger file (half
+/// of them again, beside what was counted when the file was kept).
+pub fn room_for_entries(db: &std::path::Path, evidence: u64, entries: usize) -> Result<()> {
+    let entry_bytes = (entries as u64).saturating_mul(BYTES_PER_ENTRY);
+    room_for(
+        db,
+        evidence / 2 + entry_bytes,
+        &format!("{entries} entries, and the evidence copied into the ledger file"),
+    )
 }
 
 /// A write that failed for want of disk, said plainly; other errors pass unchanged.

@@ -9,13 +9,18 @@ mod bundle_load;
 mod connection;
 mod feedstocks;
 mod imported_origin;
+mod import_reads;
 mod imports;
+mod last_seals;
 mod ledger_chain;
 mod lookup;
 mod postgres;
+mod project_check;
+mod proof;
 mod reconciliations;
 mod rows;
 mod schema;
+mod seal_append;
 mod statements;
 mod stream;
 mod verify;
@@ -36,9 +41,11 @@ use std::path::{Path, PathBuf};
 
 pub use connection::APPLICATION_ID;
 pub use imports::{
-    BYTES_PER_ENTRY, CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for,
+    CoveredDay, ImportSummary, NewImport, StoredImport, disk_error, room_for, room_for_entries,
 };
-pub use postgres::RoleKind;
+pub use last_seals::LastSeal;
+pub use postgres::{RoleKind, role_name};
+pub use project_check::ProjectChecked;
 pub use stream::ChainRow;
 pub use wait::Wait;
 

@@ -185,6 +185,14 @@ struct Statement {
     sql: String,
 }
 
+/// Refuses a login role name PostgreSQL would not keep whole: 1 to 63 bytes.
+pub fn role_name(name: &str) -> std::result::Result<(), &'static str> {
+    match name.is_empty() || name.len() > 63 {
+        true => Err("must be 1 to 63 bytes (PostgreSQL's limit)"),
+        false => Ok(()),
+    }
+}
+
 /// Creates login role `name` in its kind's group and records what it may write, in one
 /// transaction: a role the mapping does not hold writes nothing.
 pub fn add_role(
@@ -212,4 +220,14 @@ pub fn add_role(
         .bind::<diesel::sql_types::Timestamp, _>(at.naive_utc())
         .execute(conn)?;
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn a_role_name_is_1_to_63_bytes() {
+        assert!(super::role_name("northdeep_ops").is_ok());
+        assert!(super::role_name("").is_err());
+        assert!(super::role_name(&"é".repeat(32)).is_err(), "64 bytes");
+    }
 }

@@ -142,6 +142,19 @@ impl Tx<'_> {
         }
     }
 
+    /// Appends the record `made` makes of the project's next seq and previous row hash, and of
+    /// the registry role writing it (None in a ledger file).
+    pub fn add_next_reconciliation(
+        &mut self,
+        project: &str,
+        made: impl FnOnce(u64, Hash, Option<String>) -> Recorded,
+    ) -> Result<Recorded> {
+        let (seq, previous) = self.next_reconciliation(project)?;
+        let r = made(seq, previous, self.recorded_by()?);
+        self.add_reconciliation(&r)?;
+        Ok(r)
+    }
+
     pub fn add_reconciliation(&mut self, r: &Recorded) -> Result<()> {
         let row = ReconciliationRow::from_recorded(r);
         diesel::insert_into(reconciliations::table)

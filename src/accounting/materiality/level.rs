@@ -20,6 +20,27 @@ impl std::fmt::Display for LevelError {
     }
 }
 
+/// The materiality level a reconciliation is judged at, and the text it was given as (None for
+/// the default level).
+pub struct Level {
+    pub policy: MaterialityPolicy,
+    pub given: Option<String>,
+}
+
+impl Level {
+    /// The level `text` gives, or the default one when no text is given.
+    pub fn parse(text: Option<&str>) -> Result<Level, LevelError> {
+        let policy = match text {
+            None => MaterialityPolicy::default(),
+            Some(t) => MaterialityPolicy::from_text(t)?,
+        };
+        Ok(Level {
+            policy,
+            given: text.map(str::to_string),
+        })
+    }
+}
+
 impl MaterialityPolicy {
     /// The level `text` gives (`5%`, `0.05`).
     pub fn from_text(text: &str) -> Result<Self, LevelError> {

@@ -19,7 +19,7 @@ mod period;
 mod quantity;
 mod record;
 
-pub use level::LevelError;
+pub use level::{Level, LevelError};
 pub use period::{Granularity, ReportingPeriod};
 pub use quantity::ReportedQuantity;
 pub use record::{recorded_lines, recorded_years};

@@ -2,6 +2,7 @@
 //! (project, balance, leakage, claims, buffer pool, meters, recorded reconciliations, seals):
 //! the page states no figure of its own.
 
+use super::chart::line_chart;
 use super::claims::uncertainty_note;
 use super::late::late_table;
 use super::reconciliations::record_tables;
@@ -9,7 +10,10 @@ use super::seal::seal_table;
 use super::settings::settings_table;
 use super::setup::{projects_table, sites_table};
 use super::sign::statements_table;
+use crate::accounting::conservative::DeductionRule;
 use crate::accounting::project_view::ProjectFigures;
+use crate::error::{Error, Result};
+use crate::ledger::period::Grouping;
 use crate::ledger::reconciliation::Recorded;
 use crate::ledger::seal::{Seal, late_for};
 use crate::ledger::setting::Setting;
@@ -62,7 +66,7 @@ pub struct Sealed {
 }
 
 /// The late adjustments to the year's sealed periods, in their own table.
-pub fn late_section(view: &ProjectFigures, year: i32) -> Section {
+fn late_section(view: &ProjectFigures, year: i32) -> Section {
     let code = &view.project().code;
     let year_text = year.to_string();
     let late = late_table(
@@ -80,7 +84,7 @@ pub fn late_section(view: &ProjectFigures, year: i32) -> Section {
 }
 
 /// The reconciliations recorded against the project that judged the year.
-pub fn reconciliation_section(code: &str, year: i32, recorded: Vec<Recorded>) -> Section {
+fn reconciliation_section(code: &str, year: i32, recorded: Vec<Recorded>) -> Section {
     let of_year: Vec<Recorded> = recorded.into_iter().filter(|r| r.covers(year)).collect();
     let s = Section::new("reconciliations", "Reconciliations");
     if of_year.is_empty() {
@@ -96,7 +100,7 @@ pub fn reconciliation_section(code: &str, year: i32, recorded: Vec<Recorded>) ->
 }
 
 /// The year's seals with their full tree heads and the statements signed over them.
-pub fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
+fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
     let year_seals: Vec<(Seal, SealedEntry)> = sealed
         .seals
         .into_iter()
@@ -139,8 +143,51 @@ pub fn seal_section(code: &str, year: i32, sealed: Sealed) -> Section {
     seal
 }
 
+/// What the page is put together from, all read in the command's one transaction.
+pub struct Parts<'a> {
+    pub view: &'a ProjectFigures,
+    pub sites: Vec<Site>,
+    pub settings: Vec<Setting>,
+    /// The balance by quarter by Subpart RR, then by ISO 27916 for an EOR project.
+    pub balances: Vec<Report>,
+    /// The meters of the year, as `meters` prints them.
+    pub meters: Report,
+    pub recorded: Vec<Recorded>,
+    pub sealed: Sealed,
+}
+
+/// The page's sections for `year`, in reading order; the balance's figure is the chart of
+/// cumulative tonnes by quarter.
+pub fn annual_sections(parts: Parts<'_>, year: i32, now: DateTime<Utc>) -> Result<Vec<Section>> {
+    let Parts { view, .. } = parts;
+    let code = &view.project().code;
+    let first = project_section(view.project(), &parts.sites, &parts.settings, now);
+    let chart = line_chart(
+        std::slice::from_ref(view),
+        Grouping::Quarter,
+        DeductionRule::WholeUncertainty,
+        false,
+    )?
+    .to_svg()
+    .map_err(|e| Error::internal(format!("report chart: {e}")))?;
+    let [bal, leakage, uncertainty, claims, pool] =
+        balance_sections(parts.balances, view, year, chart);
+    Ok(vec![
+        first,
+        bal,
+        meters_section(parts.meters),
+        leakage,
+        uncertainty,
+        claims,
+        pool,
+        reconciliation_section(code, year, parts.recorded),
+        late_section(view, year),
+        seal_section(code, year, parts.sealed),
+    ])
+}
+
 /// The project, its sites and settings, as `project show` prints them.
-pub fn project_section(
+fn project_section(
     project: &Project,
     sites: &[Site],
     settings: &[Setting],
@@ -158,7 +205,7 @@ pub fn project_section(
 /// The balance by quarter (by Subpart RR, then ISO 27916 for an EOR project) shared out into
 /// the sections of the balance, leakage, uncertainty, claims and buffer pool; `chart` is the
 /// balance's figure.
-pub fn balance_sections(
+fn balance_sections(
     reports: Vec<Report>,
     view: &ProjectFigures,
     year: i32,
@@ -225,7 +272,7 @@ fn uncertainty_table(t: &Table) -> Option<Table> {
 }
 
 /// The meters of the year, as `meters` prints them.
-pub fn meters_section(meters: Report) -> Section {
+fn meters_section(meters: Report) -> Section {
     let mut s = Section::new("meters", "Meters by quarter");
     s.tables = meters.tables;
     s

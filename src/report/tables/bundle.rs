@@ -4,6 +4,7 @@ use crate::bundle::line::Trailer;
 use crate::import::bundle_file::Checked;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
+use crate::store::BundleAdded;
 
 /// `1 seal`, `2 seals`.
 pub fn counted(n: usize, what: &str) -> String {
@@ -59,7 +60,7 @@ pub fn checked_table(file: &str, c: &Checked) -> Table {
 }
 
 /// `bundle load`'s table: what the load added (entries, statements, reconciliations).
-pub fn loaded_table(file: &str, project: &str, t: &Trailer, new: [u64; 3]) -> Table {
+pub fn loaded_table(file: &str, project: &str, t: &Trailer, new: &BundleAdded) -> Table {
     let mut table = summary_table(
         "Bundle loaded",
         file,
@@ -67,7 +68,7 @@ pub fn loaded_table(file: &str, project: &str, t: &Trailer, new: [u64; 3]) -> Ta
         t,
         &format!(
             "{} new entries, {} new statements, {} new reconciliations",
-            new[0], new[1], new[2]
+            new.entries, new.signatures, new.reconciliations
         ),
     );
     table.note("Loaded in one transaction after checking the whole file; a project already held is extended only when an RFC 6962 consistency proof shows its entries are the bundle's first ones.");

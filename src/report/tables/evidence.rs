@@ -5,6 +5,11 @@ use crate::report::names;
 use crate::report::{Cell, Table, columns};
 use chrono::NaiveDate;
 
+/// Why `readings` found nothing to show.
+pub fn no_readings_line(project: &str, meter: &str, day: NaiveDate) -> String {
+    format!("no imported readings of meter {meter} on {day} in project {project}")
+}
+
 /// The rows of meter `meter` on `day` found in each import (its id and file name).
 pub fn readings_table(
     project: &str,

@@ -1,6 +1,6 @@
 //! The table of an inclusion proof: the entry, the seal it is proven under and the result.
 
-use crate::ledger::proof::Proven;
+use crate::ledger::proof::{InclusionProof, Proven};
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
 
@@ -33,4 +33,20 @@ pub fn proven_table(p: &Proven, path_len: usize, result: &str) -> Table {
     ]);
     t.note("RFC 6962 audit path from SHA-256(0x00 || the entry's canonical bytes) to the seal's tree head; the head itself is what a seal records and a statement signs.");
     t
+}
+
+/// What `proof` says it wrote.
+pub fn written_line(p: &InclusionProof, out: &str) -> String {
+    format!(
+        "wrote the inclusion proof of {} seq {} under seal seq {} ({} period {}) to {out}",
+        p.project, p.leaf_index, p.seal_seq, p.project, p.period
+    )
+}
+
+/// What `check-proof` says of a proof that holds.
+pub fn holds_line(p: &Proven) -> String {
+    format!(
+        "the proof holds: {} seq {} is leaf {} of the tree of {} entries with head {}",
+        p.project, p.seq, p.seq, p.tree_size, p.root
+    )
 }

@@ -1,15 +1,38 @@
 //! The tables `reconcile` prints: the ledger against a monitoring report line by line, each
 //! year's verdict on materiality, the meter-days recomputed from their readings.
 
+use super::reconciliations::{recorded_line, recorded_table};
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::materiality::{
-    Bearing, Judgement, Presence, Reconciliation, ReportedQuantity,
+    Bearing, Judgement, Level, Presence, Reconciliation, ReportedQuantity,
 };
 use crate::accounting::project_view::bearing;
+use crate::ledger::reconciliation::Recorded;
 use crate::ledger::{Entry, Method};
 use crate::quantity::Mass;
 use crate::report::names;
-use crate::report::{Cell, Table, columns};
+use crate::report::{Cell, Report, Table, columns};
+
+/// What `reconcile` prints: the meter-days recomputed when asked for, every line, each year's
+/// verdict and, when the reconciliation was recorded, its record.
+pub fn reconcile_report(
+    recompute: Option<Table>,
+    lines: Table,
+    verdicts: Table,
+    recorded: Option<&Recorded>,
+) -> Report {
+    let mut out = Report::default();
+    if let Some(t) = recompute {
+        out = out.table(t);
+    }
+    out = out.table(lines).table(verdicts);
+    if let Some(rec) = recorded {
+        out = out
+            .line(recorded_line(rec))
+            .table(recorded_table(&rec.project, std::slice::from_ref(rec)));
+    }
+    out
+}
 
 /// The words a line's note gives: where the line was found and whether it counts.
 pub fn line_note(presence: Presence, judgement: Judgement) -> String {
@@ -109,6 +132,13 @@ fn misstatement_rule(route: Method, method: BalanceMethod) -> String {
     )
 }
 
+/// The warning of a reconciliation that assessed nothing, with the exit code it ends with.
+pub fn not_assessed_warning(report_name: &str, project: &str, exit: u8) -> String {
+    format!(
+        "not assessed: no line of {report_name} is a figure this ledger's stored tonnes of {project} rest on (exit {exit})"
+    )
+}
+
 /// The imported meter-days recomputed from their raw readings, fed one entry at a time as the
 /// chain is read: only those that differ, or whose readings are not found, get a row.
 pub struct RecomputeTable {
@@ -166,11 +196,11 @@ impl RecomputeTable {
     }
 }
 
-/// How the materiality level `share` was set (`given` as on the command line, or None for the
-/// default), in words a verifier's file can quote.
-pub fn materiality_basis(share: f64, given: Option<&str>) -> String {
-    let pct = share * 100.0;
-    match given {
+/// How the materiality level was set (as given on the command line, or the default), in words
+/// a verifier's file can quote.
+pub fn materiality_basis(level: &Level) -> String {
+    let pct = level.policy.share * 100.0;
+    match level.given.as_deref() {
         None => format!(
             "{pct:.1} % of the year's stored total, sinkbook's default: the level Regulation (EU) 2018/2067 Art. 23 sets for all but installations above 500 kt of annual emissions (its 2 % is about emissions, so it is not applied by stored tonnes); --materiality sets the programme's level"
         ),

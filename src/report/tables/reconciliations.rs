@@ -5,6 +5,16 @@ use crate::quantity::Mass;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
 
+/// The line saying a reconciliation was recorded.
+pub fn recorded_line(r: &Recorded) -> String {
+    format!(
+        "recorded reconciliation {} of project {} (row hash {})",
+        r.seq,
+        r.project,
+        r.row_hash().to_hex()
+    )
+}
+
 /// The three tables of recorded reconciliations: the records, their lines, their years.
 pub fn record_tables(project: &str, records: &[Recorded]) -> Vec<Table> {
     let mut lines = Table::new(

@@ -1,19 +1,14 @@
 //! The registry's table of operators, their projects and each project's last seal.
 
 use crate::ledger::Project;
-use crate::ledger::seal::Seal;
 use crate::ledger::signature::Role;
 use crate::ledger::statement_check::Judged;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
+use crate::store::{LastSeal, RoleKind};
 
-/// A project's last seal and what its verifier statement check found ("yes", "no", or why not).
-pub struct LastSeal {
-    pub seal: Seal,
-    pub statement: String,
-}
-
-/// One row per project, by operator then code; a project never sealed shows "none".
+/// One row per project, by operator then code; a project never sealed shows "none", a sealed
+/// one whether a verifier's statement signs its last seal and checks.
 pub fn operators_table(rows: &[(Project, Option<LastSeal>)]) -> Table {
     let mut t = Table::new(
         "operators",
@@ -29,7 +24,7 @@ pub fn operators_table(rows: &[(Project, Option<LastSeal>)]) -> Table {
         ]),
     );
     for (p, last) in rows {
-        let Some(LastSeal { seal, statement }) = last else {
+        let Some((seal, judged)) = last else {
             t.push(vec![
                 Cell::text(&p.operator),
                 Cell::text(&p.code),
@@ -48,15 +43,23 @@ pub fn operators_table(rows: &[(Project, Option<LastSeal>)]) -> Table {
             Cell::text(&seal.label),
             Cell::text(seal.recorded_at.format("%Y-%m-%d %H:%M:%S").to_string()),
             Cell::Int(seal.tree_size as i64),
-            Cell::text(statement),
+            Cell::text(verifier_word(judged, seal.seq, &p.code)),
         ]);
     }
     t
 }
 
+/// The line saying a login role was created.
+pub fn created_line(name: &str, kind: &RoleKind) -> String {
+    match kind {
+        RoleKind::Operator(o) => format!("created role {name} (operator {o:?})"),
+        k => format!("created role {name} ({})", k.word()),
+    }
+}
+
 /// Whether a verifier's statement over seal `seal_seq` of project `code` checks, among the
 /// project's statements judged: "yes", "no", or how many were signed and that none checks.
-pub fn verifier_word(judged: &[Judged], seal_seq: u64, code: &str) -> String {
+fn verifier_word(judged: &[Judged], seal_seq: u64, code: &str) -> String {
     let verifiers: Vec<_> = judged
         .iter()
         .filter(|j| {

@@ -5,6 +5,11 @@ use crate::ledger::seal::Seal;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
 
+/// The line saying a period was sealed.
+pub fn sealed_line(project: &str, seal: &Seal) -> String {
+    format!("sealed {project} period {} at seq {}", seal.label, seal.seq)
+}
+
 /// One line per seal: its period, tree head and the figures it fixed.
 pub fn seal_table(project: &str, seals: &[(Seal, SealedEntry)]) -> Table {
     let mut t = Table::new(

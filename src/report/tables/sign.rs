@@ -1,10 +1,35 @@
 //! The signing tables: a key made, and the statements of a project judged.
 
-use crate::ledger::signature::{fingerprint, hex};
+use crate::ledger::signature::{Statement, fingerprint, hex};
 use crate::ledger::statement_check::Judged;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
 use std::path::Path;
+
+/// The line saying a new key was written.
+pub fn new_key_line(file: &Path) -> String {
+    format!(
+        "wrote a new ed25519 key to {} (readable by its owner only)",
+        file.display()
+    )
+}
+
+/// The line saying a statement was signed.
+pub fn signed_line(project: &str, s: &Statement) -> String {
+    format!(
+        "signed {project} period {} as {} with key {}",
+        s.signed.period,
+        s.signed.role,
+        fingerprint(&s.public_key)
+    )
+}
+
+/// Why a verifier may not sign period `label` of `project`: it is not sealed.
+pub fn unsealed_why(project: &str, label: &str) -> String {
+    format!(
+        "is not sealed in project {project}; a verifier signs only a sealed period (the operator seals it: sinkbook seal {project} --period {label})"
+    )
+}
 
 pub fn key_table(public_key: &[u8; 32], file: &Path) -> Table {
     let mut t = Table::new(

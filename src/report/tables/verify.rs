@@ -3,7 +3,7 @@
 use crate::ledger::Hash;
 use crate::report::names;
 use crate::report::{Cell, Table, columns};
-use crate::store::DeepCheck;
+use crate::store::{DeepCheck, ProjectChecked};
 
 /// The table's columns; `project_row` and `ledger_cells` fill a row.
 pub fn verify_table() -> Table {
@@ -28,40 +28,40 @@ pub fn verify_table() -> Table {
 
 /// A project found intact: its sites, seals, statements and reconciliations (`counts`, in that
 /// order), its entries and chain head.
-pub fn project_row(code: &str, counts: &[usize; 4], entries: u64, head: Hash) -> Vec<Cell> {
-    let [sites, seals, statements, reconciliations] = *counts;
+pub fn project_row(code: &str, c: &ProjectChecked, (links, ledger_head): (u64, Hash)) -> Vec<Cell> {
     vec![
         Cell::text(code),
-        Cell::Int(sites as i64),
-        Cell::Int(entries as i64),
-        Cell::Int(seals as i64),
-        Cell::Int(statements as i64),
-        Cell::Int(reconciliations as i64),
-        Cell::text(head.head()),
-        Cell::text(head.to_hex()),
+        Cell::Int(c.sites as i64),
+        Cell::Int(c.entries as i64),
+        Cell::Int(c.seals as i64),
+        Cell::Int(c.statements as i64),
+        Cell::Int(c.reconciliations as i64),
+        Cell::text(c.head.head()),
+        Cell::text(c.head.to_hex()),
         Cell::text("intact"),
+        Cell::Int(links as i64),
+        Cell::text(ledger_head.to_hex()),
     ]
 }
 
+/// What the database's own check of its pages found wrong, named by the check.
+pub fn deep_finding(check: DeepCheck, found: &[String]) -> String {
+    format!("{}: {}", deep_check_name(check), found.join("; "))
+}
+
 /// The name of the database's own check of its pages, as a finding of it is prefixed.
-pub fn deep_check_name(check: DeepCheck) -> &'static str {
+fn deep_check_name(check: DeepCheck) -> &'static str {
     match check {
         DeepCheck::IntegrityCheck => "SQLite integrity_check",
         DeepCheck::PageChecksums => "PostgreSQL page checksums",
     }
 }
 
-/// The ledger chain's cells, the same on every row: its links and head.
-pub fn ledger_cells(links: u64, head: Hash) -> [Cell; 2] {
-    [Cell::Int(links as i64), Cell::text(head.to_hex())]
-}
-
 /// What was checked: the projects' rows, the ledger chain of `links` links ending in `head`,
 /// the database's own check if `deep` ran, and the published heads given.
 pub fn notes(
     t: &mut Table,
-    links: u64,
-    head: Hash,
+    (links, head): (u64, Hash),
     deep: Option<DeepCheck>,
     expected: bool,
     expected_ledger: bool,
