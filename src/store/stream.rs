@@ -3,6 +3,7 @@
 //! chain and never counts a forged figure.
 
 use super::Tx;
+use super::reading_text;
 use super::rows::EntryRow;
 use super::schema::entries;
 use crate::error::{Error, Result};
@@ -99,9 +100,15 @@ impl Tx<'_> {
         mut f: impl FnMut(ChainRow<'_>) -> Result<()>,
     ) -> Result<ChainCheck> {
         let cut = as_of.map(|t| t.naive_utc());
-        let replaced_by = sql::<Nullable<BigInt>>(REPLACED_BY)
+        let (lowest, highest) = self.corrected_span(project)?;
+        let replaced_by = sql::<Nullable<BigInt>>("CASE WHEN entries.seq BETWEEN ")
+            .bind::<Nullable<BigInt>, _>(lowest)
+            .sql(" AND ")
+            .bind::<Nullable<BigInt>, _>(highest)
+            .sql(" THEN ")
+            .sql(REPLACED_BY)
             .bind::<Nullable<Timestamp>, _>(cut)
-            .sql(", c.recorded_at))");
+            .sql(", c.recorded_at)) END");
         let rows = entries::table
             .filter(entries::project.eq(project))
             .order(entries::seq)
@@ -138,9 +145,10 @@ impl Tx<'_> {
                 }
                 Err(e) => return Err(e.into()),
             };
-            last_seq = Some(row.seq);
-            let bad = |what: String| Error::entry(project, Some(row.seq), what);
-            let sealed = row.to_sealed().map_err(bad)?;
+            let seq = row.seq;
+            last_seq = Some(seq);
+            let bad = |what: String| Error::entry(project, Some(seq), what);
+            let sealed = row.into_sealed().map_err(bad)?;
             let target = Target {
                 kind: target_kind
                     .map(|k| {
@@ -155,7 +163,7 @@ impl Tx<'_> {
                 .map_err(|finding| Error::ledger(finding.to_string()))?;
             let replaced = match (corrected_kind, t_grams, t_reading) {
                 (Some(kind), Some(g), Some(r)) => {
-                    let reading = serde_json::from_str(&r).map(Reading).map_err(|e| {
+                    let reading = reading_text::parse(&r).map(Reading).map_err(|e| {
                         bad(format!(
                             "the entry it corrects has a reading that is not readable: {e}"
                         ))
@@ -216,6 +224,20 @@ impl Tx<'_> {
             }
         }
         Ok(out)
+    }
+
+    /// The lowest and highest seq the project's corrections name, through the partial index on
+    /// (project, corrects): only a row between them can be replaced, so the walk looks for what
+    /// replaces a row there alone (nowhere, in a chain without corrections).
+    fn corrected_span(&mut self, project: &str) -> Result<(Option<i64>, Option<i64>)> {
+        Ok(entries::table
+            .filter(entries::project.eq(project))
+            .filter(entries::corrects.is_not_null())
+            .select((
+                diesel::dsl::min(entries::corrects),
+                diesel::dsl::max(entries::corrects),
+            ))
+            .first(self.conn)?)
     }
 
     /// A stored row whose fields no longer decode (a byte changed in a text): named by its seq,
