@@ -5,36 +5,54 @@
 
 /// The pairs of a stored reading, in their stored order.
 pub fn parse(text: &str) -> serde_json::Result<Vec<(String, String)>> {
-    match plain(text) {
-        Some(pairs) => Ok(pairs),
-        None => serde_json::from_str(text),
+    let mut pairs = Vec::new();
+    parse_into(text, &mut pairs)?;
+    Ok(pairs)
+}
+
+/// [`parse`] into `pairs`, whose strings are written over where there are enough of them (the
+/// walk reads every row's reading into the one before's, so no row allocates its own).
+pub fn parse_into(text: &str, pairs: &mut Vec<(String, String)>) -> serde_json::Result<()> {
+    if plain(text, pairs).is_none() {
+        *pairs = serde_json::from_str(text)?;
     }
+    Ok(())
 }
 
 /// `[["n","v"],…]` with no whitespace and no backslash or control character in a string: the
 /// text serde_json writes for pairs that need no escape, which it reads back to the same
-/// strings. None for any other text.
-fn plain(text: &str) -> Option<Vec<(String, String)>> {
+/// strings. None for any other text (`pairs` then holds a part of it).
+fn plain(text: &str, pairs: &mut Vec<(String, String)>) -> Option<()> {
     let mut rest = text.strip_prefix('[')?;
-    let mut pairs = Vec::with_capacity(FEW);
+    let mut n = 0;
     if let Some(end) = rest.strip_prefix(']') {
-        return end.is_empty().then_some(pairs);
+        pairs.clear();
+        return end.is_empty().then_some(());
     }
     loop {
         let (name, after) = string(rest.strip_prefix("[\"")?)?;
         let (value, after) = string(after.strip_prefix(",\"")?)?;
         rest = after.strip_prefix(']')?;
-        pairs.push((name.to_string(), value.to_string()));
+        match pairs.get_mut(n) {
+            Some((old_name, old_value)) => {
+                old_name.clear();
+                old_name.push_str(name);
+                old_value.clear();
+                old_value.push_str(value);
+            }
+            None => pairs.push((name.to_string(), value.to_string())),
+        }
+        n += 1;
         match rest.as_bytes() {
             [b',', ..] => rest = &rest[1..],
-            [b']'] => return Some(pairs),
+            [b']'] => {
+                pairs.truncate(n);
+                return Some(());
+            }
             _ => return None,
         }
     }
 }
-
-/// Room for a reading's pairs from the start: metered readings hold about ten.
-const FEW: usize = 16;
 
 /// The string up to its closing quote, and the text after the quote; None if a backslash or a
 /// control character comes first.
@@ -79,6 +97,10 @@ mod tests {
                 json(text),
                 "{text:?}"
             );
+            let mut over = vec![("old".to_string(), "pairs".to_string()); 4];
+            if parse_into(text, &mut over).is_ok() {
+                assert_eq!(Ok(over), json(text), "{text:?}");
+            }
         }
     }
 
@@ -89,7 +111,11 @@ mod tests {
             ("file".to_string(), "m.csv".to_string()),
         ];
         let text = serde_json::to_string(&pairs).unwrap();
-        assert_eq!(plain(&text), Some(pairs));
-        assert_eq!(plain("[[\"a\",\"\\n\"]]"), None);
+        let mut read = vec![("x".repeat(40), String::new()); 3];
+        assert_eq!(plain(&text, &mut read), Some(()));
+        assert_eq!(read, pairs);
+        assert_eq!(plain("[]", &mut read), Some(()));
+        assert_eq!(read, []);
+        assert_eq!(plain("[[\"a\",\"\\n\"]]", &mut read), None);
     }
 }

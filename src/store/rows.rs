@@ -185,12 +185,13 @@ impl EntryRow {
 
     /// The entry exactly as stored; a field that cannot be read back is named in the error.
     pub fn to_sealed(&self) -> Result<SealedEntry, String> {
-        self.clone().into_sealed()
+        self.clone().into_sealed(Vec::new())
     }
 
-    /// [`EntryRow::to_sealed`], taking the row's texts into the entry rather than copying them
-    /// (the walk reads every row of a chain once).
-    pub fn into_sealed(self) -> Result<SealedEntry, String> {
+    /// [`EntryRow::to_sealed`], taking the row's texts into the entry rather than copying them,
+    /// and reading its reading into `pairs`, whose strings are reused (the walk reads every row
+    /// of a chain once, each into the reading of the row before).
+    pub fn into_sealed(self, mut pairs: Vec<(String, String)>) -> Result<SealedEntry, String> {
         let date = |col: &str, v: &str| parse_date(v).map_err(|e| format!("{col} {v:?} {e}"));
         let from = date("period_from", &self.period_from)?;
         let to = date("period_to", &self.period_to)?;
@@ -209,10 +210,11 @@ impl EntryRow {
                 .ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
             site: self.site.unwrap_or_default(),
             period: Period { from, to },
-            reading: Reading(
-                super::reading_text::parse(&self.reading)
-                    .map_err(|e| format!("reading is not readable: {e}"))?,
-            ),
+            reading: {
+                super::reading_text::parse_into(&self.reading, &mut pairs)
+                    .map_err(|e| format!("reading is not readable: {e}"))?;
+                Reading(pairs)
+            },
             mass: Mass::from_grams(self.grams),
             sign: Sign::from_name(&self.sign)
                 .ok_or_else(|| format!("unknown sign {:?}", self.sign))?,

@@ -63,6 +63,22 @@ pub struct ChainRow<'a> {
     pub replaced_by: Option<u64>,
 }
 
+/// What the entry a correction names counted in the running figures (`ledger::tally`), from
+/// its kind, grams and stored reading; 0 for an entry that corrects nothing.
+fn replaced_share(
+    kind: Option<EntryKind>,
+    grams: Option<i64>,
+    reading: Option<&str>,
+) -> std::result::Result<i64, String> {
+    let (Some(kind), Some(grams), Some(reading)) = (kind, grams, reading) else {
+        return Ok(0);
+    };
+    let reading = reading_text::parse(reading)
+        .map(Reading)
+        .map_err(|e| format!("the entry it corrects has a reading that is not readable: {e}"))?;
+    Ok(share(kind, Mass::from_grams(grams), &reading))
+}
+
 impl Tx<'_> {
     /// Every entry of a project in seq order, each checked as it is decoded; with `as_of`, only
     /// the entries recorded by then (the whole chain is still checked).
@@ -127,6 +143,7 @@ impl Tx<'_> {
         let mut tally = Tally::default();
         let mut last_seq: Option<i64> = None;
         let mut undecoded = None;
+        let mut pairs = Vec::new();
         for row in rows {
             let (
                 row,
@@ -148,7 +165,7 @@ impl Tx<'_> {
             let seq = row.seq;
             last_seq = Some(seq);
             let bad = |what: String| Error::entry(project, Some(seq), what);
-            let sealed = row.into_sealed().map_err(bad)?;
+            let mut sealed = row.into_sealed(std::mem::take(&mut pairs)).map_err(bad)?;
             let target = Target {
                 kind: target_kind
                     .map(|k| {
@@ -161,17 +178,8 @@ impl Tx<'_> {
             let corrected_kind = target.kind;
             walk.step(&sealed, target)
                 .map_err(|finding| Error::ledger(finding.to_string()))?;
-            let replaced = match (corrected_kind, t_grams, t_reading) {
-                (Some(kind), Some(g), Some(r)) => {
-                    let reading = reading_text::parse(&r).map(Reading).map_err(|e| {
-                        bad(format!(
-                            "the entry it corrects has a reading that is not readable: {e}"
-                        ))
-                    })?;
-                    share(kind, Mass::from_grams(g), &reading)
-                }
-                _ => 0,
-            };
+            let replaced =
+                replaced_share(corrected_kind, t_grams, t_reading.as_deref()).map_err(bad)?;
             tally = tally.with(&sealed.entry, replaced);
             if let (Some(magnitude), Some(stored)) = (kept_m, kept_s)
                 && (Tally { magnitude, stored }) != tally
@@ -187,6 +195,7 @@ impl Tx<'_> {
                     replaced_by: replaced_by.and_then(|s| u64::try_from(s).ok()),
                 })?;
             }
+            pairs = std::mem::take(&mut sealed.entry.reading.0);
         }
         match undecoded {
             None => Ok(walk.finish()),
