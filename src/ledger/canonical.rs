@@ -54,7 +54,7 @@ impl Writer {
 /// The canonical bytes of an entry (everything but its hashes): v1, or v2 when it names the
 /// role that recorded it.
 pub fn encode(e: &Entry) -> Vec<u8> {
-    let mut w = Writer::default();
+    let mut w = Writer(Vec::with_capacity(encoded_len(e)));
     w.u8(match e.recorded_by {
         None => VERSION,
         Some(_) => ENTRY_RECORDED_BY,
@@ -86,6 +86,22 @@ pub fn encode(e: &Entry) -> Vec<u8> {
         w.str(role);
     }
     w.0
+}
+
+/// The length of an entry's canonical bytes, give or take a few: the walk encodes every entry of
+/// a chain, so the buffer is sized once rather than grown.
+fn encoded_len(e: &Entry) -> usize {
+    let texts = [&e.meter, &e.note, &e.reason, &e.recorded_by]
+        .into_iter()
+        .flatten()
+        .map(|t| 4 + t.len());
+    let reading = e.reading.0.iter().map(|(n, v)| 8 + n.len() + v.len());
+    let evidence = e.evidence.as_ref().map_or(0, |v| 36 + v.file_name.len());
+    96 + e.project.len()
+        + e.site.len()
+        + e.key.len()
+        + evidence
+        + texts.chain(reading).sum::<usize>()
 }
 
 /// The canonical bytes of a project's registration, whose hash the projects table keeps.

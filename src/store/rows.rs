@@ -42,7 +42,7 @@ pub struct SiteRow {
 
 /// Inserted with every column bound (NULL for None), so the statement's text is the same for
 /// every row and SQLite prepares it once for a whole import.
-#[derive(Queryable, Selectable, Insertable)]
+#[derive(Clone, Queryable, Selectable, Insertable)]
 #[diesel(table_name = entries, check_for_backend(diesel::sqlite::Sqlite))]
 #[diesel(treat_none_as_default_value = false)]
 pub struct EntryRow {
@@ -56,6 +56,7 @@ pub struct EntryRow {
     pub reading: String,
     pub grams: i64,
     pub sign: String,
+    #[diesel(deserialize_as = super::stored_time::StoredTime)]
     pub recorded_at: NaiveDateTime,
     pub idem_key: String,
     pub meter: Option<String>,
@@ -184,42 +185,50 @@ impl EntryRow {
 
     /// The entry exactly as stored; a field that cannot be read back is named in the error.
     pub fn to_sealed(&self) -> Result<SealedEntry, String> {
+        self.clone().into_sealed(Vec::new())
+    }
+
+    /// [`EntryRow::to_sealed`], taking the row's texts into the entry rather than copying them,
+    /// and reading its reading into `pairs`, whose strings are reused (the walk reads every row
+    /// of a chain once, each into the reading of the row before).
+    pub fn into_sealed(self, mut pairs: Vec<(String, String)>) -> Result<SealedEntry, String> {
         let date = |col: &str, v: &str| parse_date(v).map_err(|e| format!("{col} {v:?} {e}"));
         let from = date("period_from", &self.period_from)?;
         let to = date("period_to", &self.period_to)?;
-        let evidence = match (&self.evidence_name, &self.evidence_sha256) {
-            (Some(n), Some(h)) => Some(Evidence {
-                file_name: n.clone(),
+        let evidence = match (self.evidence_name, &self.evidence_sha256) {
+            (Some(file_name), Some(h)) => Some(Evidence {
+                file_name,
                 sha256: hash("evidence_sha256", h)?,
             }),
             (None, None) => None,
             _ => return Err("evidence name and hash must be present together".into()),
         };
         let entry = Entry {
-            project: self.project.clone(),
+            project: self.project,
             seq: u64::try_from(self.seq).map_err(|_| format!("seq {} is negative", self.seq))?,
             kind: EntryKind::from_name(&self.kind)
                 .ok_or_else(|| format!("unknown kind {:?}", self.kind))?,
-            site: self.site.clone().unwrap_or_default(),
+            site: self.site.unwrap_or_default(),
             period: Period { from, to },
-            reading: Reading(
-                serde_json::from_str(&self.reading)
-                    .map_err(|e| format!("reading is not readable: {e}"))?,
-            ),
+            reading: {
+                super::reading_text::parse_into(&self.reading, &mut pairs)
+                    .map_err(|e| format!("reading is not readable: {e}"))?;
+                Reading(pairs)
+            },
             mass: Mass::from_grams(self.grams),
             sign: Sign::from_name(&self.sign)
                 .ok_or_else(|| format!("unknown sign {:?}", self.sign))?,
             recorded_at: utc(self.recorded_at),
-            key: self.idem_key.clone(),
-            meter: self.meter.clone(),
-            note: self.note.clone(),
+            key: self.idem_key,
+            meter: self.meter,
+            note: self.note,
             corrects: self
                 .corrects
                 .map(|c| u64::try_from(c).map_err(|_| format!("corrects {c} is negative")))
                 .transpose()?,
-            reason: self.reason.clone(),
+            reason: self.reason,
             evidence,
-            recorded_by: self.recorded_by.clone(),
+            recorded_by: self.recorded_by,
         };
         crate::ledger::reading_fields::check(&entry.reading).map_err(|e| e.to_string())?;
         Ok(SealedEntry {

@@ -3,6 +3,8 @@
 //! chain and never counts a forged figure.
 
 use super::Tx;
+use super::backend::on_backend;
+use super::reading_text;
 use super::rows::EntryRow;
 use super::schema::entries;
 use crate::error::{Error, Result};
@@ -10,7 +12,8 @@ use crate::ledger::chain::{ChainCheck, ChainWalk, Target};
 use crate::ledger::tally::{Tally, share};
 use crate::ledger::{EntryKind, Reading, SealedEntry};
 use crate::quantity::Mass;
-use chrono::{DateTime, Utc};
+use chrono::{DateTime, NaiveDateTime, Utc};
+use diesel::connection::DefaultLoadingMode;
 use diesel::dsl::sql;
 use diesel::prelude::*;
 use diesel::sql_types::{BigInt, Bool, Nullable, Text, Timestamp};
@@ -62,6 +65,110 @@ pub struct ChainRow<'a> {
     pub replaced_by: Option<u64>,
 }
 
+/// What the entry a correction names counted in the running figures (`ledger::tally`), from
+/// its kind, grams and stored reading; 0 for an entry that corrects nothing.
+fn replaced_share(
+    kind: Option<EntryKind>,
+    grams: Option<i64>,
+    reading: Option<&str>,
+) -> std::result::Result<i64, String> {
+    let (Some(kind), Some(grams), Some(reading)) = (kind, grams, reading) else {
+        return Ok(0);
+    };
+    let reading = reading_text::parse(reading)
+        .map(Reading)
+        .map_err(|e| format!("the entry it corrects has a reading that is not readable: {e}"))?;
+    Ok(share(kind, Mass::from_grams(grams), &reading))
+}
+
+/// The walk's checks on each row as it is read: the chain, the running figures, and where the
+/// rows stopped decoding.
+struct RowCheck<'p> {
+    project: &'p str,
+    cut: Option<NaiveDateTime>,
+    walk: ChainWalk,
+    tally: Tally,
+    last_seq: Option<i64>,
+    /// The reading of the row before, whose strings the next row's reading is read into.
+    pairs: Vec<(String, String)>,
+}
+
+impl<'p> RowCheck<'p> {
+    fn new(project: &'p str, cut: Option<NaiveDateTime>) -> Self {
+        Self {
+            project,
+            cut,
+            walk: ChainWalk::new(project),
+            tally: Tally::default(),
+            last_seq: None,
+            pairs: Vec::new(),
+        }
+    }
+
+    /// Checks every row and hands `f` those recorded by the cut; returns the decoding error a
+    /// row stopped at, if one did.
+    fn rows(
+        &mut self,
+        rows: impl Iterator<Item = QueryResult<WalkRow>>,
+        f: &mut impl FnMut(ChainRow<'_>) -> Result<()>,
+    ) -> Result<Option<diesel::result::Error>> {
+        for row in rows {
+            match row {
+                Ok(r) => self.row(r, f)?,
+                Err(e @ diesel::result::Error::DeserializationError(_)) => return Ok(Some(e)),
+                Err(e) => return Err(e.into()),
+            }
+        }
+        Ok(None)
+    }
+
+    fn row(&mut self, row: WalkRow, f: &mut impl FnMut(ChainRow<'_>) -> Result<()>) -> Result<()> {
+        let (row, replaced_by, target_kind, first_corrector, t_grams, t_reading, kept_m, kept_s) =
+            row;
+        let (project, seq) = (self.project, row.seq);
+        self.last_seq = Some(seq);
+        let bad = |what: String| Error::entry(project, Some(seq), what);
+        let mut sealed = row
+            .into_sealed(std::mem::take(&mut self.pairs))
+            .map_err(bad)?;
+        let target = Target {
+            kind: target_kind
+                .map(|k| {
+                    EntryKind::from_name(&k)
+                        .ok_or_else(|| bad(format!("corrects an entry of unknown kind {k:?}")))
+                })
+                .transpose()?,
+            first_corrector: first_corrector.and_then(|s| u64::try_from(s).ok()),
+        };
+        let corrected_kind = target.kind;
+        self.walk
+            .step(&sealed, target)
+            .map_err(|finding| Error::ledger(finding.to_string()))?;
+        let replaced =
+            replaced_share(corrected_kind, t_grams, t_reading.as_deref()).map_err(bad)?;
+        self.tally = self.tally.with(&sealed.entry, replaced);
+        if let (Some(magnitude), Some(stored)) = (kept_m, kept_s)
+            && (Tally { magnitude, stored }) != self.tally
+        {
+            return Err(bad(format!(
+                "the running figures kept with it (Σ |grams| {magnitude}, stored {stored} g) differ from the chain's ({}, {} g)",
+                self.tally.magnitude, self.tally.stored
+            )));
+        }
+        if self
+            .cut
+            .is_none_or(|t| sealed.entry.recorded_at.naive_utc() <= t)
+        {
+            f(ChainRow {
+                sealed: &sealed,
+                replaced_by: replaced_by.and_then(|s| u64::try_from(s).ok()),
+            })?;
+        }
+        self.pairs = std::mem::take(&mut sealed.entry.reading.0);
+        Ok(())
+    }
+}
+
 impl Tx<'_> {
     /// Every entry of a project in seq order, each checked as it is decoded; with `as_of`, only
     /// the entries recorded by then (the whole chain is still checked).
@@ -99,90 +206,38 @@ impl Tx<'_> {
         mut f: impl FnMut(ChainRow<'_>) -> Result<()>,
     ) -> Result<ChainCheck> {
         let cut = as_of.map(|t| t.naive_utc());
-        let replaced_by = sql::<Nullable<BigInt>>(REPLACED_BY)
-            .bind::<Nullable<Timestamp>, _>(cut)
-            .sql(", c.recorded_at))");
-        let rows = entries::table
-            .filter(entries::project.eq(project))
-            .order(entries::seq)
-            .select((
-                EntryRow::as_select(),
-                replaced_by,
-                sql::<Nullable<Text>>(TARGET_KIND),
-                sql::<Nullable<BigInt>>(FIRST_CORRECTOR),
-                sql::<Nullable<BigInt>>(TARGET_GRAMS),
-                sql::<Nullable<Text>>(TARGET_READING),
-                entries::tally_magnitude_g,
-                entries::tally_stored_g,
-            ))
-            .load_iter::<WalkRow, _>(self.conn)?;
-        let mut walk = ChainWalk::new(project);
-        let mut tally = Tally::default();
-        let mut last_seq: Option<i64> = None;
-        let mut undecoded = None;
-        for row in rows {
-            let (
-                row,
-                replaced_by,
-                target_kind,
-                first_corrector,
-                t_grams,
-                t_reading,
-                kept_m,
-                kept_s,
-            ) = match row {
-                Ok(r) => r,
-                Err(e @ diesel::result::Error::DeserializationError(_)) => {
-                    undecoded = Some(e);
-                    break;
-                }
-                Err(e) => return Err(e.into()),
-            };
-            last_seq = Some(row.seq);
-            let bad = |what: String| Error::entry(project, Some(row.seq), what);
-            let sealed = row.to_sealed().map_err(bad)?;
-            let target = Target {
-                kind: target_kind
-                    .map(|k| {
-                        EntryKind::from_name(&k)
-                            .ok_or_else(|| bad(format!("corrects an entry of unknown kind {k:?}")))
-                    })
-                    .transpose()?,
-                first_corrector: first_corrector.and_then(|s| u64::try_from(s).ok()),
-            };
-            let corrected_kind = target.kind;
-            walk.step(&sealed, target)
-                .map_err(|finding| Error::ledger(finding.to_string()))?;
-            let replaced = match (corrected_kind, t_grams, t_reading) {
-                (Some(kind), Some(g), Some(r)) => {
-                    let reading = serde_json::from_str(&r).map(Reading).map_err(|e| {
-                        bad(format!(
-                            "the entry it corrects has a reading that is not readable: {e}"
-                        ))
-                    })?;
-                    share(kind, Mass::from_grams(g), &reading)
-                }
-                _ => 0,
-            };
-            tally = tally.with(&sealed.entry, replaced);
-            if let (Some(magnitude), Some(stored)) = (kept_m, kept_s)
-                && (Tally { magnitude, stored }) != tally
-            {
-                return Err(bad(format!(
-                    "the running figures kept with it (Σ |grams| {magnitude}, stored {stored} g) differ from the chain's ({}, {} g)",
-                    tally.magnitude, tally.stored
-                )));
-            }
-            if cut.is_none_or(|t| sealed.entry.recorded_at.naive_utc() <= t) {
-                f(ChainRow {
-                    sealed: &sealed,
-                    replaced_by: replaced_by.and_then(|s| u64::try_from(s).ok()),
-                })?;
-            }
-        }
+        let (lowest, highest) = self.corrected_span(project)?;
+        let mut check = RowCheck::new(project, cut);
+        // Built and run on the backend's own connection, so rows decode without the
+        // multi-backend connection's wrapping of every field.
+        let undecoded = on_backend!(&mut *self.conn, c => {
+            let replaced_by = sql::<Nullable<BigInt>>("CASE WHEN entries.seq BETWEEN ")
+                .bind::<Nullable<BigInt>, _>(lowest)
+                .sql(" AND ")
+                .bind::<Nullable<BigInt>, _>(highest)
+                .sql(" THEN ")
+                .sql(REPLACED_BY)
+                .bind::<Nullable<Timestamp>, _>(cut)
+                .sql(", c.recorded_at)) END");
+            let rows = entries::table
+                .filter(entries::project.eq(project))
+                .order(entries::seq)
+                .select((
+                    EntryRow::as_select(),
+                    replaced_by,
+                    sql::<Nullable<Text>>(TARGET_KIND),
+                    sql::<Nullable<BigInt>>(FIRST_CORRECTOR),
+                    sql::<Nullable<BigInt>>(TARGET_GRAMS),
+                    sql::<Nullable<Text>>(TARGET_READING),
+                    entries::tally_magnitude_g,
+                    entries::tally_stored_g,
+                ))
+                .load_iter::<WalkRow, DefaultLoadingMode>(c)?;
+            check.rows(rows, &mut f)?
+        });
         match undecoded {
-            None => Ok(walk.finish()),
-            Some(e) => Err(self.undecodable(project, last_seq, &e)),
+            None => Ok(check.walk.finish()),
+            Some(e) => Err(self.undecodable(project, check.last_seq, &e)),
         }
     }
 
@@ -216,6 +271,20 @@ impl Tx<'_> {
             }
         }
         Ok(out)
+    }
+
+    /// The lowest and highest seq the project's corrections name, through the partial index on
+    /// (project, corrects): only a row between them can be replaced, so the walk looks for what
+    /// replaces a row there alone (nowhere, in a chain without corrections).
+    fn corrected_span(&mut self, project: &str) -> Result<(Option<i64>, Option<i64>)> {
+        Ok(entries::table
+            .filter(entries::project.eq(project))
+            .filter(entries::corrects.is_not_null())
+            .select((
+                diesel::dsl::min(entries::corrects),
+                diesel::dsl::max(entries::corrects),
+            ))
+            .first(self.conn)?)
     }
 
     /// A stored row whose fields no longer decode (a byte changed in a text): named by its seq,
