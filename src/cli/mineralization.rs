@@ -10,7 +10,6 @@ use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::ledger::period::Grouping;
 use crate::report::Report;
-pub use crate::report::tables::mineralization::{balance, carbonation_balance};
 use crate::report::tables::mineralization::{campaigns_table, period_table, samples_table};
 use clap::Args;
 

@@ -7,9 +7,9 @@ use super::setup::known_project;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::project_view::ProjectFigures;
 use crate::error::{Error, Result, StoreKind};
+use crate::ledger::SealedEntry;
 use crate::ledger::period::Grouping;
-use crate::ledger::{Method, SealedEntry};
-use crate::report::tables::balance::{claims_tables, geological_balance};
+use crate::report::tables::balance::balance as route_balance;
 use crate::report::tables::entries::Listing;
 use crate::report::tables::late::late_of;
 use crate::report::{Format, Report};
@@ -102,25 +102,8 @@ pub fn balance(ctx: &Context, a: BalanceArgs) -> Result<Report> {
 
 /// The balance report of figures already loaded at `dates`, by route.
 pub fn balance_of(figures: &ProjectFigures, a: &BalanceArgs, dates: &Dates) -> Result<Report> {
-    let grouping = Grouping::from(a.by);
-    // A basalt project's balance takes no deduction, so the option is read only where used.
     let deduction = || deduction_rule(a.deduct_excess_over.as_deref());
-    let mut report = match figures.project().method {
-        Method::BasaltMineralization => super::mineralization::balance(figures, grouping)?,
-        Method::ExSituMineralization => {
-            super::mineralization::carbonation_balance(figures, grouping)?
-        }
-        Method::EnhancedWeathering => super::weathering::balance(figures, grouping)?,
-        Method::SalineAquifer | Method::DepletedField | Method::Eor => {
-            geological_balance(figures, grouping, a.method, deduction()?)?
-        }
-    };
-    if matches!(
-        figures.project().method,
-        Method::ExSituMineralization | Method::EnhancedWeathering
-    ) {
-        report = claims_tables(figures, BalanceMethod::Rr, deduction()?, report)?;
-    }
+    let mut report = route_balance(figures, Grouping::from(a.by), a.method, deduction)?;
     if let Some(t) = report.tables.first_mut() {
         dates.mark(t, "it");
     }

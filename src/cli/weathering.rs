@@ -13,7 +13,6 @@ use crate::error::{Error, Result};
 use crate::ledger::Method;
 use crate::quantity::Decimal;
 use crate::report::Report;
-pub use crate::report::tables::weathering::balance;
 use crate::report::tables::weathering::{campaign_table, what_if_note};
 use clap::Args;
 

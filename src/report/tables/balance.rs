@@ -1,5 +1,5 @@
-//! The report `balance` prints of an injection project (its balance, leakage and reversals),
-//! and the claims and buffer pool every route's balance ends with.
+//! The report `balance` prints: each route's own tables (an injection project's balance, leakage
+//! and reversals), and the claims and buffer pool every route's balance ends with.
 
 use super::claims::{claims_table, pool_table, rock_uncertainty_notes, uncertainty_note};
 use super::weathering::parameter_notes;
@@ -12,6 +12,26 @@ use crate::ledger::Method;
 use crate::ledger::period::Grouping;
 use crate::report::Report;
 use crate::report::balance as tables;
+use crate::report::tables::{mineralization, weathering};
+
+/// A project's balance by its route. `deduction` is read only where the route deducts
+/// uncertainty: a basalt project's balance takes none.
+pub fn balance(
+    figures: &ProjectFigures,
+    grouping: Grouping,
+    method: BalanceMethod,
+    deduction: impl Fn() -> Result<DeductionRule>,
+) -> Result<Report> {
+    let rock = match figures.project().method {
+        Method::BasaltMineralization => return mineralization::balance(figures, grouping),
+        Method::ExSituMineralization => mineralization::carbonation_balance(figures, grouping)?,
+        Method::EnhancedWeathering => weathering::balance(figures, grouping)?,
+        Method::SalineAquifer | Method::DepletedField | Method::Eor => {
+            return geological_balance(figures, grouping, method, deduction()?);
+        }
+    };
+    claims_tables(figures, BalanceMethod::Rr, deduction()?, rock)
+}
 
 /// The mass balance of an injection project, its leakage, claims and buffer pool.
 pub fn geological_balance(
