@@ -6,7 +6,7 @@ use super::dates::{DateArgs, Dates};
 use super::setup::known_project;
 use crate::accounting::balance::BalanceMethod;
 use crate::accounting::project_view::ProjectFigures;
-use crate::error::{Error, Result, StoreKind};
+use crate::error::Result;
 use crate::ledger::SealedEntry;
 use crate::ledger::period::Grouping;
 use crate::report::tables::balance::balance as route_balance;
@@ -33,10 +33,8 @@ pub struct EntriesArgs {
 pub fn entries(ctx: &Context, a: EntriesArgs, format: Format) -> Result<Report> {
     let from = a.from_seq.unwrap_or(0);
     let mut listing = Listing::new(format, &a.project, from, a.limit);
-    let total = walk_entries(ctx, &a.project, |s, by| {
-        listing.push(s, by).map_err(standard_output)
-    })?;
-    listing.finish(total).map_err(standard_output)
+    let total = walk_entries(ctx, &a.project, |s, by| listing.push(s, by))?;
+    listing.finish(total)
 }
 
 /// Walks the project's chain, checking every entry, with a bar for a long one; hands `f` each
@@ -58,14 +56,6 @@ fn walk_entries(
         bar.finish_and_clear();
         Ok(c.entries)
     })
-}
-
-/// A write to standard output that failed (a closed pipe, a full disk).
-fn standard_output(e: std::io::Error) -> Error {
-    Error::store(
-        StoreKind::System,
-        format!("standard output: {e} (the listing was not written in full)"),
-    )
 }
 
 /// Calendar grouping of `--by`.

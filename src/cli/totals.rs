@@ -51,18 +51,11 @@ pub fn totals(ctx: &Context, a: TotalsArgs) -> Result<Report> {
         method: a.method.as_deref(),
         permit: a.permit.as_deref(),
     };
-    let views = ctx.open()?.read(|tx| {
-        let projects = tx.projects()?;
-        if let Some(n) = filter.unmatched(&projects) {
-            return Err(no_match(n));
-        }
-        let mut views = Vec::new();
-        for p in projects {
-            if dates.as_of.is_none_or(|t| p.registered_at <= t) && filter.admits(&p) {
-                views.push(dates.load(tx, &p.code)?);
-            }
-        }
-        Ok(views)
+    let views: Vec<_> = ctx.open()?.read(|tx| {
+        let chosen = filter
+            .chosen(tx.projects()?, dates.as_of)
+            .map_err(no_match)?;
+        chosen.iter().map(|p| dates.load(tx, &p.code)).collect()
     })?;
     let across = across(&views, deduction).map_err(|e| match e {
         AcrossError::View(e) => e.into(),

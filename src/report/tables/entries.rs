@@ -1,5 +1,6 @@
 //! The columns and cells of `entries`, one row per stored entry (the table, JSON and CSV alike).
 
+use crate::error::{Error, Result, StoreKind};
 use crate::ledger::SealedEntry;
 use crate::report::names;
 use crate::report::stream::RowStream;
@@ -47,13 +48,13 @@ impl Listing {
     }
 
     /// Lists an entry (and the seq that corrects it) when it falls in the page asked.
-    pub fn push(&mut self, s: &SealedEntry, by: Option<u64>) -> io::Result<()> {
+    pub fn push(&mut self, s: &SealedEntry, by: Option<u64>) -> Result<()> {
         let seq = s.entry.seq;
         if seq < self.from || seq - self.from >= self.limit {
             return Ok(());
         }
         match &mut self.out {
-            Out::Streamed(rows) => rows.row(&entry_cells(s, by))?,
+            Out::Streamed(rows) => rows.row(&entry_cells(s, by)).map_err(standard_output)?,
             Out::Page {
                 table,
                 any_replaced,
@@ -67,10 +68,10 @@ impl Listing {
 
     /// The listing ended, the chain holding `total` entries: the page with its notes, or
     /// nothing left to print.
-    pub fn finish(self, total: u64) -> io::Result<Report> {
+    pub fn finish(self, total: u64) -> Result<Report> {
         match self.out {
             Out::Streamed(rows) => {
-                rows.finish()?;
+                rows.finish().map_err(standard_output)?;
                 Ok(Report::written())
             }
             Out::Page {
@@ -82,6 +83,14 @@ impl Listing {
             }
         }
     }
+}
+
+/// A write to standard output that failed (a closed pipe, a full disk).
+fn standard_output(e: io::Error) -> Error {
+    Error::store(
+        StoreKind::System,
+        format!("standard output: {e} (the listing was not written in full)"),
+    )
 }
 
 /// The columns of an entry's row.
