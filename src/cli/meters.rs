@@ -6,6 +6,7 @@ use super::setup::known_project;
 use crate::accounting::meter_quarters::{self, MeterQuarters};
 use crate::error::{Error, Result};
 use crate::import::overlap::HandCorrection;
+use crate::ledger::bounds::reporting_year;
 use crate::report::Report;
 use crate::store::Tx;
 use clap::Args;
@@ -20,13 +21,7 @@ pub struct MetersArgs {
 }
 
 pub fn meters(ctx: &Context, a: MetersArgs) -> Result<Report> {
-    if !(1900..=9999).contains(&a.year) {
-        return Err(Error::field(
-            "--year",
-            &a.year.to_string(),
-            "is not a plausible reporting year",
-        ));
-    }
+    reporting_year(a.year).map_err(|e| Error::field("--year", &a.year.to_string(), e))?;
     ctx.open()?.read(|tx| meters_in(tx, &a))
 }
 
