@@ -3,6 +3,7 @@
 use super::run_line;
 use crate::error::{Error, Result};
 use crate::import::sample_folders::{Folders, passing_folder};
+use crate::import::script::demo_clock;
 use crate::report::Report;
 use crate::report::tables::demo::{OVERVIEW, TOUR, built_line, page_line, tour_table};
 use crate::store::Store;
@@ -53,12 +54,8 @@ pub struct DemoArgs {
     full: bool,
 }
 
-/// The sample projects play the year 2026 to its end (entries dated in December, the year sealed),
-/// so the demo records them as of this time, or at the real clock once it is later.
-const DEMO_CLOCK: &str = "2027-01-15T09:00:00Z";
-
 pub fn demo(db: Option<&Path>, args: DemoArgs, now: DateTime<Utc>) -> Result<Report> {
-    let now = now.max(DateTime::parse_from_rfc3339(DEMO_CLOCK).map_or(now, |t| t.to_utc()));
+    let now = demo_clock(now);
     let (mut report, place) = match db {
         Some(path) => {
             let shown = path.display().to_string();
