@@ -3,10 +3,10 @@
 //! field names written here are the ones read back here, and nowhere else.
 
 use super::record::{ReadingArgs, RecordArgs, commit_with, draft, period};
-use super::rock_inputs as ri;
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::Carbonation;
+use crate::accounting::input::InputError;
 use crate::accounting::rock_record::{
     self as rock, AreaError, CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
 };
@@ -272,9 +272,17 @@ impl From<RecordError> for Error {
     fn from(e: RecordError) -> Error {
         match e {
             RecordError::Value { given, text, why } => Error::field(option(given), &text, why),
-            RecordError::Check(e) => ri::refused(&e),
+            RecordError::Check(e) => e.into(),
             RecordError::Unreadable(why) => Error::internal(why),
         }
+    }
+}
+
+/// A refusal by a pure check on a figure no single option holds, told by its field's name.
+impl From<InputError> for Error {
+    fn from(e: InputError) -> Error {
+        let why = format!("must be {}", e.rule);
+        Error::field(&e.field, &e.value.to_string(), why)
     }
 }
 

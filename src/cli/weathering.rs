@@ -4,14 +4,13 @@
 
 use super::Context;
 use super::mineralization::route_project;
-use super::rock_inputs as ri;
 use crate::accounting::project_view::ViewError;
 use crate::accounting::weathering::campaign::{CampaignError, DissolutionMethod, Settings};
 use crate::accounting::weathering::choice::{self, Given};
 use crate::accounting::weathering::removal::Deduction;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
-use crate::quantity::Decimal;
+use crate::quantity::{Decimal, share::share};
 use crate::report::Report;
 pub use crate::report::tables::weathering::balance;
 use crate::report::tables::weathering::{campaign_table, what_if_note};
@@ -59,26 +58,18 @@ impl DeductionValues {
     /// Each parameter given, with its option, its text and its value checked to [0, 1].
     pub fn given(&self) -> Result<Vec<(Deduction, &'static str, &str, Decimal)>> {
         let all = [
-            (Deduction::StrongAcid, "--strong-acid", &self.strong_acid),
-            (
-                Deduction::CationRetention,
-                "--cation-retention",
-                &self.cation_retention,
-            ),
-            (
-                Deduction::SecondaryCarbonate,
-                "--secondary-carbonate",
-                &self.secondary_carbonate,
-            ),
-            (
-                Deduction::OceanReequilibration,
-                "--ocean-efficiency",
-                &self.ocean_efficiency,
-            ),
+            ("--strong-acid", &self.strong_acid),
+            ("--cation-retention", &self.cation_retention),
+            ("--secondary-carbonate", &self.secondary_carbonate),
+            ("--ocean-efficiency", &self.ocean_efficiency),
         ];
-        all.into_iter()
-            .filter_map(|(d, option, text)| text.as_deref().map(|t| (d, option, t)))
-            .map(|(d, option, text)| Ok((d, option, text, ri::share(option, text)?)))
+        let given = Deduction::ALL.into_iter().zip(all);
+        given
+            .filter_map(|(d, (option, text))| Some((d, option, text.as_deref()?)))
+            .map(|(d, option, text)| {
+                let v = share(text).map_err(|(value, why)| Error::field(option, &value, why))?;
+                Ok((d, option, text, v))
+            })
             .collect()
     }
 }
