@@ -13,7 +13,7 @@ use crate::ledger::Method;
 use crate::quantity::{Decimal, share::share};
 use crate::report::Report;
 pub use crate::report::tables::weathering::balance;
-use crate::report::tables::weathering::{campaign_table, what_if_note};
+use crate::report::tables::weathering::{campaign_table, what_if_note, what_if_source};
 use clap::Args;
 
 /// The four deduction parameters of net removal, as `weathering` (a what-if) and `project set`
@@ -122,19 +122,13 @@ fn settings(a: &WeatheringArgs) -> Result<Settings> {
 
 /// The what-if's parameters, each with the source it is shown with.
 fn what_if(a: &DeductionArgs) -> Result<Vec<(Deduction, f64, String)>> {
-    if let Some(s) = &a.deduction_source {
+    let source = a.deduction_source.as_deref();
+    if let Some(s) = source {
         super::inputs::text("--deduction-source", s)?;
     }
     let given = a.values.given()?.into_iter();
     Ok(given
-        .map(|(deduction, option, text, v)| {
-            let given = format!("what-if given as {option} {text}");
-            let source = match &a.deduction_source {
-                Some(s) => format!("{s}; {given}"),
-                None => given,
-            };
-            (deduction, v.to_f64(), source)
-        })
+        .map(|(d, option, text, v)| (d, v.to_f64(), what_if_source(option, text, source)))
         .collect())
 }
 
