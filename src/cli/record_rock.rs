@@ -6,7 +6,6 @@ use super::record::{ReadingArgs, RecordArgs, commit_with, draft, period};
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::Carbonation;
-use crate::accounting::input::InputError;
 use crate::accounting::rock_record::{
     self as rock, AreaError, CarbonationTexts, Given, RecordError, SoilTexts, TracerTexts,
 };
@@ -275,14 +274,6 @@ impl From<RecordError> for Error {
             RecordError::Check(e) => e.into(),
             RecordError::Unreadable(why) => Error::internal(why),
         }
-    }
-}
-
-/// A refusal by a pure check on a figure no single option holds, told by its field's name.
-impl From<InputError> for Error {
-    fn from(e: InputError) -> Error {
-        let why = format!("must be {}", e.rule);
-        Error::field(&e.field, &e.value.to_string(), why)
     }
 }
 
