@@ -241,6 +241,14 @@ impl From<crate::ledger::reading_fields::ReadingError> for Error {
     }
 }
 
+/// A refusal by a pure check on a figure no single option holds, told by its field's name.
+impl From<crate::accounting::input::InputError> for Error {
+    fn from(e: crate::accounting::input::InputError) -> Self {
+        let why = format!("must be {}", e.rule);
+        Error::field(&e.field, &e.value.to_string(), why)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

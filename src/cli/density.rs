@@ -3,7 +3,8 @@
 use crate::eos::density as solve;
 use crate::error::{Error, Result};
 use crate::quantity::conditions::{
-    PRESSURE_UNITS, TEMPERATURE_UNITS, atmosphere, parse_pressure, parse_temperature,
+    ConditionError, PRESSURE_UNITS, TEMPERATURE_UNITS, atmosphere, parse_pressure,
+    parse_temperature,
 };
 use crate::report::Report;
 use crate::report::tables::density::density_table;
@@ -24,23 +25,18 @@ pub struct DensityArgs {
     pub atmospheric: String,
 }
 
+/// A temperature or pressure that does not read, told with the units its option takes.
+fn unread(option: &str, text: &str, e: ConditionError, units: &str) -> Error {
+    Error::field(option, text, format!("{e} (units: {units})"))
+}
+
 pub fn density(a: DensityArgs) -> Result<Report> {
-    let t = parse_temperature(&a.temperature).map_err(|e| {
-        Error::field(
-            "--temperature",
-            &a.temperature,
-            format!("{e} (units: {TEMPERATURE_UNITS})"),
-        )
-    })?;
+    let t = parse_temperature(&a.temperature)
+        .map_err(|e| unread("--temperature", &a.temperature, e, TEMPERATURE_UNITS))?;
     let atm = parse_pressure(&a.atmospheric, atmosphere())
         .map_err(|e| Error::field("--atmospheric", &a.atmospheric, e))?;
-    let p = parse_pressure(&a.pressure, atm).map_err(|e| {
-        Error::field(
-            "--pressure",
-            &a.pressure,
-            format!("{e} (units: {PRESSURE_UNITS})"),
-        )
-    })?;
+    let p = parse_pressure(&a.pressure, atm)
+        .map_err(|e| unread("--pressure", &a.pressure, e, PRESSURE_UNITS))?;
     let (tk, ppa) = (t.get::<kelvin>(), p.get::<pascal>());
     let s = solve(tk, ppa)
         .map_err(|e| Error::field("state", &format!("{}, {}", a.temperature, a.pressure), e))?;

@@ -6,7 +6,6 @@ use super::Context;
 use super::record::{
     Category, EmissionArgs, RecordArgs, commit, commit_with, draft, metered, period, required,
 };
-use super::rock_inputs as ri;
 use crate::accounting::inventory::{Given, Inputs, InventoryError, StageError, stage_reading};
 pub use crate::accounting::inventory::{GrindingMethod, Stage, TransportMode};
 use crate::accounting::rock_record::{AreaError, field_area};
@@ -135,7 +134,7 @@ impl From<InventoryError> for Error {
                 ),
             ),
             InventoryError::Value { given, text, why } => Error::field(option(given), &text, why),
-            InventoryError::Check(e) => ri::refused(&e),
+            InventoryError::Check(e) => e.into(),
             InventoryError::ProductNotFiner { d80, feed_f80 } => Error::field(
                 "--d80",
                 &d80,

@@ -3,12 +3,13 @@
 
 use super::setup::known_project;
 use super::{Context, inputs};
+use crate::accounting::project_view::evidence::analysed;
 use crate::accounting::weathering::campaign::Feedstock as Analysed;
 use crate::accounting::weathering::registration::{
     FeedstockTexts, Given, RegistrationError, registration,
 };
 use crate::error::{Error, Result};
-use crate::ledger::feedstock::{Feedstock, Refusal, admissible};
+use crate::ledger::feedstock::{Refusal, admissible};
 use crate::report::Report;
 use crate::report::tables::feedstock::list_table;
 use clap::{Args, Subcommand};
@@ -62,8 +63,9 @@ pub fn feedstock(ctx: &Context, c: FeedstockCommand) -> Result<Report> {
                 known_project(tx, &project)?;
                 tx.feedstocks(&project)
             })?;
-            let analysed: Vec<Analysed> = list.iter().map(analysed).collect::<Result<_>>()?;
-            Ok(Report::default().table(list_table(&project, &list, &analysed)))
+            // Stored text that no longer reads is an inconsistency of the ledger.
+            let analysed: Result<Vec<Analysed>> = list.iter().map(|f| Ok(analysed(f)?)).collect();
+            Ok(Report::default().table(list_table(&project, &list, &analysed?)))
         }
     }
 }
@@ -116,10 +118,4 @@ fn add(ctx: &Context, a: FeedstockAdd) -> Result<Report> {
         "registered feedstock {} in project {}",
         f.code, f.project
     )))
-}
-
-/// A registered feedstock's analysis in numbers; stored text that no longer reads is an
-/// inconsistency of the ledger.
-fn analysed(f: &Feedstock) -> Result<Analysed> {
-    Ok(crate::accounting::project_view::evidence::analysed(f)?)
 }

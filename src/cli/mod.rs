@@ -35,7 +35,6 @@ mod emission_inventory;
 mod feedstock;
 mod mineralization;
 mod record_rock;
-mod rock_inputs;
 mod weathering;
 
 use crate::accounting::permit;

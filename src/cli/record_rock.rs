@@ -3,7 +3,6 @@
 //! field names written here are the ones read back here, and nowhere else.
 
 use super::record::{ReadingArgs, RecordArgs, commit_with, draft, period};
-use super::rock_inputs as ri;
 use super::setup::known_project;
 use super::{Context, inputs};
 use crate::accounting::carbonation::Carbonation;
@@ -272,7 +271,7 @@ impl From<RecordError> for Error {
     fn from(e: RecordError) -> Error {
         match e {
             RecordError::Value { given, text, why } => Error::field(option(given), &text, why),
-            RecordError::Check(e) => ri::refused(&e),
+            RecordError::Check(e) => e.into(),
             RecordError::Unreadable(why) => Error::internal(why),
         }
     }

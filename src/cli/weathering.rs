@@ -4,16 +4,15 @@
 
 use super::Context;
 use super::mineralization::route_project;
-use super::rock_inputs as ri;
 use crate::accounting::project_view::ViewError;
 use crate::accounting::weathering::campaign::{CampaignError, DissolutionMethod, Settings};
 use crate::accounting::weathering::choice::{self, Given};
 use crate::accounting::weathering::removal::Deduction;
 use crate::error::{Error, Result};
 use crate::ledger::Method;
-use crate::quantity::Decimal;
+use crate::quantity::{Decimal, share::share};
 use crate::report::Report;
-use crate::report::tables::weathering::{campaign_table, what_if_note};
+use crate::report::tables::weathering::{campaign_table, what_if_note, what_if_source};
 use clap::Args;
 
 /// The four deduction parameters of net removal, as `weathering` (a what-if) and `project set`
@@ -58,26 +57,18 @@ impl DeductionValues {
     /// Each parameter given, with its option, its text and its value checked to [0, 1].
     pub fn given(&self) -> Result<Vec<(Deduction, &'static str, &str, Decimal)>> {
         let all = [
-            (Deduction::StrongAcid, "--strong-acid", &self.strong_acid),
-            (
-                Deduction::CationRetention,
-                "--cation-retention",
-                &self.cation_retention,
-            ),
-            (
-                Deduction::SecondaryCarbonate,
-                "--secondary-carbonate",
-                &self.secondary_carbonate,
-            ),
-            (
-                Deduction::OceanReequilibration,
-                "--ocean-efficiency",
-                &self.ocean_efficiency,
-            ),
+            ("--strong-acid", &self.strong_acid),
+            ("--cation-retention", &self.cation_retention),
+            ("--secondary-carbonate", &self.secondary_carbonate),
+            ("--ocean-efficiency", &self.ocean_efficiency),
         ];
-        all.into_iter()
-            .filter_map(|(d, option, text)| text.as_deref().map(|t| (d, option, t)))
-            .map(|(d, option, text)| Ok((d, option, text, ri::share(option, text)?)))
+        let given = Deduction::ALL.into_iter().zip(all);
+        given
+            .filter_map(|(d, (option, text))| Some((d, option, text.as_deref()?)))
+            .map(|(d, option, text)| {
+                let v = share(text).map_err(|(value, why)| Error::field(option, &value, why))?;
+                Ok((d, option, text, v))
+            })
             .collect()
     }
 }
@@ -130,19 +121,13 @@ fn settings(a: &WeatheringArgs) -> Result<Settings> {
 
 /// The what-if's parameters, each with the source it is shown with.
 fn what_if(a: &DeductionArgs) -> Result<Vec<(Deduction, f64, String)>> {
-    if let Some(s) = &a.deduction_source {
+    let source = a.deduction_source.as_deref();
+    if let Some(s) = source {
         super::inputs::text("--deduction-source", s)?;
     }
     let given = a.values.given()?.into_iter();
     Ok(given
-        .map(|(deduction, option, text, v)| {
-            let given = format!("what-if given as {option} {text}");
-            let source = match &a.deduction_source {
-                Some(s) => format!("{s}; {given}"),
-                None => given,
-            };
-            (deduction, v.to_f64(), source)
-        })
+        .map(|(d, option, text, v)| (d, v.to_f64(), what_if_source(option, text, source)))
         .collect())
 }
 

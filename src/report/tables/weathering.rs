@@ -219,10 +219,33 @@ pub fn balance(figures: &ProjectFigures, grouping: Grouping) -> Result<Report> {
     Ok(Report::default().table(t))
 }
 
+/// A what-if value's source as the table shows it: the option and text given, after the
+/// source named for them.
+pub fn what_if_source(option: &str, text: &str, source: Option<&str>) -> String {
+    let given = format!("what-if given as {option} {text}");
+    match source {
+        Some(s) => format!("{s}; {given}"),
+        None => given,
+    }
+}
+
 /// The note of a `weathering` what-if: the parameters given replace the project's settings in
 /// its table only.
 pub fn what_if_note(project: &str) -> String {
     format!(
         "What-if: the deduction parameters given here replace the project's settings in this table only; balance, totals and claims use the settings (`sinkbook project set {project} --strong-acid … --source …`)."
     )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::what_if_source;
+
+    #[test]
+    fn a_what_if_value_shows_its_option_after_the_source_named() {
+        let given = "what-if given as --strong-acid 5%";
+        assert_eq!(what_if_source("--strong-acid", "5%", None), given);
+        let named = what_if_source("--strong-acid", "5%", Some("plot trial"));
+        assert_eq!(named, format!("plot trial; {given}"));
+    }
 }
