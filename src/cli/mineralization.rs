@@ -1,6 +1,5 @@
 //! `mineralization`: how much of the CO2 injected into basalt has turned to rock, campaign by
-//! campaign and period by period; and the route's own balance tables for basalt (in-situ) and
-//! ex-situ mineralization projects.
+//! campaign and period by period.
 
 use super::Context;
 use super::reports::By;
