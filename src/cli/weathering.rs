@@ -1,6 +1,6 @@
 //! `weathering`: per field and soil campaign, the feedstock applied, its potential, the
-//! dissolved fraction read from the cores, gross CO2, each deduction, emissions and net; and
-//! the same rolled up by period for `balance` of an enhanced-weathering project.
+//! dissolved fraction read from the cores, gross CO2, each deduction, emissions and net, with
+//! what-if deductions given on the command line.
 
 use super::Context;
 use super::mineralization::route_project;
