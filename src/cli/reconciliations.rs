@@ -25,14 +25,6 @@ pub struct RecordArgs {
     pub role: Option<RoleArg>,
 }
 
-impl RecordArgs {
-    /// Refuses a bad name before anything is read or written.
-    pub fn check(&self) -> Result<()> {
-        let by = self.by.as_deref();
-        by.map_or(Ok(()), |by| super::inputs::text("--by", by))
-    }
-}
-
 #[derive(Debug, Args)]
 pub struct ReconciliationsArgs {
     /// Project code (e.g. TFS)
