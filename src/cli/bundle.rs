@@ -3,14 +3,16 @@
 
 use super::Context;
 use super::setup::known_project;
+use crate::bundle::Item;
 use crate::bundle::stop::stop_at;
 use crate::error::{Error, Result};
 use crate::export::bundle_file::{BundleFile, Unwritten};
 use crate::import::bundle_file::read_checked;
 use crate::report::Report;
-use crate::report::tables::bundle::{checked_table, summary_table};
+use crate::report::tables::bundle::{checked_table, loaded_table, summary_table};
+use crate::store::BundleLoader;
 use clap::{Args, Subcommand};
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, Subcommand)]
 pub enum BundleCommand {
@@ -53,7 +55,7 @@ pub fn bundle(ctx: &Context, c: BundleCommand) -> Result<Report> {
             let c = read_checked(&file, |_| Ok(()))?;
             Ok(Report::default().table(checked_table(&file.display().to_string(), &c)))
         }
-        BundleCommand::Load { file } => super::bundle_load::load(ctx, &file),
+        BundleCommand::Load { file } => load(ctx, &file),
     }
 }
 
@@ -76,4 +78,33 @@ fn export(ctx: &Context, a: ExportArgs) -> Result<Report> {
     })?;
     let t = w.finish().map_err(unwritten)?;
     Ok(Report::default().table(summary_table("Bundle written", &name, &code, &t, "written")))
+}
+
+/// A checked bundle into the ledger at `--db`, in one transaction (the rules of an extension
+/// are `store::BundleLoader`'s).
+fn load(ctx: &Context, file: &Path) -> Result<Report> {
+    // A first reading checks the whole file and learns its size, which the consistency proof
+    // needs before the entries stream by; the second, inside the transaction, checks it all
+    // again while writing, so a file changed in between writes nothing.
+    let first = read_checked(file, |_| Ok(()))?.trailer;
+    let mut store = ctx.open()?;
+    let (project, trailer, new) = store.write(|tx| {
+        let mut loader = BundleLoader::new(tx, first.entries)?;
+        let mut code = String::new();
+        let c = read_checked(file, |item| {
+            if let Item::Header { project, .. } = item {
+                code = project.clone();
+            }
+            loader.item(tx, &code, item)
+        })?;
+        if c.trailer != first {
+            return Err(Error::ledger(format!(
+                "bundle {} changed while it was being loaded; nothing written",
+                file.display()
+            )));
+        }
+        Ok((c.project, c.trailer, loader.added()))
+    })?;
+    let file = file.display().to_string();
+    Ok(Report::default().table(loaded_table(&file, &project, &trailer, &new)))
 }

@@ -69,11 +69,8 @@ pub fn readings(ctx: &Context, a: ReadingsArgs) -> Result<Report> {
         known_project(tx, &a.project)?;
         let mut found = Vec::new();
         replan_all(tx, &a.project, Some((&a.meter, day)), |i, p| {
-            found.extend(
-                p.watched
-                    .into_iter()
-                    .map(|w| (i.id, i.file_name.clone(), w)),
-            )
+            let file = &i.file_name;
+            found.extend(p.watched.into_iter().map(|w| (i.id, file.clone(), w)))
         })?;
         Ok(found)
     })?;

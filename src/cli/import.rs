@@ -12,14 +12,13 @@ use crate::import::meter_day::Source;
 use crate::import::plan::{Options, Plan};
 use crate::import::summary::Summary;
 use crate::import::{name_and_size, plan_file};
-use crate::ledger::{EntryKind, Site};
+use crate::ledger::{EntryKind, Project};
 use crate::quantity::volume::DensityMethod;
 use crate::report::Report;
 use crate::report::tables::import::{already_line, bad_rows_why, imported_report, no_readings_why};
 use crate::store::{ImportSummary, NewImport, Tx, disk_error, room_for, room_for_entries};
 use clap::Args;
-use std::collections::HashMap;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, Args)]
 pub struct ImportArgs {
@@ -48,55 +47,56 @@ pub struct ImportArgs {
     pub replace: bool,
 }
 
-/// The import asked for, once its options are read.
-struct Request<'a> {
-    args: &'a ImportArgs,
-    kind: EntryKind,
-    columns: ColumnMap,
-    density: DensityMethod,
-    file_name: String,
-    size: u64,
-}
-
 pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
     let kind = EntryKind::from_name(&a.kind)
         .filter(|k| !matches!(k, EntryKind::Survey | EntryKind::Leakage))
         .ok_or_else(|| Error::field("--kind", &a.kind, "is not a metered entry kind (injection, receipt, redelivery, production, equipment-leak, emission)"))?;
     let (file_name, size) = name_and_size(&a.file)?;
-    let req = Request {
-        args: &a,
-        kind,
-        columns: ColumnMap::parse(a.columns.as_deref())?,
-        density: DensityMethod::from(a.density),
-        file_name,
-        size,
-    };
+    let columns = ColumnMap::parse(a.columns.as_deref())?;
     room_for(&ctx.db, size, "the file, kept as its evidence")?;
     ctx.open()?
-        .write(|tx| import_in(tx, ctx, &req))
+        .write(|tx| {
+            let project = known_project(tx, &a.project)?;
+            let sites = tx.sites_by_code(&a.project)?;
+            let opts = Options {
+                file_name: &file_name,
+                project: &a.project,
+                kind,
+                columns: &columns,
+                density: DensityMethod::from(a.density),
+                sites: &sites,
+                watch: None,
+            };
+            import_in(tx, ctx, &a, &project, &opts, size)
+        })
         .map_err(disk_error)
 }
 
 /// The import inside the command's transaction: read the file, refuse what must be refused,
 /// write the entries and the import's row, and sum up.
-fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report> {
-    let (a, file_name) = (req.args, req.file_name.as_str());
-    let project = known_project(tx, &a.project)?;
-    let sites = tx.sites_by_code(&a.project)?;
+fn import_in(
+    tx: &mut Tx<'_>,
+    ctx: &Context,
+    a: &ImportArgs,
+    project: &Project,
+    opts: &Options<'_>,
+    size: u64,
+) -> Result<Report> {
+    let file_name = opts.file_name;
     let import_id = tx.next_import_id()?;
-    let (plan, earlier) = read_file(tx, req, &sites, import_id)?;
+    let (plan, earlier) = read_file(tx, &a.file, opts, size, import_id)?;
     if let Some(prev) = earlier {
         return Ok(Report::default().line(already_line(file_name, &a.project, &plan, &prev)));
     }
     refuse_bad_rows(file_name, &plan, a.skip_bad)?;
     room_for_entries(&ctx.db, plan.bytes, plan.days.len())?;
-    let mut source = Source::new(&a.project, req.kind, file_name, plan.sha256);
-    source.density = req.density;
+    let mut source = Source::new(&a.project, opts.kind, file_name, plan.sha256);
+    source.density = opts.density;
     source.recorded_at = ctx.now;
     source.recorded_by = tx.recorded_by()?;
     let to = Target {
-        project: &project,
-        sites: &sites,
+        project,
+        sites: opts.sites,
         replace: a.replace,
         over_permit: a.over_permit,
     };
@@ -108,9 +108,9 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
         file_name,
         sha256: plan.sha256,
         bytes: plan.bytes,
-        kind: req.kind.name(),
+        kind: opts.kind.name(),
         columns: a.columns.as_deref().unwrap_or(""),
-        density: req.density.name(),
+        density: opts.density.name(),
         rows: i64::try_from(plan.accepted).unwrap_or(i64::MAX),
         at: ctx.now,
     })?;
@@ -123,23 +123,14 @@ fn import_in(tx: &mut Tx<'_>, ctx: &Context, req: &Request<'_>) -> Result<Report
 /// be a file imported before (returned beside the plan).
 fn read_file(
     tx: &mut Tx<'_>,
-    req: &Request<'_>,
-    sites: &HashMap<String, Site>,
+    file: &Path,
+    opts: &Options<'_>,
+    size: u64,
     import_id: i64,
 ) -> Result<(Plan, Option<ImportSummary>)> {
-    let a = req.args;
-    let opts = Options {
-        file_name: &req.file_name,
-        project: &a.project,
-        kind: req.kind,
-        columns: &req.columns,
-        density: req.density,
-        sites,
-        watch: None,
-    };
-    tx.keep_file(import_id, &a.project, |keep| {
-        let progress = super::progress::bytes(&req.file_name, req.size);
-        let plan = plan_file(&a.file, &opts, |bytes| {
+    tx.keep_file(import_id, opts.project, |keep| {
+        let progress = super::progress::bytes(opts.file_name, size);
+        let plan = plan_file(file, opts, |bytes| {
             keep(bytes)?;
             progress.inc(bytes.len() as u64);
             Ok(())

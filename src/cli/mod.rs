@@ -2,7 +2,6 @@
 //! The clock is read once per command, by the caller, and passed in.
 
 mod bundle;
-mod bundle_load;
 mod chart;
 mod claims;
 mod convert;

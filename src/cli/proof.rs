@@ -54,10 +54,10 @@ pub fn proof(ctx: &Context, a: ProofArgs) -> Result<Report> {
         .check()
         .map_err(|w| Error::ledger(format!("project {} seq {}: {w}", a.project, a.seq)))?;
     let json = serde_json::to_string_pretty(&p).expect("a proof serializes") + "\n";
-    std::fs::write(&a.out, json)
-        .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
+    let out = a.out.display().to_string();
+    std::fs::write(&a.out, json).map_err(|e| Error::field("--out", &out, e))?;
     Ok(Report::default()
-        .line(written_line(&p, &a.out.display().to_string()))
+        .line(written_line(&p, &out))
         .table(proven_table(&proven, p.audit_path.len(), "written")))
 }
 

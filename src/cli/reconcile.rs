@@ -66,10 +66,10 @@ fn compare(
     level: &Level,
 ) -> Result<Compared> {
     let view = load(tx, &a.project, None)?;
-    let recompute = match a.recompute {
-        true => Some(super::evidence::recompute_table(tx, &a.project)?),
-        false => None,
-    };
+    let recompute = a
+        .recompute
+        .then(|| super::evidence::recompute_table(tx, &a.project));
+    let recompute = recompute.transpose()?;
     let tip = tx.chain_tip(&a.project)?;
     let reconciliation = view
         .reconcile_report(&report.figures, a.method, &level.policy)
@@ -92,7 +92,7 @@ pub fn reconcile(ctx: &Context, a: ReconcileArgs) -> Result<Report> {
     let level =
         Level::parse(given).map_err(|e| Error::field("--materiality", given.unwrap_or(""), e))?;
     let report = monitoring_report::read(&a.report)?;
-    a.record.check()?;
+    super::inputs::optional_text("--by", &a.record.by)?;
     let mut store = ctx.open()?;
     let (c, recorded) = if a.record.record {
         store.write(|tx| {

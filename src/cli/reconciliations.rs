@@ -6,7 +6,6 @@ use super::Context;
 use super::setup::known_project;
 use super::sign::RoleArg;
 use crate::error::Result;
-use crate::ledger::reconciliation::Recorded;
 use crate::report::Report;
 use crate::report::tables::reconciliations::record_tables;
 use clap::Args;
@@ -25,14 +24,6 @@ pub struct RecordArgs {
     pub role: Option<RoleArg>,
 }
 
-impl RecordArgs {
-    /// Refuses a bad name before anything is read or written.
-    pub fn check(&self) -> Result<()> {
-        let by = self.by.as_deref();
-        by.map_or(Ok(()), |by| super::inputs::text("--by", by))
-    }
-}
-
 #[derive(Debug, Args)]
 pub struct ReconciliationsArgs {
     /// Project code (e.g. TFS)
@@ -43,14 +34,11 @@ pub struct ReconciliationsArgs {
 }
 
 pub fn reconciliations(ctx: &Context, a: ReconciliationsArgs) -> Result<Report> {
-    let all = ctx.open()?.read(|tx| {
+    let mut chosen = ctx.open()?.read(|tx| {
         known_project(tx, &a.project)?;
         tx.reconciliations(&a.project)
     })?;
-    let chosen: Vec<Recorded> = all
-        .into_iter()
-        .filter(|r| a.year.is_none_or(|y| r.covers(y)))
-        .collect();
+    chosen.retain(|r| a.year.is_none_or(|y| r.covers(y)));
     Ok(record_tables(&a.project, &chosen)
         .into_iter()
         .fold(Report::default(), Report::table))

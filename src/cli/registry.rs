@@ -52,16 +52,11 @@ pub struct RoleAdd {
 pub fn registry(ctx: &Context, c: RegistryCommand) -> Result<Report> {
     match c {
         RegistryCommand::Role(RoleCommand::Add(a)) => role_add(ctx, a),
-        RegistryCommand::Operators => operators(ctx),
+        RegistryCommand::Operators => {
+            let rows = ctx.open()?.read(|tx| tx.last_seals())?;
+            Ok(Report::default().table(operators_table(&rows)))
+        }
     }
-}
-
-/// One line per project, by operator: its last seal, and whether a verifier's statement signs
-/// that seal with a signature that verifies and a seal that still stands (`statements` lists
-/// every statement with its checks).
-fn operators(ctx: &Context) -> Result<Report> {
-    let rows = ctx.open()?.read(|tx| tx.last_seals())?;
-    Ok(Report::default().table(operators_table(&rows)))
 }
 
 fn role_add(ctx: &Context, a: RoleAdd) -> Result<Report> {

@@ -92,8 +92,7 @@ pub fn report(ctx: &Context, a: ReportArgs) -> Result<Report> {
     })?;
     let page_doc = annual_page(&project, a.year, ctx.now, tip, sections);
     let html = page(&page_doc);
-    std::fs::write(&a.out, &html)
-        .map_err(|e| Error::field("--out", &a.out.display().to_string(), e))?;
-    let written = written_table(&a.out.display().to_string(), &page_doc, html.len());
-    Ok(Report::default().table(written))
+    let out = a.out.display().to_string();
+    std::fs::write(&a.out, &html).map_err(|e| Error::field("--out", &out, e))?;
+    Ok(Report::default().table(written_table(&out, &page_doc, html.len())))
 }

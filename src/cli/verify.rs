@@ -1,6 +1,7 @@
 //! `verify`: recompute every hash from the stored fields and check the ledger's structure.
 
 use super::Context;
+use super::inputs::optional;
 use crate::error::{Error, Result};
 use crate::ledger::Hash;
 use crate::report::Report;
@@ -25,12 +26,9 @@ pub struct VerifyArgs {
 }
 
 pub fn verify(ctx: &Context, a: VerifyArgs) -> Result<Report> {
-    let hex = |option: &str, h: Option<&str>| {
-        h.map(|h| Hash::from_hex(h).ok_or_else(|| Error::field(option, h, "is not 64 hex digits")))
-            .transpose()
-    };
-    let expected = hex("--expect-head", a.expect_head.as_deref())?;
-    let expected_ledger = hex("--expect-ledger-head", a.expect_ledger_head.as_deref())?;
+    let hex = |h: &str| Hash::from_hex(h).ok_or("is not 64 hex digits");
+    let expected = optional("--expect-head", a.expect_head.as_deref(), hex)?;
+    let expected_ledger = optional("--expect-ledger-head", a.expect_ledger_head.as_deref(), hex)?;
     let mut store = ctx.open()?;
     let deep = a.deep.then(|| store.deep_check());
     if let Some(check) = deep {
