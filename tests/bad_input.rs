@@ -194,6 +194,30 @@ fn projects_sites_and_keys() {
 }
 
 #[test]
+fn an_import_makes_only_metered_entries() {
+    let l = Ledger::with_tfs();
+    let file = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/sample-projects/tfs-meters-2026.csv"
+    );
+    for kind in [
+        "calibration",
+        "reversal",
+        "seal",
+        "tracer-sample",
+        "survey",
+        "leakage",
+    ] {
+        let args = ["import", "TFS", file, "--kind", kind, "--skip-bad"];
+        refused(
+            &l,
+            &args,
+            &format!("--kind \"{kind}\": is not a metered entry kind"),
+        );
+    }
+}
+
+#[test]
 fn ledger_files() {
     let dir = tempfile::tempdir().unwrap();
     let run = |db: &std::path::Path, args: &[&str]| {

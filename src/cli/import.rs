@@ -49,7 +49,7 @@ pub struct ImportArgs {
 
 pub fn import(ctx: &Context, a: ImportArgs) -> Result<Report> {
     let kind = EntryKind::from_name(&a.kind)
-        .filter(|k| !matches!(k, EntryKind::Survey | EntryKind::Leakage))
+        .filter(|k| k.is_meter_reading())
         .ok_or_else(|| Error::field("--kind", &a.kind, "is not a metered entry kind (injection, receipt, redelivery, production, equipment-leak, emission)"))?;
     let (file_name, size) = name_and_size(&a.file)?;
     let columns = ColumnMap::parse(a.columns.as_deref())?;

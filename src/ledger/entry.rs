@@ -67,6 +67,21 @@ impl EntryKind {
         )
     }
 
+    /// Whether a meter export's readings can make entries of this kind: the metered flows
+    /// (received, redelivered, injected, produced, leaked from equipment, emitted). Surveys,
+    /// samples, batches, calibrations, reversals and seals are not rows of a meter file.
+    pub fn is_meter_reading(self) -> bool {
+        matches!(
+            self,
+            Self::Injection
+                | Self::Receipt
+                | Self::Redelivery
+                | Self::Production
+                | Self::EquipmentLeak
+                | Self::Emission
+        )
+    }
+
     /// Whether an entry of this kind may name no site: a leak or a loss leaves by a pathway (a
     /// fault, a legacy well) that need not be a site of the project.
     pub fn site_optional(self) -> bool {
