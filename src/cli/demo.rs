@@ -2,7 +2,7 @@
 
 use super::run_line;
 use crate::error::{Error, Result};
-use crate::import::sample_folders::{Folders, passing_folder};
+use crate::export::sample_folders::{Folders, passing_folder};
 use crate::import::script::demo_clock;
 use crate::report::Report;
 use crate::report::tables::demo::{OVERVIEW, TOUR, built_line, page_line, tour_table};

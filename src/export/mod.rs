@@ -1,8 +1,10 @@
 //! Files written for people and programs to keep or send on — a bundle, a key — each created
 //! whole or not at all, so a failed command leaves no half-written file behind; a key file is
-//! readable by its owner only and never overwrites a file.
+//! readable by its owner only and never overwrites a file. The demo's folders are written here
+//! too (sample_folders.rs).
 
 pub mod bundle_file;
+pub mod sample_folders;
 
 use crate::ledger::signature::{key_file_text, public_key};
 use std::io::{BufWriter, Write};

@@ -12,7 +12,6 @@ pub mod monitoring_report;
 pub mod overlap;
 pub mod plan;
 pub mod replan;
-pub mod sample_folders;
 pub mod script;
 pub mod summary;
 

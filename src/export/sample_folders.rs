@@ -2,8 +2,8 @@
 //! for the key files it makes (`$KEYS`, private to the user, removed when the demo ends), and
 //! one for the report pages (`$REPORTS`, kept, so they can be opened after the demo).
 
-use super::script::{SAMPLES, script_lines};
 use crate::error::{Error, Result, StoreKind};
+use crate::import::script::{SAMPLES, script_lines};
 
 fn io(e: std::io::Error) -> Error {
     Error::store(
